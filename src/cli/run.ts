@@ -1,0 +1,193 @@
+import { readFileSync } from "node:fs";
+import { parseArgs } from "node:util";
+import { QuietframeError, QuietframeErrors } from "../errors";
+import { checkGrid, type FrequencyGridSpec } from "../engine/grid";
+import { describeHeadline, headlineFigures } from "../engine/headline";
+import { jsonNumbers, tableToCsv, tabulateBudget } from "../engine/tabulate";
+import { COMPONENT_KINDS } from "../components/registry";
+import { evaluateSetup, FALLBACK_GRID, loadSetup } from "../pipeline";
+import { parseQuantity } from "../units";
+import { QUIETFRAME_VERSION } from "../version";
+
+export interface CliIo {
+  out: (s: string) => void;
+  err: (s: string) => void;
+}
+
+const USAGE = `quietframe ${QUIETFRAME_VERSION}: linear quantum-noise budgets below the standard quantum limit
+
+usage:
+  quietframe eval <setup.json> [--from F] [--to F] [--points N] [--format csv|json] [--psd]
+      Signal-referred noise, its budget terms and the reference curves (SQL, zero-point,
+      thermal) on a log-spaced grid. Frequencies like "10 Hz" or "2kHz". Amplitude spectral
+      densities by default; --psd prints one-sided power spectral densities.
+  quietframe summary <setup.json> [--from F] [--to F] [--points N]
+      The headline figures: largest margin below the SQL and where, the band below the SQL,
+      and which noise term dominates where.
+  quietframe check <setup.json>
+      Validates a set-up and reports its size and stability.
+  quietframe types [type]
+      Lists component types, or one type's parameters and ports.
+`;
+
+/** Runs one CLI command; returns the exit code. Nothing is printed to out unless the command succeeds. */
+export function runCli(argv: string[], io: CliIo): number {
+  try {
+    const [command, ...rest] = argv;
+    switch (command) {
+      case "eval":
+        return evalCommand(rest, io);
+      case "check":
+        return checkCommand(rest, io);
+      case "summary":
+        return summaryCommand(rest, io);
+      case "types":
+        return typesCommand(rest, io);
+      case undefined:
+        io.err(USAGE);
+        return 2;
+      case "help":
+      case "--help":
+      case "-h":
+        io.out(USAGE);
+        return 0;
+      case "--version":
+        io.out(`${QUIETFRAME_VERSION}\n`);
+        return 0;
+      default:
+        io.err(`quietframe: unknown command '${command}'\n\n${USAGE}`);
+        return 2;
+    }
+  } catch (e) {
+    if (e instanceof QuietframeError || e instanceof QuietframeErrors) {
+      io.err(`quietframe: ${e.message.split("\n").join("\nquietframe: ")}\n`);
+      return 1;
+    }
+    const code = (e as NodeJS.ErrnoException | undefined)?.code;
+    if (typeof code === "string" && code.startsWith("ERR_PARSE_ARGS_")) {
+      io.err(`quietframe: ${(e as Error).message}\n\n${USAGE}`);
+      return 2;
+    }
+    throw e;
+  }
+}
+
+function readSetupFile(path: string | undefined) {
+  if (!path) throw new QuietframeError({ path: "<setup.json>", problem: "no set-up file given", allowed: "a path to a set-up JSON file" });
+  let text: string;
+  try {
+    text = readFileSync(path, "utf8");
+  } catch (e) {
+    throw new QuietframeError({ path, problem: `cannot be read (${(e as NodeJS.ErrnoException).code ?? "error"})`, allowed: "a readable file" });
+  }
+  return loadSetup(text, path);
+}
+
+const GRID_OPTIONS = {
+  from: { type: "string" },
+  to: { type: "string" },
+  points: { type: "string" },
+} as const;
+
+/** The set-up's grid, with --from/--to/--points overriding it. */
+function gridFromOptions(base: FrequencyGridSpec, values: { from?: string; to?: string; points?: string }): FrequencyGridSpec {
+  return checkGrid(
+    {
+      from: values.from === undefined ? base.from : parseQuantity(values.from, "frequency", "--from"),
+      to: values.to === undefined ? base.to : parseQuantity(values.to, "frequency", "--to"),
+      points: values.points === undefined ? base.points : Number(values.points),
+    },
+    "grid",
+    { from: values.from ?? base.from, to: values.to ?? base.to, points: values.points ?? base.points },
+    // Name the option the user typed, or the set-up's grid field when the value came from there.
+    (field) => (values[field] === undefined ? `grid.${field}` : `--${field}`),
+  );
+}
+
+function evalCommand(args: string[], io: CliIo): number {
+  const { values, positionals } = parseArgs({
+    args,
+    allowPositionals: true,
+    options: { ...GRID_OPTIONS, format: { type: "string", default: "csv" }, psd: { type: "boolean", default: false } },
+  });
+  if (positionals.length > 1) throw new QuietframeError({ path: "<setup.json>", value: positionals, problem: "only one set-up file at a time", allowed: "one path" });
+  if (values.format !== "csv" && values.format !== "json") {
+    throw new QuietframeError({ path: "--format", value: values.format, problem: "is not an output format", allowed: "csv or json" });
+  }
+  const setup = readSetupFile(positionals[0]);
+  const grid = gridFromOptions(setup.grid ?? FALLBACK_GRID, values);
+  const result = evaluateSetup(setup, grid);
+  const table = tabulateBudget(result.budget, values.psd ? "power" : "amplitude");
+  for (const c of result.cautions) io.err(`caution: ${c}\n`);
+  for (const w of result.warnings) io.err(`warning: ${w}\n`);
+  if (values.format === "csv") {
+    io.out(tableToCsv(table));
+  } else {
+    const doc = {
+      quietframe: QUIETFRAME_VERSION,
+      setup: setup.name,
+      signal: setup.signal,
+      quantity: result.budget.quantity.name,
+      spectralDensity: table.spectralDensity === "amplitude" ? "one-sided amplitude spectral density" : "one-sided power spectral density",
+      unit: table.unit,
+      readout: result.budget.readout,
+      frequencies: { unit: "Hz", values: Array.from(table.frequencies) },
+      columns: table.columns.map((c) => ({ id: c.id, label: c.label, values: jsonNumbers(c.values) })),
+      stability: result.stability.summary,
+      warnings: result.warnings,
+      cautions: result.cautions,
+    };
+    io.out(JSON.stringify(doc, null, 2) + "\n");
+  }
+  return 0;
+}
+
+function summaryCommand(args: string[], io: CliIo): number {
+  const { values, positionals } = parseArgs({ args, allowPositionals: true, options: GRID_OPTIONS });
+  const setup = readSetupFile(positionals[0]);
+  const result = evaluateSetup(setup, gridFromOptions(setup.grid ?? FALLBACK_GRID, values));
+  const q = result.budget.quantity;
+  const grid = result.budget.frequencies;
+  io.out(
+    `${setup.name || positionals[0]}\n` +
+      `${grid.length} frequencies from ${grid[0]} Hz to ${grid[grid.length - 1]} Hz; ${setup.signal.kind} on '${setup.signal.on}' referred to ${q.name}\n` +
+      describeHeadline(headlineFigures(result.budget), `${q.unit}²/Hz`) +
+      "\n" +
+      result.warnings.map((w) => `warning: ${w}\n`).join("") +
+      result.cautions.map((c) => `caution: ${c}\n`).join(""),
+  );
+  return 0;
+}
+
+function checkCommand(args: string[], io: CliIo): number {
+  const { positionals } = parseArgs({ args, allowPositionals: true, options: {} });
+  const setup = readSetupFile(positionals[0]);
+  const result = evaluateSetup(setup, { from: 1, to: 10, points: 2 });
+  const m = result.assembled.model;
+  io.out(
+    `${positionals[0]}: valid quietframe set-up${setup.name ? ` "${setup.name}"` : ""}\n` +
+      `  ${setup.components.length} components, ${m.nStates} states, ${m.nInputs} noise inputs in ${m.groups.length} groups, ${setup.readout.length} readout(s)\n` +
+      `  signal: ${setup.signal.kind} on '${setup.signal.on}', noise referred to ${result.budget.quantity.name} [${result.budget.quantity.unit}]\n` +
+      `  dynamics: ${result.stability.summary}\n` +
+      result.cautions.map((c) => `  caution: ${c}\n`).join(""),
+  );
+  return 0;
+}
+
+function typesCommand(args: string[], io: CliIo): number {
+  const [type] = args;
+  if (!type) {
+    for (const k of COMPONENT_KINDS.values()) io.out(`${k.type.padEnd(16)} ${k.summary}\n`);
+    return 0;
+  }
+  const kind = COMPONENT_KINDS.get(type);
+  if (!kind) throw new QuietframeError({ path: "type", value: type, problem: "is not a known component type", allowed: [...COMPONENT_KINDS.keys()].join(", ") });
+  io.out(`${kind.type}: ${kind.summary}\n\nparameters:\n`);
+  for (const p of kind.params) {
+    const dflt = "default" in p && p.default !== undefined ? ` (default ${JSON.stringify(p.default)})` : p.optional ? " (optional)" : " (required)";
+    io.out(`  ${p.name.padEnd(16)} ${p.kind === "choice" ? p.choices.join("|") : p.kind}${dflt}\n      ${p.doc}\n`);
+  }
+  io.out(`ports:\n`);
+  for (const p of kind.ports) io.out(`  ${p.name.padEnd(16)} ${p.kind}${p.optional ? " (optional)" : ""}: ${p.doc}\n`);
+  return 0;
+}

@@ -1,0 +1,169 @@
+import { QuietframeError } from "../errors";
+import { combine, type Field } from "../network/linear-form";
+import type { ModeInfo } from "../network/model";
+import { HBAR } from "../constants";
+import { opticalAngularFrequency, pushOnBody, zeroPointDisplacement } from "./optomechanics";
+import { maybeNum, num, type ComponentKind, type MechanicalBody, type ResolvedComponent } from "./types";
+
+interface CavityHandle {
+  mode: ModeInfo;
+  lossColumn: number;
+}
+
+/**
+ * Single optical cavity mode (one-sided, quadratures in the frame of the drive laser):
+ *   dδa1/dt = −(κ/2) δa1 − Δ δa2 + √κ_in q1_in + √κ_0 v1
+ *   dδa2/dt = −(κ/2) δa2 + Δ δa1 + √κ_in q2_in + √κ_0 v2 + g X
+ *   output  = input − √κ_in δa        (Gardiner & Collett input-output relation)
+ * Δ = ω_laser − ω_cavity (positive: blue detuning). With a linked body the radiation
+ * pressure g·δa1 acts on it; unlinked, the cavity is a plain filter.
+ */
+export const cavity: ComponentKind<CavityHandle> = {
+  type: "cavity",
+  summary: "Optical cavity mode with linearized radiation-pressure coupling to a linked body.",
+  params: [
+    { name: "linewidth", kind: "frequency", doc: "Full linewidth κ/2π (FWHM) in Hz.", min: 0, minExclusive: true },
+    { name: "detuning", kind: "frequency", doc: "Δ/2π = (ω_laser − ω_cavity)/2π; positive is blue.", default: "0 Hz" },
+    {
+      name: "inputCoupling",
+      kind: "fraction",
+      doc: "κ_in/κ: fraction of the linewidth due to the coupling mirror (1 = no internal loss).",
+      default: 1,
+      min: 0,
+      max: 1,
+      minExclusive: true,
+    },
+    { name: "wavelength", kind: "length", doc: "Laser wavelength.", default: "1064 nm", min: 0, minExclusive: true },
+    {
+      name: "photons",
+      kind: "count",
+      doc: "Mean intracavity photon number n (give this or power).",
+      optional: true,
+      min: 0,
+      minExclusive: true,
+    },
+    { name: "power", kind: "power", doc: "Input power P_in (give this or photons).", optional: true, min: 0 },
+    {
+      name: "g0",
+      kind: "frequency",
+      doc: "Vacuum optomechanical coupling g0/2π = G·x_zpf/2π (needs an oscillator); give this or length.",
+      optional: true,
+      min: 0,
+    },
+    {
+      name: "length",
+      kind: "length",
+      doc: "Cavity length L for a moving end mirror, G = ω_c/L; give this or g0.",
+      optional: true,
+      min: 0,
+      minExclusive: true,
+    },
+  ],
+  ports: [
+    { name: "in", kind: "optical-in", doc: "Light driving the cavity through the coupling mirror." },
+    { name: "out", kind: "optical-out", doc: "Light leaving through the coupling mirror." },
+    { name: "mechanics", kind: "mechanical-probe", doc: "The body whose position shifts the cavity.", optional: true },
+  ],
+  crossCheck: (c) => {
+    if (c.given.has("photons") && c.given.has("power")) {
+      throw new QuietframeError({
+        path: `${c.path}.power`,
+        value: c.raw.power,
+        problem: "both photons and power are given",
+        allowed: "one of photons or power",
+      });
+    }
+    if (c.given.has("g0") && c.given.has("length")) {
+      throw new QuietframeError({
+        path: `${c.path}.length`,
+        problem: "both g0 and length are given",
+        allowed: "one of g0 or length",
+      });
+    }
+  },
+  allocate: (b, c) => ({
+    mode: b.addMode(c.name, "optical", `${c.name} intracavity field`),
+    lossColumn: b.addInputs(c.name, ["internal loss (amplitude)", "internal loss (phase)"], [1, 0, 0, 1], "loss", `${c.name}: internal loss`),
+  }),
+  wire: ({ builder, component: c, handle, inputs, bodies }) => {
+    const kappa = 2 * Math.PI * num(c, "linewidth");
+    const delta = 2 * Math.PI * num(c, "detuning");
+    const kIn = kappa * num(c, "inputCoupling");
+    const k0 = kappa - kIn;
+    const { x: a1, p: a2 } = handle.mode;
+    builder.couple(a1, a1, -kappa / 2);
+    builder.couple(a2, a2, -kappa / 2);
+    builder.couple(a1, a2, -delta);
+    builder.couple(a2, a1, delta);
+    const field: Field = inputs.in;
+    builder.drive(a1, field.amplitude, Math.sqrt(kIn));
+    builder.drive(a2, field.phase, Math.sqrt(kIn));
+    builder.drive(a1, builder.input(handle.lossColumn), Math.sqrt(k0));
+    builder.drive(a2, builder.input(handle.lossColumn + 1), Math.sqrt(k0));
+
+    const body = bodies.mechanics;
+    if (body) {
+      const g = quadratureCoupling(c, body, kappa, delta, kIn);
+      pushOnBody(builder, body, builder.state(a1), g);
+      builder.couple(a2, body.mode.x, g);
+    }
+    const out: Field = {
+      amplitude: combine(1, field.amplitude, -Math.sqrt(kIn), builder.state(a1)),
+      phase: combine(1, field.phase, -Math.sqrt(kIn), builder.state(a2)),
+    };
+    return { out };
+  },
+  instabilityHint: (c) => {
+    const d = c.values.detuning;
+    if (typeof d !== "number" || d === 0) return undefined;
+    return d > 0
+      ? `cavity '${c.name}' is blue-detuned (Δ/2π = +${d} Hz): radiation pressure anti-damps a positive-mass body`
+      : `cavity '${c.name}' is red-detuned (Δ/2π = ${d} Hz): its optical spring softens a positive-mass body and, when strong, pulls it statically unstable`;
+  },
+  cautions: (c) => {
+    const p = maybeNum(c, "power");
+    return p !== undefined && p > 0.5
+      ? [`'${c.name}' is driven with ${p} W: hazardous laser power (Class 4 above 0.5 W). Follow your institution's laser-safety programme and local rules.`]
+      : [];
+  },
+};
+
+/** Intracavity photon number from the drive: n = κ_in P / (ħ ω_L (κ²/4 + Δ²)). */
+export function intracavityPhotons(power: number, wavelength: number, kappa: number, delta: number, kIn: number): number {
+  return (kIn * power) / (HBAR * opticalAngularFrequency(wavelength) * (kappa ** 2 / 4 + delta ** 2));
+}
+
+function quadratureCoupling(c: ResolvedComponent, body: MechanicalBody, kappa: number, delta: number, kIn: number): number {
+  const wavelength = num(c, "wavelength");
+  const photons = c.given.has("photons")
+    ? num(c, "photons")
+    : c.given.has("power")
+      ? intracavityPhotons(num(c, "power"), wavelength, kappa, delta, kIn)
+      : missing(c, "photons", "the drive: photons (e.g. 1e8) or power (e.g. \"10 mW\")");
+  let G: number; // dω_c/dx in rad/s per metre
+  if (c.given.has("g0")) {
+    if (body.omega <= 0) {
+      throw new QuietframeError({
+        path: `${c.path}.g0`,
+        value: c.raw.g0,
+        problem: `g0 is defined through the zero-point motion of an oscillator, but '${body.owner}' is a free mass`,
+        allowed: "length (G = ω_c/L) for a free mass",
+      });
+    }
+    G = (2 * Math.PI * num(c, "g0")) / zeroPointDisplacement(body);
+  } else if (c.given.has("length")) {
+    G = opticalAngularFrequency(wavelength) / num(c, "length");
+  } else {
+    return missing(c, "g0", "the coupling: g0 (e.g. \"20 Hz\") or length (e.g. \"1 cm\")");
+  }
+  // g = √2 G ā x_s (see optomechanics.ts)
+  return Math.SQRT2 * G * Math.sqrt(photons) * body.xScale;
+}
+
+function missing(c: ResolvedComponent, field: string, allowed: string): never {
+  throw new QuietframeError({
+    path: `${c.path}.${field}`,
+    problem: "a cavity linked to a body needs its drive and its coupling",
+    allowed,
+  });
+}

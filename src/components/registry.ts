@@ -1,0 +1,20 @@
+import { beamSplitter, dump, loss } from "./passive-optics";
+import { cavity } from "./cavity";
+import { coherent, squeezed, vacuum } from "./light-sources";
+import { freeMass } from "./free-mass";
+import { homodyne } from "./homodyne";
+import { oscillator } from "./oscillator";
+import { positionProbe } from "./position-probe";
+import { thermalBath } from "./thermal-bath";
+import type { ComponentKind } from "./types";
+
+/** Every component kind the set-up format knows, by its `type` word. */
+export const COMPONENT_KINDS: ReadonlyMap<string, ComponentKind<any>> = new Map(
+  [freeMass, oscillator, thermalBath, cavity, positionProbe, vacuum, coherent, squeezed, beamSplitter, loss, dump, homodyne].map(
+    (k) => [k.type, k] as const,
+  ),
+);
+
+export function componentKind(type: string): ComponentKind<any> | undefined {
+  return COMPONENT_KINDS.get(type);
+}

@@ -1,0 +1,158 @@
+import type { NetworkBuilder } from "../network/builder";
+import type { Field } from "../network/linear-form";
+import type { ModeInfo } from "../network/model";
+import type { QuantityKind } from "../units";
+
+/** A parameter whose value carries a unit, e.g. "40 kg". */
+export interface QuantityParam {
+  readonly name: string;
+  readonly kind: QuantityKind;
+  /** Meaning, unit and default, shown in `quietframe help` and the docs. */
+  readonly doc: string;
+  /** The default as a user would write it; absent means required unless `optional`. */
+  readonly default?: string | number;
+  /** Absent and not defaulted is fine (the component checks alternatives itself). */
+  readonly optional?: boolean;
+  readonly min?: number;
+  readonly max?: number;
+  readonly minExclusive?: boolean;
+  readonly maxExclusive?: boolean;
+}
+
+/** A parameter that is one of a few words, e.g. "positive" | "negative". */
+export interface ChoiceParam {
+  readonly name: string;
+  readonly kind: "choice";
+  readonly doc: string;
+  readonly choices: readonly string[];
+  readonly default?: string;
+  readonly optional?: boolean;
+}
+
+export type ParamSpec = QuantityParam | ChoiceParam;
+
+export const PORT_KINDS = ["optical-in", "optical-out", "mechanical-probe", "mechanical-body"] as const;
+export type PortKind = (typeof PORT_KINDS)[number];
+
+export interface PortSpec {
+  readonly name: string;
+  readonly kind: PortKind;
+  readonly doc: string;
+  /** Only for mechanical-probe ports: the component also works unlinked (an empty cavity). */
+  readonly optional?: boolean;
+}
+
+/** Parameter values after parsing: SI numbers (frequencies in cyclic Hz, angles in rad) or choice words. */
+export type ParamValues = Readonly<Record<string, number | string | undefined>>;
+
+export interface ResolvedComponent {
+  readonly name: string;
+  readonly type: string;
+  readonly values: ParamValues;
+  /** Names of the parameters the user gave explicitly (the rest were defaulted). */
+  readonly given: ReadonlySet<string>;
+  /** The parameters exactly as written, for messages. */
+  readonly raw: Readonly<Record<string, unknown>>;
+  /** Path prefix for messages, e.g. `components.membrane`. */
+  readonly path: string;
+}
+
+/** What a mechanical element shows to the couplers and baths linked to it. */
+export interface MechanicalBody {
+  readonly owner: string;
+  readonly mode: ModeInfo;
+  /** Metres per unit of the dimensionless position quadrature X. */
+  readonly xScale: number;
+  /** Newton-seconds per unit of P; xScale · pScale = ħ so that [X, P] = i. */
+  readonly pScale: number;
+  /** Mass in kg (positive). */
+  readonly mass: number;
+  /** +1 or −1: sign of the effective mass. */
+  readonly massSign: 1 | -1;
+  /** Angular resonance frequency in rad/s; 0 for a free mass. */
+  readonly omega: number;
+  /** Viscous damping baths acting on this body (intrinsic and attached). */
+  readonly baths: ThermalBathInfo[];
+}
+
+export interface ThermalBathInfo {
+  readonly owner: string;
+  /** "viscous": m ẍ = … − m γ ẋ; "symmetric": amplitude damping of both quadratures at γ/2. */
+  readonly kind: "viscous" | "symmetric";
+  /** Energy damping rate γ in rad/s. */
+  readonly gamma: number;
+  /** Bath temperature in K. */
+  readonly temperature: number;
+}
+
+/** Curves that stand beside every budget, as one-sided PSDs in the signal's own unit. */
+export interface ReferenceCurve {
+  readonly id: string;
+  readonly label: string;
+  readonly psd: (omega: number) => number;
+}
+
+/** A quantity the signal-referred noise can be expressed in (force, displacement, strain...). */
+export interface ReferredQuantity {
+  readonly name: string;
+  /** SI unit of the amplitude, e.g. "m" (so the ASD is m/√Hz). */
+  readonly unit: string;
+  /** Multiplies a PSD in signal units to give the PSD of this quantity. */
+  readonly psdFactor: (omega: number) => number;
+}
+
+export interface SignalReference {
+  /** Unit of the signal itself (what b_s multiplies), e.g. "N". */
+  readonly signalUnit: string;
+  /** The first is the default when a set-up does not say `referTo`. */
+  readonly quantities: readonly ReferredQuantity[];
+  readonly curves: readonly ReferenceCurve[];
+}
+
+export interface WireContext<H> {
+  readonly builder: NetworkBuilder;
+  readonly component: ResolvedComponent;
+  readonly handle: H;
+  /** Light arriving at each optical input port. */
+  readonly inputs: Readonly<Record<string, Field>>;
+  /** Body linked at each mechanical-probe port (absent if an optional port is unlinked). */
+  readonly bodies: Readonly<Record<string, MechanicalBody | undefined>>;
+}
+
+/**
+ * A kind of component. The engine only knows this interface: a new physical system
+ * (a spin ensemble, an interferometer) is a new file that implements it.
+ */
+export interface ComponentKind<H = unknown> {
+  readonly type: string;
+  readonly summary: string;
+  readonly params: readonly ParamSpec[];
+  readonly ports: readonly PortSpec[];
+  /** Rules that involve several parameters (e.g. give either power or photons). */
+  readonly crossCheck?: (c: ResolvedComponent) => void;
+  /** Claims modes and input blocks; runs before any wiring. */
+  readonly allocate: (builder: NetworkBuilder, c: ResolvedComponent) => H;
+  /** Writes the dynamics; returns the light leaving each optical output port. */
+  readonly wire: (ctx: WireContext<H>) => Record<string, Field>;
+  /** For components with a mechanical-body port. */
+  readonly body?: (handle: H) => MechanicalBody;
+  /** Signals this component can receive (e.g. "force"). */
+  readonly signals?: readonly string[];
+  readonly applySignal?: (builder: NetworkBuilder, handle: H, kind: string) => void;
+  readonly signalReference?: (handle: H, kind: string) => SignalReference;
+  /** A sentence on how this component can make a set-up unstable, used in stability messages. */
+  readonly instabilityHint?: (c: ResolvedComponent) => string | undefined;
+  /** Physical cautions (e.g. hazardous optical power), repeated in summaries. */
+  readonly cautions?: (c: ResolvedComponent) => string[];
+}
+
+export function num(c: ResolvedComponent, name: string): number {
+  const v = c.values[name];
+  if (typeof v !== "number") throw new Error(`internal: ${c.path}.${name} is not a resolved number`);
+  return v;
+}
+
+export function maybeNum(c: ResolvedComponent, name: string): number | undefined {
+  const v = c.values[name];
+  return typeof v === "number" ? v : undefined;
+}

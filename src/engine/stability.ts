@@ -1,0 +1,98 @@
+import { QuietframeError } from "../errors";
+import { eigenvectorFor, realEigenvalues } from "../linalg";
+import type { AssembledSetup } from "../network/assemble";
+
+/** One eigenmode of the dynamics matrix A. */
+export interface Eigenmode {
+  /** Growth rate Re λ in 1/s (negative: decays). */
+  readonly rate: number;
+  /** Oscillation frequency |Im λ|/2π in Hz. */
+  readonly frequency: number;
+  /** Share of the mode in each component (sums to 1). */
+  readonly participation: Readonly<Record<string, number>>;
+}
+
+export interface StabilityReport {
+  /** Every mode decays: a stationary state exists. */
+  readonly stable: boolean;
+  /** Modes that grow: spectra of such a set-up mean nothing. */
+  readonly growing: readonly Eigenmode[];
+  /** Modes that neither grow nor decay (a free mass): spectra at f > 0 exist, a stationary covariance does not. */
+  readonly undamped: readonly Eigenmode[];
+  /** Plain-language summary. */
+  readonly summary: string;
+}
+
+/** Relative size of Re λ that we can tell apart from zero after rounding. */
+const RELATIVE_RESOLUTION = 1e-9;
+
+/** Eigenvalues of A, classified, with the components each critical mode lives in. */
+export function analyzeStability(assembled: AssembledSetup): StabilityReport {
+  const { model } = assembled;
+  const n = model.nStates;
+  const { re, im } = realEigenvalues(model.A, n);
+  let scale = 0;
+  for (let i = 0; i < n; i++) scale = Math.max(scale, Math.hypot(re[i], im[i]));
+  const growing: Eigenmode[] = [];
+  const undamped: Eigenmode[] = [];
+  for (let i = 0; i < n; i++) {
+    if (im[i] < 0) continue; // report each complex pair once
+    const resolution = RELATIVE_RESOLUTION * Math.hypot(re[i], im[i]) + 1e-14 * scale;
+    if (re[i] > resolution) growing.push(describeMode(assembled, re[i], im[i]));
+    else if (re[i] >= -resolution) undamped.push(describeMode(assembled, re[i], im[i]));
+  }
+  const stable = growing.length === 0 && undamped.length === 0;
+  return { stable, growing, undamped, summary: summarize(assembled, growing, undamped) };
+}
+
+/** Throws a QuietframeError that says which mode grows, where it lives and why, if any does. */
+export function requireNoGrowingModes(assembled: AssembledSetup, report: StabilityReport = analyzeStability(assembled)): StabilityReport {
+  if (report.growing.length > 0) {
+    throw new QuietframeError({ path: "setup", problem: report.summary, allowed: "a set-up whose modes all decay" });
+  }
+  return report;
+}
+
+function describeMode(assembled: AssembledSetup, rate: number, imag: number): Eigenmode {
+  const { model } = assembled;
+  const v = eigenvectorFor(model.A, model.nStates, rate, imag);
+  const weight: Record<string, number> = {};
+  let total = 0;
+  for (const mode of model.modes) {
+    const w = v.re[mode.x] ** 2 + v.im[mode.x] ** 2 + v.re[mode.p] ** 2 + v.im[mode.p] ** 2;
+    weight[mode.owner] = (weight[mode.owner] ?? 0) + w;
+    total += w;
+  }
+  for (const k of Object.keys(weight)) weight[k] = total > 0 ? weight[k] / total : 0;
+  return { rate, frequency: Math.abs(imag) / (2 * Math.PI), participation: weight };
+}
+
+function summarize(assembled: AssembledSetup, growing: Eigenmode[], undamped: Eigenmode[]): string {
+  if (growing.length === 0 && undamped.length === 0) return "stable: every mode decays";
+  if (growing.length === 0) {
+    const owners = [...new Set(undamped.flatMap((m) => mainOwners(m)))];
+    return `marginal: undamped motion in ${owners.map((o) => `'${o}'`).join(", ")} (e.g. a free mass); spectra above 0 Hz are defined, a stationary covariance is not`;
+  }
+  const parts = growing.map((m) => {
+    const where = Object.entries(m.participation)
+      .filter(([, w]) => w >= 0.05)
+      .sort((a, b) => b[1] - a[1])
+      .map(([o, w]) => `'${o}' ${(100 * w).toFixed(0)}%`)
+      .join(", ");
+    const kind = m.frequency > 0 ? `a mode at ${m.frequency.toPrecision(4)} Hz` : "a non-oscillating mode";
+    return `${kind} grows at ${m.rate.toPrecision(3)} /s (e-folding time ${(1 / m.rate).toPrecision(3)} s), living in ${where}`;
+  });
+  const involved = new Set(growing.flatMap((m) => mainOwners(m)));
+  const hints = assembled.setup.components
+    .filter((c) => involved.has(c.name) || assembled.setup.mechanical.some((l) => l.probe.component === c.name && involved.has(l.body)))
+    .map((c) => assembled.setup.kinds.get(c.name)!.instabilityHint?.(c))
+    .filter((h): h is string => h !== undefined);
+  const why = hints.length ? `; likely cause: ${hints.join("; ")}` : "";
+  return `unstable: ${parts.join("; ")}${why}`;
+}
+
+function mainOwners(m: Eigenmode): string[] {
+  return Object.entries(m.participation)
+    .filter(([, w]) => w >= 0.05)
+    .map(([o]) => o);
+}

@@ -1,0 +1,23 @@
+/**
+ * quietframe: one engine for linear quantum noise.
+ * Pipeline (see pipeline.ts): parse → validate → assemble → check stability → evaluate.
+ */
+export { QUIETFRAME_VERSION } from "./version";
+export { QuietframeError, QuietframeErrors } from "./errors";
+export { loadSetup, evaluateSetup, FALLBACK_GRID, type Evaluation } from "./pipeline";
+export { SETUP_FORMAT, SETUP_VERSION, type SetupDescription, type ComponentDescription } from "./setup/format";
+export { validateSetup, type ResolvedSetup } from "./setup/validate";
+export { assemble, type AssembledSetup } from "./network/assemble";
+export type { StateSpaceModel, ModeInfo, NoiseGroup } from "./network/model";
+export { noiseBudget, type NoiseBudget, type BudgetTerm, type ReferenceSpectrum } from "./engine/budget";
+export { outputSpectra, signalResponse, inputTransfer, type ComplexSeries } from "./engine/spectra";
+export { analyzeStability, type StabilityReport, type Eigenmode } from "./engine/stability";
+export { stationaryCovariance, uncertaintyMargin, diffusionMatrix } from "./engine/covariance";
+export { logGrid, parseGrid, type FrequencyGridSpec } from "./engine/grid";
+export { headlineFigures, describeHeadline, type HeadlineFigures } from "./engine/headline";
+export { tabulateBudget, tableToCsv, type BudgetTable } from "./engine/tabulate";
+export * from "./reference/limits";
+export * as constants from "./constants";
+export { parseQuantity, formatQuantity, type QuantityKind } from "./units";
+export { COMPONENT_KINDS } from "./components/registry";
+export type { ComponentKind } from "./components/types";

@@ -1,0 +1,111 @@
+import { QuietframeError } from "../errors";
+import type { MechanicalBody, ReferredQuantity, SignalReference } from "../components/types";
+import type { ResolvedSetup } from "../setup/validate";
+import { NetworkBuilder } from "./builder";
+import type { Field } from "./linear-form";
+import type { StateSpaceModel } from "./model";
+
+/** A set-up turned into matrices, plus what is needed to read the results. */
+export interface AssembledSetup {
+  readonly setup: ResolvedSetup;
+  readonly model: StateSpaceModel;
+  /** Rows of the model's outputs that the set-up reads, in readout order. */
+  readonly readoutRows: readonly number[];
+  readonly signal: SignalReference;
+  /** The quantity the noise is expressed in (signal.referTo or the target's first). */
+  readonly referredTo: ReferredQuantity;
+  /** Safety cautions collected from components. */
+  readonly cautions: readonly string[];
+}
+
+/**
+ * Builds the state-space model: (1) every component claims its modes and inputs,
+ * (2) light is wired through the components in flow order, so each receives fully formed
+ * input fields, (3) the signal is applied and the matrices are collected.
+ */
+export function assemble(setup: ResolvedSetup): AssembledSetup {
+  const builder = new NetworkBuilder();
+  const handles = new Map<string, unknown>();
+  for (const c of setup.components) handles.set(c.name, setup.kinds.get(c.name)!.allocate(builder, c));
+  builder.freeze();
+
+  const bodyOf = (name: string): MechanicalBody => {
+    const kind = setup.kinds.get(name)!;
+    if (!kind.body) throw new Error(`internal: '${name}' has a body port but no body`);
+    return kind.body(handles.get(name));
+  };
+  const sourceOf = new Map(setup.optical.map((l) => [`${l.to.component}.${l.to.port}`, l.from]));
+  const emitted = new Map<string, Field>();
+
+  for (const c of flowOrder(setup)) {
+    const kind = setup.kinds.get(c)!;
+    const component = setup.components.find((x) => x.name === c)!;
+    const inputs: Record<string, Field> = {};
+    const bodies: Record<string, MechanicalBody | undefined> = {};
+    for (const port of kind.ports) {
+      if (port.kind === "optical-in") {
+        const from = sourceOf.get(`${c}.${port.name}`)!;
+        inputs[port.name] = emitted.get(`${from.component}.${from.port}`)!;
+      } else if (port.kind === "mechanical-probe") {
+        const link = setup.mechanical.find((l) => l.probe.component === c && l.probe.port === port.name);
+        bodies[port.name] = link ? bodyOf(link.body) : undefined;
+      }
+    }
+    const out = kind.wire({ builder, component, handle: handles.get(c), inputs, bodies });
+    for (const [port, field] of Object.entries(out)) emitted.set(`${c}.${port}`, field);
+  }
+
+  const target = setup.kinds.get(setup.signal.on)!;
+  target.applySignal!(builder, handles.get(setup.signal.on), setup.signal.kind);
+  const model = builder.build();
+  const signal = target.signalReference!(handles.get(setup.signal.on), setup.signal.kind);
+  const referredTo = pickQuantity(signal, setup.signal.referTo);
+  const readoutRows = setup.readout.map((d) => model.outputs.findIndex((o) => o.owner === d));
+  const cautions = setup.components.flatMap((c) => setup.kinds.get(c.name)!.cautions?.(c) ?? []);
+  return { setup, model, readoutRows, signal, referredTo, cautions };
+}
+
+function pickQuantity(signal: SignalReference, referTo: string | undefined): ReferredQuantity {
+  if (referTo === undefined) return signal.quantities[0];
+  const q = signal.quantities.find((x) => x.name === referTo);
+  if (!q) {
+    throw new QuietframeError({
+      path: "signal.referTo",
+      value: referTo,
+      problem: "is not a quantity this signal can be expressed in",
+      allowed: signal.quantities.map((x) => `"${x.name}"`).join(" or "),
+    });
+  }
+  return q;
+}
+
+/** Topological order of the optical graph (Kahn); a loop is an error that names it. */
+function flowOrder(setup: ResolvedSetup): string[] {
+  const names = setup.components.map((c) => c.name);
+  const indegree = new Map(names.map((n) => [n, 0]));
+  const next = new Map<string, string[]>(names.map((n) => [n, []]));
+  for (const l of setup.optical) {
+    indegree.set(l.to.component, indegree.get(l.to.component)! + 1);
+    next.get(l.from.component)!.push(l.to.component);
+  }
+  const ready = names.filter((n) => indegree.get(n) === 0);
+  const order: string[] = [];
+  while (ready.length) {
+    const n = ready.shift()!;
+    order.push(n);
+    for (const m of next.get(n)!) {
+      indegree.set(m, indegree.get(m)! - 1);
+      if (indegree.get(m) === 0) ready.push(m);
+    }
+  }
+  if (order.length < names.length) {
+    const inLoop = names.filter((n) => !order.includes(n));
+    throw new QuietframeError({
+      path: "connections",
+      value: inLoop.join(", "),
+      problem: "light runs in a closed loop through these components",
+      allowed: "travelling light without feedback loops (model a resonator as a cavity component)",
+    });
+  }
+  return order;
+}

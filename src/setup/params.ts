@@ -1,0 +1,67 @@
+import { QuietframeError } from "../errors";
+import type { ChoiceParam, ComponentKind, ParamValues, QuantityParam } from "../components/types";
+import { formatQuantity, parseQuantity } from "../units";
+
+/**
+ * Parses one component's parameters into SI numbers, once, at the edge. Unknown names,
+ * wrong units and out-of-range values are all reported with the field's full path.
+ */
+export function resolveParams(
+  kind: ComponentKind<unknown>,
+  raw: Record<string, unknown>,
+  path: string,
+): { values: ParamValues; given: Set<string> } {
+  const values: Record<string, number | string | undefined> = {};
+  const given = new Set<string>();
+  const known = new Set(kind.params.map((p) => p.name));
+  for (const key of Object.keys(raw)) {
+    if (!known.has(key)) {
+      throw new QuietframeError({
+        path: `${path}.${key}`,
+        value: raw[key],
+        problem: `'${kind.type}' has no parameter '${key}'`,
+        allowed: kind.params.length ? kind.params.map((p) => p.name).join(", ") : "no parameters",
+      });
+    }
+  }
+  for (const spec of kind.params) {
+    const fieldPath = `${path}.${spec.name}`;
+    const present = Object.prototype.hasOwnProperty.call(raw, spec.name) && raw[spec.name] !== undefined;
+    if (present) given.add(spec.name);
+    const input = present ? raw[spec.name] : spec.default;
+    if (input === undefined) {
+      if (spec.optional) continue;
+      throw new QuietframeError({ path: fieldPath, problem: "is required", allowed: describeAllowed(spec) });
+    }
+    values[spec.name] = spec.kind === "choice" ? resolveChoice(spec, input, fieldPath) : resolveQuantity(spec, input, fieldPath);
+  }
+  return { values, given };
+}
+
+function resolveChoice(spec: ChoiceParam, input: unknown, path: string): string {
+  if (typeof input !== "string" || !spec.choices.includes(input)) {
+    throw new QuietframeError({ path, value: input, problem: "is not one of the choices", allowed: spec.choices.map((c) => `"${c}"`).join(" or ") });
+  }
+  return input;
+}
+
+function resolveQuantity(spec: QuantityParam, input: unknown, path: string): number {
+  const v = parseQuantity(input, spec.kind, path);
+  const tooLow = spec.min !== undefined && (spec.minExclusive ? v <= spec.min : v < spec.min);
+  const tooHigh = spec.max !== undefined && (spec.maxExclusive ? v >= spec.max : v > spec.max);
+  if (tooLow || tooHigh) {
+    throw new QuietframeError({ path, value: input, problem: "is out of range", allowed: describeRange(spec) });
+  }
+  return v;
+}
+
+export function describeRange(spec: QuantityParam): string {
+  const show = (x: number): string => formatQuantity(x, spec.kind);
+  const lo = spec.min === undefined ? "" : `${show(spec.min)} ${spec.minExclusive ? "<" : "≤"} `;
+  const hi = spec.max === undefined ? "" : ` ${spec.maxExclusive ? "<" : "≤"} ${show(spec.max)}`;
+  return lo || hi ? `${lo}${spec.name}${hi}` : `any ${spec.kind}`;
+}
+
+function describeAllowed(spec: QuantityParam | ChoiceParam): string {
+  return spec.kind === "choice" ? spec.choices.join(" or ") : `${describeRange(spec)}; ${spec.doc}`;
+}

@@ -1,0 +1,5 @@
+export { QUANTITY_KINDS, QUANTITY_KIND_INFO, isQuantityKind } from "./kinds";
+export type { QuantityKind, QuantityKindInfo } from "./kinds";
+export { parseQuantity } from "./parse";
+export { formatQuantity } from "./format";
+export { SI_PREFIXES } from "./units";

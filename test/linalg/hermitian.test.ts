@@ -1,0 +1,155 @@
+import { beforeAll, describe, expect, it } from "vitest";
+import fc from "fast-check";
+import { minEigenvalueHermitian, symmetricEigenvalues } from "../../src/linalg/hermitian";
+import { randomMatrix, seededRandom, toRows } from "./helpers";
+import { type MathJsStatic, loadMathjs } from "./mathjs-reference";
+
+let math: MathJsStatic;
+beforeAll(async () => {
+  math = await loadMathjs();
+});
+
+function randomSymmetric(rand: () => number, n: number): Float64Array {
+  const a = randomMatrix(rand, n);
+  for (let i = 0; i < n; i++) for (let j = 0; j < i; j++) a[i * n + j] = a[j * n + i];
+  return a;
+}
+
+/** Random Hermitian: symmetric real part, antisymmetric imaginary part. */
+function randomHermitian(rand: () => number, n: number): { re: Float64Array; im: Float64Array } {
+  const re = randomSymmetric(rand, n);
+  const im = randomMatrix(rand, n);
+  for (let i = 0; i < n; i++) {
+    im[i * n + i] = 0;
+    for (let j = 0; j < i; j++) im[i * n + j] = -im[j * n + i];
+  }
+  return { re, im };
+}
+
+function realEigsSorted(values: unknown): number[] {
+  return (values as (number | { re: number })[]).map((v) => (typeof v === "number" ? v : v.re)).sort((x, y) => x - y);
+}
+
+describe("symmetricEigenvalues (Jacobi)", () => {
+  it("matches mathjs eigs on random symmetric matrices, n = 1..25", () => {
+    const rand = seededRandom(17);
+    for (let n = 1; n <= 25; n++) {
+      const a = randomSymmetric(rand, n);
+      const got = symmetricEigenvalues(a, n);
+      // mathjs eigs as reference (its symmetric path, which converges reliably).
+      const ref = realEigsSorted(math.eigs(toRows(a, n), { eigenvectors: false }).values);
+      // Symmetric eigenvalues are perfectly conditioned: both solvers are within a few eps·‖A‖.
+      for (let i = 0; i < n; i++) expect(Math.abs(got[i] - ref[i]), `n = ${n}`).toBeLessThan(1e-12 * n);
+    }
+  });
+
+  it("returns ascending order and leaves the input unchanged", () => {
+    const a = randomSymmetric(seededRandom(3), 7);
+    const copy = a.slice();
+    const got = symmetricEigenvalues(a, 7);
+    for (let i = 1; i < 7; i++) expect(got[i]).toBeGreaterThanOrEqual(got[i - 1]);
+    expect(Array.from(a)).toEqual(Array.from(copy));
+  });
+
+  it("keeps tiny eigenvalues of a graded positive definite matrix to high relative accuracy", () => {
+    // D H D with H = [[1, 0.5], [0.5, 1]], D = diag(1, 1e-10): eigenvalues ≈ 1 and 0.75e-20.
+    // The product of the eigenvalues is det = 0.75e-20, so small = det / large (elementary
+    // algebra). An absolute-accuracy method (error ~ eps·‖A‖ ≈ 1e-16) would lose it entirely.
+    const a = Float64Array.from([1, 0.5e-10, 0.5e-10, 1e-20]);
+    const got = symmetricEigenvalues(a, 2);
+    const det = 1e-20 - 0.25e-20;
+    const large = got[1];
+    expect(Math.abs(got[0] - det / large) / (det / large)).toBeLessThan(1e-14);
+  });
+});
+
+describe("minEigenvalueHermitian", () => {
+  it("2×2 [[a, −ib], [ib, a]] has eigenvalues a ± b (elementary algebra)", () => {
+    for (const [a, b] of [
+      [1, 0.5],
+      [0.5, 0.5],
+      [2, -3],
+      [1e6, 1e-3],
+    ]) {
+      const re = Float64Array.from([a, 0, 0, a]);
+      const im = Float64Array.from([0, -b, b, 0]);
+      expect(Math.abs(minEigenvalueHermitian(re, im, 2) - (a - Math.abs(b)))).toBeLessThan(1e-15 * (a + Math.abs(b)));
+    }
+  });
+
+  it("vacuum state saturates the uncertainty relation: V = I/2, Σ = [[0, 1], [−1, 0]] ⇒ min eig of V + (i/2)Σ is 0", () => {
+    // V + (i/2)Σ = [[1/2, i/2], [−i/2, 1/2]], eigenvalues 0 and 1 (from memory / 2×2 algebra).
+    const re = Float64Array.from([0.5, 0, 0, 0.5]);
+    const im = Float64Array.from([0, 0.5, -0.5, 0]);
+    expect(Math.abs(minEigenvalueHermitian(re, im, 2))).toBeLessThan(1e-16);
+  });
+
+  it("matches mathjs eigs of the real embedding and sees each eigenvalue twice", () => {
+    const rand = seededRandom(23);
+    for (const n of [1, 2, 3, 5, 8, 13]) {
+      const { re, im } = randomHermitian(rand, n);
+      const emb: number[][] = [];
+      for (let i = 0; i < 2 * n; i++) {
+        emb.push(
+          Array.from({ length: 2 * n }, (_, j) => {
+            const r = i % n;
+            const c = j % n;
+            const top = i < n;
+            const left = j < n;
+            if (top === left) return re[r * n + c];
+            return top ? -im[r * n + c] : im[r * n + c];
+          }),
+        );
+      }
+      // mathjs eigs as reference on the symmetric embedding.
+      const ref = realEigsSorted(math.eigs(emb, { eigenvectors: false }).values);
+      expect(Math.abs(minEigenvalueHermitian(re, im, n) - ref[0]), `n = ${n}`).toBeLessThan(1e-12 * n);
+      // Doubling is what makes the embedding valid: eigenvalues pair up.
+      for (let k = 0; k < 2 * n; k += 2) expect(Math.abs(ref[k] - ref[k + 1]), `n = ${n}`).toBeLessThan(1e-10);
+    }
+  });
+
+  it("uses the Hermitian part (H + Hᴴ)/2 of a non-Hermitian input", () => {
+    // Off-diagonal entries 0.5 + 0.2i (upper) and 0.1 + 0.4i (lower): the Hermitian part has
+    // z = (0.5 + 0.2i + conj(0.1 + 0.4i))/2 = 0.3 − 0.1i above the diagonal, |z|² = 0.1.
+    // Eigenvalues of [[1, z], [z̄, 2]] are 1.5 ± sqrt(0.25 + |z|²) (elementary algebra);
+    // the upper triangle alone (|z|² = 0.29) would give a different answer.
+    const re = Float64Array.from([1, 0.5, 0.1, 2]);
+    const im = Float64Array.from([0, 0.2, 0.4, 0]);
+    const want = 1.5 - Math.sqrt(0.25 + 0.1);
+    expect(Math.abs(minEigenvalueHermitian(re, im, 2) - want)).toBeLessThan(1e-15);
+  });
+
+  it("property: min eigenvalue ≤ every Rayleigh quotient (fast-check, seed 42)", () => {
+    const input = fc.integer({ min: 1, max: 8 }).chain((n) =>
+      fc.record({
+        n: fc.constant(n),
+        seed: fc.integer({ min: 1, max: 2 ** 31 - 1 }),
+        x: fc.array(fc.double({ min: -1, max: 1, noNaN: true }), { minLength: 2 * n, maxLength: 2 * n }),
+      }),
+    );
+    fc.assert(
+      fc.property(input, ({ n, seed, x }) => {
+        const { re, im } = randomHermitian(seededRandom(seed), n);
+        const lmin = minEigenvalueHermitian(re, im, n);
+        // Rayleigh quotient xᴴ H x / xᴴ x for x = xr + i·xi.
+        let num = 0;
+        let den = 0;
+        for (let i = 0; i < n; i++) {
+          den += x[i] ** 2 + x[n + i] ** 2;
+          for (let j = 0; j < n; j++) {
+            const hr = re[i * n + j];
+            const hi = im[i * n + j];
+            // Re[(xr_i − i xi_i)(hr + i hi)(xr_j + i xi_j)]
+            const pr = hr * x[j] - hi * x[n + j];
+            const pi = hr * x[n + j] + hi * x[j];
+            num += x[i] * pr + x[n + i] * pi;
+          }
+        }
+        if (den < 1e-12) return true;
+        return lmin <= num / den + 1e-12 * n;
+      }),
+      { seed: 42, numRuns: 200 },
+    );
+  });
+});
