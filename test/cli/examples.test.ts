@@ -1,0 +1,51 @@
+import { readdirSync } from "node:fs";
+import { join } from "node:path";
+import { describe, expect, it } from "vitest";
+import { HBAR } from "../../src/constants";
+import { runCli } from "../../src/cli/run";
+import { freeMassDisplacementSql } from "../../src/reference/limits";
+
+/**
+ * `quietframe eval` on every shipped example prints finite numbers, and the SQL column
+ * matches the closed form of the example's body to better than 1e-9 relative:
+ * 2ħ/(mΩ²) for a free mass (Kimble et al. 2001), 2ħ|χ| with χ = 1/(m(Ω_m² − Ω² − iγΩ))
+ * for an oscillator (Clerk et al. 2010).
+ */
+const EXAMPLES = join(__dirname, "..", "..", "examples");
+
+function evalJson(file: string) {
+  let out = "";
+  const code = runCli(["eval", join(EXAMPLES, file), "--format", "json", "--psd"], { out: (s) => (out += s), err: () => {} });
+  expect(code).toBe(0);
+  return JSON.parse(out) as { frequencies: { values: number[] }; columns: { id: string; values: (number | null)[] }[] };
+}
+
+const sqlClosedForm: Record<string, (f: number) => number> = {
+  "free-test-mass.json": (f) => freeMassDisplacementSql(0.1, 2 * Math.PI * f),
+  "cryogenic-membrane.json": (f) => membraneSql(f),
+  "cryogenic-membrane-squeezed.json": (f) => membraneSql(f),
+};
+
+function membraneSql(f: number): number {
+  const m = 5e-12;
+  const wm = 2 * Math.PI * 1.2e6;
+  const w = 2 * Math.PI * f;
+  const gamma = wm / 1e8;
+  // |χ| = 1/(m √((Ω_m² − Ω²)² + γ²Ω²))
+  return (2 * HBAR) / (m * Math.hypot(wm ** 2 - w ** 2, gamma * w));
+}
+
+describe("shipped examples through the CLI", () => {
+  it("every example has a closed-form SQL check here", () => {
+    expect(readdirSync(EXAMPLES).filter((f) => f.endsWith(".json")).sort()).toEqual(Object.keys(sqlClosedForm).sort());
+  });
+
+  it.each(Object.keys(sqlClosedForm))("%s: finite numbers and the SQL column within 1e-9 of the closed form", (file) => {
+    const doc = evalJson(file);
+    for (const c of doc.columns) for (const v of c.values) expect(v !== null && Number.isFinite(v) && v >= 0).toBe(true);
+    const sql = doc.columns.find((c) => c.id === "sql")!.values as number[];
+    doc.frequencies.values.forEach((f, i) => {
+      expect(Math.abs(sql[i] / sqlClosedForm[file](f) - 1), `at ${f} Hz`).toBeLessThan(1e-9);
+    });
+  });
+});
