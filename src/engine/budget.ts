@@ -48,56 +48,30 @@ export function noiseBudget(assembled: AssembledSetup, frequencies: Float64Array
   const total = new Float64Array(nf);
   const termPsd = groups.map(() => new Float64Array(nf));
   const evaluator = new TransferEvaluator(model, readoutRows);
-  const groupMatrix = new GroupSpectra(model, p);
-  const combiner = p > 1 ? new OptimalCombiner(p) : undefined;
+  const spectra = groups.map(() => new GroupSpectra(model, p));
+  const referral: SignalReferral = p === 1 ? new SingleOutput() : new OptimalCombination(p);
   let blindPoints = 0;
-  // A response so weak that the referred noise overflows is reported like no response at all.
-  const markBlind = (f: number): void => {
-    blindPoints++;
-    total[f] = Infinity;
-    for (const t of termPsd) t[f] = Infinity;
-  };
 
   for (let f = 0; f < nf; f++) {
     const omega = 2 * Math.PI * frequencies[f];
     evaluator.at(omega);
-    const factor = referredTo.psdFactor(omega);
-    if (p === 1) {
-      const h2 = evaluator.sRe[0] ** 2 + evaluator.sIm[0] ** 2;
-      if (h2 === 0) {
-        markBlind(f);
-        continue;
-      }
-      let sum = 0;
+    groups.forEach((g, i) => spectra[i].compute(g.columns, evaluator.hRe, evaluator.hIm));
+    let sum = Infinity;
+    if (referral.prepare(evaluator.sRe, evaluator.sIm, spectra)) {
+      const factor = referredTo.psdFactor(omega);
+      sum = 0;
       for (let g = 0; g < groups.length; g++) {
-        groupMatrix.compute(groups[g].columns, evaluator.hRe, evaluator.hIm);
-        const v = (groupMatrix.re[0] / h2) * factor;
+        const v = referral.referred(spectra[g]) * factor;
         termPsd[g][f] = v;
         sum += v;
       }
-      total[f] = sum;
-      if (!Number.isFinite(sum)) markBlind(f);
-    } else {
-      const c = combiner!;
-      c.reset();
-      for (let g = 0; g < groups.length; g++) {
-        groupMatrix.compute(groups[g].columns, evaluator.hRe, evaluator.hIm);
-        c.accumulate(groupMatrix.re, groupMatrix.im);
-      }
-      const q = c.solve(evaluator.sRe, evaluator.sIm);
-      if (q === 0) {
-        markBlind(f);
-        continue;
-      }
-      let sum = 0;
-      for (let g = 0; g < groups.length; g++) {
-        groupMatrix.compute(groups[g].columns, evaluator.hRe, evaluator.hIm);
-        const v = (c.quadraticForm(groupMatrix.re, groupMatrix.im) / (q * q)) * factor;
-        termPsd[g][f] = v;
-        sum += v;
-      }
-      total[f] = sum;
-      if (!Number.isFinite(sum)) markBlind(f);
+    }
+    total[f] = sum;
+    // No response, or one so weak that the referred noise overflows: reported as blind.
+    if (!Number.isFinite(sum)) {
+      blindPoints++;
+      total[f] = Infinity;
+      for (const t of termPsd) t[f] = Infinity;
     }
   }
 
@@ -183,13 +157,33 @@ class GroupSpectra {
   }
 }
 
-/** Optimal frequency-dependent combination of several outputs. */
-class OptimalCombiner {
+/** Turns a group's output spectrum into signal-referred noise at one frequency. */
+interface SignalReferral {
+  /** Takes the signal response and all group spectra; false when the readout is blind to the signal. */
+  prepare(hRe: Float64Array, hIm: Float64Array, groups: readonly GroupSpectra[]): boolean;
+  referred(group: GroupSpectra): number;
+}
+
+/** One output: S_g / |h|². */
+class SingleOutput implements SignalReferral {
+  private h2 = 0;
+  prepare(hRe: Float64Array, hIm: Float64Array): boolean {
+    this.h2 = hRe[0] * hRe[0] + hIm[0] * hIm[0];
+    return this.h2 !== 0;
+  }
+  referred(group: GroupSpectra): number {
+    return group.re[0] / this.h2;
+  }
+}
+
+/** Optimal frequency-dependent combination of several outputs: w = S_y⁻¹h, weight w†S_g w/q². */
+class OptimalCombination implements SignalReferral {
   private readonly sRe: Float64Array;
   private readonly sIm: Float64Array;
   private readonly wRe: Float64Array;
   private readonly wIm: Float64Array;
   private readonly piv: Int32Array;
+  private q = 0;
   constructor(private readonly p: number) {
     this.sRe = new Float64Array(p * p);
     this.sIm = new Float64Array(p * p);
@@ -198,26 +192,21 @@ class OptimalCombiner {
     this.piv = new Int32Array(p);
   }
 
-  reset(): void {
-    this.sRe.fill(0);
-    this.sIm.fill(0);
-  }
-
-  accumulate(re: Float64Array, im: Float64Array): void {
-    for (let i = 0; i < re.length; i++) {
-      this.sRe[i] += re[i];
-      this.sIm[i] += im[i];
+  prepare(hRe: Float64Array, hIm: Float64Array, groups: readonly GroupSpectra[]): boolean {
+    const { p, sRe, sIm, wRe, wIm } = this;
+    sRe.fill(0);
+    sIm.fill(0);
+    for (const g of groups) {
+      for (let i = 0; i < p * p; i++) {
+        sRe[i] += g.re[i];
+        sIm[i] += g.im[i];
+      }
     }
-  }
-
-  /** Solves S_y w = h and returns q = h† S_y⁻¹ h (real, ≥ 0). */
-  solve(hRe: Float64Array, hIm: Float64Array): number {
-    const { p, wRe, wIm } = this;
     wRe.set(hRe.subarray(0, p));
     wIm.set(hIm.subarray(0, p));
-    if (wRe.every((v) => v === 0) && wIm.every((v) => v === 0)) return 0;
+    if (wRe.every((v) => v === 0) && wIm.every((v) => v === 0)) return false;
     try {
-      complexLuFactor(this.sRe, this.sIm, p, this.piv);
+      complexLuFactor(sRe, sIm, p, this.piv);
     } catch (e) {
       if (e instanceof SingularMatrixError) {
         throw new QuietframeError({
@@ -228,26 +217,27 @@ class OptimalCombiner {
       }
       throw e;
     }
-    complexLuSolve(this.sRe, this.sIm, p, this.piv, wRe, wIm, 1);
+    complexLuSolve(sRe, sIm, p, this.piv, wRe, wIm, 1);
     let q = 0;
     for (let k = 0; k < p; k++) q += hRe[k] * wRe[k] + hIm[k] * wIm[k];
-    return q;
+    this.q = q;
+    return q !== 0;
   }
 
-  /** Re(w† M w) for a Hermitian M. */
-  quadraticForm(re: Float64Array, im: Float64Array): number {
+  /** Re(w† S_g w) / q². */
+  referred(group: GroupSpectra): number {
     const { p, wRe, wIm } = this;
     let sum = 0;
     for (let a = 0; a < p; a++) {
       for (let b = 0; b < p; b++) {
         // conj(w_a) M_ab w_b
-        const mr = re[a * p + b];
-        const mi = im[a * p + b];
+        const mr = group.re[a * p + b];
+        const mi = group.im[a * p + b];
         const xr = mr * wRe[b] - mi * wIm[b];
         const xi = mr * wIm[b] + mi * wRe[b];
         sum += wRe[a] * xr + wIm[a] * xi;
       }
     }
-    return sum;
+    return sum / (this.q * this.q);
   }
 }

@@ -49,28 +49,29 @@ export function outputSpectra(model: StateSpaceModel, rows: readonly number[], f
 
 /** Response of the chosen outputs to the signal, h(Ω) = C (−iΩ − A)⁻¹ b_s + d_s (output units per signal unit). */
 export function signalResponse(model: StateSpaceModel, rows: readonly number[], frequencies: Float64Array): ComplexSeries {
-  const p = rows.length;
-  const ev = new TransferEvaluator(model, rows);
-  const re = new Float64Array(frequencies.length * p);
-  const im = new Float64Array(frequencies.length * p);
-  for (let f = 0; f < frequencies.length; f++) {
-    ev.at(2 * Math.PI * frequencies[f]);
-    re.set(ev.sRe, f * p);
-    im.set(ev.sIm, f * p);
-  }
-  return { frequencies, blockSize: p, re, im };
+  return collect(model, rows, frequencies, rows.length, (ev) => [ev.sRe, ev.sIm]);
 }
 
 /** Transfer matrix H(Ω) from every white input to the chosen outputs (p×m per frequency). */
 export function inputTransfer(model: StateSpaceModel, rows: readonly number[], frequencies: Float64Array): ComplexSeries {
-  const size = rows.length * model.nInputs;
+  return collect(model, rows, frequencies, rows.length * model.nInputs, (ev) => [ev.hRe, ev.hIm]);
+}
+
+function collect(
+  model: StateSpaceModel,
+  rows: readonly number[],
+  frequencies: Float64Array,
+  blockSize: number,
+  pick: (ev: TransferEvaluator) => [Float64Array, Float64Array],
+): ComplexSeries {
   const ev = new TransferEvaluator(model, rows);
-  const re = new Float64Array(frequencies.length * size);
-  const im = new Float64Array(frequencies.length * size);
+  const re = new Float64Array(frequencies.length * blockSize);
+  const im = new Float64Array(frequencies.length * blockSize);
   for (let f = 0; f < frequencies.length; f++) {
     ev.at(2 * Math.PI * frequencies[f]);
-    re.set(ev.hRe, f * size);
-    im.set(ev.hIm, f * size);
+    const [r, i] = pick(ev);
+    re.set(r, f * blockSize);
+    im.set(i, f * blockSize);
   }
-  return { frequencies, blockSize: size, re, im };
+  return { frequencies, blockSize, re, im };
 }
