@@ -6,8 +6,8 @@ const fs = require("node:fs");
 const path = require("node:path");
 
 const root = path.join(__dirname, "..");
-const { setupJsonSchema } = require(path.join(root, "dist", "setup", "schema.js"));
-const { componentReferenceMarkdown } = require(path.join(root, "dist", "setup", "component-docs.js"));
+const { setupJsonSchema } = require(path.join(root, "dist", "src", "setup", "schema.js"));
+const { componentReferenceMarkdown } = require(path.join(root, "dist", "src", "setup", "component-docs.js"));
 
 function write(relative, text) {
   const target = path.join(root, relative);

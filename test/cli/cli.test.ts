@@ -12,7 +12,7 @@ const EXAMPLES = join(ROOT, "examples");
 // Test names use the bare file name; the CLI gets the full path, whatever the working directory.
 const EXAMPLE_NAMES = readdirSync(EXAMPLES).filter((f) => f.endsWith(".json"));
 const EXAMPLE_FILES = EXAMPLE_NAMES.map((f) => join(EXAMPLES, f));
-const BUILT_CLI = join(ROOT, "dist", "cli", "main.js");
+const BUILT_CLI = join(ROOT, "dist", "src", "cli", "main.js");
 
 function cli(...argv: string[]): { code: number; out: string; err: string } {
   let out = "";
@@ -153,9 +153,9 @@ describe("bad set-ups: exit 1, nothing on stdout, the message on stderr", () => 
   });
 });
 
-describe("the built binary (node dist/cli/main.js; the suite runs after `npm run build`)", () => {
+describe("the built binary (node dist/src/cli/main.js; the suite runs after `npm run build`)", () => {
   it("exits non-zero with empty stdout on a bad set-up", () => {
-    expect(existsSync(BUILT_CLI), "dist/cli/main.js is missing: run `npm run build` first").toBe(true);
+    expect(existsSync(BUILT_CLI), "dist/src/cli/main.js is missing: run `npm run build` first").toBe(true);
     const bad = BAD_CASES.find((c) => c.label === "zero mass")!;
     const r = spawnSync(process.execPath, [BUILT_CLI, "eval", writeTemp(bad.text)], { encoding: "utf8" });
     expect(r.status).toBe(1);

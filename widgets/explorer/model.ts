@@ -1,0 +1,99 @@
+import { QuietframeError } from "../../src/errors";
+import { headlineFigures, type HeadlineFigures } from "../../src/engine/headline";
+import { parseGrid } from "../../src/engine/grid";
+import { tabulateBudget, type BudgetTable } from "../../src/engine/tabulate";
+import { evaluateSetup, loadSetup, type Evaluation } from "../../src/pipeline";
+import type { SetupDescription } from "../../src/setup/format";
+import type { ResolvedSetup } from "../../src/setup/validate";
+import { QUIETFRAME_VERSION } from "../../src/version";
+import { budgetFingerprint } from "../state/fingerprint";
+import {
+  EXPLORER_STATE_FORMAT,
+  EXPLORER_STATE_VERSION,
+  type ControlSpec,
+  type ExplorerSettings,
+  type ExplorerState,
+} from "../state/format";
+import { checkValue, resolveControls, type ResolvedControl } from "./controls";
+
+/**
+ * The noise-budget explorer's model: state in, figures out. Pure (no DOM, no Jupyter), so
+ * the kernel, the CLI and the browser runtime run exactly this code.
+ */
+export interface ExplorerComputation {
+  readonly controls: readonly ResolvedControl[];
+  readonly setup: ResolvedSetup;
+  readonly evaluation: Evaluation;
+  readonly table: BudgetTable;
+  readonly headline: HeadlineFigures;
+  readonly fingerprint: string;
+}
+
+/** The set-up with the controls' current values written into its parameters (a new object). */
+export function applyValues(setup: SetupDescription, values: Readonly<Record<string, string | number>>): SetupDescription {
+  const copy = structuredClone(setup);
+  for (const [target, value] of Object.entries(values)) {
+    const dot = target.indexOf(".");
+    const component = copy.components.find((c) => c.name === target.slice(0, dot));
+    if (!component) throw new QuietframeError({ path: `values.${target}`, value, problem: "names no component of the set-up" });
+    component.params = { ...(component.params ?? {}), [target.slice(dot + 1)]: value };
+  }
+  return copy;
+}
+
+/** Evaluates a state's set-up at its current values; throws QuietframeError for bad values or an unstable set-up. */
+export function computeExplorer(state: Omit<ExplorerState, "fingerprint">): ExplorerComputation {
+  const controls = resolveControls(state.setup, state.controls);
+  for (const c of controls) {
+    if (!(c.target in state.values)) throw new QuietframeError({ path: `values.${c.target}`, problem: "has no current value", allowed: "a value for every control" });
+    checkValue(c, state.values[c.target], `values.${c.target}`);
+  }
+  for (const target of Object.keys(state.values)) {
+    if (!controls.some((c) => c.target === target)) {
+      throw new QuietframeError({ path: `values.${target}`, problem: "has no control", allowed: controls.map((c) => c.target).join(", ") || "no values" });
+    }
+  }
+  const setup = loadSetup(applyValues(state.setup, state.values));
+  const grid = parseGrid(state.settings.grid, "settings.grid");
+  const evaluation = evaluateSetup(setup, grid);
+  return {
+    controls,
+    setup,
+    evaluation,
+    table: tabulateBudget(evaluation.budget, state.settings.spectralDensity),
+    headline: headlineFigures(evaluation.budget),
+    fingerprint: budgetFingerprint(evaluation.budget),
+  };
+}
+
+export interface ExplorerOptions {
+  controls?: ControlSpec[];
+  /** Overrides of the default settings (grid from the set-up, amplitude spectral densities). */
+  settings?: Partial<ExplorerSettings>;
+}
+
+/** A fresh state for a set-up: current values are the set-up's own parameter values. */
+export function createExplorerState(setup: SetupDescription, options: ExplorerOptions = {}): ExplorerState {
+  const resolved = loadSetup(setup);
+  const controls = options.controls ?? [];
+  const values: Record<string, string | number> = {};
+  for (const c of resolveControls(setup, controls)) {
+    const component = resolved.components.find((x) => x.name === c.component)!;
+    const written = component.raw[c.param];
+    const kind = resolved.kinds.get(c.component)!;
+    const spec = kind.params.find((p) => p.name === c.param)!;
+    const value = written ?? spec.default;
+    if (value === undefined) {
+      throw new QuietframeError({ path: `controls.${c.target}`, problem: "the set-up gives this parameter no value", allowed: "a parameter the set-up sets or defaults" });
+    }
+    values[c.target] = value as string | number;
+  }
+  const grid = setup.grid ?? { from: "1 Hz", to: "100 kHz", points: 400 };
+  const settings: ExplorerSettings = {
+    grid: { from: String(grid.from), to: String(grid.to), points: grid.points ?? 400 },
+    spectralDensity: "amplitude",
+    ...options.settings,
+  };
+  const base = { format: EXPLORER_STATE_FORMAT, version: EXPLORER_STATE_VERSION, quietframe: QUIETFRAME_VERSION, setup: structuredClone(setup), controls: structuredClone(controls), values, settings } as const;
+  return { ...base, fingerprint: computeExplorer(base).fingerprint };
+}
