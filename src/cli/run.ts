@@ -8,6 +8,7 @@ import { COMPONENT_KINDS } from "../components/registry";
 import { evaluateSetup, FALLBACK_GRID, loadSetup } from "../pipeline";
 import { parseQuantity } from "../units";
 import { QUIETFRAME_VERSION } from "../version";
+import { RENDER_USAGE, renderCommand, reportCommand } from "./render";
 
 export interface CliIo {
   out: (s: string) => void;
@@ -28,9 +29,29 @@ usage:
       Validates a set-up and reports its size and stability.
   quietframe types [type]
       Lists component types, or one type's parameters and ports.
-`;
+${RENDER_USAGE}`;
 
-/** Runs one CLI command; returns the exit code. Nothing is printed to out unless the command succeeds. */
+/** Commands that render figures (Vega renders asynchronously); runCliAsync runs them. */
+const ASYNC_COMMANDS: Readonly<Record<string, (args: string[], io: CliIo) => Promise<number>>> = {
+  render: renderCommand,
+  report: reportCommand,
+};
+
+/** Runs any CLI command, including render and report; resolves to the exit code. */
+export async function runCliAsync(argv: string[], io: CliIo): Promise<number> {
+  const command = argv[0] === undefined ? undefined : ASYNC_COMMANDS[argv[0]];
+  if (!command) return runCli(argv, io);
+  try {
+    return await command(argv.slice(1), io);
+  } catch (e) {
+    return reportFailure(e, io);
+  }
+}
+
+/**
+ * Runs one synchronous CLI command; returns the exit code. Nothing is printed to out unless
+ * the command succeeds. render and report need runCliAsync.
+ */
 export function runCli(argv: string[], io: CliIo): number {
   try {
     const [command, ...rest] = argv;
@@ -54,22 +75,31 @@ export function runCli(argv: string[], io: CliIo): number {
       case "--version":
         io.out(`${QUIETFRAME_VERSION}\n`);
         return 0;
+      case "render":
+      case "report":
+        io.err(`quietframe: '${command}' renders asynchronously; call runCliAsync\n`);
+        return 2;
       default:
         io.err(`quietframe: unknown command '${command}'\n\n${USAGE}`);
         return 2;
     }
   } catch (e) {
-    if (e instanceof QuietframeError || e instanceof QuietframeErrors) {
-      io.err(`quietframe: ${e.message.split("\n").join("\nquietframe: ")}\n`);
-      return 1;
-    }
-    const code = (e as NodeJS.ErrnoException | undefined)?.code;
-    if (typeof code === "string" && code.startsWith("ERR_PARSE_ARGS_")) {
-      io.err(`quietframe: ${(e as Error).message}\n\n${USAGE}`);
-      return 2;
-    }
-    throw e;
+    return reportFailure(e, io);
   }
+}
+
+/** User-facing problems become messages and an exit status; anything else is a bug and is rethrown. */
+function reportFailure(e: unknown, io: CliIo): number {
+  if (e instanceof QuietframeError || e instanceof QuietframeErrors) {
+    io.err(`quietframe: ${e.message.split("\n").join("\nquietframe: ")}\n`);
+    return 1;
+  }
+  const code = (e as NodeJS.ErrnoException | undefined)?.code;
+  if (typeof code === "string" && code.startsWith("ERR_PARSE_ARGS_")) {
+    io.err(`quietframe: ${(e as Error).message}\n\n${USAGE}`);
+    return 2;
+  }
+  throw e;
 }
 
 function readSetupFile(path: string | undefined) {

@@ -58,13 +58,14 @@ export function budgetSpec(table: BudgetTable, quantity: string, options: Budget
       x: {
         field: "f",
         type: "quantitative",
-        scale: { type: "log" },
+        // nice: false keeps a narrow band (1.1–1.3 MHz) from being stretched to whole decades.
+        scale: { type: "log", nice: false },
         axis: { title: "frequency [Hz]", format: "~s", grid: true },
       },
       y: {
         field: "value",
         type: "quantitative",
-        scale: { type: "log" },
+        scale: { type: "log", nice: false },
         axis: { title: `${quantity} ${density} [${table.unit}]`, format: ".0e", grid: true },
       },
       color: {
@@ -81,7 +82,8 @@ export function budgetSpec(table: BudgetTable, quantity: string, options: Budget
       },
       strokeWidth: {
         field: "kind",
-        type: "nominal",
+        type: "ordinal",
+        sort: ["total", "term", "reference"],
         scale: { domain: ["total", "term", "reference"], range: [2.6, 1.4, 1.4] },
         legend: null,
       },

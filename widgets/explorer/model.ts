@@ -43,6 +43,8 @@ export function applyValues(setup: SetupDescription, values: Readonly<Record<str
 
 /** Evaluates a state's set-up at its current values; throws QuietframeError for bad values or an unstable set-up. */
 export function computeExplorer(state: Omit<ExplorerState, "fingerprint">): ExplorerComputation {
+  // Validate the set-up itself first, so controls are only ever resolved against a well-formed one.
+  loadSetup(state.setup);
   const controls = resolveControls(state.setup, state.controls);
   for (const c of controls) {
     if (!(c.target in state.values)) throw new QuietframeError({ path: `values.${c.target}`, problem: "has no current value", allowed: "a value for every control" });

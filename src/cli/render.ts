@@ -1,0 +1,188 @@
+import { randomBytes } from "node:crypto";
+import { readFileSync, renameSync, rmSync, writeFileSync } from "node:fs";
+import { basename, extname } from "node:path";
+import { parseArgs } from "node:util";
+import { describeHeadline } from "../engine/headline";
+import { tableToCsv } from "../engine/tabulate";
+import { QuietframeError } from "../errors";
+import { loadSetup } from "../pipeline";
+import type { ControlSpec, ExplorerState } from "../../widgets/state/format";
+import { SLIDER_SCALES, type SliderScale } from "../../widgets/state/format";
+import { computeExplorer, createExplorerState, type ExplorerComputation } from "../../widgets/explorer/model";
+import { loadExplorerState } from "../../widgets/state/document";
+import { explorerFigures } from "../../widgets/render/static";
+import { standalonePage } from "../../widgets/html/standalone";
+import type { CliIo } from "./run";
+
+/**
+ * `render` and `report`: files from explorer states and set-ups. The application layer: it
+ * reads and writes files and calls the widgets' pure code (state, model, figures, HTML).
+ */
+
+export const OUTPUT_FORMATS = ["html", "svg", "png", "csv"] as const;
+export type OutputFormat = (typeof OUTPUT_FORMATS)[number];
+
+export const RENDER_USAGE = `  quietframe render <state.json> -o <out.html|out.svg|out.png|out.csv> [--format F] [--strict] [--scale S]
+      Recomputes a saved widget state and writes its figure: a standalone interactive page
+      (html), the chart (svg, png at --scale, default 2) or the plotted numbers (csv). Warns
+      when the recomputed curves differ from the stored fingerprint; --strict makes that an error.
+  quietframe report <setup.json> -o <report.html> [--control target[=min:max[:log|linear]]]... [--title T]
+      An interactive HTML report of a set-up with sliders for the given parameters, e.g.
+      --control "membrane.temperature=10 mK:300 K"; prints the headline figures.
+`;
+
+const RENDER_OPTIONS = {
+  output: { type: "string", short: "o" },
+  format: { type: "string" },
+  strict: { type: "boolean", default: false },
+  scale: { type: "string" },
+} as const;
+
+export async function renderCommand(args: string[], io: CliIo): Promise<number> {
+  const { values, positionals } = parseArgs({ args, allowPositionals: true, options: RENDER_OPTIONS });
+  const [input, ...extra] = positionals;
+  if (!input) throw new QuietframeError({ path: "<state.json>", problem: "no state file given", allowed: "a path to a widget-state JSON file" });
+  if (extra.length) throw new QuietframeError({ path: "<state.json>", value: positionals, problem: "only one state file at a time", allowed: "one path" });
+  const output = requireOutput(values.output);
+  const format = outputFormat(values.format, output);
+  const scale = pngScale(values.scale);
+  const text = readText(input);
+  const { state, computation, fingerprintMatches } = loadExplorerState(text, basename(input));
+  if (!fingerprintMatches) {
+    const message =
+      `the recomputed curves differ from the ones stored in ${input} ` +
+      `(stored ${state.fingerprint}, written by quietframe ${state.quietframe}; recomputed ${computation.fingerprint})`;
+    if (values.strict) throw new QuietframeError({ path: `${input}.fingerprint`, value: state.fingerprint, problem: message, allowed: "a state whose numbers this quietframe reproduces bit for bit (drop --strict to render anyway)" });
+    io.err(`warning: ${message}\n`);
+  }
+  for (const w of computation.evaluation.warnings) io.err(`warning: ${w}\n`);
+  for (const c of computation.evaluation.cautions) io.err(`caution: ${c}\n`);
+  // The page keeps the stored fingerprint, so it too can tell its reader about a mismatch.
+  const bytes = await renderOutput(state, computation, format, scale);
+  writeAtomically(output, bytes);
+  io.out(`wrote ${output} (${format}, ${bytes.length} bytes, ${computation.fingerprint})\n`);
+  return 0;
+}
+
+const REPORT_OPTIONS = {
+  output: { type: "string", short: "o" },
+  control: { type: "string", multiple: true, default: [] as string[] },
+  title: { type: "string" },
+} as const;
+
+export async function reportCommand(args: string[], io: CliIo): Promise<number> {
+  const { values, positionals } = parseArgs({ args, allowPositionals: true, options: REPORT_OPTIONS });
+  const [input, ...extra] = positionals;
+  if (!input) throw new QuietframeError({ path: "<setup.json>", problem: "no set-up file given", allowed: "a path to a set-up JSON file" });
+  if (extra.length) throw new QuietframeError({ path: "<setup.json>", value: positionals, problem: "only one set-up file at a time", allowed: "one path" });
+  const output = requireOutput(values.output);
+  const format = outputFormat(undefined, output);
+  if (format !== "html") throw new QuietframeError({ path: "-o", value: output, problem: "a report is an HTML page", allowed: "a file name ending in .html (use render for svg, png or csv)" });
+  const setupText = readText(input);
+  // Validate first, so set-up problems are reported against the file (with line numbers).
+  const setup = loadSetup(setupText, input);
+  const controls = (values.control ?? []).map((spec, i) => parseControlOption(spec, i));
+  const state = asOptionErrors(() => createExplorerState(JSON.parse(setupText), { controls, settings: values.title === undefined ? {} : { title: values.title } }));
+  const computation = computeExplorer(state);
+  for (const w of computation.evaluation.warnings) io.err(`warning: ${w}\n`);
+  for (const c of computation.evaluation.cautions) io.err(`caution: ${c}\n`);
+  const bytes = await renderOutput(state, computation, "html", 2);
+  writeAtomically(output, bytes);
+  const grid = computation.evaluation.budget.frequencies;
+  io.out(
+    `${setup.name || input}\n` +
+      `${grid.length} frequencies from ${grid[0]} Hz to ${grid[grid.length - 1]} Hz; noise referred to ${computation.evaluation.budget.quantity.name}\n` +
+      describeHeadline(computation.headline, `${computation.evaluation.budget.quantity.unit}²/Hz`) +
+      `\nwrote ${output} (interactive report, ${bytes.length} bytes; controls: ${state.controls.map((c) => c.target).join(", ") || "none"})\n`,
+  );
+  return 0;
+}
+
+async function renderOutput(state: ExplorerState, computation: ExplorerComputation, format: OutputFormat, scale: number): Promise<Uint8Array> {
+  if (format === "csv") return utf8(tableToCsv(computation.table));
+  const figures = await explorerFigures(computation, state, { scale });
+  if (format === "svg") return utf8(figures.svg);
+  if (format === "png") return figures.png;
+  return utf8(standalonePage(state, computation, { svg: figures.svg, png: figures.png }));
+}
+
+/** Control problems are named after the --control option the user typed, not the state field. */
+function asOptionErrors<T>(fn: () => T): T {
+  try {
+    return fn();
+  } catch (e) {
+    if (e instanceof QuietframeError && /^controls[.[]/.test(e.path)) {
+      throw new QuietframeError({ path: e.path.replace(/^controls\[(\d+)\]/, "--control[$1]").replace(/^controls\./, "--control "), value: e.value, problem: e.problem, allowed: e.allowed });
+    }
+    throw e;
+  }
+}
+
+/** "target", "target=min:max" or "target=min:max:log" → a control spec. */
+export function parseControlOption(text: string, index: number): ControlSpec {
+  const path = `--control[${index}]`;
+  const eq = text.indexOf("=");
+  const target = (eq < 0 ? text : text.slice(0, eq)).trim();
+  if (!/^[^.\s]+\.[^.\s]+$/.test(target)) {
+    throw new QuietframeError({ path, value: text, problem: "does not name a parameter", allowed: '"component.parameter" or "component.parameter=min:max", e.g. "membrane.temperature=10 mK:300 K"' });
+  }
+  if (eq < 0) return { target };
+  const parts = text.slice(eq + 1).split(":").map((s) => s.trim());
+  let scale: SliderScale | undefined;
+  if (parts.length === 3 && (SLIDER_SCALES as readonly string[]).includes(parts[2])) scale = parts.pop() as SliderScale;
+  if (parts.length !== 2 || !parts[0] || !parts[1]) {
+    throw new QuietframeError({ path, value: text, problem: "does not give a range", allowed: '"target=min:max" or "target=min:max:log", e.g. "membrane.temperature=10 mK:300 K"' });
+  }
+  const bound = (s: string): string | number => (/^[-+]?(\d+\.?\d*|\.\d+)(e[-+]?\d+)?$/i.test(s) ? Number(s) : s);
+  return { target, min: bound(parts[0]), max: bound(parts[1]), ...(scale ? { scale } : {}) };
+}
+
+function requireOutput(output: string | undefined): string {
+  if (!output) throw new QuietframeError({ path: "-o", problem: "no output file given", allowed: "-o <file> with extension .html, .svg, .png or .csv" });
+  return output;
+}
+
+function outputFormat(given: string | undefined, output: string): OutputFormat {
+  const fromExtension = extname(output).slice(1).toLowerCase();
+  const format = given ?? fromExtension;
+  if (!(OUTPUT_FORMATS as readonly string[]).includes(format)) {
+    throw new QuietframeError({
+      path: given === undefined ? "-o" : "--format",
+      value: given ?? output,
+      problem: given === undefined ? "has no output format in its extension" : "is not an output format",
+      allowed: `${OUTPUT_FORMATS.join(", ")} (from the extension of -o, or --format)`,
+    });
+  }
+  return format as OutputFormat;
+}
+
+function pngScale(text: string | undefined): number {
+  if (text === undefined) return 2;
+  const scale = Number(text);
+  if (!(scale >= 0.1 && scale <= 16)) throw new QuietframeError({ path: "--scale", value: text, problem: "is not a usable scale", allowed: "a number from 0.1 to 16" });
+  return scale;
+}
+
+function readText(path: string): string {
+  try {
+    return readFileSync(path, "utf8");
+  } catch (e) {
+    throw new QuietframeError({ path, problem: `cannot be read (${(e as NodeJS.ErrnoException).code ?? "error"})`, allowed: "a readable file" });
+  }
+}
+
+/** Writes through a temporary file beside the target, so a failure never leaves a partial output. */
+function writeAtomically(path: string, bytes: Uint8Array): void {
+  const temporary = `${path}.${randomBytes(6).toString("hex")}.tmp`;
+  try {
+    writeFileSync(temporary, bytes);
+    renameSync(temporary, path);
+  } catch (e) {
+    rmSync(temporary, { force: true });
+    throw new QuietframeError({ path, problem: `cannot be written (${(e as NodeJS.ErrnoException).code ?? "error"})`, allowed: "a writable path" });
+  }
+}
+
+function utf8(text: string): Uint8Array {
+  return new TextEncoder().encode(text);
+}

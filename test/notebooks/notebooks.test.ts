@@ -1,0 +1,150 @@
+import { mkdtempSync, readdirSync, readFileSync, rmSync } from "node:fs";
+import { tmpdir } from "node:os";
+import { join } from "node:path";
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { EXPLORER_CLASS } from "../../widgets/html/names";
+import { RUNTIME_FILE } from "../../widgets/html/runtime-source";
+import { loadExplorerState } from "../../widgets/state/document";
+import { VEGA_LITE_MIME } from "../../widgets/notebook/chart";
+import { createJupyterEnv, REPO_ROOT, type JupyterEnv } from "../jupyter/env";
+import { executeNotebook, joined, outputsOf, validateWithNbformat, type ExecutedNotebook, type Notebook, type NotebookOutput } from "../jupyter/notebook-file";
+
+/**
+ * Every example notebook is executed by Debian's nbconvert through the repository's tslab
+ * kernel, exactly as a user's Jupyter would run it, and the saved result is checked.
+ * Kernel start is about 2 s and each notebook a few seconds; the limits leave ample room.
+ */
+const NOTEBOOK_DIR = join(REPO_ROOT, "notebooks");
+const NOTEBOOKS = readdirSync(NOTEBOOK_DIR).filter((f) => f.endsWith(".ipynb")).sort();
+const EXECUTE_TIMEOUT_MS = 240_000;
+
+const PNG_SIGNATURE = Buffer.from([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a]);
+
+function isWidget(o: NotebookOutput): boolean {
+  return o.output_type === "display_data" && joined(o.data?.["text/html"]).includes(`class="${EXPLORER_CLASS}"`);
+}
+
+function describeFailure(r: ExecutedNotebook): string {
+  return `nbconvert exited with ${r.run.code} after ${r.run.ms} ms\n${r.cellErrors ?? r.run.stderr.slice(-4000)}`;
+}
+
+let jupyter: JupyterEnv;
+let outDir: string;
+const executed = new Map<string, ExecutedNotebook>();
+
+beforeAll(() => {
+  jupyter = createJupyterEnv();
+  outDir = mkdtempSync(join(tmpdir(), "quietframe-notebooks-"));
+}, 60_000);
+
+afterAll(() => {
+  jupyter?.dispose();
+  if (outDir) rmSync(outDir, { recursive: true, force: true });
+});
+
+it("finds the example notebooks", () => {
+  expect(NOTEBOOKS).toEqual(expect.arrayContaining(["cryogenic-membrane.ipynb", "free-mass-tradeoff.ipynb"]));
+});
+
+it("registers the repository's tslab in the private Jupyter environment only", () => {
+  expect(jupyter.kernelSpec.language).toBe("typescript");
+  expect(jupyter.kernelSpec.argv[0]).toBe(join(REPO_ROOT, "node_modules", ".bin", "tslab"));
+  for (const key of ["JUPYTER_PATH", "JUPYTER_CONFIG_DIR", "JUPYTER_DATA_DIR", "JUPYTER_RUNTIME_DIR"]) {
+    expect(jupyter.env[key]?.startsWith(jupyter.dir), key).toBe(true);
+  }
+});
+
+describe.each(NOTEBOOKS)("%s", (name) => {
+  const get = (): ExecutedNotebook & { notebook: Notebook } => {
+    const r = executed.get(name);
+    if (!r?.notebook) throw new Error(`${name} did not execute; see "executes every cell with the tslab kernel"`);
+    return r as ExecutedNotebook & { notebook: Notebook };
+  };
+
+  // The runtime file as the kernel will read it (read before, in case dist/ is rebuilt meanwhile).
+  let runtime = "";
+
+  beforeAll(async () => {
+    runtime = readFileSync(join(REPO_ROOT, RUNTIME_FILE), "utf8");
+    executed.set(name, await executeNotebook(jupyter, join(NOTEBOOK_DIR, name), outDir, EXECUTE_TIMEOUT_MS));
+  }, EXECUTE_TIMEOUT_MS + 10_000);
+
+  it("executes every cell with the tslab kernel", () => {
+    const r = executed.get(name)!;
+    expect(r.run.code, describeFailure(r)).toBe(0);
+    const nb = get().notebook;
+    expect(nb.metadata.kernelspec).toMatchObject({ name: "tslab" });
+    // Every code cell produced something: a cell that silently did nothing is suspicious here.
+    for (const cell of nb.cells.filter((c) => c.cell_type === "code")) {
+      expect(cell.outputs?.length ?? 0, joined(cell.source).slice(0, 200)).toBeGreaterThan(0);
+    }
+  });
+
+  it("has no error outputs and nothing that looks like an error on stderr", () => {
+    const outputs = outputsOf(get().notebook);
+    expect(outputs.filter((o) => o.output_type === "error").map((o) => `${o.ename}: ${o.evalue}`)).toEqual([]);
+    const stderr = outputs.filter((o) => o.output_type === "stream" && o.name === "stderr").map((o) => joined(o.text));
+    expect(stderr.filter((t) => /error/i.test(t))).toEqual([]);
+  });
+
+  it("is a valid notebook according to Debian's nbformat", async () => {
+    const v = await validateWithNbformat(jupyter, get().file);
+    expect(v.stderr.trim()).toBe("");
+    expect(v.code).toBe(0);
+    expect(v.stdout.trim()).toBe("valid");
+  });
+
+  it("shows live widgets with a PNG fallback and a text summary in one output each", () => {
+    const widgets = outputsOf(get().notebook).filter(isWidget);
+    expect(widgets.length).toBeGreaterThanOrEqual(1);
+    for (const w of widgets) {
+      const png = Buffer.from(joined(w.data!["image/png"]), "base64");
+      expect(png.subarray(0, 8).equals(PNG_SIGNATURE)).toBe(true);
+      expect(png.length).toBeGreaterThan(10_000);
+      expect(joined(w.data!["text/plain"])).toMatch(/fingerprint: sha256:[0-9a-f]{64}/);
+      expect(joined(w.data!["text/html"])).toContain('type="application/json"');
+    }
+  });
+
+  it("carries the browser runtime in the first widget only", () => {
+    expect(runtime.length).toBeGreaterThan(10_000);
+    const widgets = outputsOf(get().notebook).filter(isWidget);
+    const carrying = widgets.map((w) => joined(w.data!["text/html"]).includes(runtime));
+    expect(carrying[0]).toBe(true);
+    expect(carrying.slice(1).every((c) => !c)).toBe(true);
+  });
+
+  it("ends with a shareable state that reproduces the same curves here", () => {
+    const nb = get().notebook;
+    const last = [...nb.cells].reverse().find((c) => c.cell_type === "code")!;
+    const printed = (last.outputs ?? []).filter((o) => o.output_type === "stream" && o.name === "stdout").map((o) => joined(o.text)).join("");
+    // Recomputed by the TypeScript sources under test, not by the kernel's build.
+    const loaded = loadExplorerState(printed, "printed state");
+    expect(loaded.fingerprintMatches).toBe(true);
+    expect(loaded.state.fingerprint).toMatch(/^sha256:/);
+    // The state matches one of the widgets shown in the notebook.
+    const shown = outputsOf(nb).filter(isWidget).map((w) => joined(w.data!["text/plain"]));
+    expect(shown.some((t) => t.includes(loaded.state.fingerprint))).toBe(true);
+  });
+});
+
+describe("static charts in the notebooks", () => {
+  it("carry the Vega-Lite spec as a JSON object beside an SVG", () => {
+    const charts = [...executed.values()].flatMap((r) => (r.notebook ? outputsOf(r.notebook) : [])).filter((o) => o.data?.[VEGA_LITE_MIME] !== undefined);
+    expect(charts.length).toBeGreaterThanOrEqual(1);
+    for (const c of charts) {
+      const spec = c.data![VEGA_LITE_MIME] as Record<string, unknown>;
+      expect(typeof spec).toBe("object");
+      expect(String(spec.$schema)).toContain("vega-lite/v5");
+      expect(joined(c.data!["image/svg+xml"]).trimStart()).toMatch(/^<svg/);
+    }
+  });
+});
+
+describe("notebooks as committed", () => {
+  it.each(NOTEBOOKS)("%s is stored without outputs and names the tslab kernel", (name) => {
+    const nb = JSON.parse(readFileSync(join(NOTEBOOK_DIR, name), "utf8")) as { cells: { cell_type: string; outputs?: unknown[] }[]; metadata: { kernelspec?: { name?: string } } };
+    expect(nb.metadata.kernelspec?.name).toBe("tslab");
+    expect(nb.cells.flatMap((c) => c.outputs ?? [])).toEqual([]);
+  });
+});

@@ -1,0 +1,21 @@
+/**
+ * A tiny element builder. Text goes in through textContent and attributes through
+ * setAttribute, so strings from a state are never parsed as markup.
+ */
+export type Child = Node | string | null | undefined | false;
+
+export function el<K extends keyof HTMLElementTagNameMap>(
+  tag: K,
+  attrs: Record<string, string | undefined> = {},
+  children: readonly Child[] = [],
+): HTMLElementTagNameMap[K] {
+  const node = document.createElement(tag);
+  for (const [name, value] of Object.entries(attrs)) if (value !== undefined) node.setAttribute(name, value);
+  for (const child of children) if (child) node.append(typeof child === "string" ? document.createTextNode(child) : child);
+  return node;
+}
+
+/** Replaces all children of a node with text. */
+export function setText(node: Node, text: string): void {
+  node.textContent = text;
+}

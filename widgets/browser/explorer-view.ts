@@ -1,0 +1,273 @@
+import { QuietframeError, QuietframeErrors } from "../../src/errors";
+import { tableToCsv } from "../../src/engine/tabulate";
+import type { CurveRow } from "../chart/budget-spec";
+import { computeExplorer, type ExplorerComputation } from "../explorer/model";
+import { FINGERPRINT_ATTRIBUTE, STATE_SCRIPT_CLASS, STATUS_ATTRIBUTE } from "../html/names";
+import { headlineSummary } from "../html/summary";
+import { methodsText } from "../methods/methods";
+import { loadExplorerState, stateDocumentText } from "../state/document";
+import type { ExplorerState } from "../state/format";
+import { copyText, downloadText, downloadUrl, fileStem } from "./actions";
+import { ChartView } from "./chart-view";
+import { ControlsView } from "./controls-view";
+import { el } from "./dom";
+
+export type WidgetStatus = "booting" | "ready" | "error";
+
+let widgetCount = 0;
+
+/**
+ * One live explorer. It owns no physics: every change goes through computeExplorer, the
+ * same code the kernel and the CLI run. The state it keeps (and saves) is always the last
+ * one that computed; values the model refuses are shown as an error next to that state.
+ */
+export class ExplorerWidget {
+  readonly element: HTMLElement;
+  /** Resolves when the first chart is drawn (or the widget has shown why it cannot be). */
+  readonly ready: Promise<void>;
+  private initial: ExplorerState | undefined;
+  private state: ExplorerState | undefined;
+  private computation: ExplorerComputation | undefined;
+  /** Values as the controls show them; may differ from `state.values` while refused. */
+  private shown: Record<string, string | number> = {};
+  private readonly chart = new ChartView();
+  private controls: ControlsView | undefined;
+  private readonly alert = el("div", { class: "qf-alert", role: "alert", hidden: "" });
+  private readonly notice = el("div", { class: "qf-notice", role: "status", hidden: "" });
+  private readonly readout = el("dl", { class: "qf-readout", "aria-live": "polite" });
+  private readonly notes = el("ul", { class: "qf-notes" });
+  private readonly copyHost = el("div", { hidden: "" });
+  private scheduled = false;
+  private running = false;
+  private dirty = false;
+  private disposed = false;
+
+  constructor(element: HTMLElement) {
+    this.element = element;
+    this.ready = this.start();
+  }
+
+  get status(): WidgetStatus {
+    return (this.element.getAttribute(STATUS_ATTRIBUTE) as WidgetStatus | null) ?? "booting";
+  }
+
+  /** The fingerprint of the curves on screen. */
+  get fingerprint(): string | undefined {
+    return this.computation?.fingerprint;
+  }
+
+  /** The current (last valid) state, as "Download state" saves it. */
+  currentState(): ExplorerState | undefined {
+    return this.state && structuredClone(this.state);
+  }
+
+  /** The rows the chart is plotting now (frequency, value, curve, kind). */
+  plottedRows(): CurveRow[] {
+    return this.chart.rows();
+  }
+
+  /** Sets a control's value as a set-up writes it, as if the reader had changed it. */
+  setValue(target: string, value: string | number): void {
+    this.shown = { ...this.shown, [target]: value };
+    this.controls?.show({ [target]: value });
+    this.requestUpdate();
+  }
+
+  dispose(): void {
+    this.disposed = true;
+    this.chart.finalize();
+  }
+
+  private async start(): Promise<void> {
+    this.element.setAttribute(STATUS_ATTRIBUTE, "booting");
+    const script = this.element.querySelector<HTMLScriptElement>(`script.${STATE_SCRIPT_CLASS}`);
+    // Until the live view stands, the static figure stays, with the problem shown above it.
+    this.element.prepend(this.alert);
+    let loaded;
+    try {
+      if (!script) throw new Error("this widget carries no state");
+      loaded = loadExplorerState(script.textContent ?? "", "state");
+    } catch (e) {
+      this.fail(e);
+      return;
+    }
+    const { state, computation, fingerprintMatches } = loaded;
+    this.initial = state;
+    this.state = state;
+    this.computation = computation;
+    this.shown = { ...state.values };
+    const id = `quietframe-w${++widgetCount}`;
+    this.controls = new ControlsView(computation.controls, state.values, id, (target, value) => this.setValue(target, value));
+    const live = el("div", { class: "qf-live" }, [this.controls.element, this.alert, this.notice, this.chart.element, this.readout, this.notes, this.actions(), this.copyHost]);
+    try {
+      await this.chart.show(this.chartInput(state, computation));
+    } catch (e) {
+      this.fail(e);
+      return;
+    }
+    if (!fingerprintMatches) {
+      this.notice.textContent =
+        `These curves differ from the ones stored with this state (computed by quietframe ${state.quietframe}); ` +
+        `the stored fingerprint is ${state.fingerprint}, this quietframe computes ${computation.fingerprint}.`;
+      this.notice.hidden = false;
+    }
+    this.element.querySelector<HTMLElement>(".qf-fallback")?.setAttribute("hidden", "");
+    this.element.append(live);
+    this.showFigures(computation);
+    this.element.setAttribute(FINGERPRINT_ATTRIBUTE, computation.fingerprint);
+    this.element.setAttribute(STATUS_ATTRIBUTE, "ready");
+  }
+
+  private chartInput(state: ExplorerState, computation: ExplorerComputation) {
+    return {
+      table: computation.table,
+      quantity: computation.evaluation.budget.quantity.name,
+      title: state.settings.title ?? computation.setup.name,
+    };
+  }
+
+  /** Coalesces bursts of input (a dragged slider) into one computation per frame. */
+  private requestUpdate(): void {
+    if (this.scheduled || this.disposed) return;
+    this.scheduled = true;
+    const run = (): void => {
+      this.scheduled = false;
+      void this.update();
+    };
+    if (typeof requestAnimationFrame === "function" && document.visibilityState === "visible") requestAnimationFrame(run);
+    else setTimeout(run, 0);
+  }
+
+  private async update(): Promise<void> {
+    if (!this.state || this.disposed) return;
+    if (this.running) {
+      this.dirty = true;
+      return;
+    }
+    const values = { ...this.shown };
+    const base = this.state;
+    let computation: ExplorerComputation;
+    try {
+      computation = computeExplorer({ ...base, values });
+    } catch (e) {
+      this.refuse(e);
+      return;
+    }
+    this.running = true;
+    let drawError: { error: unknown } | undefined;
+    try {
+      await this.chart.show(this.chartInput(base, computation));
+    } catch (error) {
+      drawError = { error };
+    }
+    this.running = false;
+    if (drawError) return this.refuse(drawError.error);
+    this.state = { ...base, values, fingerprint: computation.fingerprint };
+    this.computation = computation;
+    this.showFigures(computation);
+    this.alert.hidden = true;
+    this.alert.textContent = "";
+    this.controls?.markInvalid([]);
+    this.element.setAttribute(FINGERPRINT_ATTRIBUTE, computation.fingerprint);
+    this.element.setAttribute(STATUS_ATTRIBUTE, "ready");
+    if (this.dirty) {
+      this.dirty = false;
+      this.requestUpdate();
+    }
+  }
+
+  /** A value the model refuses: say why, keep the last valid state and chart. */
+  private refuse(e: unknown): void {
+    this.alert.textContent = `Not applied: ${messageOf(e)}\nThe chart and saved state keep the last valid values.`;
+    this.alert.hidden = false;
+    const state = this.state;
+    const changed = state ? Object.keys(this.shown).filter((t) => this.shown[t] !== state.values[t]) : [];
+    this.controls?.markInvalid(changed);
+    this.element.setAttribute(STATUS_ATTRIBUTE, "error");
+    if (this.dirty) {
+      this.dirty = false;
+      this.requestUpdate();
+    }
+  }
+
+  /** The widget cannot start: the static figure stays, with the reason above it. */
+  private fail(e: unknown): void {
+    this.alert.textContent = `The interactive view cannot start: ${messageOf(e)}`;
+    this.alert.hidden = false;
+    this.element.setAttribute(STATUS_ATTRIBUTE, "error");
+  }
+
+  private showFigures(computation: ExplorerComputation): void {
+    this.readout.replaceChildren(...headlineSummary(computation.headline).flatMap((line) => [el("dt", {}, [line.label]), el("dd", {}, [line.text])]));
+    const notes = [...computation.evaluation.warnings.map((w) => `warning: ${w}`), ...computation.evaluation.cautions.map((c) => `caution: ${c}`)];
+    this.notes.replaceChildren(...notes.map((n) => el("li", {}, [n])));
+    this.notes.hidden = notes.length === 0;
+  }
+
+  private actions(): HTMLElement {
+    const button = (label: string, title: string, action: () => unknown): HTMLButtonElement => {
+      const b = el("button", { type: "button", title }, [label]);
+      b.addEventListener("click", () => {
+        Promise.resolve()
+          .then(action)
+          .catch((e: unknown) => {
+            this.alert.textContent = `${label} failed: ${messageOf(e)}`;
+            this.alert.hidden = false;
+          });
+      });
+      return b;
+    };
+    const stem = (): string => fileStem(this.state?.settings.title ?? this.computation?.setup.name ?? "");
+    return el("div", { class: "qf-actions" }, [
+      button("Copy state", "Copy the widget-state JSON (set-up, controls, values, fingerprint)", async () => {
+        const how = await copyText(stateDocumentText(this.requireState()), this.copyHost);
+        if (how === "copied") this.flash("State copied to the clipboard.");
+      }),
+      button("Download state", "Save the widget-state JSON; the CLI and the standalone page read it", () =>
+        downloadText(stateDocumentText(this.requireState()), `${stem()}.json`, "application/json"),
+      ),
+      button("SVG", "Save the chart as SVG", async () => downloadText(await this.chart.svg(), `${stem()}.svg`, "image/svg+xml")),
+      button("PNG", "Save the chart as PNG", async () => downloadUrl(await this.chart.pngDataUrl(2), `${stem()}.png`)),
+      button("CSV", "Save the plotted numbers (shortest round-trip form)", () =>
+        downloadText(tableToCsv(this.requireComputation().table), `${stem()}.csv`, "text/csv"),
+      ),
+      button("Methods (Markdown)", "Save a methods paragraph for these values", () =>
+        downloadText(methodsText(this.requireState(), this.requireComputation(), "markdown"), `${stem()}-methods.md`, "text/markdown"),
+      ),
+      button("Methods (LaTeX)", "Save a methods paragraph for these values", () =>
+        downloadText(methodsText(this.requireState(), this.requireComputation(), "latex"), `${stem()}-methods.tex`, "application/x-tex"),
+      ),
+      button("Reset", "Back to the values this widget was created with", () => this.reset()),
+    ]);
+  }
+
+  private reset(): void {
+    if (!this.initial) return;
+    this.shown = { ...this.initial.values };
+    this.controls?.show(this.shown);
+    this.requestUpdate();
+  }
+
+  private flash(text: string): void {
+    this.notice.textContent = text;
+    this.notice.hidden = false;
+    setTimeout(() => {
+      if (this.notice.textContent === text) this.notice.hidden = true;
+    }, 2500);
+  }
+
+  private requireState(): ExplorerState {
+    if (!this.state) throw new Error("the widget has no valid state");
+    return this.state;
+  }
+
+  private requireComputation(): ExplorerComputation {
+    if (!this.computation) throw new Error("the widget has no valid state");
+    return this.computation;
+  }
+}
+
+function messageOf(e: unknown): string {
+  if (e instanceof QuietframeError || e instanceof QuietframeErrors) return e.message;
+  return `internal error: ${e instanceof Error ? e.message : String(e)}`;
+}

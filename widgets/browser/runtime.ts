@@ -1,0 +1,68 @@
+import { QUIETFRAME_VERSION } from "../../src/version";
+import { EXPLORER_CLASS, RUNTIME_READY_EVENT } from "../html/names";
+import { ExplorerWidget } from "./explorer-view";
+import { bootLoaders } from "./loader";
+import { injectStyles } from "./styles";
+
+/**
+ * The browser runtime: boots every explorer element on the page that has not booted yet.
+ * Notebooks call `boot()` again from each later output's bootstrap, so one copy of the
+ * runtime serves every widget on the page.
+ */
+export interface QuietframeRuntime {
+  readonly version: string;
+  /** Boots new explorer elements (and loader panels) under root; returns the widgets started. */
+  boot(root?: ParentNode): ExplorerWidget[];
+  /** Live widgets, in boot order; widgets whose element left the page are dropped. */
+  readonly widgets: readonly ExplorerWidget[];
+}
+
+const BOOTED = "data-quietframe-booted";
+
+function install(): QuietframeRuntime {
+  const live: ExplorerWidget[] = [];
+  const prune = (): void => {
+    for (let i = live.length - 1; i >= 0; i--) {
+      if (!live[i].element.isConnected) live.splice(i, 1)[0].dispose();
+    }
+  };
+  const release = (slot: Element): void => {
+    for (let i = live.length - 1; i >= 0; i--) {
+      if (slot.contains(live[i].element)) live.splice(i, 1)[0].dispose();
+    }
+  };
+  const boot = (root: ParentNode = document): ExplorerWidget[] => {
+    injectStyles(document);
+    prune();
+    const started: ExplorerWidget[] = [];
+    for (const element of root.querySelectorAll<HTMLElement>(`.${EXPLORER_CLASS}:not([${BOOTED}])`)) {
+      element.setAttribute(BOOTED, "");
+      const widget = new ExplorerWidget(element);
+      live.push(widget);
+      started.push(widget);
+    }
+    bootLoaders(root, boot, release);
+    return started;
+  };
+  return {
+    version: QUIETFRAME_VERSION,
+    boot,
+    get widgets() {
+      prune();
+      return [...live];
+    },
+  };
+}
+
+declare global {
+  interface Window {
+    quietframeRuntime?: QuietframeRuntime;
+  }
+}
+
+// A notebook may carry the runtime more than once (a re-run cell); the first copy stays in charge.
+const runtime = window.quietframeRuntime ?? install();
+window.quietframeRuntime = runtime;
+if (document.readyState === "loading") document.addEventListener("DOMContentLoaded", () => runtime.boot(), { once: true });
+else runtime.boot();
+window.dispatchEvent(new Event(RUNTIME_READY_EVENT));

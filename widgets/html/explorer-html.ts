@@ -1,0 +1,100 @@
+import { QUIETFRAME_VERSION } from "../../src/version";
+import type { ExplorerComputation } from "../explorer/model";
+import type { ExplorerState } from "../state/format";
+import { stateDocumentText } from "../state/document";
+import { base64, escapeHtml, jsonTextForScript } from "./escape";
+import { runtimeSource } from "./runtime-source";
+import { EXPLORER_CLASS, RUNTIME_READY_EVENT, STATE_SCRIPT_CLASS } from "./names";
+import { headlineSummary } from "./summary";
+
+export interface ExplorerHtmlOptions {
+  /**
+   * Carry the browser runtime (about 0.8 MB) in this fragment. A page or notebook needs it
+   * once: set it for the first widget only; later fragments boot with the same runtime.
+   */
+  includeRuntime: boolean;
+  /** Static SVG of the chart, shown until the runtime boots and kept for viewers without scripts. */
+  svg?: string;
+  /** Static PNG of the chart (bytes), shown where inline SVG is stripped (e.g. untrusted notebooks). */
+  png?: Uint8Array;
+}
+
+// Runs the runtime if it is already on the page, otherwise waits for it to arrive.
+const BOOTSTRAP =
+  `(function(){var w=window,r=w.quietframeRuntime;if(r&&r.boot){r.boot();}` +
+  `else{w.addEventListener("${RUNTIME_READY_EVENT}",function(){w.quietframeRuntime.boot();},{once:true});}})();`;
+
+// With both images present only the SVG shows; where a sanitizer strips the <svg>, the
+// sibling rule no longer matches and the PNG appears instead.
+const FALLBACK_STYLE =
+  `.${EXPLORER_CLASS} .qf-fallback svg+img.qf-fallback-png{display:none}` +
+  `.${EXPLORER_CLASS} .qf-fallback img,.${EXPLORER_CLASS} .qf-fallback svg{max-width:100%;height:auto}`;
+
+/**
+ * A self-contained HTML fragment for one explorer: static figure and summary, the state as
+ * JSON, and a bootstrap that turns it into the live widget when the runtime is present.
+ */
+export function explorerHtml(state: ExplorerState, computation: ExplorerComputation, options: ExplorerHtmlOptions): string {
+  const title = chartTitle(state);
+  const parts: string[] = [];
+  parts.push(`<div class="${EXPLORER_CLASS}" data-quietframe-version="${escapeHtml(QUIETFRAME_VERSION)}">`);
+  parts.push(`<style>${FALLBACK_STYLE}</style>`);
+  parts.push(`<div class="qf-fallback">`);
+  if (options.svg !== undefined) parts.push(checkedSvg(options.svg));
+  if (options.png !== undefined) {
+    parts.push(`<img class="qf-fallback-png" alt="${escapeHtml(`Noise budget: ${title}`)}" src="data:image/png;base64,${base64(options.png)}">`);
+  }
+  parts.push(summaryHtml(title, computation));
+  parts.push(`<p class="qf-fallback-note"><small>Static figure: the controls appear where scripts run (a trusted notebook or a browser page).</small></p>`);
+  parts.push(`</div>`);
+  parts.push(`<script type="application/json" class="${STATE_SCRIPT_CLASS}">${jsonTextForScript(stateDocumentText(state))}</script>`);
+  parts.push(`</div>`);
+  if (options.includeRuntime) parts.push(runtimeScriptTag());
+  parts.push(`<script>${BOOTSTRAP}</script>`);
+  return parts.join("\n");
+}
+
+/** The runtime as an inline script element. */
+export function runtimeScriptTag(): string {
+  return `<script>${runtimeSource()}</script>`;
+}
+
+/** The bootstrap alone, for pages that place the runtime themselves. */
+export function bootstrapScriptTag(): string {
+  return `<script>${BOOTSTRAP}</script>`;
+}
+
+export function chartTitle(state: ExplorerState): string {
+  return state.settings.title ?? state.setup.name ?? "";
+}
+
+function summaryHtml(title: string, computation: ExplorerComputation): string {
+  const items = headlineSummary(computation.headline)
+    .map((line) => `<dt>${escapeHtml(line.label)}</dt><dd>${escapeHtml(line.text)}</dd>`)
+    .join("");
+  const heading = title ? `<p class="qf-fallback-title"><strong>${escapeHtml(title)}</strong></p>` : "";
+  return `${heading}<dl class="qf-summary">${items}</dl>`;
+}
+
+/**
+ * The static SVG comes from our own renderer, whose text is escaped; this guards the
+ * invariant that it is a plain drawing (no scripts, event handlers or script links) before
+ * it is inlined into a page. Attribute values are skipped, so titles in aria-labels are fine.
+ */
+function checkedSvg(svg: string): string {
+  const text = svg.replace(/^\s*<\?xml[^>]*\?>\s*/, "").trim();
+  if (!/^<svg[\s>]/.test(text) || !/<\/svg>$/.test(text)) throw new Error("quietframe: the static figure is not an SVG element");
+  const tag = /<([A-Za-z][\w:.-]*)((?:\s+[^\s=/>]+(?:\s*=\s*(?:"[^"]*"|'[^']*'|[^\s"'>]+))?)*)\s*\/?>/g;
+  const attribute = /([^\s=/>]+)(?:\s*=\s*("[^"]*"|'[^']*'|[^\s"'>]+))?/g;
+  const tags = [...text.matchAll(tag)];
+  // Every "<letter" must be a tag this scan understood, or something could hide from it.
+  if (tags.length !== (text.match(/<[A-Za-z]/g) ?? []).length) throw new Error("quietframe: the static figure has markup that cannot be checked");
+  for (const [, name, attrs] of tags) {
+    if (/^(script|foreignobject|iframe|object|embed|use|image)$/i.test(name)) throw new Error(`quietframe: the static figure contains a <${name}> element`);
+    for (const [, attr, value = ""] of attrs.matchAll(attribute)) {
+      const unquoted = value.replace(/^["']|["']$/g, "").trim();
+      if (/^on/i.test(attr) || /^\s*(javascript|data):/i.test(unquoted)) throw new Error(`quietframe: the static figure has an active attribute ${attr}`);
+    }
+  }
+  return text;
+}

@@ -1,0 +1,124 @@
+import { inspect } from "node:util";
+import { QuietframeError } from "../../src/errors";
+import type { SetupDescription } from "../../src/setup/format";
+import { parseJsonText } from "../../src/setup/parse-json";
+import { computeExplorer, createExplorerState, type ExplorerComputation, type ExplorerOptions } from "../explorer/model";
+import { explorerHtml } from "../html/explorer-html";
+import { explorerFigures, type RenderPngOptions } from "../render/static";
+import { loadExplorerState, stateDocumentText } from "../state/document";
+import { EXPLORER_STATE_FORMAT, type ExplorerState } from "../state/format";
+import { displayBundle, type MimeBundle } from "./display";
+import { notebookFigures, summaryText, type NotebookFigures } from "./figures";
+import { markRuntimeShown, runtimeShown } from "./session";
+
+export interface ShowOptions {
+  /** Carry the browser runtime in this output (default: only if no widget carried it yet in this kernel). */
+  includeRuntime?: boolean;
+  /** PNG fallback resolution and fonts. */
+  png?: RenderPngOptions;
+}
+
+/**
+ * A noise-budget explorer held by a notebook cell: the state (set-up + controls + current
+ * values), what it computes, and `show()` to put the live widget in the notebook.
+ */
+export class NotebookExplorer {
+  #state: ExplorerState;
+  #computation: ExplorerComputation;
+  #fingerprintMatches: boolean;
+
+  constructor(state: ExplorerState, computation: ExplorerComputation, fingerprintMatches = true) {
+    this.#state = state;
+    this.#computation = computation;
+    this.#fingerprintMatches = fingerprintMatches;
+  }
+
+  /** A copy of the state, plain JSON: save it, share it, or pass it to explorer() again. */
+  get state(): ExplorerState {
+    return structuredClone(this.#state);
+  }
+
+  get computation(): ExplorerComputation {
+    return this.#computation;
+  }
+
+  /** Headline figures and the plotted table as plain arrays. */
+  get figures(): NotebookFigures {
+    return notebookFigures(this.#computation, this.#state);
+  }
+
+  /** False when the state came from a file whose recorded curves this version does not reproduce bit for bit. */
+  get fingerprintMatches(): boolean {
+    return this.#fingerprintMatches;
+  }
+
+  /** Moves controls to new values (written as in a set-up, e.g. "3 K") and recomputes. */
+  set(values: Record<string, string | number>): this {
+    const base = { ...this.#state, values: { ...this.#state.values, ...values } };
+    const computation = computeExplorer(base);
+    this.#state = { ...base, fingerprint: computation.fingerprint };
+    this.#computation = computation;
+    this.#fingerprintMatches = true;
+    return this;
+  }
+
+  /** The widget-state document (Jupyter widget state 2.0) as text: the shareable form of this widget. */
+  stateDocument(): string {
+    return stateDocumentText(this.#state);
+  }
+
+  /** The widget's mime bundle: live HTML, PNG fallback for untrusted viewers, text summary. */
+  async bundle(options: ShowOptions & { includeRuntime: boolean }): Promise<MimeBundle> {
+    const figures = await explorerFigures(this.#computation, this.#state, options.png);
+    return {
+      "text/html": explorerHtml(this.#state, this.#computation, { includeRuntime: options.includeRuntime, svg: figures.svg, png: figures.png }),
+      "image/png": figures.png,
+      "text/plain": summaryText(this.#computation, this.#state),
+    };
+  }
+
+  /**
+   * Displays the widget. Rendering the fallback image is asynchronous, so write
+   * `await w.show()`: otherwise the cell ends before the output exists.
+   */
+  async show(options: ShowOptions = {}): Promise<void> {
+    const includeRuntime = options.includeRuntime ?? !runtimeShown();
+    const result = displayBundle(await this.bundle({ ...options, includeRuntime }));
+    if (includeRuntime && result.via !== "none") markRuntimeShown();
+  }
+
+  toString(): string {
+    return summaryText(this.#computation, this.#state);
+  }
+
+  // tslab prints a cell's last value with console.log; show the summary, not the internals.
+  [inspect.custom](): string {
+    return this.toString();
+  }
+}
+
+/** A state object, a widget-state document, or either as JSON text. */
+export type ExplorerInput = SetupDescription | ExplorerState | Record<string, unknown> | string;
+
+/**
+ * An explorer for a set-up (with controls from `options`), or for a saved state: a bare
+ * explorer state or a widget-state document, as an object or as JSON text.
+ */
+export function explorer(input: ExplorerInput, options: ExplorerOptions = {}): NotebookExplorer {
+  const value: unknown = typeof input === "string" ? parseJsonText(input, "explorer input") : input;
+  if (isSavedState(value)) {
+    if (options.controls !== undefined || options.settings !== undefined) {
+      throw new QuietframeError({ path: "options", problem: "cannot change a saved state's controls or settings", allowed: "explorer(state) alone; then .set({...}) to move controls" });
+    }
+    const loaded = loadExplorerState(value);
+    return new NotebookExplorer(loaded.state, loaded.computation, loaded.fingerprintMatches);
+  }
+  const state = createExplorerState(value as SetupDescription, options);
+  return new NotebookExplorer(state, computeExplorer(state));
+}
+
+function isSavedState(v: unknown): boolean {
+  if (typeof v !== "object" || v === null) return false;
+  const o = v as Record<string, unknown>;
+  return o.format === EXPLORER_STATE_FORMAT || "version_major" in o;
+}
