@@ -5,10 +5,9 @@
  * it, so it must work without any network and must not contain text that ends a <script>.
  */
 "use strict";
-const { build, transform } = require("esbuild");
+const { build } = require("esbuild");
 const { readFileSync, statSync } = require("node:fs");
-const { readFile } = require("node:fs/promises");
-const { dirname, join, sep } = require("node:path");
+const { join } = require("node:path");
 const { gzipSync } = require("node:zlib");
 
 const root = join(__dirname, "..");
@@ -26,32 +25,6 @@ const versionOnlyManifest = {
   },
 };
 
-// The model must give the same bits in the browser as in Node, but engines round Math.exp,
-// Math.pow, Math.sin, … differently. Our own modules (src/, widgets/) are compiled here with
-// "**" turned into Math.pow calls, and those Math functions are routed to portable-math.ts.
-const PORTABLE_MATH = join(root, "widgets", "browser", "portable-math.ts");
-const OWN_SOURCES = [join(root, "src") + sep, join(root, "widgets") + sep];
-const MATH_CALL = /\bMath\.(expm1|exp|log10|log|sin|cos|tanh|pow|hypot)\b/g;
-const portableMath = {
-  name: "portable-math",
-  setup(b) {
-    b.onLoad({ filter: /\.ts$/ }, async (args) => {
-      if (args.path === PORTABLE_MATH || !OWN_SOURCES.some((dir) => args.path.startsWith(dir))) return undefined;
-      const { code } = await transform(await readFile(args.path, "utf8"), {
-        loader: "ts",
-        format: "esm",
-        target: "es2020",
-        sourcefile: args.path,
-        supported: { "exponent-operator": false },
-        tsconfigRaw: { compilerOptions: { useDefineForClassFields: true } },
-      });
-      const routed = code.replace(MATH_CALL, "__portableMath.$1");
-      const contents = routed === code ? code : `import { portableMath as __portableMath } from ${JSON.stringify(PORTABLE_MATH)};\n${routed}`;
-      return { contents, loader: "js", resolveDir: dirname(args.path) };
-    });
-  },
-};
-
 async function main() {
   await build({
     entryPoints: [join(root, "widgets", "browser", "runtime.ts")],
@@ -66,7 +39,7 @@ async function main() {
     legalComments: "none",
     // Only the Vega transforms a budget chart uses (about 120 kB less).
     alias: { vega: join(root, "widgets", "browser", "vega-slim.ts") },
-    plugins: [versionOnlyManifest, portableMath],
+    plugins: [versionOnlyManifest],
     tsconfig: join(root, "widgets", "browser", "tsconfig.json"),
     logLevel: "warning",
     define: { "process.env.NODE_ENV": '"production"' },

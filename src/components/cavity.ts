@@ -130,7 +130,7 @@ export const cavity: ComponentKind<CavityHandle> = {
 
 /** Intracavity photon number from the drive: n = κ_in P / (ħ ω_L (κ²/4 + Δ²)). */
 export function intracavityPhotons(power: number, wavelength: number, kappa: number, delta: number, kIn: number): number {
-  return (kIn * power) / (HBAR * opticalAngularFrequency(wavelength) * (kappa ** 2 / 4 + delta ** 2));
+  return (kIn * power) / (HBAR * opticalAngularFrequency(wavelength) * (kappa * kappa / 4 + delta * delta));
 }
 
 function quadratureCoupling(c: ResolvedComponent, body: MechanicalBody, kappa: number, delta: number, kIn: number): number {

@@ -1,6 +1,7 @@
 import { QuietframeError } from "../errors";
 import { unitPhasor } from "../network/linear-form";
 import { num, type ComponentKind } from "./types";
+import { exp, pow } from "../numeric/portable-math";
 
 /**
  * Light sources emit only fluctuations: in the linearized picture the carrier is a
@@ -46,8 +47,8 @@ export const coherent: ComponentKind<SourceHandle> = {
   ],
   ports: sourcePort,
   allocate: (b, c) => {
-    const a = 10 ** (num(c, "amplitudeExcess") / 10);
-    const p = 10 ** (num(c, "phaseExcess") / 10);
+    const a = pow(10, num(c, "amplitudeExcess") / 10);
+    const p = pow(10, num(c, "phaseExcess") / 10);
     return { column: b.addInputs(c.name, ["amplitude quadrature", "phase quadrature"], [a, 0, 0, p], "quantum-light") };
   },
   wire: ({ builder, handle }) => ({ out: builder.inputField(handle.column) }),
@@ -92,8 +93,8 @@ export const squeezed: ComponentKind<SourceHandle> = {
   allocate: (b, c) => {
     const r = c.given.has("r") ? num(c, "r") : squeezeFactorFromDb(num(c, "squeezing"));
     const [cs, sn] = unitPhasor(num(c, "angle"));
-    const vs = Math.exp(-2 * r);
-    const va = Math.exp(2 * r);
+    const vs = exp(-2 * r);
+    const va = exp(2 * r);
     // R(θ) diag(e^{-2r}, e^{2r}) R(θ)ᵀ; exact zeros off-diagonal at 0/90° keep the quadratures as separate budget terms.
     const off = (vs - va) * cs * sn;
     const n11 = vs * cs * cs + va * sn * sn;

@@ -46,7 +46,7 @@ export function wireBody(builder: NetworkBuilder, body: MechanicalBody): void {
   // dx/dt = p/m  →  dX/dt = s · p_s/(|m| x_s) · P
   builder.couple(x, p, (s * body.pScale) / (body.mass * body.xScale));
   // dp/dt = −m Ω_m² x  →  dP/dt = −s |m| Ω_m² x_s/p_s · X
-  if (body.omega > 0) builder.couple(p, x, (-s * body.mass * body.omega ** 2 * body.xScale) / body.pScale);
+  if (body.omega > 0) builder.couple(p, x, (-s * body.mass * body.omega * body.omega * body.xScale) / body.pScale);
 }
 
 /**
@@ -105,7 +105,7 @@ export function susceptibility(body: MechanicalBody, omega: number): [number, nu
   const gv = totalDamping(body) - gs;
   const m = body.massSign * body.mass;
   // (γ_s/2 − iΩ)(γ_s/2 + γ_v − iΩ) = γ_s/2 (γ_s/2 + γ_v) − Ω² − iΩ(γ_s + γ_v)
-  const dr = m * (body.omega ** 2 + (gs / 2) * (gs / 2 + gv) - omega ** 2);
+  const dr = m * (body.omega * body.omega + (gs / 2) * (gs / 2 + gv) - omega * omega);
   const di = -m * omega * (gs + gv);
   const d2 = dr * dr + di * di;
   return [dr / d2, -di / d2];

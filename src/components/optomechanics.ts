@@ -30,5 +30,5 @@ export function opticalAngularFrequency(wavelength: number): number {
  * S_F = 8 ħ ω P / c².
  */
 export function reflectionForcePsd(power: number, wavelength: number): number {
-  return (8 * HBAR * opticalAngularFrequency(wavelength) * power) / SPEED_OF_LIGHT ** 2;
+  return (8 * HBAR * opticalAngularFrequency(wavelength) * power) / (SPEED_OF_LIGHT * SPEED_OF_LIGHT);
 }

@@ -71,5 +71,6 @@ function backActionForcePsd(c: ResolvedComponent, body: MechanicalBody): number 
   }
   const rate = 2 * Math.PI * num(c, "measurementRate");
   // Γ = x_zpf² S̄_FF / ħ² with the double-sided S̄ = S/2.
-  return (2 * rate * HBAR ** 2) / zeroPointDisplacement(body) ** 2;
+  const xzpf = zeroPointDisplacement(body);
+  return (2 * rate * HBAR * HBAR) / (xzpf * xzpf);
 }

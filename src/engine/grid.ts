@@ -1,5 +1,6 @@
 import { QuietframeError } from "../errors";
 import { parseQuantity } from "../units";
+import { log10, pow } from "../numeric/portable-math";
 
 /** A log-spaced frequency grid, bounds in Hz. */
 export interface FrequencyGridSpec {
@@ -51,10 +52,10 @@ export function checkGrid(
 /** Log-spaced frequencies in Hz, first and last exactly at the bounds. */
 export function logGrid(spec: FrequencyGridSpec): Float64Array {
   const f = new Float64Array(spec.points);
-  // Powers of ten in log10 keep decade points exact (10 ** 1 === 10).
-  const a = Math.log10(spec.from);
-  const b = Math.log10(spec.to);
-  for (let i = 0; i < spec.points; i++) f[i] = 10 ** (a + ((b - a) * i) / (spec.points - 1));
+  // Powers of ten in log10 keep decade points exact (pow(10, 1) === 10).
+  const a = log10(spec.from);
+  const b = log10(spec.to);
+  for (let i = 0; i < spec.points; i++) f[i] = pow(10, a + ((b - a) * i) / (spec.points - 1));
   f[0] = spec.from;
   f[spec.points - 1] = spec.to;
   return f;

@@ -1,4 +1,5 @@
 import type { NoiseBudget } from "./budget";
+import { log10 } from "../numeric/portable-math";
 
 /** The figures a reader looks for first, computed from a budget on its grid. */
 export interface HeadlineFigures {
@@ -21,7 +22,7 @@ export function headlineFigures(budget: NoiseBudget): HeadlineFigures {
   if (sql) {
     let open: number | undefined;
     for (let i = 0; i < f.length; i++) {
-      const margin = 10 * Math.log10(sql[i] / budget.total[i]);
+      const margin = 10 * log10(sql[i] / budget.total[i]);
       if (margin > bestMarginDb) {
         bestMarginDb = margin;
         bestMarginAt = f[i];

@@ -1,6 +1,7 @@
 import { QuietframeError } from "../errors";
 import { eigenvectorFor, realEigenvalues } from "../linalg";
 import type { AssembledSetup } from "../network/assemble";
+import { hypot } from "../numeric/portable-math";
 
 /** One eigenmode of the dynamics matrix A. */
 export interface Eigenmode {
@@ -32,12 +33,12 @@ export function analyzeStability(assembled: AssembledSetup): StabilityReport {
   const n = model.nStates;
   const { re, im } = realEigenvalues(model.A, n);
   let scale = 0;
-  for (let i = 0; i < n; i++) scale = Math.max(scale, Math.hypot(re[i], im[i]));
+  for (let i = 0; i < n; i++) scale = Math.max(scale, hypot(re[i], im[i]));
   const growing: Eigenmode[] = [];
   const undamped: Eigenmode[] = [];
   for (let i = 0; i < n; i++) {
     if (im[i] < 0) continue; // report each complex pair once
-    const resolution = RELATIVE_RESOLUTION * Math.hypot(re[i], im[i]) + 1e-14 * scale;
+    const resolution = RELATIVE_RESOLUTION * hypot(re[i], im[i]) + 1e-14 * scale;
     if (re[i] > resolution) growing.push(describeMode(assembled, re[i], im[i]));
     else if (re[i] >= -resolution) undamped.push(describeMode(assembled, re[i], im[i]));
   }
@@ -59,7 +60,7 @@ function describeMode(assembled: AssembledSetup, rate: number, imag: number): Ei
   const weight: Record<string, number> = {};
   let total = 0;
   for (const mode of model.modes) {
-    const w = v.re[mode.x] ** 2 + v.im[mode.x] ** 2 + v.re[mode.p] ** 2 + v.im[mode.p] ** 2;
+    const w = v.re[mode.x] * v.re[mode.x] + v.im[mode.x] * v.im[mode.x] + v.re[mode.p] * v.re[mode.p] + v.im[mode.p] * v.im[mode.p];
     weight[mode.owner] = (weight[mode.owner] ?? 0) + w;
     total += w;
   }

@@ -8,6 +8,7 @@ import { complexLuFactor, complexLuSolve } from "./complex-lu";
 import { hessenbergEigenvalues } from "./francis-qr";
 import { reduceToHessenbergInPlace } from "./hessenberg";
 import { SingularMatrixError } from "./singular-error";
+import { hypot } from "../numeric/portable-math";
 
 export interface ComplexVector {
   re: Float64Array;
@@ -95,7 +96,7 @@ export function eigenvectorFor(a: Float64Array, n: number, lambdaRe: number, lam
   }
   // Shift offset relative to |λ| (not ‖A‖) so a small eigenvalue of a weakly coupled
   // small-scale block keeps its separation from its neighbours.
-  const magnitude = Math.hypot(lambdaRe, lambdaIm);
+  const magnitude = hypot(lambdaRe, lambdaIm);
   let nudge = magnitude > 0 ? 1e-10 * magnitude : normA > 0 ? 1e-14 * normA : 1;
 
   const mRe = new Float64Array(n * n);
@@ -160,7 +161,7 @@ function fixPhase(re: Float64Array, im: Float64Array): void {
   let k = 0;
   let best = -1;
   for (let i = 0; i < re.length; i++) {
-    const m = Math.hypot(re[i], im[i]);
+    const m = hypot(re[i], im[i]);
     if (m > best) {
       best = m;
       k = i;

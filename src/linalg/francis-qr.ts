@@ -1,3 +1,4 @@
+import { hypot } from "../numeric/portable-math";
 /**
  * Eigenvalues of an upper Hessenberg matrix by the implicit Francis double-shift QR
  * iteration with deflation (Golub & Van Loan, Matrix Computations, 4th ed., §7.5,
@@ -11,7 +12,7 @@ const house = new Float64Array(4);
 
 /** Reflector mapping (x, y, z) to (beta, 0, 0); tau = 0 means "identity". */
 function makeHouse3(x: number, y: number, z: number): void {
-  const tail = Math.hypot(y, z);
+  const tail = hypot(y, z);
   if (tail === 0) {
     house[0] = x;
     house[1] = 0;
@@ -19,7 +20,7 @@ function makeHouse3(x: number, y: number, z: number): void {
     house[3] = 0;
     return;
   }
-  const norm = Math.hypot(x, tail);
+  const norm = hypot(x, tail);
   const beta = x >= 0 ? -norm : norm;
   const d = x - beta;
   house[0] = beta;

@@ -1,3 +1,4 @@
+import { cos, sin } from "../numeric/portable-math";
 /**
  * A linear form over the network's unknowns: system states z, white inputs w and the
  * signal s. Every optical field quadrature, detector output and coupling term is one of
@@ -51,5 +52,5 @@ export function unitPhasor(theta: number): [number, number] {
     const r = ((k % 4) + 4) % 4;
     return ([[1, 0], [0, 1], [-1, 0], [0, -1]] as const)[r].slice() as [number, number];
   }
-  return [Math.cos(theta), Math.sin(theta)];
+  return [cos(theta), sin(theta)];
 }

@@ -1,4 +1,5 @@
 import { BOLTZMANN, HBAR } from "../constants";
+import { expm1, hypot, tanh } from "../numeric/portable-math";
 
 /**
  * Closed-form reference curves (one-sided PSDs, SI units). Each is the textbook formula,
@@ -31,7 +32,7 @@ export function oscillatorSusceptibility(mass: number, omegaM: number, gamma: nu
 
 /** Added-noise SQL of a displacement measurement, 2ħ|χ(Ω)|  [m²/Hz]. */
 export function displacementSql(chi: [number, number]): number {
-  return 2 * HBAR * Math.hypot(chi[0], chi[1]);
+  return 2 * HBAR * hypot(chi[0], chi[1]);
 }
 
 /** Zero-point displacement spectrum 2ħ|Im χ(Ω)|  [m²/Hz]. */
@@ -51,12 +52,12 @@ export function thermalForcePsd(mass: number, gamma: number, temperature: number
   if (temperature === 0) return zeroPoint;
   const u = (HBAR * w) / (2 * BOLTZMANN * temperature);
   // coth u for small u from its series, so the classical limit keeps full precision.
-  const coth = u < 1e-4 ? 1 / u + u / 3 : 1 / Math.tanh(u);
+  const coth = u < 1e-4 ? 1 / u + u / 3 : 1 / tanh(u);
   return zeroPoint * coth;
 }
 
 /** Mean thermal occupation n̄ = 1/(e^{ħΩ/k_BT} − 1). */
 export function thermalOccupation(omega: number, temperature: number): number {
   if (temperature === 0) return 0;
-  return 1 / Math.expm1((HBAR * Math.abs(omega)) / (BOLTZMANN * temperature));
+  return 1 / expm1((HBAR * Math.abs(omega)) / (BOLTZMANN * temperature));
 }

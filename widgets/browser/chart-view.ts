@@ -3,6 +3,7 @@ import { compile } from "vega-lite";
 import type { BudgetTable } from "../../src/engine/tabulate";
 import { budgetSpec, curveRows, CURVES_DATASET, type CurveRow } from "../chart/budget-spec";
 import { el } from "./dom";
+import { log } from "../../src/numeric/portable-math";
 
 /** What the chart needs from a computation. */
 export interface ChartInput {
@@ -149,7 +150,7 @@ function nearestIndex(sorted: Float64Array, x: number): number {
     else hi = mid;
   }
   // Nearest on the log axis the chart uses.
-  return Math.abs(Math.log(x / sorted[lo])) <= Math.abs(Math.log(sorted[hi] / x)) ? lo : hi;
+  return Math.abs(log(x / sorted[lo])) <= Math.abs(log(sorted[hi] / x)) ? lo : hi;
 }
 
 function formatNumber(x: number, digits = 4): string {

@@ -4,6 +4,7 @@ import type { ParamSpec } from "../../src/components/types";
 import type { SetupDescription } from "../../src/setup/format";
 import { formatQuantity, parseQuantity, type QuantityKind } from "../../src/units";
 import type { ControlSpec, ControlType, SliderScale } from "../state/format";
+import { log, pow } from "../../src/numeric/portable-math";
 
 export const DEFAULT_SLIDER_STEPS = 200;
 const MAX_SLIDER_STEPS = 100_000;
@@ -108,12 +109,12 @@ export function sliderValue(c: ResolvedControl, k: number): number {
   const t = Math.min(Math.max(k, 0), c.steps) / c.steps;
   if (k <= 0) return c.min!;
   if (k >= c.steps) return c.max!;
-  return c.scale === "log" ? c.min! * (c.max! / c.min!) ** t : c.min! + (c.max! - c.min!) * t;
+  return c.scale === "log" ? c.min! * pow(c.max! / c.min!, t) : c.min! + (c.max! - c.min!) * t;
 }
 
 /** Nearest slider position of an SI value. */
 export function sliderPosition(c: ResolvedControl, value: number): number {
-  const t = c.scale === "log" ? Math.log(value / c.min!) / Math.log(c.max! / c.min!) : (value - c.min!) / (c.max! - c.min!);
+  const t = c.scale === "log" ? log(value / c.min!) / log(c.max! / c.min!) : (value - c.min!) / (c.max! - c.min!);
   return Math.min(c.steps, Math.max(0, Math.round(t * c.steps)));
 }
 

@@ -20,7 +20,7 @@ export function sha256Hex(data: Uint8Array): string {
   padded[data.length] = 0x80;
   const view = new DataView(padded.buffer);
   // Message length in bits as a 64-bit big-endian integer.
-  view.setUint32(padded.length - 8, Math.floor(bitLength / 2 ** 32));
+  view.setUint32(padded.length - 8, Math.floor(bitLength / 0x100000000));
   view.setUint32(padded.length - 4, bitLength >>> 0);
   const w = new Uint32Array(64);
   for (let block = 0; block < padded.length; block += 64) {

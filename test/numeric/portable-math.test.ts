@@ -1,9 +1,10 @@
 import { describe, expect, it } from "vitest";
-import { cos, exp, expm1, hypot, log, log10, pow, sin, tanh } from "../../widgets/browser/portable-math";
+import { cos, exp, expm1, hypot, log, log10, pow, sin, tanh } from "../../src/numeric/portable-math";
 
 /**
- * The browser bundle computes the model with these functions; the kernel and the CLI use
- * Node's Math. The curve fingerprint is only shared if they agree bit for bit.
+ * The model computes with these functions everywhere (kernel, CLI, browser). Node 20's Math
+ * is the reference here: agreeing with it bit for bit shows the functions are as accurate as
+ * the platform's, while, unlike Math, they give the same bits in every engine.
  */
 
 // Fixed-seed generator: every run checks the same arguments.

@@ -2,13 +2,12 @@
  * Elementary functions written out in plain double arithmetic, so that they give the same
  * bits in every JavaScript engine.
  *
- * Why: the fingerprint promises bit-for-bit equal curves in the kernel (Node) and in the
- * browser, but engines do not agree on Math.exp, Math.pow, Math.sin, … (current Chromium
- * rounds them differently from the engine in Node 20 in a few per cent of cases). The browser
- * bundle routes the model's calls through these functions (scripts/build-runtime.js); they
- * reproduce Node 20's results exactly (test/browser/portable-math.test.ts checks millions of
- * arguments). Only +, −, ×, ÷, sqrt and bit operations are used: all are exact or correctly
- * rounded by the language, hence identical everywhere.
+ * Why: a state's fingerprint promises bit-for-bit equal curves in the kernel (Node) and in
+ * the browser, but engines do not agree on Math.exp, Math.pow, Math.sin, … (Chromium and
+ * Node 20 round differently in a few per cent of arguments). The model therefore never calls
+ * those: it calls these (a test forbids the platform versions in src/ and widgets/). They
+ * are written to agree with Node 20's Math bit for bit (test/numeric/portable-math.test.ts),
+ * and use only +, −, ×, ÷, sqrt and bit operations, which the language defines exactly.
  */
 
 // Word access to doubles. Typed arrays use the platform's byte order; find which word is high.
@@ -688,5 +687,3 @@ export function hypot(...values: number[]): number {
   return Math.sqrt(sum) * max;
 }
 
-/** The functions the bundle substitutes for Math's, by name. */
-export const portableMath = { exp, expm1, log, log10, sin, cos, tanh, pow, hypot } as const;
