@@ -4,7 +4,12 @@ import type { ExplorerState } from "../state/format";
 import { stateDocumentText } from "../state/document";
 import { base64, escapeHtml, jsonTextForScript } from "./escape";
 import { runtimeSource } from "./runtime-source";
-import { EXPLORER_CLASS, RUNTIME_READY_EVENT, STATE_SCRIPT_CLASS } from "./names";
+import { EXPLORER_CLASS, RUNTIME_READY_EVENT, STATE_SCRIPT_CLASS, STATUS_ATTRIBUTE } from "./names";
+
+/** Shown in a widget whose page never received the runtime (the first widget's output was cleared). */
+export const RUNTIME_MISSING_TEXT =
+  "The interactive controls need the quietframe runtime, which the first widget of a notebook carries. Re-run that cell, or show this widget with show({ includeRuntime: true }).";
+const RUNTIME_MISSING_DELAY_MS = 4000;
 import { headlineSummary } from "./summary";
 
 export interface ExplorerHtmlOptions {
@@ -19,10 +24,16 @@ export interface ExplorerHtmlOptions {
   png?: Uint8Array;
 }
 
-// Runs the runtime if it is already on the page, otherwise waits for it to arrive.
+// Runs the runtime if it is already on the page, otherwise waits for it to arrive. Only the
+// first widget of a notebook carries the runtime; if that output was cleared, say so in the
+// fallback after a few seconds instead of leaving the reader to wonder.
 const BOOTSTRAP =
-  `(function(){var w=window,r=w.quietframeRuntime;if(r&&r.boot){r.boot();}` +
-  `else{w.addEventListener("${RUNTIME_READY_EVENT}",function(){w.quietframeRuntime.boot();},{once:true});}})();`;
+  `(function(){var w=window,d=document,r=w.quietframeRuntime;if(r&&r.boot){r.boot();return;}` +
+  `w.addEventListener("${RUNTIME_READY_EVENT}",function(){w.quietframeRuntime.boot();},{once:true});` +
+  `setTimeout(function(){if(w.quietframeRuntime)return;` +
+  `d.querySelectorAll(".${EXPLORER_CLASS}:not([${STATUS_ATTRIBUTE}]) .qf-fallback").forEach(function(f){` +
+  `if(f.querySelector(".qf-runtime-missing"))return;var p=d.createElement("p");p.className="qf-runtime-missing";` +
+  `p.textContent=${JSON.stringify(RUNTIME_MISSING_TEXT)};f.appendChild(p);});},${RUNTIME_MISSING_DELAY_MS});})();`;
 
 // With both images present only the SVG shows; where a sanitizer strips the <svg>, the
 // sibling rule no longer matches and the PNG appears instead.

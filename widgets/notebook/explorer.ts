@@ -14,9 +14,15 @@ import { markRuntimeShown, runtimeShown } from "./session";
 export interface ShowOptions {
   /** Carry the browser runtime in this output (default: only if no widget carried it yet in this kernel). */
   includeRuntime?: boolean;
-  /** PNG fallback resolution and fonts. */
+  /** PNG fallback resolution (default scale 1: one image pixel per chart pixel) and fonts. */
   png?: RenderPngOptions;
 }
+
+/**
+ * Fallbacks cost bytes in every saved notebook: the HTML carries the vector figure, and the
+ * PNG (what an untrusted notebook shows) goes once, as the bundle's image/png, at scale 1.
+ */
+const NOTEBOOK_PNG_SCALE = 1;
 
 /**
  * A noise-budget explorer held by a notebook cell: the state (set-up + controls + current
@@ -67,11 +73,11 @@ export class NotebookExplorer {
     return stateDocumentText(this.#state);
   }
 
-  /** The widget's mime bundle: live HTML, PNG fallback for untrusted viewers, text summary. */
+  /** The widget's mime bundle: live HTML (SVG fallback inside), PNG fallback for untrusted viewers, text summary. */
   async bundle(options: ShowOptions & { includeRuntime: boolean }): Promise<MimeBundle> {
-    const figures = await explorerFigures(this.#computation, this.#state, options.png);
+    const figures = await explorerFigures(this.#computation, this.#state, { scale: NOTEBOOK_PNG_SCALE, ...options.png });
     return {
-      "text/html": explorerHtml(this.#state, this.#computation, { includeRuntime: options.includeRuntime, svg: figures.svg, png: figures.png }),
+      "text/html": explorerHtml(this.#state, this.#computation, { includeRuntime: options.includeRuntime, svg: figures.svg }),
       "image/png": figures.png,
       "text/plain": summaryText(this.#computation, this.#state),
     };
