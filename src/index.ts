@@ -13,6 +13,7 @@ export { noiseBudget, type NoiseBudget, type BudgetTerm, type ReferenceSpectrum 
 export { outputSpectra, signalResponse, inputTransfer, type ComplexSeries } from "./engine/spectra";
 export { analyzeStability, type StabilityReport, type Eigenmode } from "./engine/stability";
 export { stationaryCovariance, uncertaintyMargin, diffusionMatrix } from "./engine/covariance";
+export * from "./engine/entanglement";
 export { logGrid, parseGrid, type FrequencyGridSpec } from "./engine/grid";
 export { headlineFigures, describeHeadline, type HeadlineFigures } from "./engine/headline";
 export { tabulateBudget, tableToCsv, type BudgetTable } from "./engine/tabulate";
@@ -21,3 +22,4 @@ export * as constants from "./constants";
 export { parseQuantity, formatQuantity, type QuantityKind } from "./units";
 export { COMPONENT_KINDS } from "./components/registry";
 export type { ComponentKind } from "./components/types";
+export * from "./reach";

@@ -3,7 +3,7 @@ import { readFileSync, renameSync, rmSync, writeFileSync } from "node:fs";
 import { basename, extname } from "node:path";
 import { parseArgs } from "node:util";
 import { describeHeadline } from "../engine/headline";
-import { tableToCsv } from "../engine/tabulate";
+import { spectralDensityUnit, tableToCsv } from "../engine/tabulate";
 import { QuietframeError } from "../errors";
 import { loadSetup } from "../pipeline";
 import type { ControlSpec, ExplorerState } from "../../widgets/state/format";
@@ -92,7 +92,7 @@ export async function reportCommand(args: string[], io: CliIo): Promise<number> 
   io.out(
     `${setup.name || input}\n` +
       `${grid.length} frequencies from ${grid[0]} Hz to ${grid[grid.length - 1]} Hz; noise referred to ${computation.evaluation.budget.quantity.name}\n` +
-      describeHeadline(computation.headline, `${computation.evaluation.budget.quantity.unit}²/Hz`) +
+      describeHeadline(computation.headline, spectralDensityUnit(computation.evaluation.budget.quantity.unit, "power")) +
       `\nwrote ${output} (interactive report, ${bytes.length} bytes; controls: ${state.controls.map((c) => c.target).join(", ") || "none"})\n`,
   );
   return 0;

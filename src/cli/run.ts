@@ -3,7 +3,7 @@ import { parseArgs } from "node:util";
 import { QuietframeError, QuietframeErrors } from "../errors";
 import { checkGrid, type FrequencyGridSpec } from "../engine/grid";
 import { describeHeadline, headlineFigures } from "../engine/headline";
-import { jsonNumbers, tableToCsv, tabulateBudget } from "../engine/tabulate";
+import { jsonNumbers, spectralDensityUnit, tableToCsv, tabulateBudget } from "../engine/tabulate";
 import { COMPONENT_KINDS } from "../components/registry";
 import { evaluateSetup, FALLBACK_GRID, loadSetup } from "../pipeline";
 import { parseQuantity } from "../units";
@@ -181,7 +181,7 @@ function summaryCommand(args: string[], io: CliIo): number {
   io.out(
     `${setup.name || positionals[0]}\n` +
       `${grid.length} frequencies from ${grid[0]} Hz to ${grid[grid.length - 1]} Hz; ${setup.signal.kind} on '${setup.signal.on}' referred to ${q.name}\n` +
-      describeHeadline(headlineFigures(result.budget), `${q.unit}²/Hz`) +
+      describeHeadline(headlineFigures(result.budget), spectralDensityUnit(q.unit, "power")) +
       "\n" +
       result.warnings.map((w) => `warning: ${w}\n`).join("") +
       result.cautions.map((c) => `caution: ${c}\n`).join(""),

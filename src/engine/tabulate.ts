@@ -9,9 +9,14 @@ export interface BudgetTable {
   readonly frequencies: Float64Array;
 }
 
+/** Unit of a spectral density of a quantity whose amplitude unit is `u` ("1" for strain). */
+export function spectralDensityUnit(u: string, spectralDensity: "amplitude" | "power"): string {
+  if (u === "1") return spectralDensity === "amplitude" ? "1/√Hz" : "1/Hz";
+  return spectralDensity === "amplitude" ? `${u}/√Hz` : `${u}²/Hz`;
+}
+
 export function tabulateBudget(budget: NoiseBudget, spectralDensity: "amplitude" | "power" = "amplitude"): BudgetTable {
-  const u = budget.quantity.unit;
-  const unit = spectralDensity === "amplitude" ? `${u}/√Hz` : `${u}²/Hz`;
+  const unit = spectralDensityUnit(budget.quantity.unit, spectralDensity);
   const conv = (psd: Float64Array): Float64Array => (spectralDensity === "amplitude" ? psd.map(Math.sqrt) : psd.slice());
   return {
     spectralDensity,

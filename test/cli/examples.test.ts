@@ -9,7 +9,8 @@ import { freeMassDisplacementSql } from "../../src/reference/limits";
  * `quietframe eval` on every shipped example prints finite numbers, and the SQL column
  * matches the closed form of the example's body to better than 1e-9 relative:
  * 2ħ/(mΩ²) for a free mass (Kimble et al. 2001), 2ħ|χ| with χ = 1/(m(Ω_m² − Ω² − iγΩ))
- * for an oscillator (Clerk et al. 2010).
+ * for an oscillator (Clerk et al. 2010), h_SQL² = 8ħ/(mΩ²L²) for the strain of an
+ * interferometer with four test masses m and arms L (Kimble et al. 2001).
  */
 const EXAMPLES = join(__dirname, "..", "..", "examples");
 
@@ -24,7 +25,22 @@ const sqlClosedForm: Record<string, (f: number) => number> = {
   "free-test-mass.json": (f) => freeMassDisplacementSql(0.1, 2 * Math.PI * f),
   "cryogenic-membrane.json": (f) => membraneSql(f),
   "cryogenic-membrane-squeezed.json": (f) => membraneSql(f),
+  "hybrid-spin-reference.json": (f) => hybridMembraneSql(f),
+  "long-baseline-detector.json": (f) => (8 * HBAR) / (40 * (2 * Math.PI * f) ** 2 * 4000 ** 2),
 };
+
+/**
+ * The membrane of hybrid-spin-reference.json (4 ng, 1.1 MHz, Q = 2e7) has symmetric (amplitude)
+ * damping, χ = 1/(m(Ω_m² + γ²/4 − Ω² − iγΩ)) (the form of a Lindblad-damped mode, derived in
+ * src/components/mechanics.ts), so 2ħ|χ| = 2ħ/(m √((Ω_m² + γ²/4 − Ω²)² + γ²Ω²)).
+ */
+function hybridMembraneSql(f: number): number {
+  const m = 4e-12;
+  const wm = 2 * Math.PI * 1.1e6;
+  const w = 2 * Math.PI * f;
+  const gamma = wm / 2e7;
+  return (2 * HBAR) / (m * Math.hypot(wm ** 2 + gamma ** 2 / 4 - w ** 2, gamma * w));
+}
 
 function membraneSql(f: number): number {
   const m = 5e-12;

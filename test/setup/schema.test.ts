@@ -255,6 +255,10 @@ function sampleValues(p: ParamSpec): (string | number)[] {
       return q.max !== undefined && q.max <= 0 ? ["-10 dB", "-3 dB"] : ["3 dB", "0 dB"];
     case "count":
       return [1e8, "1e12"];
+    case "magneticField":
+      return ["50 uT", "0.5 G"];
+    case "gyromagneticRatio":
+      return ["3.5 GHz/T", "700 kHz/G"];
     case "number":
       return [1.2, "1.2"];
     default:

@@ -5,12 +5,12 @@ import { stateDocumentText } from "../state/document";
 import { base64, escapeHtml, jsonTextForScript } from "./escape";
 import { runtimeSource } from "./runtime-source";
 import { EXPLORER_CLASS, RUNTIME_READY_EVENT, STATE_SCRIPT_CLASS, STATUS_ATTRIBUTE } from "./names";
+import { headlineSummary } from "./summary";
 
 /** Shown in a widget whose page never received the runtime (the first widget's output was cleared). */
 export const RUNTIME_MISSING_TEXT =
   "The interactive controls need the quietframe runtime, which the first widget of a notebook carries. Re-run that cell, or show this widget with show({ includeRuntime: true }).";
 const RUNTIME_MISSING_DELAY_MS = 4000;
-import { headlineSummary } from "./summary";
 
 export interface ExplorerHtmlOptions {
   /**

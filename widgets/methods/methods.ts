@@ -113,7 +113,15 @@ function formulaSentences(w: Writer, setup: SetupDescription, computation: Explo
   if (budget.quantity.name === "displacement") {
     out.push(`Force noise is expressed as displacement through the bare susceptibility, ${w.math("S_x = |χ|² S_F", "S_x = |\\chi|^2 S_F")}.`);
   }
-  if (refs.has("sql")) {
+  if (refs.has("sql") && targetType === "interferometer") {
+    const strain = budget.quantity.name === "strain";
+    const sql = strain
+      ? w.math("h_SQL² = 8ħ/(mΩ²L²)", "h_{\\mathrm{SQL}}^2 = 8\\hbar/(m\\Omega^2L^2)")
+      : w.math("S_ΔL^SQL = 8ħ/(mΩ²)", "S_{\\Delta L}^{\\mathrm{SQL}} = 8\\hbar/(m\\Omega^2)");
+    out.push(
+      `The interferometer follows the two-photon input–output relations of a tuned Michelson with arm cavities; the standard quantum limit shown is ${sql}${cite("kimble2001")}.`,
+    );
+  } else if (refs.has("sql")) {
     const sql =
       targetType === "free-mass"
         ? force

@@ -67,12 +67,13 @@ describe("methodsText on the shipped examples", () => {
       expect(text).toContain(`${state.settings.grid.points} log-spaced frequencies from ${state.settings.grid.from} to ${state.settings.grid.to}`);
       expect(text).toContain("one-sided and symmetrized");
       expect(text).toContain("vacuum noise is 1");
-      expect(text).toContain("expressed as displacement");
+      // Only a force signal referred to displacement says so; a strain stays a strain.
+      expect(text.includes("expressed as displacement")).toBe(computation.evaluation.budget.quantity.name === "displacement" && computation.setup.signal.kind === "force");
     }
     expect(markdown).toContain("z(t) = ∫ z(Ω) e^{−iΩt} dΩ/2π");
     expect(latex).toContain("$z(t) = \\int z(\\Omega)\\, e^{-i\\Omega t}\\, d\\Omega/2\\pi$");
-    expect(markdown).toContain("m/√Hz");
-    expect(latex).toContain("m/\\ensuremath{\\surd}Hz");
+    expect(markdown).toContain(computation.table.unit);
+    expect(latex).toContain(computation.table.unit.replace("√", "\\ensuremath{\\surd}"));
   });
 
   test("squeezed membrane: squeezing, cavity, thermal and SQL references, the oscillator's SQL", () => {

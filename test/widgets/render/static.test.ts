@@ -30,14 +30,13 @@ function textElements(svg: string): string[] {
   return [...svg.matchAll(/<text[^>]*>([^<]*)<\/text>/g)].map((m) => m[1]);
 }
 
-const figures = new Map<string, { state: ExplorerState; figures: ExplorerFigures; ms: number }>();
+const figures = new Map<string, { state: ExplorerState; figures: ExplorerFigures }>();
 
 beforeAll(async () => {
   for (const file of exampleFiles()) {
     const state = exampleState(file);
-    const started = performance.now();
     const result = await explorerFigures(computeExplorer(state), state);
-    figures.set(file, { state, figures: result, ms: performance.now() - started });
+    figures.set(file, { state, figures: result });
   }
 });
 
@@ -56,8 +55,9 @@ describe("explorerFigures on the shipped examples", () => {
     const { state, figures: f } = figures.get(file)!;
     const texts = textElements(f.svg);
     expect(texts).toContain("frequency [Hz]");
-    expect(texts).toContain("displacement ASD [m/√Hz]");
-    for (const c of computeExplorer(state).table.columns) {
+    const computation = computeExplorer(state);
+    expect(texts).toContain(`${computation.evaluation.budget.quantity.name} ASD [${computation.table.unit}]`);
+    for (const c of computation.table.columns) {
       // Long labels are cut with an ellipsis to fit the legend.
       const label = c.label.replace(/&/g, "&amp;").replace(/</g, "&lt;").replace(/>/g, "&gt;");
       expect(texts.some((t) => t === label || (t.endsWith("…") && label.startsWith(t.slice(0, -1)))), c.label).toBe(true);
@@ -74,12 +74,8 @@ describe("explorerFigures on the shipped examples", () => {
     expect(pngSize(f.png)).toEqual({ width: 2 * svg.width, height: 2 * svg.height });
     const computation = computeExplorer(state);
     expect(f.csv).toBe(tableToCsv(computation.table));
-    expect(f.csv.split("\n")[0]).toContain("total [m/√Hz]");
+    expect(f.csv.split("\n")[0]).toContain(`total [${computation.table.unit}]`);
     expect(f.csv.trimEnd().split("\n").length).toBe(state.settings.grid.points + 1);
-  });
-
-  test("rendering time stays in the hundreds of milliseconds", () => {
-    for (const [file, { ms }] of figures) expect(ms, file).toBeLessThan(5000);
   });
 });
 

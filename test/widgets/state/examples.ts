@@ -20,6 +20,14 @@ const CONTROLS: Record<string, ControlSpec[]> = {
     { target: "squeezer.squeezing", min: "-15 dB", max: "0 dB", scale: "linear", steps: 30 },
     { target: "squeezer.angle", control: "dropdown", choices: ["0 deg", "60 deg", "90 deg"] },
   ],
+  "hybrid-spin-reference.json": [
+    { target: "transfer.transmission", min: "50 %", max: "100 %", label: "transmission between the systems" },
+    { target: "cell.field", min: "0.312 mT", max: "0.3166 mT", scale: "linear", label: "bias field" },
+  ],
+  "long-baseline-detector.json": [
+    { target: "ifo.power", min: "10 kW", max: "3 MW", label: "circulating arm power" },
+    { target: "squeezer.squeezing", min: "-12 dB", max: "0 dB", scale: "linear", steps: 24 },
+  ],
 };
 
 export function exampleFiles(): string[] {

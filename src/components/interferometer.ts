@@ -1,0 +1,232 @@
+import { HBAR, SPEED_OF_LIGHT } from "../constants";
+import { QuietframeError } from "../errors";
+import type { NetworkBuilder } from "../network/builder";
+import { combine, type Field } from "../network/linear-form";
+import type { ModeInfo } from "../network/model";
+import { strainSql } from "../reference/limits";
+import { wireBody } from "./mechanics";
+import { opticalAngularFrequency, pushOnBody } from "./optomechanics";
+import { num, type ComponentKind, type MechanicalBody, type ResolvedComponent, type SignalReference } from "./types";
+
+/**
+ * Tuned Michelson interferometer with a Fabry–Perot cavity in each arm and no signal
+ * recycling, seen from its dark port, in the two-photon picture.
+ *
+ * Only the antisymmetric (differential) degrees of freedom talk to the dark port, so the
+ * component is built from two modes of the engine:
+ *
+ * - The differential arm-cavity mode d = (c_N − c_E)/√2 of the two arm fields. Each arm
+ *   cavity has amplitude half-width γ = 2π·armBandwidth (the field decays as e^{−γt}); the
+ *   mode couples to the dark port at γ_in and to arm losses at γ_0 = γ − γ_in.
+ * - The differential arm length ΔL = δL_N − δL_E of the four free test masses (mass m each),
+ *   δL = x_end − x_input. The kinetic energy Σ m ẋ²/2 along this normal mode is (m/8) ΔL̇²,
+ *   and the generalized force conjugate to ΔL is (F_N − F_E)/2 (from −F_N δL_N − F_E δL_E),
+ *   so ΔL moves like a free mass of reduced mass μ = m/4.
+ *
+ * Linearized around the carrier (ā = √n per arm, n the circulating photon number of one
+ * arm, G = ω0/L the frequency pull per metre of arm length; arm N sees iGā·δL_N, arm E
+ * iGā·δL_E, so d sees iGā·ΔL/√2), in quadratures with [d1, d2] = i:
+ *   dd1/dt = −γ d1 + √(2γ_in) a1 + √(2γ_0) v1
+ *   dd2/dt = −γ d2 + √(2γ_in) a2 + √(2γ_0) v2 + G ā (ΔL + L h)
+ *   b1,2   = a1,2 − √(2γ_in) d1,2                    (dark-port output)
+ *   μ d²ΔL/dt² = ħ G ā d1                            (generalized radiation-pressure force)
+ * In the engine's dimensionless quadratures X = ΔL/x_s both couplings are g = G ā x_s, the
+ * structure of the cavity component, acting on the reduced-mass body.
+ *
+ * Strain enters as what the light sees: a change L·h of the differential arm length added to
+ * the mechanical ΔL in the optical phase quadrature (a frequency-independent column, so the
+ * response is exact at every Ω; as a force it would have to be μΩ²L·h). This is the
+ * long-wavelength limit (ΩL/c ≪ 1) for an optimally oriented wave.
+ *
+ * Solving these equations gives (d/dt → −iΩ, β = arctan(Ω/γ), η = γ_in/γ)
+ *   b1 = −e^{2iβ} a1 + (loss terms),  b2 = −e^{2iβ}(a2 − K a1) + (loss terms) + signal,
+ *   K = 2γħG²n/(μΩ²(γ² + Ω²)) = 16 ω0 γ P_arm / (m L c Ω² (γ² + Ω²)),
+ * which, without loss, is the conventional-interferometer input-output relation of the
+ * two-photon literature up to an overall sign of both quadratures; with I0 the power at the
+ * beam splitter, K = (I0/I_SQL) 2γ⁴/(Ω²(γ² + Ω²)) and I_SQL = mL²γ⁴/(4ω0).
+ *
+ * Power: `power` is the circulating power P_arm in EACH arm cavity. For lossless arms whose
+ * input mirrors have power transmission T ≪ 1 (so γ = Tc/(4L)) the power arriving at the beam
+ * splitter is I0 = 2 L γ P_arm / c, i.e. P_arm = I0 c /(2 L γ) (each arm receives I0/2 and
+ * builds it up by 4/T). The photon number of one arm is n = 2 L P_arm /(ħ ω0 c).
+ *
+ * Loss: `opticalLoss` is the round-trip power loss ε of each arm cavity (scatter, absorption,
+ * transmission of the end mirror). With the total half-width γ fixed, γ_0 = εc/(4L) and
+ * γ_in = γ − γ_0; the unsqueezed phase readout is then S_h = (h_SQL²/2)(K + 1/(ηK)),
+ * η = 1 − εc/(4Lγ) (the same as a detector of efficiency η after a lossless interferometer).
+ *
+ * Validity: single-mode arms (frequencies and γ well below the free spectral range c/2L),
+ * T = 4Lγ/c < 1, and radiation-pressure physics linearized around a locked, tuned carrier.
+ */
+interface InterferometerHandle {
+  readonly optical: ModeInfo;
+  readonly body: MechanicalBody;
+  readonly lossColumn: number;
+  readonly mass: number;
+  readonly armLength: number;
+  /** Amplitude half-width γ of each arm in rad/s, its dark-port and loss parts. */
+  readonly gamma: number;
+  readonly gammaIn: number;
+  readonly gammaLoss: number;
+  /** g = G ā x_s, the quadrature coupling of the optical mode and the ΔL body. */
+  readonly coupling: number;
+  /** dd2/dt per unit strain: G ā L. */
+  readonly signalGain: number;
+}
+
+export const interferometer: ComponentKind<InterferometerHandle> = {
+  type: "interferometer",
+  summary: "Tuned Michelson with arm cavities (no signal recycling), dark-port light in and out, strain signal.",
+  params: [
+    { name: "mass", kind: "mass", doc: "Mass m of each of the four test masses, e.g. \"40 kg\".", min: 0, minExclusive: true },
+    { name: "armLength", kind: "length", doc: "Arm length L, e.g. \"4 km\".", min: 0, minExclusive: true },
+    {
+      name: "armBandwidth",
+      kind: "frequency",
+      doc: "Arm-cavity half-width γ/2π in Hz (half width at half maximum; the intracavity field decays at γ). Must stay below c/(8πL) (input-mirror transmission 4Lγ/c < 1).",
+      min: 0,
+      minExclusive: true,
+    },
+    {
+      name: "power",
+      kind: "power",
+      doc: "Circulating power P_arm in each arm cavity (not the input power: for lossless arms the power at the beam splitter is I0 = 2Lγ·P_arm/c).",
+      min: 0,
+      minExclusive: true,
+    },
+    { name: "wavelength", kind: "length", doc: "Laser wavelength.", default: "1064 nm", min: 0, minExclusive: true },
+    {
+      name: "opticalLoss",
+      kind: "fraction",
+      doc: "Round-trip power loss ε of each arm cavity (e.g. 75e-6); at fixed armBandwidth it leaves the fraction η = 1 − εc/(4Lγ) of the arm width coupled to the dark port. Must stay below 4Lγ/c.",
+      default: 0,
+      min: 0,
+      max: 1,
+      maxExclusive: true,
+    },
+  ],
+  ports: [
+    { name: "in", kind: "optical-in", doc: "Light entering the dark port (vacuum, squeezed light, one arm of an entangled source)." },
+    { name: "out", kind: "optical-out", doc: "Light leaving the dark port, strain in its phase quadrature (read it with a homodyne)." },
+  ],
+  crossCheck: (c) => {
+    const L = num(c, "armLength");
+    const gamma = 2 * Math.PI * num(c, "armBandwidth");
+    const transmission = (4 * L * gamma) / SPEED_OF_LIGHT;
+    if (!(transmission < 1)) {
+      throw new QuietframeError({
+        path: `${c.path}.armBandwidth`,
+        value: c.raw.armBandwidth,
+        problem: `is too wide for ${L} m arms: it needs an input-mirror transmission 4Lγ/c = ${round(transmission)} ≥ 1`,
+        allowed: `below c/(8πL) = ${round(SPEED_OF_LIGHT / (8 * Math.PI * L))} Hz for this arm length`,
+      });
+    }
+    const eps = num(c, "opticalLoss");
+    if (!(eps < transmission)) {
+      throw new QuietframeError({
+        path: `${c.path}.opticalLoss`,
+        value: c.raw.opticalLoss,
+        problem: "the arm loss alone would make the arms wider than armBandwidth",
+        allowed: `0 ≤ opticalLoss < 4Lγ/c = ${round(transmission)} for these arms`,
+      });
+    }
+  },
+  allocate: (builder, c) => {
+    const mass = num(c, "mass");
+    const L = num(c, "armLength");
+    const gamma = 2 * Math.PI * num(c, "armBandwidth");
+    const gammaLoss = (num(c, "opticalLoss") * SPEED_OF_LIGHT) / (4 * L);
+    const omega0 = opticalAngularFrequency(num(c, "wavelength"));
+    const photons = (2 * L * num(c, "power")) / (HBAR * omega0 * SPEED_OF_LIGHT);
+    const abar = Math.sqrt(photons);
+    const optical = builder.addMode(c.name, "optical", `${c.name} differential arm-cavity mode`);
+    const body = differentialBody(builder, c, mass / 4, gamma);
+    const lossColumn = builder.addInputs(c.name, ["arm loss (amplitude)", "arm loss (phase)"], [1, 0, 0, 1], "loss", `${c.name}: arm loss`);
+    const G = omega0 / L;
+    return {
+      optical,
+      body,
+      lossColumn,
+      mass,
+      armLength: L,
+      gamma,
+      gammaIn: gamma - gammaLoss,
+      gammaLoss,
+      coupling: G * abar * body.xScale,
+      signalGain: G * abar * L,
+    };
+  },
+  wire: ({ builder, handle: h, inputs }) => {
+    const { x: d1, p: d2 } = h.optical;
+    const kIn = Math.sqrt(2 * h.gammaIn);
+    const kLoss = Math.sqrt(2 * h.gammaLoss);
+    builder.couple(d1, d1, -h.gamma);
+    builder.couple(d2, d2, -h.gamma);
+    const field: Field = inputs.in;
+    builder.drive(d1, field.amplitude, kIn);
+    builder.drive(d2, field.phase, kIn);
+    builder.drive(d1, builder.input(h.lossColumn), kLoss);
+    builder.drive(d2, builder.input(h.lossColumn + 1), kLoss);
+
+    wireBody(builder, h.body);
+    pushOnBody(builder, h.body, builder.state(d1), h.coupling);
+    builder.couple(d2, h.body.mode.x, h.coupling);
+
+    const out: Field = {
+      amplitude: combine(1, field.amplitude, -kIn, builder.state(d1)),
+      phase: combine(1, field.phase, -kIn, builder.state(d2)),
+    };
+    return { out };
+  },
+  signals: ["strain"],
+  applySignal: (builder, h) => builder.driveBySignal(h.optical.p, h.signalGain),
+  signalReference: (h) => strainSignalReference(h.mass, h.armLength),
+  cautions: (c) => {
+    const p = num(c, "power");
+    if (!(p > 0.5)) return [];
+    const input = (2 * num(c, "armLength") * 2 * Math.PI * num(c, "armBandwidth") * p) / SPEED_OF_LIGHT;
+    return [
+      `'${c.name}' circulates ${p} W in each arm (about ${round(input)} W at the beam splitter without losses): hazardous laser power (Class 4 above 0.5 W). Follow your institution's laser-safety programme and local rules.`,
+    ];
+  },
+};
+
+/**
+ * The differential arm length as a free body of reduced mass μ = m/4. Its quadratures are
+ * scaled with the arm half-width (x_s = √(ħ/(μγ))): any positive scale gives the same
+ * spectra, and this one keeps the entries of A of similar size.
+ */
+function differentialBody(builder: NetworkBuilder, c: ResolvedComponent, mu: number, scaleOmega: number): MechanicalBody {
+  const mode = builder.addMode(c.name, "mechanical", `${c.name} differential arm length`);
+  return {
+    owner: c.name,
+    mode,
+    xScale: Math.sqrt(HBAR / (mu * scaleOmega)),
+    pScale: Math.sqrt(HBAR * mu * scaleOmega),
+    mass: mu,
+    massSign: 1,
+    omega: 0,
+    baths: [],
+  };
+}
+
+/**
+ * Strain h (dimensionless) of an optimally oriented wave; the noise can also be shown as the
+ * equivalent differential arm-length change ΔL = L·h. Reference: the strain SQL
+ * h_SQL² = 8ħ/(mΩ²L²), which is the free-mass SQL 2ħ/(μΩ²) of ΔL divided by L².
+ */
+export function strainSignalReference(mass: number, armLength: number): SignalReference {
+  return {
+    signalUnit: "1",
+    quantities: [
+      { name: "strain", unit: "1", psdFactor: () => 1 },
+      { name: "displacement", unit: "m", psdFactor: () => armLength * armLength },
+    ],
+    curves: [{ id: "sql", label: "SQL (strain, 8ħ/(mΩ²L²))", psd: (omega) => strainSql(mass, armLength, omega) }],
+  };
+}
+
+/** Four significant digits for messages. */
+function round(x: number): string {
+  return Number(x.toPrecision(4)).toString();
+}
