@@ -55,7 +55,7 @@ export function noiseBudget(assembled: AssembledSetup, frequencies: Float64Array
   for (let f = 0; f < nf; f++) {
     const omega = 2 * Math.PI * frequencies[f];
     evaluator.at(omega);
-    groups.forEach((g, i) => spectra[i].compute(g.columns, evaluator.hRe, evaluator.hIm));
+    for (let g = 0; g < groups.length; g++) spectra[g].compute(groups[g].columns, evaluator.hRe, evaluator.hIm);
     let sum = Infinity;
     if (referral.prepare(evaluator.sRe, evaluator.sIm, spectra)) {
       const factor = referredTo.psdFactor(omega);
@@ -129,8 +129,7 @@ class GroupSpectra {
     const { p, re, im } = this;
     const m = this.model.nInputs;
     const N = this.model.N;
-    re.fill(0);
-    im.fill(0);
+    // Every entry is written below (upper triangle and its mirror), so no clearing is needed.
     for (let a = 0; a < p; a++) {
       for (let b = a; b < p; b++) {
         let sr = 0;

@@ -3,7 +3,8 @@
  * Node compute the same fingerprint without a platform crypto API (SubtleCrypto is async
  * and missing on file:// pages in some browsers).
  */
-const K = new Uint32Array([
+// Signed 32-bit words throughout: engines keep int32 values unboxed, which makes this several times faster.
+const K = new Int32Array([
   0x428a2f98, 0x71374491, 0xb5c0fbcf, 0xe9b5dba5, 0x3956c25b, 0x59f111f1, 0x923f82a4, 0xab1c5ed5, 0xd807aa98, 0x12835b01, 0x243185be,
   0x550c7dc3, 0x72be5d74, 0x80deb1fe, 0x9bdc06a7, 0xc19bf174, 0xe49b69c1, 0xefbe4786, 0x0fc19dc6, 0x240ca1cc, 0x2de92c6f, 0x4a7484aa,
   0x5cb0a9dc, 0x76f988da, 0x983e5152, 0xa831c66d, 0xb00327c8, 0xbf597fc7, 0xc6e00bf3, 0xd5a79147, 0x06ca6351, 0x14292967, 0x27b70a85,
@@ -13,7 +14,7 @@ const K = new Uint32Array([
 ]);
 
 export function sha256Hex(data: Uint8Array): string {
-  const h = new Uint32Array([0x6a09e667, 0xbb67ae85, 0x3c6ef372, 0xa54ff53a, 0x510e527f, 0x9b05688c, 0x1f83d9ab, 0x5be0cd19]);
+  const h = new Int32Array([0x6a09e667, 0xbb67ae85, 0x3c6ef372, 0xa54ff53a, 0x510e527f, 0x9b05688c, 0x1f83d9ab, 0x5be0cd19]);
   const bitLength = data.length * 8;
   const padded = new Uint8Array(((data.length + 9 + 63) >> 6) << 6);
   padded.set(data);
@@ -22,30 +23,30 @@ export function sha256Hex(data: Uint8Array): string {
   // Message length in bits as a 64-bit big-endian integer.
   view.setUint32(padded.length - 8, Math.floor(bitLength / 0x100000000));
   view.setUint32(padded.length - 4, bitLength >>> 0);
-  const w = new Uint32Array(64);
+  const w = new Int32Array(64);
   for (let block = 0; block < padded.length; block += 64) {
-    for (let t = 0; t < 16; t++) w[t] = view.getUint32(block + 4 * t);
+    for (let t = 0; t < 16; t++) w[t] = view.getInt32(block + 4 * t);
     for (let t = 16; t < 64; t++) {
       const s0 = rotr(w[t - 15], 7) ^ rotr(w[t - 15], 18) ^ (w[t - 15] >>> 3);
       const s1 = rotr(w[t - 2], 17) ^ rotr(w[t - 2], 19) ^ (w[t - 2] >>> 10);
-      w[t] = (w[t - 16] + s0 + w[t - 7] + s1) >>> 0;
+      w[t] = (w[t - 16] + s0 + w[t - 7] + s1) | 0;
     }
     let [a, b, c, d, e, f, g, hh] = h;
     for (let t = 0; t < 64; t++) {
       const S1 = rotr(e, 6) ^ rotr(e, 11) ^ rotr(e, 25);
       const ch = (e & f) ^ (~e & g);
-      const t1 = (hh + S1 + ch + K[t] + w[t]) >>> 0;
+      const t1 = (hh + S1 + ch + K[t] + w[t]) | 0;
       const S0 = rotr(a, 2) ^ rotr(a, 13) ^ rotr(a, 22);
       const maj = (a & b) ^ (a & c) ^ (b & c);
-      const t2 = (S0 + maj) >>> 0;
+      const t2 = (S0 + maj) | 0;
       hh = g;
       g = f;
       f = e;
-      e = (d + t1) >>> 0;
+      e = (d + t1) | 0;
       d = c;
       c = b;
       b = a;
-      a = (t1 + t2) >>> 0;
+      a = (t1 + t2) | 0;
     }
     h[0] += a;
     h[1] += b;
@@ -56,7 +57,7 @@ export function sha256Hex(data: Uint8Array): string {
     h[6] += g;
     h[7] += hh;
   }
-  return Array.from(h, (x) => x.toString(16).padStart(8, "0")).join("");
+  return Array.from(h, (x) => (x >>> 0).toString(16).padStart(8, "0")).join("");
 }
 
 function rotr(x: number, n: number): number {
