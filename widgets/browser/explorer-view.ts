@@ -33,7 +33,10 @@ export class ExplorerWidget {
   private readonly chart = new ChartView();
   private controls: ControlsView | undefined;
   private readonly alert = el("div", { class: "qf-alert", role: "alert", hidden: "" });
+  /** Lasting notices about the loaded state (a fingerprint that does not match). */
   private readonly notice = el("div", { class: "qf-notice", role: "status", hidden: "" });
+  /** Short confirmations ("copied"); kept apart so they never hide a notice. */
+  private readonly flashNote = el("div", { class: "qf-flash", role: "status", hidden: "" });
   private readonly readout = el("dl", { class: "qf-readout", "aria-live": "polite" });
   private readonly notes = el("ul", { class: "qf-notes" });
   private readonly copyHost = el("div", { hidden: "" });
@@ -93,12 +96,14 @@ export class ExplorerWidget {
     }
     const { state, computation, fingerprintMatches } = loaded;
     this.initial = state;
-    this.state = state;
+    // The state held (and downloaded) describes the curves on screen; a stored fingerprint
+    // that differs is reported in the notice below, not carried forward.
+    this.state = { ...state, fingerprint: computation.fingerprint };
     this.computation = computation;
     this.shown = { ...state.values };
     const id = `quietframe-w${++widgetCount}`;
     this.controls = new ControlsView(computation.controls, state.values, id, (target, value) => this.setValue(target, value));
-    const live = el("div", { class: "qf-live" }, [this.controls.element, this.alert, this.notice, this.chart.element, this.readout, this.notes, this.actions(), this.copyHost]);
+    const live = el("div", { class: "qf-live" }, [this.controls.element, this.alert, this.notice, this.flashNote, this.chart.element, this.readout, this.notes, this.actions(), this.copyHost]);
     try {
       await this.chart.show(this.chartInput(state, computation));
     } catch (e) {
@@ -167,6 +172,9 @@ export class ExplorerWidget {
     this.showFigures(computation);
     this.alert.hidden = true;
     this.alert.textContent = "";
+    // New values, new curves: a notice about the state as loaded no longer applies.
+    this.notice.hidden = true;
+    this.notice.textContent = "";
     this.controls?.markInvalid([]);
     this.element.setAttribute(FINGERPRINT_ATTRIBUTE, computation.fingerprint);
     this.element.setAttribute(STATUS_ATTRIBUTE, "ready");
@@ -249,10 +257,10 @@ export class ExplorerWidget {
   }
 
   private flash(text: string): void {
-    this.notice.textContent = text;
-    this.notice.hidden = false;
+    this.flashNote.textContent = text;
+    this.flashNote.hidden = false;
     setTimeout(() => {
-      if (this.notice.textContent === text) this.notice.hidden = true;
+      if (this.flashNote.textContent === text) this.flashNote.hidden = true;
     }, 2500);
   }
 

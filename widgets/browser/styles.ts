@@ -15,6 +15,7 @@ ${W} .qf-controls output,.qf-unit{font-variant-numeric:tabular-nums;color:#333}
 ${W} [aria-invalid=true]{outline:2px solid #b3261e;outline-offset:1px}
 ${W} .qf-alert{border-left:4px solid #b3261e;background:#fbeceb;color:#5c1410;padding:.45em .7em;white-space:pre-wrap}
 ${W} .qf-notice{border-left:4px solid #a06a00;background:#fdf5e4;color:#4a3300;padding:.45em .7em;white-space:pre-wrap}
+${W} .qf-flash{color:#2f5f2f;padding:.2em .7em}
 ${W} .qf-chart{position:relative}
 ${W} .qf-canvas{overflow-x:auto}
 ${W} .qf-pointer{position:absolute;pointer-events:none;background:rgba(255,255,255,.95);border:1px solid #bbb;border-radius:3px;padding:.3em .5em;font-size:12px;line-height:1.35;white-space:nowrap;z-index:2}
