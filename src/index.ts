@@ -23,3 +23,4 @@ export { parseQuantity, formatQuantity, type QuantityKind } from "./units";
 export { COMPONENT_KINDS } from "./components/registry";
 export type { ComponentKind } from "./components/types";
 export * from "./reach";
+export * from "./tolerance";

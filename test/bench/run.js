@@ -19,7 +19,7 @@ const { join, relative } = require("node:path");
 const { ROOT, dist } = require("./lib/repo");
 const { nowMs } = require("./lib/timing");
 
-const SECTIONS = ["engine", "browser", "notebook"];
+const SECTIONS = ["engine", "browser", "notebook", "tolerance"];
 
 function fmtTime(ms) {
   if (!Number.isFinite(ms)) return String(ms);
@@ -233,6 +233,12 @@ async function main() {
       const r = await require("./notebook").runNotebookBench(log);
       details.notebook = r;
       rows.push(...notebookRows(r));
+    },
+    tolerance: async () => {
+      const t = require("./tolerance");
+      details.tolerance = await t.runToleranceBench(log);
+      rows.push(...t.toleranceRows(details.tolerance));
+      if (!details.tolerance.identical) failures.push("tolerance maps differ between runs");
     },
   };
   for (const name of selected) {
