@@ -2,8 +2,9 @@ import { QuietframeError, QuietframeErrors } from "../../src/errors";
 import { tableToCsv } from "../../src/engine/tabulate";
 import type { CurveRow } from "../chart/budget-spec";
 import { computeExplorer, type ExplorerComputation } from "../explorer/model";
+import { DEFAULT_REACH_SOURCE, explorerReach, type ReachFigures } from "../explorer/reach";
 import { FINGERPRINT_ATTRIBUTE, STATE_SCRIPT_CLASS, STATUS_ATTRIBUTE } from "../html/names";
-import { headlineSummary } from "../html/summary";
+import { CAUTION_HEADING, distanceText, headlineSummary, reachSummary } from "../html/summary";
 import { methodsText } from "../methods/methods";
 import { loadExplorerState, stateDocumentText } from "../state/document";
 import type { ExplorerState } from "../state/format";
@@ -37,7 +38,12 @@ export class ExplorerWidget {
   private readonly notice = el("div", { class: "qf-notice", role: "status", hidden: "" });
   /** Short confirmations ("copied"); kept apart so they never hide a notice. */
   private readonly flashNote = el("div", { class: "qf-flash", role: "status", hidden: "" });
+  /** Safety cautions of the set-up at the current values; apart from errors, which refuse values. */
+  private readonly cautionList = el("ul");
+  private readonly caution = el("div", { class: "qf-caution", role: "note", "aria-live": "polite", hidden: "" }, [el("strong", {}, [CAUTION_HEADING]), this.cautionList]);
   private readonly readout = el("dl", { class: "qf-readout", "aria-live": "polite" });
+  /** Bars of the current and the initial range, for strain budgets. */
+  private readonly gauge = el("div", { class: "qf-reach-gauge", role: "img", hidden: "" });
   private readonly notes = el("ul", { class: "qf-notes" });
   private readonly copyHost = el("div", { hidden: "" });
   private scheduled = false;
@@ -103,7 +109,7 @@ export class ExplorerWidget {
     this.shown = { ...state.values };
     const id = `quietframe-w${++widgetCount}`;
     this.controls = new ControlsView(computation.controls, state.values, id, (target, value) => this.setValue(target, value));
-    const live = el("div", { class: "qf-live" }, [this.controls.element, this.alert, this.notice, this.flashNote, this.chart.element, this.readout, this.notes, this.actions(), this.copyHost]);
+    const live = el("div", { class: "qf-live" }, [this.controls.element, this.alert, this.notice, this.caution, this.flashNote, this.chart.element, this.readout, this.gauge, this.notes, this.actions(), this.copyHost]);
     try {
       await this.chart.show(this.chartInput(state, computation));
     } catch (e) {
@@ -118,7 +124,7 @@ export class ExplorerWidget {
     }
     this.element.querySelector<HTMLElement>(".qf-fallback")?.setAttribute("hidden", "");
     this.element.append(live);
-    this.showFigures(computation);
+    this.showFigures(state, computation);
     this.element.setAttribute(FINGERPRINT_ATTRIBUTE, computation.fingerprint);
     this.element.setAttribute(STATUS_ATTRIBUTE, "ready");
   }
@@ -169,7 +175,7 @@ export class ExplorerWidget {
     if (drawError) return this.refuse(drawError.error);
     this.state = { ...base, values, fingerprint: computation.fingerprint };
     this.computation = computation;
-    this.showFigures(computation);
+    this.showFigures({ ...base, values }, computation);
     this.alert.hidden = true;
     this.alert.textContent = "";
     // New values, new curves: a notice about the state as loaded no longer applies.
@@ -205,11 +211,60 @@ export class ExplorerWidget {
     this.element.setAttribute(STATUS_ATTRIBUTE, "error");
   }
 
-  private showFigures(computation: ExplorerComputation): void {
-    this.readout.replaceChildren(...headlineSummary(computation.headline).flatMap((line) => [el("dt", {}, [line.label]), el("dd", {}, [line.text])]));
-    const notes = [...computation.evaluation.warnings.map((w) => `warning: ${w}`), ...computation.evaluation.cautions.map((c) => `caution: ${c}`)];
+  private showFigures(state: ExplorerState, computation: ExplorerComputation): void {
+    const reach = this.reachOf(state, computation);
+    this.readout.replaceChildren(
+      ...headlineSummary(computation.headline).flatMap((line) => [el("dt", {}, [line.label]), el("dd", {}, [line.text])]),
+      ...(reach ? reachSummary(reach) : []).flatMap((line) => [el("dt", { class: "qf-reach" }, [line.label]), el("dd", { class: "qf-reach" }, [line.text])]),
+    );
+    this.showGauge(reach);
+    const cautions = computation.evaluation.cautions;
+    this.cautionList.replaceChildren(...cautions.map((c) => el("li", {}, [c])));
+    this.caution.hidden = cautions.length === 0;
+    const notes = computation.evaluation.warnings.map((w) => `warning: ${w}`);
     this.notes.replaceChildren(...notes.map((n) => el("li", {}, [n])));
     this.notes.hidden = notes.length === 0;
+  }
+
+  /** The gauge never stops the widget: a failure to compute it is shown in its place. */
+  private reachOf(state: ExplorerState, computation: ExplorerComputation): ReachFigures | undefined {
+    try {
+      return explorerReach(state, computation);
+    } catch (e) {
+      return { available: false, source: DEFAULT_REACH_SOURCE, problem: messageOf(e) };
+    }
+  }
+
+  /**
+   * Two bars, the current range and the initial set-up's, scaled to the longer one. The exact
+   * numbers ride along as data attributes (shortest round-trip form) for tests and tools.
+   */
+  private showGauge(reach: ReachFigures | undefined): void {
+    const c = reach?.available ? reach.comparison : undefined;
+    if (!reach?.available || !c) {
+      this.gauge.replaceChildren();
+      for (const a of GAUGE_ATTRIBUTES) this.gauge.removeAttribute(a);
+      this.gauge.removeAttribute("aria-label");
+      this.gauge.hidden = true;
+      return;
+    }
+    const now = reach.range.megaparsecs;
+    const then = c.referenceRange.megaparsecs;
+    const longest = Math.max(now, then);
+    const bar = (name: string, mpc: number, kind: string): HTMLElement =>
+      el("div", { class: `qf-gauge-row qf-gauge-${kind}` }, [
+        el("span", { class: "qf-gauge-name" }, [name]),
+        el("span", { class: "qf-gauge-track" }, [el("span", { class: "qf-gauge-bar", style: `width:${longest > 0 ? ((100 * mpc) / longest).toFixed(1) : "0"}%` })]),
+        el("span", { class: "qf-gauge-value" }, [distanceText(mpc)]),
+      ]);
+    this.gauge.replaceChildren(bar("range now", now, "now"), bar(`range, ${c.against}`, then, "initial"));
+    this.gauge.setAttribute("aria-label", `inspiral range ${distanceText(now)} now, ${distanceText(then)} for ${c.against}`);
+    this.gauge.setAttribute("data-range-mpc", String(now));
+    this.gauge.setAttribute("data-horizon-mpc", String(reach.horizon.megaparsecs));
+    this.gauge.setAttribute("data-reference-range-mpc", String(then));
+    this.gauge.setAttribute("data-range-ratio", String(c.rangeRatio));
+    this.gauge.setAttribute("data-volume-gain", String(c.volumeGain));
+    this.gauge.hidden = false;
   }
 
   private actions(): HTMLElement {
@@ -274,6 +329,8 @@ export class ExplorerWidget {
     return this.computation;
   }
 }
+
+const GAUGE_ATTRIBUTES = ["data-range-mpc", "data-horizon-mpc", "data-reference-range-mpc", "data-range-ratio", "data-volume-gain"] as const;
 
 function messageOf(e: unknown): string {
   if (e instanceof QuietframeError || e instanceof QuietframeErrors) return e.message;

@@ -15,6 +15,9 @@ ${W} .qf-controls output,.qf-unit{font-variant-numeric:tabular-nums;color:#333}
 ${W} [aria-invalid=true]{outline:2px solid #b3261e;outline-offset:1px}
 ${W} .qf-alert{border-left:4px solid #b3261e;background:#fbeceb;color:#5c1410;padding:.45em .7em;white-space:pre-wrap}
 ${W} .qf-notice{border-left:4px solid #a06a00;background:#fdf5e4;color:#4a3300;padding:.45em .7em;white-space:pre-wrap}
+${W} .qf-caution{border:2px solid #c77700;background:#fff6de;color:#3d2600;padding:.45em .7em}
+${W} .qf-caution strong::before{content:"\\26A0\\FE0E  "}
+${W} .qf-caution ul{margin:.2em 0 0;padding-left:1.2em}
 ${W} .qf-flash{color:#2f5f2f;padding:.2em .7em}
 ${W} .qf-chart{position:relative}
 ${W} .qf-canvas{overflow-x:auto}
@@ -25,6 +28,13 @@ ${W} .qf-pointer td:last-child{text-align:right;font-variant-numeric:tabular-num
 ${W} .qf-readout{display:grid;grid-template-columns:max-content 1fr;gap:.15em .8em;margin:0}
 ${W} .qf-readout dt{font-weight:500}
 ${W} .qf-readout dd{margin:0}
+${W} .qf-reach-gauge{display:grid;grid-template-columns:max-content minmax(8em,24em) max-content;gap:.2em .8em;align-items:center;font-size:13px}
+${W} .qf-reach-gauge[hidden]{display:none}
+${W} .qf-gauge-row{display:contents}
+${W} .qf-gauge-track{display:block;height:.7em;background:#ececec;border-radius:2px;overflow:hidden}
+${W} .qf-gauge-bar{display:block;height:100%;background:#3a6ea5}
+${W} .qf-gauge-initial .qf-gauge-bar{background:#9a9a9a}
+${W} .qf-gauge-value{font-variant-numeric:tabular-nums}
 ${W} .qf-notes{margin:0;padding-left:1.2em;color:#4a4a4a;font-size:13px}
 ${W} .qf-actions{display:flex;flex-wrap:wrap;gap:.4em}
 ${W} .qf-actions button{font:inherit;font-size:13px;padding:.2em .7em;cursor:pointer}

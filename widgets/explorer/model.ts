@@ -76,8 +76,25 @@ export interface ExplorerOptions {
 
 /** A fresh state for a set-up: current values are the set-up's own parameter values. */
 export function createExplorerState(setup: SetupDescription, options: ExplorerOptions = {}): ExplorerState {
-  const resolved = loadSetup(setup);
   const controls = options.controls ?? [];
+  const values = setupValues(setup, controls);
+  const grid = setup.grid ?? { from: "1 Hz", to: "100 kHz", points: 400 };
+  const settings: ExplorerSettings = {
+    grid: { from: String(grid.from), to: String(grid.to), points: grid.points ?? 400 },
+    spectralDensity: "amplitude",
+    ...options.settings,
+  };
+  const base = { format: EXPLORER_STATE_FORMAT, version: EXPLORER_STATE_VERSION, quietframe: QUIETFRAME_VERSION, setup: structuredClone(setup), controls: structuredClone(controls), values, settings } as const;
+  return { ...base, fingerprint: computeExplorer(base).fingerprint };
+}
+
+/**
+ * The value each control starts from: the parameter as the set-up writes it, or the
+ * parameter's default. These are a fresh state's values, and they stay recoverable from any
+ * later state, because moving a control never changes the set-up it carries.
+ */
+export function setupValues(setup: SetupDescription, controls: readonly ControlSpec[]): Record<string, string | number> {
+  const resolved = loadSetup(setup);
   const values: Record<string, string | number> = {};
   for (const c of resolveControls(setup, controls)) {
     const component = resolved.components.find((x) => x.name === c.component)!;
@@ -90,12 +107,10 @@ export function createExplorerState(setup: SetupDescription, options: ExplorerOp
     }
     values[c.target] = value as string | number;
   }
-  const grid = setup.grid ?? { from: "1 Hz", to: "100 kHz", points: 400 };
-  const settings: ExplorerSettings = {
-    grid: { from: String(grid.from), to: String(grid.to), points: grid.points ?? 400 },
-    spectralDensity: "amplitude",
-    ...options.settings,
-  };
-  const base = { format: EXPLORER_STATE_FORMAT, version: EXPLORER_STATE_VERSION, quietframe: QUIETFRAME_VERSION, setup: structuredClone(setup), controls: structuredClone(controls), values, settings } as const;
-  return { ...base, fingerprint: computeExplorer(base).fingerprint };
+  return values;
+}
+
+/** A state's initial values: those of a fresh state for its set-up and controls (see setupValues). */
+export function initialValues(state: Pick<ExplorerState, "setup" | "controls">): Record<string, string | number> {
+  return setupValues(state.setup, state.controls);
 }

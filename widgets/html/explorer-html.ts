@@ -1,11 +1,12 @@
 import { QUIETFRAME_VERSION } from "../../src/version";
 import type { ExplorerComputation } from "../explorer/model";
+import { explorerReach } from "../explorer/reach";
 import type { ExplorerState } from "../state/format";
 import { stateDocumentText } from "../state/document";
 import { base64, escapeHtml, jsonTextForScript } from "./escape";
 import { runtimeSource } from "./runtime-source";
 import { EXPLORER_CLASS, RUNTIME_READY_EVENT, STATE_SCRIPT_CLASS, STATUS_ATTRIBUTE } from "./names";
-import { headlineSummary } from "./summary";
+import { CAUTION_HEADING, headlineSummary, reachSummary } from "./summary";
 
 /** Shown in a widget whose page never received the runtime (the first widget's output was cleared). */
 export const RUNTIME_MISSING_TEXT =
@@ -39,7 +40,9 @@ const BOOTSTRAP =
 // sibling rule no longer matches and the PNG appears instead.
 const FALLBACK_STYLE =
   `.${EXPLORER_CLASS} .qf-fallback svg+img.qf-fallback-png{display:none}` +
-  `.${EXPLORER_CLASS} .qf-fallback img,.${EXPLORER_CLASS} .qf-fallback svg{max-width:100%;height:auto}`;
+  `.${EXPLORER_CLASS} .qf-fallback img,.${EXPLORER_CLASS} .qf-fallback svg{max-width:100%;height:auto}` +
+  `.${EXPLORER_CLASS} .qf-fallback .qf-caution{border:2px solid #c77700;background:#fff6de;color:#3d2600;padding:.45em .7em;margin:.5em 0}` +
+  `.${EXPLORER_CLASS} .qf-fallback .qf-caution ul{margin:.2em 0 0;padding-left:1.2em}`;
 
 /**
  * A self-contained HTML fragment for one explorer: static figure and summary, the state as
@@ -55,7 +58,7 @@ export function explorerHtml(state: ExplorerState, computation: ExplorerComputat
   if (options.png !== undefined) {
     parts.push(`<img class="qf-fallback-png" alt="${escapeHtml(`Noise budget: ${title}`)}" src="data:image/png;base64,${base64(options.png)}">`);
   }
-  parts.push(summaryHtml(title, computation));
+  parts.push(summaryHtml(title, state, computation));
   parts.push(`<p class="qf-fallback-note"><small>Static figure: the controls appear where scripts run (a trusted notebook or a browser page).</small></p>`);
   parts.push(`</div>`);
   parts.push(`<script type="application/json" class="${STATE_SCRIPT_CLASS}">${jsonTextForScript(stateDocumentText(state))}</script>`);
@@ -79,12 +82,23 @@ export function chartTitle(state: ExplorerState): string {
   return state.settings.title ?? state.setup.name ?? "";
 }
 
-function summaryHtml(title: string, computation: ExplorerComputation): string {
-  const items = headlineSummary(computation.headline)
-    .map((line) => `<dt>${escapeHtml(line.label)}</dt><dd>${escapeHtml(line.text)}</dd>`)
-    .join("");
+/**
+ * Title, safety cautions (first, so nobody reads figures past them) and the summary lines:
+ * headline figures and, for a strain budget, the reach gauge against the initial set-up.
+ */
+function summaryHtml(title: string, state: ExplorerState, computation: ExplorerComputation): string {
+  const reach = explorerReach(state, computation);
+  const lines = [...headlineSummary(computation.headline), ...(reach ? reachSummary(reach) : [])];
+  const items = lines.map((line) => `<dt>${escapeHtml(line.label)}</dt><dd>${escapeHtml(line.text)}</dd>`).join("");
   const heading = title ? `<p class="qf-fallback-title"><strong>${escapeHtml(title)}</strong></p>` : "";
-  return `${heading}<dl class="qf-summary">${items}</dl>`;
+  return `${heading}${cautionHtml(computation.evaluation.cautions)}<dl class="qf-summary">${items}</dl>`;
+}
+
+/** The components' safety cautions as a box of their own (nothing when there are none). */
+export function cautionHtml(cautions: readonly string[]): string {
+  if (cautions.length === 0) return "";
+  const items = cautions.map((c) => `<li>${escapeHtml(c)}</li>`).join("");
+  return `<div class="qf-caution" role="note"><strong>${escapeHtml(CAUTION_HEADING)}</strong><ul>${items}</ul></div>`;
 }
 
 /**
