@@ -4,3 +4,8 @@ export * from "./methods/methods";
 export { explorerHtml, type ExplorerHtmlOptions } from "./html/explorer-html";
 export { standalonePage, type StandaloneFigures } from "./html/standalone";
 export { headlineSummary, type SummaryLine } from "./html/summary";
+export { toleranceHtml, tolerancePage, type ToleranceHtmlOptions } from "./html/tolerance-html";
+export { toleranceHeatmapSpec } from "./tolerance/heatmap-spec";
+export { entangledHtml, type EntangledHtmlOptions } from "./html/entangled-html";
+export { computeEntangled, createEntangledState, loadEntangledState, entangledStateText, ENTANGLED_STATE_FORMAT, ENTANGLED_STATE_VERSION, type EntangledComputation, type EntangledOptions, type EntangledState } from "./entangled/model";
+export { panelSpec as entangledPanelSpec } from "./entangled/specs";

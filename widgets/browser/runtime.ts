@@ -2,7 +2,9 @@ import { QUIETFRAME_VERSION } from "../../src/version";
 import { EXPLORER_CLASS, RUNTIME_READY_EVENT } from "../html/names";
 import { ExplorerWidget } from "./explorer-view";
 import { bootLoaders } from "./loader";
+import { bootEntangledPanels } from "./entangled-view";
 import { injectStyles } from "./styles";
+import { bootTolerance, type ToleranceWidget } from "./tolerance-view";
 
 /**
  * The browser runtime: boots every explorer element on the page that has not booted yet.
@@ -15,12 +17,15 @@ export interface QuietframeRuntime {
   boot(root?: ParentNode): ExplorerWidget[];
   /** Live widgets, in boot order; widgets whose element left the page are dropped. */
   readonly widgets: readonly ExplorerWidget[];
+  /** Live tolerance maps, in boot order. */
+  readonly toleranceMaps: readonly ToleranceWidget[];
 }
 
 const BOOTED = "data-quietframe-booted";
 
 function install(): QuietframeRuntime {
   const live: ExplorerWidget[] = [];
+  const toleranceMaps: ToleranceWidget[] = [];
   const prune = (): void => {
     for (let i = live.length - 1; i >= 0; i--) {
       if (!live[i].element.isConnected) live.splice(i, 1)[0].dispose();
@@ -42,6 +47,8 @@ function install(): QuietframeRuntime {
       started.push(widget);
     }
     bootLoaders(root, boot, release);
+    bootTolerance(root, boot, toleranceMaps);
+    bootEntangledPanels(root);
     return started;
   };
   return {
@@ -50,6 +57,9 @@ function install(): QuietframeRuntime {
     get widgets() {
       prune();
       return [...live];
+    },
+    get toleranceMaps() {
+      return [...toleranceMaps];
     },
   };
 }

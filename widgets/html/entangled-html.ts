@@ -1,0 +1,61 @@
+import { QUIETFRAME_VERSION } from "../../src/version";
+import { computeEntangled, entangledStateText, entangledSummary, type EntangledComputation, type EntangledState } from "../entangled/model";
+import { ENTANGLED_CLASS, ENTANGLED_NUMBER_ATTRIBUTES, ENTANGLED_STATE_CLASS } from "../entangled/names";
+import { base64, escapeHtml, jsonTextForScript } from "./escape";
+import { runtimeSource } from "./runtime-source";
+import { RUNTIME_READY_EVENT, STATUS_ATTRIBUTE } from "./names";
+
+export interface EntangledHtmlOptions {
+  /** Carry the browser runtime in this fragment (once per page or notebook). */
+  includeRuntime: boolean;
+  /** Static SVG of the panel (from renderSvg), shown until the runtime boots. */
+  svg?: string;
+  /** Static PNG (bytes), shown where inline SVG is stripped. */
+  png?: Uint8Array;
+}
+
+const BOOTSTRAP =
+  `(function(){var w=window,r=w.quietframeRuntime;if(r&&r.boot){r.boot();return;}` +
+  `w.addEventListener("${RUNTIME_READY_EVENT}",function(){w.quietframeRuntime.boot();},{once:true});})();`;
+
+const FALLBACK_STYLE =
+  `.${ENTANGLED_CLASS} .qf-fallback svg+img.qf-fallback-png{display:none}` +
+  `.${ENTANGLED_CLASS} .qf-fallback img,.${ENTANGLED_CLASS} .qf-fallback svg{max-width:100%;height:auto}`;
+
+/**
+ * A self-contained fragment for one entangled-light panel: static figure and the numbers as
+ * text, the state as application/json, and a bootstrap that starts the live panel.
+ */
+export function entangledHtml(state: EntangledState, options: EntangledHtmlOptions, computation: EntangledComputation = computeEntangled(state)): string {
+  const numbers = Object.entries(ENTANGLED_NUMBER_ATTRIBUTES)
+    .map(([key, attr]) => ` ${attr}="${escapeHtml(String(computation[key as keyof typeof ENTANGLED_NUMBER_ATTRIBUTES]))}"`)
+    .join("");
+  const parts: string[] = [];
+  parts.push(`<div class="${ENTANGLED_CLASS}" data-quietframe-version="${escapeHtml(QUIETFRAME_VERSION)}"${numbers}>`);
+  parts.push(`<style>${FALLBACK_STYLE}</style>`);
+  parts.push(`<div class="qf-fallback">`);
+  if (options.svg !== undefined) parts.push(plainSvg(options.svg));
+  if (options.png !== undefined) parts.push(`<img class="qf-fallback-png" alt="${escapeHtml(`Entangled light: ${state.title}`)}" src="data:image/png;base64,${base64(options.png)}">`);
+  parts.push(`<p class="qf-fallback-title"><strong>${escapeHtml(state.title)}</strong></p>`);
+  const items = entangledSummary(state, computation).map((l) => `<dt>${escapeHtml(l.label)}</dt><dd>${escapeHtml(l.text)}</dd>`).join("");
+  parts.push(`<dl class="qf-summary">${items}</dl>`);
+  parts.push(`<p class="qf-fallback-note"><small>Static figure: the controls appear where scripts run (a trusted notebook or a browser page).</small></p>`);
+  parts.push(`</div>`);
+  parts.push(`<script type="application/json" class="${ENTANGLED_STATE_CLASS}">${jsonTextForScript(entangledStateText(state))}</script>`);
+  parts.push(`</div>`);
+  if (options.includeRuntime) parts.push(`<script>${runtimeSource()}</script>`);
+  parts.push(`<script>${BOOTSTRAP}</script>`);
+  return parts.join("\n");
+}
+
+/** The static SVG must be a plain drawing: no scripts, foreign objects, links or handlers. */
+function plainSvg(svg: string): string {
+  const text = svg.replace(/^\s*<\?xml[^>]*\?>\s*/, "").trim();
+  if (!/^<svg[\s>]/.test(text) || !/<\/svg>$/.test(text)) throw new Error("quietframe: the static figure is not an SVG element");
+  if (/<(script|foreignobject|iframe|object|embed|use|image|a)[\s>/]/i.test(text) || /\son\w+\s*=/i.test(text) || /(javascript|data):/i.test(text)) {
+    throw new Error("quietframe: the static figure has active content");
+  }
+  return text;
+}
+
+export { STATUS_ATTRIBUTE };
