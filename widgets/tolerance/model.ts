@@ -194,17 +194,9 @@ export function axisEdges(values: readonly number[], scale: AxisScale): number[]
   return edges;
 }
 
-/** √(ab) by Newton's iteration (plain arithmetic: the same bits everywhere). */
+/** √(ab) without overflow; Math.sqrt is correctly rounded by the language, so it gives the same bits everywhere. */
 function geometricMean(a: number, b: number): number {
-  const p = a * b;
-  if (!(p > 0)) return 0;
-  let r = (a + b) / 2;
-  for (let k = 0; k < 100; k++) {
-    const next = (r + p / r) / 2;
-    if (next === r) break;
-    r = next;
-  }
-  return r;
+  return a > 0 && b > 0 ? Math.sqrt(a) * Math.sqrt(b) : 0;
 }
 
 /** A figure as text: "-3.21 dB", "1.84×" for gains. */
