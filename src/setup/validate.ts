@@ -59,7 +59,9 @@ export function validateSetup(input: unknown): ResolvedSetup {
   attempt(() => checkHeader(top));
   for (const key of Object.keys(top)) {
     if (!(SETUP_KEYS as readonly string[]).includes(key)) {
-      problems.push(new QuietframeError({ path: key, problem: "is not a field of a set-up", allowed: SETUP_KEYS.join(", ") }));
+      // A blank or unusual key is quoted, so the message still points at something visible.
+      const path = /^[A-Za-z_$][\w$]*$/.test(key) ? key : `[${JSON.stringify(key)}]`;
+      problems.push(new QuietframeError({ path, problem: "is not a field of a set-up", allowed: SETUP_KEYS.join(", ") }));
     }
   }
 

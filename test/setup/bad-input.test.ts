@@ -167,3 +167,17 @@ describe("any JSON put anywhere in a set-up gives a result or a QuietframeError,
     );
   });
 });
+
+describe("a blank top-level key", () => {
+  it("is named in quotes, so the message points at something visible", () => {
+    let caught: unknown;
+    try {
+      loadSetup('{"": 0}');
+    } catch (e) {
+      caught = e;
+    }
+    const problems = (caught as { problems?: { path: string; message: string }[] }).problems ?? [caught as { path: string; message: string }];
+    const blank = problems.find((p) => p.message.includes("is not a field of a set-up"));
+    expect(blank?.path).toBe('[""]');
+  });
+});
