@@ -20,6 +20,7 @@ export { tabulateBudget, tableToCsv, type BudgetTable } from "./engine/tabulate"
 export * from "./reference/limits";
 export * as constants from "./constants";
 export { parseQuantity, formatQuantity, type QuantityKind } from "./units";
+export { applyValues } from "./setup/apply-values";
 export { COMPONENT_KINDS } from "./components/registry";
 export type { ComponentKind } from "./components/types";
 export * from "./reach";

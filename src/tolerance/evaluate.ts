@@ -6,8 +6,9 @@ import { assemble } from "../network/assemble";
 import { log10 } from "../numeric/portable-math";
 import { loadSetup } from "../pipeline";
 import { inspiralRange } from "../reach";
+import { applyValues } from "../setup/apply-values";
 import type { SetupDescription } from "../setup/format";
-import type { FigurePlan, ResolvedAxis, TolerancePlan } from "./spec";
+import type { FigurePlan, TolerancePlan } from "./spec";
 
 /**
  * One cell of a tolerance map: the set-up with the two axis values written in, through the
@@ -52,14 +53,7 @@ export interface RowResult {
 
 /** The set-up of cell (i, j): a copy with x value i and y value j written into their parameters. */
 export function cellSetup(plan: Pick<TolerancePlan, "setup" | "x" | "y">, i: number, j: number): SetupDescription {
-  return withValue(withValue(plan.setup, plan.x, i), plan.y, j);
-}
-
-function withValue(setup: SetupDescription, axis: Pick<ResolvedAxis, "component" | "param" | "written">, k: number): SetupDescription {
-  return {
-    ...setup,
-    components: setup.components.map((c) => (c.name === axis.component ? { ...c, params: { ...(c.params ?? {}), [axis.param]: axis.written[k] } } : c)),
-  };
+  return applyValues(plan.setup, { [plan.x.target]: plan.x.written[i], [plan.y.target]: plan.y.written[j] });
 }
 
 /** Value and status of one cell; failures carry a message. */

@@ -1,5 +1,6 @@
 import { logGrid, type FrequencyGridSpec } from "../engine/grid";
 import { QuietframeError } from "../errors";
+import { applyValues } from "../setup/apply-values";
 import type { SetupDescription } from "../setup/format";
 import { CellStatus, evaluateRow, MAX_CELL_MESSAGES, type CellMessage, type RowResult } from "./evaluate";
 import { resolveToleranceSpec, type AxisScale, type FigureInfo, type ResolvedAxis, type ToleranceMapSpec, type TolerancePlan } from "./spec";
@@ -188,16 +189,14 @@ export async function toleranceMapInProcess(setup: SetupDescription, spec: Toler
 
 /** The set-up of cell (i, j) of a finished map: an ordinary set-up with both values written in. */
 export function toleranceCellSetup(setup: SetupDescription, map: Pick<ToleranceMap, "x" | "y">, i: number, j: number): SetupDescription {
-  const put = (s: SetupDescription, axis: ToleranceAxis, k: number): SetupDescription => {
+  const check = (axis: ToleranceAxis, k: number, name: "i" | "j"): void => {
     if (!Number.isInteger(k) || k < 0 || k >= axis.written.length) {
-      throw new QuietframeError({ path: axis === map.x ? "i" : "j", value: k, problem: "is not a cell index of the map", allowed: `an integer from 0 to ${axis.written.length - 1}` });
+      throw new QuietframeError({ path: name, value: k, problem: "is not a cell index of the map", allowed: `an integer from 0 to ${axis.written.length - 1}` });
     }
-    const dot = axis.target.indexOf(".");
-    const name = axis.target.slice(0, dot);
-    const param = axis.target.slice(dot + 1);
-    return { ...s, components: s.components.map((c) => (c.name === name ? { ...c, params: { ...(c.params ?? {}), [param]: axis.written[k] } } : c)) };
   };
-  return structuredClone(put(put(setup, map.x, i), map.y, j));
+  check(map.x, i, "i");
+  check(map.y, j, "j");
+  return applyValues(setup, { [map.x.target]: map.x.written[i], [map.y.target]: map.y.written[j] });
 }
 
 export { CellStatus };

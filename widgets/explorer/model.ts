@@ -3,6 +3,7 @@ import { headlineFigures, type HeadlineFigures } from "../../src/engine/headline
 import { parseGrid } from "../../src/engine/grid";
 import { tabulateBudget, type BudgetTable } from "../../src/engine/tabulate";
 import { evaluateSetup, loadSetup, type Evaluation } from "../../src/pipeline";
+import { applyValues } from "../../src/setup/apply-values";
 import type { SetupDescription } from "../../src/setup/format";
 import type { ResolvedSetup } from "../../src/setup/validate";
 import { QUIETFRAME_VERSION } from "../../src/version";
@@ -16,6 +17,9 @@ import {
 } from "../state/format";
 import { checkValue, resolveControls, type ResolvedControl } from "./controls";
 
+/** Re-exported: widgets and notebooks write control values into set-ups with it. */
+export { applyValues };
+
 /**
  * The noise-budget explorer's model: state in, figures out. Pure (no DOM, no Jupyter), so
  * the kernel, the CLI and the browser runtime run exactly this code.
@@ -27,18 +31,6 @@ export interface ExplorerComputation {
   readonly table: BudgetTable;
   readonly headline: HeadlineFigures;
   readonly fingerprint: string;
-}
-
-/** The set-up with the controls' current values written into its parameters (a new object). */
-export function applyValues(setup: SetupDescription, values: Readonly<Record<string, string | number>>): SetupDescription {
-  const copy = structuredClone(setup);
-  for (const [target, value] of Object.entries(values)) {
-    const dot = target.indexOf(".");
-    const component = copy.components.find((c) => c.name === target.slice(0, dot));
-    if (!component) throw new QuietframeError({ path: `values.${target}`, value, problem: "names no component of the set-up" });
-    component.params = { ...(component.params ?? {}), [target.slice(dot + 1)]: value };
-  }
-  return copy;
 }
 
 /** Evaluates a state's set-up at its current values; throws QuietframeError for bad values or an unstable set-up. */

@@ -4,6 +4,7 @@ import type { ExplorerState } from "../state/format";
 import { escapeHtml } from "./escape";
 import { chartTitle, explorerHtml, runtimeScriptTag } from "./explorer-html";
 import { LOADER_CLASS } from "./names";
+import { htmlDocument } from "./page";
 
 /** Static figures for the page's fallback (see ExplorerHtmlOptions). */
 export interface StandaloneFigures {
@@ -14,8 +15,6 @@ export interface StandaloneFigures {
 export const WIDGET_SLOT_ID = "quietframe-widget";
 
 const PAGE_STYLE = `
-body{font-family:system-ui,sans-serif;margin:1.5rem auto;max-width:1000px;padding:0 1rem;color:#1d1d1d;background:#fff}
-h1{font-size:1.3rem;font-weight:600}
 h2{font-size:1.05rem;font-weight:600;margin-top:2rem}
 .${LOADER_CLASS} textarea{width:100%;min-height:8rem;font-family:ui-monospace,monospace;font-size:.85rem}
 .${LOADER_CLASS} .qf-loader-row{display:flex;gap:.75rem;align-items:center;margin:.5rem 0;flex-wrap:wrap}
@@ -30,34 +29,24 @@ footer{margin-top:2rem;color:#666;font-size:.85rem}
 export function standalonePage(state: ExplorerState, computation: ExplorerComputation, figures: StandaloneFigures = {}): string {
   const title = chartTitle(state) || "noise budget";
   const widget = explorerHtml(state, computation, { includeRuntime: false, svg: figures.svg, png: figures.png });
-  return [
-    "<!DOCTYPE html>",
-    `<html lang="en">`,
-    "<head>",
-    `<meta charset="utf-8">`,
-    `<meta name="viewport" content="width=device-width, initial-scale=1">`,
-    `<meta name="generator" content="quietframe ${escapeHtml(QUIETFRAME_VERSION)}">`,
-    `<title>${escapeHtml(title)} — quietframe</title>`,
-    `<style>${PAGE_STYLE}</style>`,
-    "</head>",
-    "<body>",
-    `<h1>${escapeHtml(title)}</h1>`,
-    `<div id="${WIDGET_SLOT_ID}">`,
-    widget,
-    "</div>",
-    `<section class="${LOADER_CLASS}" data-quietframe-slot="${WIDGET_SLOT_ID}">`,
-    "<h2>Open another state</h2>",
-    "<p>Paste a quietframe state file (the JSON that the widget's “Download state” button saves) or choose one; it is checked and recomputed here, nothing is sent anywhere.</p>",
-    `<textarea class="qf-loader-text" spellcheck="false" aria-label="state JSON"></textarea>`,
-    `<div class="qf-loader-row"><button type="button" class="qf-loader-load">Load pasted state</button>`,
-    `<label>or open a file: <input type="file" class="qf-loader-file" accept=".json,application/json"></label></div>`,
-    `<div class="qf-loader-alert" role="alert" hidden></div>`,
-    "</section>",
-    `<footer>Made with quietframe ${escapeHtml(QUIETFRAME_VERSION)}. The numbers are recomputed in this page from the state; the fingerprint shows whether they match the stored ones bit for bit.</footer>`,
-    // The runtime boots every widget on the page, and the loader panel, as it installs.
-    runtimeScriptTag(),
-    "</body>",
-    "</html>",
-    "",
-  ].join("\n");
+  return htmlDocument(
+    title,
+    [
+      `<div id="${WIDGET_SLOT_ID}">`,
+      widget,
+      "</div>",
+      `<section class="${LOADER_CLASS}" data-quietframe-slot="${WIDGET_SLOT_ID}">`,
+      "<h2>Open another state</h2>",
+      "<p>Paste a quietframe state file (the JSON that the widget's “Download state” button saves) or choose one; it is checked and recomputed here, nothing is sent anywhere.</p>",
+      `<textarea class="qf-loader-text" spellcheck="false" aria-label="state JSON"></textarea>`,
+      `<div class="qf-loader-row"><button type="button" class="qf-loader-load">Load pasted state</button>`,
+      `<label>or open a file: <input type="file" class="qf-loader-file" accept=".json,application/json"></label></div>`,
+      `<div class="qf-loader-alert" role="alert" hidden></div>`,
+      "</section>",
+      `<footer>Made with quietframe ${escapeHtml(QUIETFRAME_VERSION)}. The numbers are recomputed in this page from the state; the fingerprint shows whether they match the stored ones bit for bit.</footer>`,
+      // The runtime boots every widget on the page, and the loader panel, as it installs.
+      runtimeScriptTag(),
+    ],
+    PAGE_STYLE,
+  );
 }

@@ -3,6 +3,7 @@ import { TOLERANCE_CLASS, TOLERANCE_STATE_CLASS } from "../tolerance/names";
 import { toleranceSummaryText, type ToleranceWidgetState } from "../tolerance/model";
 import { base64, escapeHtml, jsonForScript } from "./escape";
 import { bootstrapScriptTag, runtimeScriptTag } from "./explorer-html";
+import { htmlDocument } from "./page";
 
 export interface ToleranceHtmlOptions {
   /** Carry the browser runtime in this fragment (once per page or notebook; see ExplorerHtmlOptions). */
@@ -46,22 +47,7 @@ export function toleranceHtml(state: ToleranceWidgetState, options: ToleranceHtm
 /** A complete HTML document with one live tolerance map; needs no network. */
 export function tolerancePage(state: ToleranceWidgetState, figures: { svg?: string; png?: Uint8Array } = {}): string {
   const title = state.settings.title ?? state.setup.name ?? "tolerance map";
-  return [
-    "<!DOCTYPE html>",
-    `<html lang="en">`,
-    "<head>",
-    `<meta charset="utf-8">`,
-    `<meta name="viewport" content="width=device-width, initial-scale=1">`,
-    `<meta name="generator" content="quietframe ${escapeHtml(QUIETFRAME_VERSION)}">`,
-    `<title>${escapeHtml(title)} — quietframe</title>`,
-    "</head>",
-    `<body style="font-family:system-ui,sans-serif;margin:1.5rem auto;max-width:1000px;padding:0 1rem">`,
-    `<h1 style="font-size:1.3rem;font-weight:600">${escapeHtml(title)}</h1>`,
-    toleranceHtml(state, { includeRuntime: true, svg: figures.svg, png: figures.png }),
-    "</body>",
-    "</html>",
-    "",
-  ].join("\n");
+  return htmlDocument(title, [toleranceHtml(state, { includeRuntime: true, svg: figures.svg, png: figures.png })]);
 }
 
 /**
