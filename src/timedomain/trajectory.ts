@@ -21,7 +21,7 @@
  * step, at least the continuous-record covariance and equal to it up to O(h); it is the
  * true error covariance of the estimate shown, so the band ẑ ± √P is honest at any step.
  */
-import { stationaryCovariance, uncertaintyMargin } from "../engine/covariance";
+import { stationaryCovariance } from "../engine/covariance";
 import { duanBound, duanSum, eprVariances, logarithmicNegativity, modePairCovariance } from "../engine/entanglement";
 import { QuietframeError } from "../errors";
 import { realLuFactor, realLuSolve } from "../linalg/real-dense";
@@ -32,6 +32,7 @@ import { applyFactor, psdFactor, type Factor } from "./factor";
 import { findMode, jointParts, jointVariance, resolveJointVariable, zeroPointVariance } from "./joint";
 import { measurementNoise } from "./measurement";
 import { GaussianSource } from "./random";
+import { fastUncertaintyMargin } from "./smallest-eigenvalue";
 import { checkSettings, storedSteps } from "./settings";
 import { groundCovariance } from "./transient";
 import type { EntanglementSeries, JointSeries, SimulationSettings, TrajectoryRequest, TrajectoryResult, TrajectoryRun } from "./types";
@@ -105,6 +106,7 @@ class Run implements TrajectoryRun {
   private gain: Float64Array;
   private unconditionalCov: Float64Array;
   private frozen = false;
+  private settledAt: number | undefined;
   private marginFresh = false;
   private k = 0;
   private count = 0;
@@ -121,6 +123,7 @@ class Run implements TrajectoryRun {
   private readonly pGt: Float64Array;
   private readonly sMat: Float64Array;
   private readonly luWork: Float64Array;
+  private readonly gainT: Float64Array;
   private readonly piv: Int32Array;
   private readonly nextCov: Float64Array;
   // Series.
@@ -201,6 +204,7 @@ class Run implements TrajectoryRun {
     this.pGt = new Float64Array(n * p);
     this.sMat = new Float64Array(p * p);
     this.luWork = new Float64Array(p * p);
+    this.gainT = new Float64Array(p * n);
     this.piv = new Int32Array(p);
     this.nextCov = new Float64Array(n * n);
     this.gain = new Float64Array(n * p);
@@ -331,7 +335,8 @@ class Run implements TrajectoryRun {
       const lu = luWork;
       lu.set(sMat);
       realLuFactor(lu, p, piv);
-      const mt = transpose(gain, n, p);
+      const mt = this.gainT;
+      for (let i = 0; i < n; i++) for (let l = 0; l < p; l++) mt[l * n + i] = gain[i * p + l];
       realLuSolve(lu, p, piv, mt, n);
       for (let i = 0; i < n; i++) for (let l = 0; l < p; l++) gain[i * p + l] = mt[l * n + i];
       // − K S Kᵀ
@@ -357,7 +362,10 @@ class Run implements TrajectoryRun {
     }
     cov.set(nextCov);
     this.marginFresh = false;
-    if (change <= FILTER_SETTLED * maxAbs(cov)) this.frozen = true;
+    if (change <= FILTER_SETTLED * maxAbs(cov)) {
+      this.frozen = true;
+      this.settledAt = this.k + 1;
+    }
   }
 
   /** Stores the current point (index this.count). */
@@ -406,7 +414,7 @@ class Run implements TrajectoryRun {
       e.unconditionalLogNegativity[j] = logarithmicNegativity(modePairCovariance(model, this.unconditionalCov, e.pair[0], e.pair[1]));
     }
     if (!this.marginFresh) {
-      this.minMargin = Math.min(this.minMargin, uncertaintyMargin(model, this.cov));
+      this.minMargin = Math.min(this.minMargin, fastUncertaintyMargin(model.modes, this.cov, n));
       this.marginFresh = true;
     }
     if (!Number.isFinite(maxAbs(this.cov)) || !Number.isFinite(maxAbs(this.unconditionalCov))) throw overflow(this.k, this.h);
@@ -455,6 +463,7 @@ class Run implements TrajectoryRun {
       joint,
       ...(entanglement ? { entanglement } : {}),
       minUncertaintyMargin: this.minMargin,
+      ...(this.settledAt !== undefined ? { filterSettledAtStep: this.settledAt } : {}),
     };
   }
 }
