@@ -99,6 +99,21 @@ describe("sampled runs have the statistics the covariances promise", () => {
     expect(fine / exact[0]).toBeLessThan(1e-3);
   });
 
+  it("the filter is frozen once it has reached its steady state (doubling limit of the discrete Riccati map), without a jump", () => {
+    const steps = 3000;
+    const r = simulateTrajectory(model, { duration: steps * 1e-7, step: 1e-7, seed: 2, samples: steps + 1 }, { joint: [X, P] });
+    const at = r.filterSettledAtStep!;
+    expect(at).toBeGreaterThan(1);
+    expect(at).toBeLessThan(steps);
+    for (const s of r.joint) {
+      const c = s.conditional;
+      // The recursion had stopped moving (at the 1e-9 level) when it was frozen.
+      expect(Math.abs(c[at] - c[at - 1])).toBeLessThan(1e-9 * c[at]);
+      expect(c[at - 1]).not.toBe(c[at - 2]);
+      expect(c[steps]).toBe(c[at]);
+    }
+  });
+
   it("every conditional covariance met in the runs satisfies the uncertainty relation", () => {
     for (const r of finals.slice(0, 20)) expect(r.minUncertaintyMargin).toBeGreaterThanOrEqual(-1e-12);
   });
@@ -191,5 +206,45 @@ describe("Wiener–Khinchin: the PSD of a long simulated record is the engine's 
       const tol = 5 * Math.sqrt(35 / 18 / (segments * band));
       expect(Math.abs(got / want - 1), `${(k0 * df).toFixed(0)}–${((k0 + band) * df).toFixed(0)} Hz`).toBeLessThan(tol);
     }
+  });
+});
+
+describe("a stiff set-up simulated with a step far longer than its fastest time scale", () => {
+  // Cavity field decays in ~1e-8 s, the Q = 1e7 oscillator in ~16 s; step 1 µs.
+  const model = assemble(
+    loadSetup({
+      format: "quietframe.setup",
+      version: 1,
+      components: [
+        { name: "light", type: "coherent" },
+        { name: "body", type: "oscillator", params: { mass: "10 ng", frequency: "100 kHz", Q: 1e7, temperature: "4 K", damping: "symmetric" } },
+        { name: "cavity", type: "cavity", params: { linewidth: "16 MHz", inputCoupling: 0.9, g0: "100 Hz", photons: 1e5 } },
+        { name: "detector", type: "homodyne", params: { angle: "90 deg", efficiency: 0.8 } },
+      ],
+      connections: [
+        ["light.out", "cavity.in"],
+        ["cavity.out", "detector.in"],
+        ["cavity.mechanics", "body.body"],
+      ],
+      readout: ["detector"],
+      signal: { kind: "force", on: "body", referTo: "displacement" },
+    }),
+  ).model;
+  const duration = 5e-3;
+  const r = simulateTrajectory(model, { duration, step: 1e-6, seed: 9, samples: 51 }, { joint: [X] });
+
+  it("stays finite and physical, keeps the stationary unconditional variance, and knows no more than the continuous record", () => {
+    const s = r.joint[0];
+    expect(s.truth.every(Number.isFinite) && s.estimate.every(Number.isFinite)).toBe(true);
+    const v = stationaryCovariance(model);
+    const n = model.nStates;
+    const { x } = model.modes.find((m) => m.owner === "body")!;
+    for (let j = 0; j < r.time.length; j++) expect(s.unconditional[j] / v[x * n + x]).toBeCloseTo(1, 8);
+    expect(r.minUncertaintyMargin).toBeGreaterThanOrEqual(-1e-9 * v[x * n + x]);
+    const continuous = conditionalTransient(model, v, Float64Array.of(duration))[0][x * n + x];
+    const last = s.conditional[r.time.length - 1];
+    expect(last).toBeGreaterThanOrEqual(continuous * (1 - 1e-9));
+    // Measured well below the thermal variance (n̄ ≈ 8e5) by the end.
+    expect(last).toBeLessThan(1e-2 * v[x * n + x]);
   });
 });
