@@ -208,21 +208,18 @@ export function relativeChange(before: Float64Array, after: Float64Array, n: num
 /** Names the mode whose conditional variance keeps growing (neither damped nor observed). */
 function noSteadyState(model: StateSpaceModel, before: Float64Array, after: Float64Array): QuietframeError {
   const n = model.nStates;
-  let where = "";
-  {
-    let worst = -1;
-    let ratio = 0;
-    for (let i = 0; i < n; i++) {
-      const grown = after[i * n + i] / Math.max(before[i * n + i], Number.MIN_VALUE);
-      const rr = Number.isFinite(grown) ? grown : Infinity;
-      if (rr > ratio || worst < 0) {
-        ratio = rr;
-        worst = i;
-      }
+  let worst = 0;
+  let ratio = -Infinity;
+  for (let i = 0; i < n; i++) {
+    const grown = after[i * n + i] / Math.max(before[i * n + i], Number.MIN_VALUE);
+    const r = Number.isFinite(grown) ? grown : Infinity;
+    if (r > ratio) {
+      ratio = r;
+      worst = i;
     }
-    const mode = model.modes.find((m) => m.x === worst || m.p === worst);
-    if (mode) where = ` (mode '${mode.label}' of '${mode.owner}')`;
   }
+  const mode = model.modes.find((m) => m.x === worst || m.p === worst);
+  const where = mode ? ` (mode '${mode.label}' of '${mode.owner}')` : "";
   return new QuietframeError({
     path: "readout",
     problem: `the conditional covariance has no steady state: a mode is neither damped nor seen by the read-out outputs${where}, so its uncertainty grows without bound`,
