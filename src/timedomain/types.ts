@@ -51,9 +51,15 @@ export interface JointSeries {
   readonly label: string;
   /** The hidden (true) value of the simulated system. */
   readonly truth: Float64Array;
-  /** Conditional mean (Kalman–Bucy estimate from the simulated records). */
+  /**
+   * Conditional mean: the Kalman filter of the exactly discretized model reading the
+   * simulated records (the Kalman–Bucy estimate as the step → 0).
+   */
   readonly estimate: Float64Array;
-  /** Conditional variance (Riccati), the ±1σ band is estimate ± √conditional. */
+  /**
+   * Conditional variance: that filter's error covariance (the Riccati solution as the step → 0,
+   * never below it); the ±1σ band is estimate ± √conditional.
+   */
   readonly conditional: Float64Array;
   /** Unconditional variance (transient Lyapunov from the initial state). */
   readonly unconditional: Float64Array;
