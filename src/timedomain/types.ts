@@ -28,13 +28,13 @@ export type InitialState =
   | "ground";
 
 export interface SimulationSettings {
-  /** Simulated time, s (> 0). */
+  /** Simulated time, s (≥ step); rounded up to a whole number of steps (the result's settings show the value used). */
   readonly duration: number;
   /** Integration step, s (> 0, ≤ duration). */
   readonly step: number;
   /** Seed of the pseudo-random generator (integer 0 … 2³²−1); same seed, same bits. */
   readonly seed: number;
-  /** Number of stored time points (decimation of the steps); default min(steps + 1, 2001). */
+  /** Number of stored time points (decimation of the steps), 2 … 10⁵; default min(steps + 1, 2001); at most steps + 1 are kept. */
   readonly samples?: number;
   readonly initial?: InitialState;
 }
