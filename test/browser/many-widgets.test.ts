@@ -141,7 +141,7 @@ async function waitForFingerprints(want: readonly string[]): Promise<void> {
 async function expectWidgets(want: readonly ExplorerState[], moves: readonly Move[]): Promise<void> {
   await waitForFingerprints(want.map((s) => s.fingerprint));
   // A late frame from an older setting would change a fingerprint after settling: give it time to show.
-  await session.page.evaluate(() => new Promise((r) => requestAnimationFrame(() => requestAnimationFrame(() => setTimeout(r, 50)))));
+  await session.page.evaluate(() => new Promise((r) => (globalThis as any).requestAnimationFrame(() => (globalThis as any).requestAnimationFrame(() => setTimeout(r, 50)))));
   for (let i = 0; i < COUNT; i++) {
     const held = await pageState(session.page, i);
     // Its own values — not another widget's, not an older setting.
