@@ -1,13 +1,14 @@
 import { readFileSync } from "node:fs";
 import { join } from "node:path";
 import { beforeAll, describe, expect, it } from "vitest";
+import { QuietframeError } from "../../src/errors";
 import { loadSetup } from "../../src/pipeline";
 import type { SetupDescription } from "../../src/setup/format";
 import { toleranceMapInProcess } from "../../src/tolerance";
 import { createEntangledState, entangledStateText, loadEntangledState } from "../../widgets/entangled/model";
 import { computeExplorer, createExplorerState } from "../../widgets/explorer/model";
 import { standalonePage } from "../../widgets/html/standalone";
-import { parseExplorerState, stateDocumentText } from "../../widgets/state/document";
+import { MAX_STATE_TEXT_BYTES, parseExplorerState, stateDocumentText } from "../../widgets/state/document";
 import { loadToleranceState, toleranceWidgetState } from "../../widgets/tolerance/model";
 import { errorDefect, jsonPaths, mutatedText, prototypesAreClean } from "./support";
 
@@ -111,5 +112,34 @@ describe("prototype keys anywhere in a state file reach no prototype", () => {
     it("every object", () => {
       everyPlacement(text, (t) => loadToleranceState(t));
     });
+  });
+});
+
+describe("every state loader has the state-file size limit", () => {
+  const padded = (text: string): string => text.replace(/\}\s*$/, `${" ".repeat(MAX_STATE_TEXT_BYTES)}}`);
+  const loaders: [string, () => string, (t: string) => unknown][] = [
+    ["explorer", () => stateDocumentText(createExplorerState(squeezed)), (t) => parseExplorerState(t)],
+    ["entangled panel", () => entangledStateText(createEntangledState({ squeezingDb: -6 })), (t) => loadEntangledState(t)],
+  ];
+  it.each(loaders)("%s: refused with a message naming the limit", (_, make, load) => {
+    let caught: unknown;
+    try {
+      load(padded(make()));
+    } catch (e) {
+      caught = e;
+    }
+    expect(caught).toBeInstanceOf(QuietframeError);
+    expect((caught as QuietframeError).message).toContain(`more than the ${MAX_STATE_TEXT_BYTES}-byte limit`);
+  });
+
+  it("tolerance map: refused with a message naming the limit", async () => {
+    const spec = {
+      x: { target: "cavity.detuning", from: "-4 MHz", to: "4 MHz", points: 2 },
+      y: { target: "detector.efficiency", from: "50 %", to: "100 %", points: 2 },
+      grid: { from: "1.1 MHz", to: "1.3 MHz", points: 8 },
+      figure: { kind: "margin-at" as const, frequency: "1.16 MHz" },
+    };
+    const text = JSON.stringify(toleranceWidgetState(squeezed, spec, await toleranceMapInProcess(squeezed, spec)));
+    expect(() => loadToleranceState(padded(text))).toThrow(`more than the ${MAX_STATE_TEXT_BYTES}-byte limit`);
   });
 });
