@@ -86,9 +86,15 @@ interface Case {
 
 /** One case per (set-up, component, parameter present or defaulted, extreme value). */
 function cases(): Case[] {
+  // The hybrid example with its spin's Larmor frequency given directly, so that it is swept too.
+  const hybrid = exampleObject(EXAMPLE_FILES.indexOf("hybrid-spin-reference.json")) as SetupDescription;
+  const cell = hybrid.components.find((c) => c.type === "spin-ensemble")!;
+  const { field: _field, gyromagneticRatio: _ratio, ...rest } = cell.params as Record<string, unknown>;
+  cell.params = { ...rest, larmorFrequency: "1.1 MHz" } as typeof cell.params;
   const bases: [string, SetupDescription][] = [
     ...EXAMPLE_FILES.map((f, i): [string, SetupDescription] => [f, exampleObject(i)]),
     ...Object.entries(SMALL_SETUPS),
+    ["hybrid-spin-reference.json with a Larmor frequency", hybrid],
   ];
   const out: Case[] = [];
   for (const [name, base] of bases) {
