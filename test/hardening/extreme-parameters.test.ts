@@ -308,3 +308,38 @@ describe("a high-Q oscillator is weakly damped, not undamped", () => {
     expect(ev.warnings.join(" ")).toMatch(/marginal.*'body'/);
   });
 });
+
+describe("all extremes at once: every corner of eight parameters of the squeezed membrane", () => {
+  const AXES: [string, string, [string | number, string | number]][] = [
+    ["membrane", "mass", ["1e-21 kg", "1e3 kg"]],
+    ["membrane", "frequency", ["1e-3 Hz", "1e9 Hz"]],
+    ["membrane", "Q", [1e10, 1e12]],
+    ["membrane", "temperature", ["0 K", "300 K"]],
+    ["cavity", "linewidth", ["1e-3 Hz", "1e9 Hz"]],
+    ["cavity", "photons", [1, 1e12]],
+    ["squeezer", "squeezing", ["-20 dB", "-86.85 dB"]],
+    ["membrane", "damping", ["viscous", "symmetric"]],
+  ];
+
+  it("2⁸ corners on 1e-3 … 1e9 Hz: each passes the physical checks or is refused with a reason", () => {
+    const defects: string[] = [];
+    let evaluated = 0;
+    for (let corner = 0; corner < 1 << AXES.length; corner++) {
+      const doc: SetupDescription = structuredClone(SQUEEZED);
+      AXES.forEach(([name, param, values], k) => {
+        const c = doc.components.find((x) => x.name === name)!;
+        c.params = { ...(c.params ?? {}), [param]: values[(corner >> k) & 1] };
+      });
+      try {
+        const defect = evaluationDefect(evaluateSetup(loadSetup(doc), { from: 1e-3, to: 1e9, points: 13 }), doc);
+        if (defect) defects.push(`corner ${corner}: ${defect}`);
+        else evaluated++;
+      } catch (e) {
+        const defect = errorDefect(e, false);
+        if (defect) defects.push(`corner ${corner}: ${defect}`);
+      }
+    }
+    expect(defects).toEqual([]);
+    expect(evaluated).toBeGreaterThan(0.9 * (1 << AXES.length));
+  }, 120_000);
+});
