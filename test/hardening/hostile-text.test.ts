@@ -74,7 +74,7 @@ describe("hostile text in every HTML and SVG output is text, never markup", () =
   let map: ToleranceMap;
   beforeAll(async () => {
     map = await toleranceMapInProcess(squeezed, TOLERANCE_SPEC);
-  });
+  }, 120_000);
 
   /** Each writer, given the text to place in every free-text field. */
   const outputs: Record<string, (text: string) => Promise<string> | string> = {

@@ -108,7 +108,7 @@ describe("prototype keys anywhere in a state file reach no prototype", () => {
         figure: { kind: "margin-at" as const, frequency: "1.16 MHz" },
       };
       text = JSON.stringify(toleranceWidgetState(squeezed, spec, await toleranceMapInProcess(squeezed, spec), { title: "map" }));
-    });
+    }, 120_000);
     it("every object", () => {
       everyPlacement(text, (t) => loadToleranceState(t));
     });
