@@ -8,7 +8,7 @@ import { setup } from "../helpers/setups";
 import { EXAMPLE_FILES, errorDefect, exampleObject, problemsOf } from "./support";
 
 /**
- * Issue 7, extreme but valid parameters: every quantity parameter of every shipped example
+ * Extreme but valid parameters: every quantity parameter of every shipped example
  * and of small set-ups covering the remaining component kinds is set, one at a time, to the
  * ends of the ranges physicists use (masses 1e-21 … 1e3 kg, frequencies 1e-3 … 1e9 Hz,
  * Q up to 1e10 and the accepted limit 1e12, squeezing 20 dB and the accepted limit,
@@ -59,7 +59,7 @@ const SMALL_SETUPS: Record<string, SetupDescription> = {
   ),
 };
 
-/** Values at the ends of the ranges of issue 7, by parameter name or quantity kind. */
+/** Values at the ends of the useful ranges, by parameter name or quantity kind. */
 function extremesFor(spec: QuantityParam): (string | number)[] {
   if (spec.name === "Q") return [1e10, 1e12];
   if (spec.name === "r") return [10];
@@ -291,7 +291,7 @@ describe("a high-Q oscillator is weakly damped, not undamped", () => {
     expect(ev.stability.summary).toMatch(/^stable/);
     expect(ev.physicality?.physical).toBe(true);
     // Quantum FDT: a mode in a bath relaxes to ⟨X²⟩ = n̄ + 1/2 with n̄ = 1/(e^{ħΩ/kT} − 1)
-    // (Gardiner & Zoller, Quantum Noise, ch. 3; ħ and k_B from CODATA 2018). The probe's
+    // (Gardiner & Zoller, Quantum Noise, the damped oscillator chapter, from memory; ħ and k_B from CODATA 2018). The probe's
     // back-action at Γ/2π = 1e-12 Hz heats by about Γ/γ ≤ 1e-6 quanta (from the rate's definition).
     const hbarOmegaOverKT = (1.054571817e-34 * 2 * Math.PI * 1e6) / (1.380649e-23 * 0.01);
     const nbar = 1 / Math.expm1(hbarOmegaOverKT);

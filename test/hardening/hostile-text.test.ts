@@ -22,7 +22,7 @@ import { HOSTILE_PAYLOADS } from "./hostile-payloads";
  * every HTML and SVG output: the markup must be exactly the markup the same output has
  * for harmless text — the same elements in the same order, no event-handler attribute, no
  * script URL — and the text must appear escaped (HTML 5.2 §8.1.2 and §8.3: in text and
- * attribute values, & < > " ' escaped leave no markup).
+ * attribute values, & < > " ' escaped leave no markup; section numbers from memory).
  */
 const ROOT = join(__dirname, "..", "..");
 const squeezed = JSON.parse(readFileSync(join(ROOT, "examples", "cryogenic-membrane-squeezed.json"), "utf8")) as SetupDescription;
