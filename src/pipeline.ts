@@ -4,7 +4,7 @@ import { noiseBudget, type NoiseBudget } from "./engine/budget";
 import { analyzeStability, requireNoGrowingModes, type StabilityReport } from "./engine/stability";
 import { checkPhysicality, type PhysicalityReport } from "./engine/covariance";
 import { parseJsonText } from "./setup/parse-json";
-import { validateSetup, type ResolvedSetup } from "./setup/validate";
+import { requireSomeDetection, validateSetup, type ResolvedSetup } from "./setup/validate";
 
 /**
  * The one-way pipeline every entry point (CLI, notebook API, widgets) goes through:
@@ -33,6 +33,7 @@ export interface Evaluation {
 }
 
 export function evaluateSetup(setup: ResolvedSetup, grid?: FrequencyGridSpec): Evaluation {
+  requireSomeDetection(setup);
   const assembled = assemble(setup);
   const stability = requireNoGrowingModes(assembled, analyzeStability(assembled));
   const budget = noiseBudget(assembled, logGrid(grid ?? setup.grid ?? FALLBACK_GRID));

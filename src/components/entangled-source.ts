@@ -1,7 +1,7 @@
 import { QuietframeError } from "../errors";
 import { combine, combineFields, type Field } from "../network/linear-form";
 import type { ModeInfo } from "../network/model";
-import { squeezeFactorFromDb } from "./light-sources";
+import { MAX_SQUEEZE_FACTOR, squeezeFactorFromDb } from "./light-sources";
 import { parametricPump, whiteTwoModeNoise, type TwoModeSqueezing } from "./two-mode-squeezing";
 import { maybeNum, num, type ComponentKind, type ResolvedComponent } from "./types";
 
@@ -38,7 +38,7 @@ export const entangledSource: ComponentKind<EntangledHandle> = {
       optional: true,
       max: 0,
     },
-    { name: "r", kind: "number", doc: "Two-mode squeeze factor r ≥ 0 (give this or squeezing).", optional: true, min: 0, max: 10 },
+    { name: "r", kind: "number", doc: "Two-mode squeeze factor r ≥ 0 (give this or squeezing).", optional: true, min: 0, max: MAX_SQUEEZE_FACTOR },
     { name: "wavelength1", kind: "length", doc: "Carrier wavelength of beam 1 (documentary; the model is linear in the fluctuations).", optional: true, min: 0, minExclusive: true },
     { name: "wavelength2", kind: "length", doc: "Carrier wavelength of beam 2 (documentary).", optional: true, min: 0, minExclusive: true },
     { name: "efficiency1", kind: "fraction", doc: "Power transmission η1 of arm 1 from the source to its output port (vacuum enters in 1 − η1).", default: 1, min: 0, max: 1 },
@@ -66,7 +66,7 @@ export const entangledSource: ComponentKind<EntangledHandle> = {
         allowed: 'exactly one of squeezing (e.g. "-10 dB", ≤ 0 dB) or r (e.g. 1.15, 0 ≤ r ≤ 10)',
       });
     }
-    if (c.given.has("squeezing") && squeezeFactorFromDb(num(c, "squeezing")) > 10) {
+    if (c.given.has("squeezing") && squeezeFactorFromDb(num(c, "squeezing")) > MAX_SQUEEZE_FACTOR) {
       throw new QuietframeError({
         path: `${c.path}.squeezing`,
         value: c.raw.squeezing,

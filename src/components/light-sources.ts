@@ -25,6 +25,13 @@ export const vacuum: ComponentKind<SourceHandle> = {
   wire: ({ builder, handle }) => ({ out: builder.inputField(handle.column) }),
 };
 
+/** Largest squeeze factor accepted (e^{2r} ≈ 4.9e8): beyond it the anti-squeezed noise swamps any double-precision budget. */
+export const MAX_SQUEEZE_FACTOR = 10;
+/** The same limit in dB, 10·log10 e^{−2·MAX_SQUEEZE_FACTOR} ≈ −86.86 dB, so "squeezing" and "r" accept the same states. */
+export const STRONGEST_SQUEEZING_DB = (-20 * MAX_SQUEEZE_FACTOR) / Math.LN10;
+/** Largest classical excess noise accepted (1e10 × shot noise): far above any laser, and its square stays well inside double range. */
+export const MAX_EXCESS_NOISE_DB = 100;
+
 /** Laser light: shot-noise-limited by default, with optional classical excess noise. */
 export const coherent: ComponentKind<SourceHandle> = {
   type: "coherent",
@@ -36,6 +43,8 @@ export const coherent: ComponentKind<SourceHandle> = {
       doc: "Amplitude-quadrature noise above shot noise in dB (0 dB = shot-noise limited).",
       default: "0 dB",
       min: 0,
+      max: MAX_EXCESS_NOISE_DB,
+      rangeReason: "excess noise is at or above shot noise (≥ 0 dB) and at most 1e10 times it",
     },
     {
       name: "phaseExcess",
@@ -43,6 +52,8 @@ export const coherent: ComponentKind<SourceHandle> = {
       doc: "Phase-quadrature noise above shot noise in dB (0 dB = shot-noise limited).",
       default: "0 dB",
       min: 0,
+      max: MAX_EXCESS_NOISE_DB,
+      rangeReason: "excess noise is at or above shot noise (≥ 0 dB) and at most 1e10 times it",
     },
   ],
   ports: sourcePort,
@@ -72,9 +83,11 @@ export const squeezed: ComponentKind<SourceHandle> = {
       kind: "decibel",
       doc: "Noise of the squeezed quadrature relative to vacuum, e.g. \"-10 dB\" (give this or r).",
       optional: true,
+      min: STRONGEST_SQUEEZING_DB,
       max: 0,
+      rangeReason: "squeezing must be a level at or below vacuum (≤ 0 dB), and at most that of r = 10 (e^{2r} ≈ 4.9e8 anti-squeezing, beyond which the budget leaves double-precision range)",
     },
-    { name: "r", kind: "number", doc: "Squeeze factor r ≥ 0 (give this or squeezing).", optional: true, min: 0, max: 10 },
+    { name: "r", kind: "number", doc: "Squeeze factor r ≥ 0 (give this or squeezing).", optional: true, min: 0, max: MAX_SQUEEZE_FACTOR },
     {
       name: "angle",
       kind: "angle",

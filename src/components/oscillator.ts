@@ -1,6 +1,9 @@
 import { addSymmetricBath, addViscousBath, allocateBody, applyForceSignal, forceSignalReference, thermalQuadratureNoise, wireBody } from "./mechanics";
 import { num, type ComponentKind, type MechanicalBody } from "./types";
 
+/** Above this Q the resonance is narrower than double precision resolves Ω_m² − Ω² (relative error ~ 2e-16·Q on resonance). */
+export const MAX_QUALITY_FACTOR = 1e12;
+
 interface OscillatorHandle {
   body: MechanicalBody;
   bathColumn: number;
@@ -13,7 +16,15 @@ export const oscillator: ComponentKind<OscillatorHandle> = {
   params: [
     { name: "mass", kind: "mass", doc: "Effective mass magnitude, e.g. \"2 ng\".", min: 0, minExclusive: true },
     { name: "frequency", kind: "frequency", doc: "Resonance frequency f_m = Ω_m/2π, e.g. \"1.3 MHz\".", min: 0, minExclusive: true },
-    { name: "Q", kind: "number", doc: "Mechanical quality factor Q = Ω_m/γ.", min: 0, minExclusive: true },
+    {
+      name: "Q",
+      kind: "number",
+      doc: "Mechanical quality factor Q = Ω_m/γ, at most 1e12 (on resonance the response is resolved to about 2e-16·Q in double precision).",
+      min: 0,
+      minExclusive: true,
+      max: MAX_QUALITY_FACTOR,
+      rangeReason: "above Q = 1e12 the resonance is narrower than double precision resolves (on resonance Ω_m² − Ω² is rounded to about 2e-16·Ω_m², which the damping term γΩ_m = Ω_m²/Q no longer dominates)",
+    },
     { name: "temperature", kind: "temperature", doc: "Temperature of the intrinsic bath, e.g. \"6 K\".", min: 0 },
     {
       name: "massSign",

@@ -17,6 +17,8 @@ export interface QuantityParam {
   readonly max?: number;
   readonly minExclusive?: boolean;
   readonly maxExclusive?: boolean;
+  /** Why the range ends where it does, when that is not obvious (shown when a value falls outside it). */
+  readonly rangeReason?: string;
 }
 
 /** A parameter that is one of a few words, e.g. "positive" | "negative". */

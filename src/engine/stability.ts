@@ -42,8 +42,36 @@ export function analyzeStability(assembled: AssembledSetup): StabilityReport {
     if (re[i] > resolution) growing.push(describeMode(assembled, re[i], im[i]));
     else if (re[i] >= -resolution) undamped.push(describeMode(assembled, re[i], im[i]));
   }
+  if (growing.length === 0 && undamped.length > 0 && everyModeDissipates(assembled)) {
+    // A high-Q mode (Q ≳ 1e9) or a slow one beside a fast cavity decays more slowly than the
+    // eigenvalues resolve. When every mode has damping of its own, no exactly undamped normal
+    // mode can form, so such a mode is weakly damped, not undamped: the stationary state exists.
+    const slowest = undamped.reduce((a, b) => (b.frequency < a.frequency ? b : a));
+    const summary =
+      `stable: every mode decays (each has damping of its own; the slowest decay, near ${slowest.frequency.toPrecision(4)} Hz, ` +
+      `is below what the eigenvalues resolve)`;
+    return { stable: true, growing, undamped: [], summary };
+  }
   const stable = growing.length === 0 && undamped.length === 0;
   return { stable, growing, undamped, summary: summarize(assembled, growing, undamped) };
+}
+
+/**
+ * Whether every mode's own 2×2 block of A is stable (trace < 0 and determinant > 0: it decays
+ * even when uncoupled). A free mass fails the determinant even with friction: its position
+ * does not return, so its zero eigenvalue is real, not a rounding artefact.
+ */
+function everyModeDissipates(assembled: AssembledSetup): boolean {
+  const { model } = assembled;
+  const n = model.nStates;
+  if (model.modes.length * 2 !== n) return false;
+  return model.modes.every((m) => {
+    const xx = model.A[m.x * n + m.x];
+    const pp = model.A[m.p * n + m.p];
+    const xp = model.A[m.x * n + m.p];
+    const px = model.A[m.p * n + m.x];
+    return xx + pp < 0 && xx * pp - xp * px > 0;
+  });
 }
 
 /** Throws a QuietframeError that says which mode grows, where it lives and why, if any does. */

@@ -50,7 +50,8 @@ function resolveQuantity(spec: QuantityParam, input: unknown, path: string): num
   const tooLow = spec.min !== undefined && (spec.minExclusive ? v <= spec.min : v < spec.min);
   const tooHigh = spec.max !== undefined && (spec.maxExclusive ? v >= spec.max : v > spec.max);
   if (tooLow || tooHigh) {
-    throw new QuietframeError({ path, value: input, problem: "is out of range", allowed: describeRange(spec) });
+    const why = spec.rangeReason ? `: ${spec.rangeReason}` : "";
+    throw new QuietframeError({ path, value: input, problem: `is out of range${why}`, allowed: describeRange(spec) });
   }
   return v;
 }

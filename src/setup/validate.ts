@@ -96,6 +96,26 @@ export function validateSetup(input: unknown): ResolvedSetup {
   };
 }
 
+/**
+ * A readout whose every detector has efficiency 0 sees only its own vacuum: it carries no
+ * information, and the signal-referred noise would be infinite. Refused (at evaluation, so a
+ * control can still pass through 0 and keep its last valid state), naming the detector,
+ * rather than drawn as an infinite curve.
+ */
+export function requireSomeDetection(setup: ResolvedSetup): void {
+  const detectors = setup.readout.map((name) => setup.components.find((c) => c.name === name));
+  const blind = detectors.filter((c): c is ResolvedComponent => c !== undefined && c.values.efficiency === 0);
+  if (blind.length === 0 || blind.length < setup.readout.length) return;
+  const first = blind[0];
+  const who = blind.length > 1 ? `every detector of the readout (${blind.map((c) => `'${c.name}'`).join(", ")}) has` : `detector '${first.name}' has`;
+  throw new QuietframeError({
+    path: `${first.path}.efficiency`,
+    value: first.raw.efficiency ?? 0,
+    problem: `${who} efficiency 0: it sees no signal (no light is detected), so the readout carries no information and the signal-referred noise would be infinite`,
+    allowed: "an efficiency above 0 for at least one detector of the readout",
+  });
+}
+
 function checkHeader(top: Record<string, unknown>): void {
   if (top.format !== SETUP_FORMAT) {
     throw new QuietframeError({ path: "format", value: top.format, problem: "is not a quietframe set-up", allowed: `"${SETUP_FORMAT}"` });

@@ -1,6 +1,6 @@
 import { QuietframeError, QuietframeErrors } from "../../src/errors";
 import { EXPLORER_CLASS, LOADER_CLASS, STATE_SCRIPT_CLASS } from "../html/names";
-import { parseExplorerState, stateDocumentText } from "../state/document";
+import { loadExplorerState, stateDocumentText } from "../state/document";
 import { el } from "./dom";
 
 /**
@@ -20,8 +20,9 @@ export function bootLoaders(root: ParentNode, boot: (root: ParentNode) => void, 
     if (!text || !button || !alert || !slot) continue;
     const load = (input: string, source: string): void => {
       try {
-        // Shape check here, so a bad file is reported in the panel and the current widget stays.
-        const state = parseExplorerState(input, source);
+        // Full check here (shape, set-up, values, one computation), so a bad file is reported
+        // in the panel and the current widget stays instead of being replaced by an error.
+        const { state } = loadExplorerState(input, source);
         const script = el("script", { type: "application/json", class: STATE_SCRIPT_CLASS });
         script.textContent = stateDocumentText(state);
         release(slot);

@@ -36,6 +36,8 @@ export class ToleranceWidget {
   private readonly cursorNote = el("div", { class: "qf-cell-cursor", "aria-live": "polite" });
   private readonly cellNote = el("div", { class: "qf-cell-note", role: "status", hidden: "" });
   private readonly slot = el("div", { class: "qf-cell-explorer" });
+  // A frame over the opened cell, drawn above the canvas so the map itself is never redrawn.
+  private readonly highlight = el("div", { class: "qf-cell-highlight", "aria-hidden": "true", hidden: "" });
   private cursor = { i: 0, j: 0 };
   private disposed = false;
 
@@ -77,6 +79,7 @@ export class ToleranceWidget {
     this.cursor = { i, j };
     this.element.setAttribute(SELECTED_CELL_ATTRIBUTE, `${i},${j}`);
     this.showCursor();
+    this.showHighlight(i, j);
     if (status !== CellStatus.ok) {
       this.slot.replaceChildren();
       this.showNote(`No explorer for ${cell.xText}, ${cell.yText}: the cell is ${cell.status}. ${cell.message}`);
@@ -132,6 +135,8 @@ export class ToleranceWidget {
     this.canvasHost.setAttribute("aria-label", "tolerance map: arrow keys move between cells, Enter opens the cell in an explorer");
     this.canvasHost.addEventListener("keydown", (e) => this.onKey(e));
     this.element.querySelector<HTMLElement>(".qf-fallback")?.setAttribute("hidden", "");
+    this.canvasHost.style.position = "relative";
+    this.canvasHost.append(this.highlight);
     this.element.append(el("div", { class: "qf-live" }, [this.canvasHost, this.cursorNote, this.cellNote, this.slot]));
     this.showCursor();
     this.element.setAttribute(STATUS_ATTRIBUTE, "ready");
@@ -159,6 +164,25 @@ export class ToleranceWidget {
     if (!state) return;
     const cell = this.cells[this.cursor.j * state.map.x.written.length + this.cursor.i];
     this.cursorNote.textContent = `${state.map.x.target} = ${cell.xText}, ${state.map.y.target} = ${cell.yText}: ${cell.figureText}${cell.status === "ok" ? "" : ` (${cell.status})`}`;
+  }
+
+  /** Frames cell (i, j) where the view's own scales draw it (dark outline with a light rim: visible on every colour). */
+  private showHighlight(i: number, j: number): void {
+    const view = this.view;
+    const canvas = this.canvasHost.querySelector("canvas");
+    const cell = this.cells.find((c) => c.i === i && c.j === j);
+    if (!view || !canvas || !cell) return;
+    const [ox, oy] = view.origin();
+    const sx = view.scale("x") as (v: number) => number;
+    const sy = view.scale("y") as (v: number) => number;
+    const left = canvas.offsetLeft + ox + Math.min(sx(cell.x0), sx(cell.x1));
+    const top = canvas.offsetTop + oy + Math.min(sy(cell.y0), sy(cell.y1));
+    const h = this.highlight;
+    h.style.cssText =
+      `position:absolute;pointer-events:none;box-sizing:border-box;border:2px solid #111;box-shadow:0 0 0 1px #fff,inset 0 0 0 1px #fff;` +
+      `left:${left}px;top:${top}px;width:${Math.abs(sx(cell.x1) - sx(cell.x0))}px;height:${Math.abs(sy(cell.y1) - sy(cell.y0))}px`;
+    h.setAttribute("data-cell", `${i},${j}`);
+    h.hidden = false;
   }
 
   private showNote(text: string): void {

@@ -13,6 +13,7 @@ import {
 } from "../../src/engine/entanglement";
 import { cos, log10, pow, sin } from "../../src/numeric/portable-math";
 import { QUIETFRAME_VERSION } from "../../src/version";
+import { parseUntrustedJson } from "../state/document";
 
 /**
  * The entangled-light panel's model: a two-mode squeezed source with per-arm losses and an
@@ -96,15 +97,7 @@ export function createEntangledState(options: EntangledOptions = {}): EntangledS
 
 /** Parses and checks a saved state (object or JSON text); problems name the field. */
 export function loadEntangledState(input: unknown, source = "state"): EntangledState {
-  let value = input;
-  if (typeof input === "string") {
-    try {
-      value = JSON.parse(input) as unknown;
-    } catch (e) {
-      throw new QuietframeError({ path: source, problem: `is not JSON: ${e instanceof Error ? e.message : String(e)}`, allowed: `a saved entangled-panel state {"format": "${ENTANGLED_STATE_FORMAT}", …}` });
-    }
-  }
-  return checkEntangledState(value, source);
+  return checkEntangledState(typeof input === "string" ? parseUntrustedJson(input, source) : input, source);
 }
 
 export function entangledStateText(state: EntangledState): string {

@@ -3,7 +3,8 @@ import { computeEntangled, entangledStateText, entangledSummary, type EntangledC
 import { ENTANGLED_CLASS, ENTANGLED_NUMBER_ATTRIBUTES, ENTANGLED_STATE_CLASS } from "../entangled/names";
 import { base64, escapeHtml, jsonTextForScript } from "./escape";
 import { runtimeSource } from "./runtime-source";
-import { RUNTIME_READY_EVENT, STATUS_ATTRIBUTE } from "./names";
+import { bootstrapScriptTag } from "./explorer-html";
+import { STATUS_ATTRIBUTE } from "./names";
 
 export interface EntangledHtmlOptions {
   /** Carry the browser runtime in this fragment (once per page or notebook). */
@@ -13,10 +14,6 @@ export interface EntangledHtmlOptions {
   /** Static PNG (bytes), shown where inline SVG is stripped. */
   png?: Uint8Array;
 }
-
-const BOOTSTRAP =
-  `(function(){var w=window,r=w.quietframeRuntime;if(r&&r.boot){r.boot();return;}` +
-  `w.addEventListener("${RUNTIME_READY_EVENT}",function(){w.quietframeRuntime.boot();},{once:true});})();`;
 
 const FALLBACK_STYLE =
   `.${ENTANGLED_CLASS} .qf-fallback svg+img.qf-fallback-png{display:none}` +
@@ -44,7 +41,8 @@ export function entangledHtml(state: EntangledState, options: EntangledHtmlOptio
   parts.push(`<script type="application/json" class="${ENTANGLED_STATE_CLASS}">${jsonTextForScript(entangledStateText(state))}</script>`);
   parts.push(`</div>`);
   if (options.includeRuntime) parts.push(`<script>${runtimeSource()}</script>`);
-  parts.push(`<script>${BOOTSTRAP}</script>`);
+  // The shared bootstrap: it also says, after a while, when the page never got the runtime.
+  parts.push(bootstrapScriptTag());
   return parts.join("\n");
 }
 

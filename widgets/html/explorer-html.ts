@@ -7,6 +7,8 @@ import { base64, escapeHtml, jsonTextForScript } from "./escape";
 import { runtimeSource } from "./runtime-source";
 import { EXPLORER_CLASS, RUNTIME_READY_EVENT, STATE_SCRIPT_CLASS, STATUS_ATTRIBUTE } from "./names";
 import { CAUTION_HEADING, headlineSummary, reachSummary } from "./summary";
+import { ENTANGLED_CLASS } from "../entangled/names";
+import { TOLERANCE_CLASS } from "../tolerance/names";
 
 /** Shown in a widget whose page never received the runtime (the first widget's output was cleared). */
 export const RUNTIME_MISSING_TEXT =
@@ -25,6 +27,9 @@ export interface ExplorerHtmlOptions {
   png?: Uint8Array;
 }
 
+// Fallbacks of every kind of widget that has not booted (no status yet) get the hint.
+const NOT_BOOTED_FALLBACKS = [EXPLORER_CLASS, TOLERANCE_CLASS, ENTANGLED_CLASS].map((c) => `.${c}:not([${STATUS_ATTRIBUTE}]) .qf-fallback`).join(",");
+
 // Runs the runtime if it is already on the page, otherwise waits for it to arrive. Only the
 // first widget of a notebook carries the runtime; if that output was cleared, say so in the
 // fallback after a few seconds instead of leaving the reader to wonder.
@@ -32,7 +37,7 @@ const BOOTSTRAP =
   `(function(){var w=window,d=document,r=w.quietframeRuntime;if(r&&r.boot){r.boot();return;}` +
   `w.addEventListener("${RUNTIME_READY_EVENT}",function(){w.quietframeRuntime.boot();},{once:true});` +
   `setTimeout(function(){if(w.quietframeRuntime)return;` +
-  `d.querySelectorAll(".${EXPLORER_CLASS}:not([${STATUS_ATTRIBUTE}]) .qf-fallback").forEach(function(f){` +
+  `d.querySelectorAll(${JSON.stringify(NOT_BOOTED_FALLBACKS)}).forEach(function(f){` +
   `if(f.querySelector(".qf-runtime-missing"))return;var p=d.createElement("p");p.className="qf-runtime-missing";` +
   `p.textContent=${JSON.stringify(RUNTIME_MISSING_TEXT)};f.appendChild(p);});},${RUNTIME_MISSING_DELAY_MS});})();`;
 

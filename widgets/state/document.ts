@@ -137,6 +137,17 @@ function locateState(input: unknown, source: string): { state: ExplorerState; pa
   return { state: checkState(model.state, statePath), path: statePath };
 }
 
+/**
+ * JSON text of any quietframe state read from a file or a page (tolerance maps, panels): the
+ * same size limit as state documents, and a copy that holds only JSON data, refusing
+ * `__proto__`, `constructor` and `prototype` keys anywhere with their path.
+ */
+export function parseUntrustedJson(text: string, source = "state"): unknown {
+  return copyJson(parseText(text, source), source, -MAX_UNTRUSTED_EXTRA_DEPTH);
+}
+// Tolerance-map states nest a set-up inside a few levels of their own.
+const MAX_UNTRUSTED_EXTRA_DEPTH = 8;
+
 function parseText(text: string, source: string): unknown {
   // Each UTF-16 unit is at least one UTF-8 byte, so long text is refused before counting.
   const bytes = text.length > MAX_STATE_TEXT_BYTES ? text.length : utf8Length(text);

@@ -8,6 +8,7 @@ import { parseQuantity, type QuantityKind } from "../../src/units";
 import { QUIETFRAME_VERSION } from "../../src/version";
 import { createExplorerState } from "../explorer/model";
 import type { ControlSpec, ExplorerState } from "../state/format";
+import { parseUntrustedJson } from "../state/document";
 
 /**
  * The tolerance-map widget's model: a finished map as plain JSON (it travels inside the
@@ -110,12 +111,7 @@ export function toleranceWidgetState(
 
 /** Checks the shape of a state read from a page (JSON text); throws QuietframeError. */
 export function loadToleranceState(text: string): ToleranceWidgetState {
-  let value: unknown;
-  try {
-    value = JSON.parse(text);
-  } catch (e) {
-    throw new QuietframeError({ path: "state", problem: `is not JSON: ${e instanceof Error ? e.message : String(e)}`, allowed: "a tolerance-map widget state" });
-  }
+  const value = parseUntrustedJson(text, "state");
   const s = value as Partial<ToleranceWidgetState> | null;
   if (typeof s !== "object" || s === null || s.format !== TOLERANCE_STATE_FORMAT) {
     throw new QuietframeError({ path: "state.format", value: s?.format, problem: "is not a tolerance-map state", allowed: TOLERANCE_STATE_FORMAT });
