@@ -84,7 +84,14 @@ async function inPageLatency({ moves, target, widgetSelector, seed }) {
   };
   const frame = () => new Promise((resolve) => requestAnimationFrame(() => resolve(performance.now())));
   const sleep = (ms) => new Promise((resolve) => setTimeout(resolve, ms));
-  const painted = () => new Promise((resolve) => requestAnimationFrame(() => setTimeout(() => resolve(performance.now()), 0)));
+  // Resolves with [the next animation frame callback, a task queued from it] (performance.now()).
+  const painted = () =>
+    new Promise((resolve) =>
+      requestAnimationFrame(() => {
+        const raf = performance.now();
+        setTimeout(() => resolve([raf, performance.now()]), 0);
+      }),
+    );
   const element = document.querySelector(widgetSelector);
   const slider = element.querySelector(`input[type=range][data-target="${target}"]`);
   const steps = Number(slider.max);
@@ -138,6 +145,7 @@ async function inPageLatency({ moves, target, widgetSelector, seed }) {
   const baseline = [];
   const chart = [];
   const framed = [];
+  const nextFrame = [];
   const settled = [];
   let refused = 0;
   let position = Number(slider.value);
@@ -167,11 +175,12 @@ async function inPageLatency({ moves, target, widgetSelector, seed }) {
       await statusP;
       continue;
     }
-    const t2 = await painted();
+    const [tf, t2] = await painted();
     const result = await statusP;
     if (result.status !== "ready" || !result.names.includes("data-quietframe-fingerprint")) refused++;
     chart.push(first.at - t0);
     framed.push(t2 - t0);
+    nextFrame.push(tf - first.at);
     settled.push(result.at - t0);
     if (instrumented && !Number.isNaN(marks.showEnd)) {
       split.wait.push(marks.update - t0);
@@ -181,7 +190,7 @@ async function inPageLatency({ moves, target, widgetSelector, seed }) {
     }
   }
   dummy.remove();
-  return { baseline, chart, framed, settled, refused, split: instrumented ? split : undefined, finalPosition: position, fingerprint: element.getAttribute("data-quietframe-fingerprint") };
+  return { baseline, chart, framed, nextFrame, settled, refused, split: instrumented ? split : undefined, finalPosition: position, fingerprint: element.getAttribute("data-quietframe-fingerprint") };
 }
 
 async function runBrowserBench(log = () => undefined) {
@@ -258,6 +267,8 @@ async function runBrowserBench(log = () => undefined) {
       chart: summary(r.chart),
       frame: summary(r.framed),
       settled: summary(r.settled),
+      // From the drawn chart to the next animation frame callback (before that frame's paint).
+      drawnToFrame: summary(r.nextFrame),
       baseline: summary(r.baseline),
       chartOverBaseline: median(r.chart) / median(r.baseline),
       // Medians of the parts of a move: wait (input → update starts), model (computeExplorer

@@ -149,7 +149,9 @@ function sameCurvePoints(current: readonly CurveRow[], next: readonly CurveRow[]
  *  - the tooltip encoding and the per-point ARIA description (two formatted strings per
  *    point): the pointer panel reads the values at the cursor instead;
  *  - type parsing of the rows (`f` and `value` are numbers already);
- *  - the sort key of the line widths (their scale domain lists the order).
+ *  - the sort key of the line widths (their scale domain lists the order);
+ *  - sorting each line's points by x: the rows come in frequency order (curveRows walks the
+ *    ascending grid), so the lines join the same points in the same order without it.
  */
 function liveSpec(spec: Record<string, unknown>): Record<string, unknown> {
   const encoding = { ...(spec.encoding as Record<string, unknown>) };
@@ -157,6 +159,7 @@ function liveSpec(spec: Record<string, unknown>): Record<string, unknown> {
   const strokeWidth = { ...(encoding.strokeWidth as Record<string, unknown>) };
   delete strokeWidth.sort;
   encoding.strokeWidth = strokeWidth;
+  encoding.order = { value: null };
   const data = { ...(spec.data as Record<string, unknown>), format: { parse: null } };
   const mark = { ...(spec.mark as Record<string, unknown>), aria: false };
   return { ...spec, data, mark, encoding };
