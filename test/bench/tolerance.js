@@ -138,9 +138,11 @@ async function runToleranceBench(log = () => undefined) {
     startup.push(threads.ms - inProcess.ms);
   }
   const baseline = baselineSampler(setup, (await timedMap(setup, small, 1)).map);
-  // The warm pool: threads started and the engine compiled in them before any timed map.
+  // The warm pool: threads started and the engine compiled in them before any timed map,
+  // with about as many cells per thread as the main thread has run by now (maps, baseline).
   const pool = await qf.TolerancePool.start(cores);
   await timedMap(setup, spec(12), cores, false, pool);
+  await timedMap(setup, spec(40), cores, false, pool);
 
   const s = spec(SIZE);
   const cells = SIZE * SIZE;
