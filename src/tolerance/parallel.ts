@@ -60,7 +60,10 @@ function dispatchRows(
   const collector = new RowCollector(plan);
   const rows = collector.rows;
   const { signal, onProgress } = options;
-  if (signal?.aborted) return Promise.reject(new ToleranceMapCancelled(0, rows, signal.reason));
+  if (signal?.aborted) {
+    const cancelled = new ToleranceMapCancelled(0, rows, signal.reason);
+    return release("done").then(() => Promise.reject(cancelled));
+  }
 
   return new Promise<RowCollector>((resolve, reject) => {
     let next = 0;

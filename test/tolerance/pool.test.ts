@@ -52,6 +52,9 @@ describe("a warm pool of worker threads, reused across maps", () => {
       onProgress: () => controller.abort(),
     }).catch((e: unknown) => e);
     expect(error).toBeInstanceOf(ToleranceMapCancelled);
+    const early = await toleranceMap(squeezed, SPEC, { pool, signal: AbortSignal.abort() }).catch((e: unknown) => e);
+    expect(early).toBeInstanceOf(ToleranceMapCancelled);
+    expect((early as ToleranceMapCancelled).rowsDone).toBe(0);
     const after = await toleranceMap(squeezed, OTHER, { pool });
     const inProcess = await toleranceMap(squeezed, OTHER, { workers: 1 });
     expect(sameBits(after.values, inProcess.values)).toBe(true);
