@@ -1,5 +1,6 @@
 import { QuietframeError } from "../errors";
-import { complexLuFactor, complexLuSolve, SingularMatrixError } from "../linalg";
+import { complexLuFactor, complexLuSolve } from "../linalg/complex-lu";
+import { SingularMatrixError } from "../linalg/singular-error";
 import type { AssembledSetup } from "../network/assemble";
 import type { NoiseCategory, StateSpaceModel } from "../network/model";
 import { TransferEvaluator } from "./transfer";
@@ -48,19 +49,23 @@ export function noiseBudget(assembled: AssembledSetup, frequencies: Float64Array
   const total = new Float64Array(nf);
   const termPsd = groups.map(() => new Float64Array(nf));
   const evaluator = new TransferEvaluator(model, readoutRows);
-  const spectra = groups.map(() => new GroupSpectra(model, p));
+  const spectra = groups.map((g) => new GroupSpectra(model, g.columns, p));
   const referral: SignalReferral = p === 1 ? new SingleOutput() : new OptimalCombination(p);
+  // The referral factor (|χ|² for displacement) serves the terms and every reference curve.
+  const factors = new Float64Array(nf);
+  const nGroups = groups.length;
   let blindPoints = 0;
 
   for (let f = 0; f < nf; f++) {
     const omega = 2 * Math.PI * frequencies[f];
+    const factor = referredTo.psdFactor(omega);
+    factors[f] = factor;
     evaluator.at(omega);
-    for (let g = 0; g < groups.length; g++) spectra[g].compute(groups[g].columns, evaluator.hRe, evaluator.hIm);
+    for (let g = 0; g < nGroups; g++) spectra[g].compute(evaluator.hRe, evaluator.hIm);
     let sum = Infinity;
     if (referral.prepare(evaluator.sRe, evaluator.sIm, spectra)) {
-      const factor = referredTo.psdFactor(omega);
       sum = 0;
-      for (let g = 0; g < groups.length; g++) {
+      for (let g = 0; g < nGroups; g++) {
         const v = referral.referred(spectra[g]) * factor;
         termPsd[g][f] = v;
         sum += v;
@@ -71,7 +76,7 @@ export function noiseBudget(assembled: AssembledSetup, frequencies: Float64Array
     if (!Number.isFinite(sum)) {
       blindPoints++;
       total[f] = Infinity;
-      for (const t of termPsd) t[f] = Infinity;
+      for (let g = 0; g < nGroups; g++) termPsd[g][f] = Infinity;
     }
   }
 
@@ -90,16 +95,13 @@ export function noiseBudget(assembled: AssembledSetup, frequencies: Float64Array
 
   const terms: BudgetTerm[] = [];
   groups.forEach((g, i) => {
-    if (termPsd[i].some((v) => v !== 0)) {
+    if (!allZero(termPsd[i])) {
       terms.push({ id: g.id, label: g.label, owner: g.owner, category: g.category, psd: termPsd[i] });
     }
   });
   const references = signal.curves.map((curve) => {
     const psd = new Float64Array(nf);
-    for (let f = 0; f < nf; f++) {
-      const omega = 2 * Math.PI * frequencies[f];
-      psd[f] = curve.psd(omega) * referredTo.psdFactor(omega);
-    }
+    for (let f = 0; f < nf; f++) psd[f] = curve.psd(2 * Math.PI * frequencies[f]) * factors[f];
     return { id: curve.id, label: curve.label, psd };
   });
   return {
@@ -113,39 +115,67 @@ export function noiseBudget(assembled: AssembledSetup, frequencies: Float64Array
   };
 }
 
-/** S_g = H_g N_g H_g† for one group (p×p Hermitian), reusing its arrays. */
+function allZero(xs: Float64Array): boolean {
+  for (let i = 0; i < xs.length; i++) if (xs[i] !== 0) return false;
+  return true;
+}
+
+/**
+ * S_g = H_g N_g H_g† for one group (p×p Hermitian), reusing its arrays. The non-zero
+ * entries N_ij of the group are listed once, in the order the sum visits them.
+ */
 class GroupSpectra {
   readonly re: Float64Array;
   readonly im: Float64Array;
+  private readonly m: number;
+  private readonly ni: Int32Array;
+  private readonly nj: Int32Array;
+  private readonly nv: Float64Array;
   constructor(
-    private readonly model: StateSpaceModel,
+    model: StateSpaceModel,
+    columns: readonly number[],
     private readonly p: number,
   ) {
     this.re = new Float64Array(p * p);
     this.im = new Float64Array(p * p);
+    const m = model.nInputs;
+    this.m = m;
+    const ni: number[] = [];
+    const nj: number[] = [];
+    const nv: number[] = [];
+    for (const i of columns) {
+      for (const j of columns) {
+        const nij = model.N[i * m + j];
+        if (nij === 0) continue;
+        ni.push(i);
+        nj.push(j);
+        nv.push(nij);
+      }
+    }
+    this.ni = Int32Array.from(ni);
+    this.nj = Int32Array.from(nj);
+    this.nv = Float64Array.from(nv);
   }
 
-  compute(columns: readonly number[], hRe: Float64Array, hIm: Float64Array): void {
-    const { p, re, im } = this;
-    const m = this.model.nInputs;
-    const N = this.model.N;
+  compute(hRe: Float64Array, hIm: Float64Array): void {
+    const { p, m, re, im, ni, nj, nv } = this;
+    const count = nv.length;
     // Every entry is written below (upper triangle and its mirror), so no clearing is needed.
     for (let a = 0; a < p; a++) {
       for (let b = a; b < p; b++) {
         let sr = 0;
         let si = 0;
-        for (const i of columns) {
+        for (let e = 0; e < count; e++) {
+          const i = ni[e];
+          const j = nj[e];
+          const nij = nv[e];
+          // H[a,i] N_ij conj(H[b,j])
           const ar = hRe[a * m + i];
           const ai = hIm[a * m + i];
-          for (const j of columns) {
-            const nij = N[i * m + j];
-            if (nij === 0) continue;
-            // H[a,i] N_ij conj(H[b,j])
-            const br = hRe[b * m + j];
-            const bi = -hIm[b * m + j];
-            sr += nij * (ar * br - ai * bi);
-            si += nij * (ar * bi + ai * br);
-          }
+          const br = hRe[b * m + j];
+          const bi = -hIm[b * m + j];
+          sr += nij * (ar * br - ai * bi);
+          si += nij * (ar * bi + ai * br);
         }
         re[a * p + b] = sr;
         im[a * p + b] = a === b ? 0 : si;

@@ -1,4 +1,5 @@
-import { complexLuFactor, complexLuSolveTransposed, SingularMatrixError } from "../linalg";
+import { complexLuFactor, complexLuSolveTransposed } from "../linalg/complex-lu";
+import { SingularMatrixError } from "../linalg/singular-error";
 import type { StateSpaceModel } from "../network/model";
 
 /**
@@ -6,7 +7,9 @@ import type { StateSpaceModel } from "../network/model";
  * the signal to the chosen output rows:
  *   H(Ω) = C_r (−iΩ I − A)^{-1} B + D_r,   h(Ω) = C_r (−iΩ I − A)^{-1} b_s + d_s.
  * It solves (−iΩ I − A)ᵀ Gᵀ = C_rᵀ (a few right-hand sides) instead of inverting,
- * and keeps all work arrays between calls.
+ * and keeps all work arrays between calls. Everything that does not depend on Ω (−A, C_rᵀ,
+ * the non-zero entries of B and b_s) is laid out once in the constructor, so a frequency
+ * costs the factorisation, the solve and the products over non-zero entries only.
  */
 export class TransferEvaluator {
   readonly rows: readonly number[];
@@ -17,23 +20,73 @@ export class TransferEvaluator {
   readonly sRe: Float64Array;
   readonly sIm: Float64Array;
 
+  private readonly n: number;
+  private readonly m: number;
+  private readonly p: number;
+  private readonly negA: Float64Array;
+  /** C_rᵀ (n×p), the right-hand side of every solve. */
+  private readonly cT: Float64Array;
+  private readonly dRows: Float64Array;
+  private readonly sD: Float64Array;
+  /** Non-zero entries of B by column (compressed columns): state index and value. */
+  private readonly bStart: Int32Array;
+  private readonly bRow: Int32Array;
+  private readonly bVal: Float64Array;
+  private readonly sRow: Int32Array;
+  private readonly sVal: Float64Array;
   private readonly mRe: Float64Array;
   private readonly mIm: Float64Array;
   private readonly piv: Int32Array;
   private readonly gRe: Float64Array;
   private readonly gIm: Float64Array;
 
-  constructor(
-    private readonly model: StateSpaceModel,
-    rows: readonly number[],
-  ) {
+  constructor(model: StateSpaceModel, rows: readonly number[]) {
     const n = model.nStates;
+    const m = model.nInputs;
     const p = rows.length;
     this.rows = rows;
-    this.hRe = new Float64Array(p * model.nInputs);
-    this.hIm = new Float64Array(p * model.nInputs);
+    this.n = n;
+    this.m = m;
+    this.p = p;
+    this.hRe = new Float64Array(p * m);
+    this.hIm = new Float64Array(p * m);
     this.sRe = new Float64Array(p);
     this.sIm = new Float64Array(p);
+    this.negA = new Float64Array(n * n);
+    for (let i = 0; i < n * n; i++) this.negA[i] = -model.A[i];
+    this.cT = new Float64Array(n * p);
+    this.dRows = new Float64Array(p * m);
+    this.sD = new Float64Array(p);
+    for (let k = 0; k < p; k++) {
+      const row = rows[k];
+      for (let j = 0; j < n; j++) this.cT[j * p + k] = model.C[row * n + j];
+      for (let c = 0; c < m; c++) this.dRows[k * m + c] = model.D[row * m + c];
+      this.sD[k] = model.signalD[row];
+    }
+    const start: number[] = [0];
+    const bRow: number[] = [];
+    const bVal: number[] = [];
+    for (let c = 0; c < m; c++) {
+      for (let j = 0; j < n; j++) {
+        const b = model.B[j * m + c];
+        if (b === 0) continue;
+        bRow.push(j);
+        bVal.push(b);
+      }
+      start.push(bRow.length);
+    }
+    this.bStart = Int32Array.from(start);
+    this.bRow = Int32Array.from(bRow);
+    this.bVal = Float64Array.from(bVal);
+    const sRow: number[] = [];
+    const sVal: number[] = [];
+    for (let j = 0; j < n; j++) {
+      if (model.signalB[j] === 0) continue;
+      sRow.push(j);
+      sVal.push(model.signalB[j]);
+    }
+    this.sRow = Int32Array.from(sRow);
+    this.sVal = Float64Array.from(sVal);
     this.mRe = new Float64Array(n * n);
     this.mIm = new Float64Array(n * n);
     this.piv = new Int32Array(n);
@@ -41,18 +94,61 @@ export class TransferEvaluator {
     this.gIm = new Float64Array(n * p);
   }
 
+  /**
+   * One mode (n = 2, the commonest set-up): G = C_r M⁻¹ with M⁻¹ = adj(M)/det(M), which
+   * keeps the exact zeros of M and C_r as LU does. Returns false (and the LU path is
+   * taken, which reports a singular matrix or copes with extreme scales) when det(M) is zero
+   * or not finite.
+   */
+  private oneMode(omega: number): boolean {
+    const { p, negA, cT, gRe, gIm } = this;
+    // M = −iΩ I − A
+    const m00r = negA[0];
+    const m01r = negA[1];
+    const m10r = negA[2];
+    const m11r = negA[3];
+    const mi = -omega;
+    // det = m00 m11 − m01 m10 (the off-diagonal entries are real)
+    const dr = m00r * m11r - mi * mi - m01r * m10r;
+    const di = m00r * mi + mi * m11r;
+    const scale = Math.abs(dr) + Math.abs(di);
+    if (!(scale > 0) || !Number.isFinite(scale)) return false;
+    // Reciprocal of det, pre-scaled as in the LU so |det|² cannot overflow or underflow.
+    const s = 1 / scale;
+    const pr = dr * s;
+    const pi = di * s;
+    const d = s / (pr * pr + pi * pi);
+    const ir = pr * d;
+    const ii = -pi * d;
+    for (let k = 0; k < p; k++) {
+      const c0 = cT[k];
+      const c1 = cT[p + k];
+      // [g0, g1] = [c0, c1] adj(M) / det, adj(M) = [[m11, −m01], [−m10, m00]]
+      const ar = c0 * m11r - c1 * m10r;
+      const ai = c0 * mi;
+      const br = c1 * m00r - c0 * m01r;
+      const bi = c1 * mi;
+      gRe[k] = ar * ir - ai * ii;
+      gIm[k] = ar * ii + ai * ir;
+      gRe[p + k] = br * ir - bi * ii;
+      gIm[p + k] = br * ii + bi * ir;
+    }
+    return true;
+  }
+
   /** Fills hRe/hIm/sRe/sIm for angular frequency omega (rad/s). */
   at(omega: number): void {
-    const { model, rows, mRe, mIm, gRe, gIm } = this;
-    const n = model.nStates;
-    const m = model.nInputs;
-    const p = rows.length;
-    for (let i = 0; i < n * n; i++) {
-      mRe[i] = -model.A[i];
-      mIm[i] = 0;
-    }
-    for (let i = 0; i < n; i++) mIm[i * n + i] = -omega;
-    if (n > 0) {
+    const { n, m, p, mRe, mIm, gRe, gIm } = this;
+    if (n === 2 && this.oneMode(omega)) {
+      // G came from the closed-form inverse of a 2×2 matrix.
+    } else if (n > 0) {
+      // Plain loops: for the few entries of a small model they beat set/fill calls.
+      const negA = this.negA;
+      for (let i = 0; i < n * n; i++) {
+        mRe[i] = negA[i];
+        mIm[i] = 0;
+      }
+      for (let i = 0; i < n; i++) mIm[i * n + i] = -omega;
       try {
         complexLuFactor(mRe, mIm, n, this.piv);
       } catch (e) {
@@ -62,35 +158,32 @@ export class TransferEvaluator {
         throw e;
       }
       // Gᵀ (n×p) = solution of Mᵀ Gᵀ = C_rᵀ
-      for (let k = 0; k < p; k++) {
-        const row = rows[k];
-        for (let j = 0; j < n; j++) {
-          gRe[j * p + k] = model.C[row * n + j];
-          gIm[j * p + k] = 0;
-        }
+      const cT = this.cT;
+      for (let i = 0; i < n * p; i++) {
+        gRe[i] = cT[i];
+        gIm[i] = 0;
       }
       complexLuSolveTransposed(mRe, mIm, n, this.piv, gRe, gIm, p);
     }
-    const { hRe, hIm, sRe, sIm } = this;
+    const { hRe, hIm, sRe, sIm, dRows, bStart, bRow, bVal, sRow, sVal } = this;
     for (let k = 0; k < p; k++) {
-      const row = rows[k];
       for (let c = 0; c < m; c++) {
-        let re = model.D[row * m + c];
+        let re = dRows[k * m + c];
         let im = 0;
-        for (let j = 0; j < n; j++) {
-          const b = model.B[j * m + c];
-          if (b === 0) continue;
+        for (let e = bStart[c]; e < bStart[c + 1]; e++) {
+          const j = bRow[e];
+          const b = bVal[e];
           re += gRe[j * p + k] * b;
           im += gIm[j * p + k] * b;
         }
         hRe[k * m + c] = re;
         hIm[k * m + c] = im;
       }
-      let re = model.signalD[row];
+      let re = this.sD[k];
       let im = 0;
-      for (let j = 0; j < n; j++) {
-        const b = model.signalB[j];
-        if (b === 0) continue;
+      for (let e = 0; e < sRow.length; e++) {
+        const j = sRow[e];
+        const b = sVal[e];
         re += gRe[j * p + k] * b;
         im += gIm[j * p + k] * b;
       }

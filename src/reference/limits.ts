@@ -1,5 +1,5 @@
 import { BOLTZMANN, HBAR } from "../constants";
-import { expm1, hypot, tanh } from "../numeric/portable-math";
+import { expm1, tanh } from "../numeric/portable-math";
 
 /**
  * Closed-form reference curves (one-sided PSDs, SI units). Each is the textbook formula,
@@ -32,7 +32,24 @@ export function oscillatorSusceptibility(mass: number, omegaM: number, gamma: nu
 
 /** Added-noise SQL of a displacement measurement, 2ħ|χ(Ω)|  [m²/Hz]. */
 export function displacementSql(chi: [number, number]): number {
-  return 2 * HBAR * hypot(chi[0], chi[1]);
+  return 2 * HBAR * modulus(chi[0], chi[1]);
+}
+
+/**
+ * |re + i·im| scaled by the larger part so squares cannot overflow or underflow. The same
+ * operations, in the same order, as the portable hypot of two values, without its argument
+ * list: this runs at every frequency of every budget.
+ */
+function modulus(re: number, im: number): number {
+  const a = Math.abs(re);
+  const b = Math.abs(im);
+  if (Number.isNaN(a) || Number.isNaN(b)) return a === Infinity || b === Infinity ? Infinity : NaN;
+  const max = a > b ? a : b;
+  if (max === Infinity) return Infinity;
+  if (max === 0) return 0;
+  const qa = a / max;
+  const qb = b / max;
+  return Math.sqrt(qa * qa + qb * qb) * max;
 }
 
 /** Zero-point displacement spectrum 2ħ|Im χ(Ω)|  [m²/Hz]. */

@@ -1,5 +1,6 @@
 /** Tolerance maps: a figure of merit over a grid of two parameters of a set-up. */
 export { toleranceMap } from "./map";
+export { TolerancePool } from "./parallel";
 export {
   toleranceMapInProcess,
   toleranceCellSetup,

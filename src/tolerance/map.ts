@@ -1,6 +1,7 @@
 import { availableParallelism } from "node:os";
 import type { SetupDescription } from "../setup/format";
-import { runRowsInWorkers } from "./parallel";
+import { QuietframeError } from "../errors";
+import { runRowsInWorkers, TolerancePool } from "./parallel";
 import { checkCallbacks, checkWorkers, runRowsInProcess, type ToleranceMap, type ToleranceMapOptions } from "./run";
 import { resolveToleranceSpec, type ToleranceMapSpec } from "./spec";
 
@@ -17,9 +18,14 @@ import { resolveToleranceSpec, type ToleranceMapSpec } from "./spec";
 export async function toleranceMap(setup: SetupDescription, spec: ToleranceMapSpec, options: ToleranceMapOptions = {}): Promise<ToleranceMap> {
   const started = performance.now();
   checkCallbacks(options);
-  const requested = checkWorkers(options.workers, availableParallelism());
+  const pool = options.pool;
+  if (pool !== undefined && !(pool instanceof TolerancePool)) {
+    throw new QuietframeError({ path: "options.pool", value: typeof pool, problem: "is not a tolerance pool", allowed: "await TolerancePool.start(threads)" });
+  }
+  const requested = checkWorkers(options.workers, pool ? pool.size : availableParallelism());
   const { plan, figure } = resolveToleranceSpec(setup, spec);
-  const workers = Math.min(requested, plan.y.written.length);
+  const workers = Math.min(requested, plan.y.written.length, pool ? pool.size : Infinity);
+  if (pool) return (await pool.run(plan, workers, options)).finish(plan, figure, started, workers);
   const collector = workers === 1 ? await runRowsInProcess(plan, options) : await runRowsInWorkers(plan, workers, options);
   return collector.finish(plan, figure, started, workers);
 }

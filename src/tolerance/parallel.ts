@@ -6,21 +6,26 @@ import { RowCollector, ToleranceMapCancelled, type ToleranceMapOptions } from ".
 import type { TolerancePlan } from "./spec";
 
 /**
- * Rows of a tolerance map evaluated on worker threads (Node). Rows are handed out in small
- * chunks as workers ask for them, so cheap rows (unstable cells) and slow ones balance out;
- * every cell is computed by the same code from the same plan, so where it runs changes no bit.
+ * Rows of a tolerance map evaluated on worker threads (Node). Rows are handed out in chunks
+ * that shrink as the map nears its end (a share of what is left), two chunks ahead per worker
+ * so that no worker waits for a message between chunks; cheap rows (unstable cells) and slow
+ * ones balance out. Every cell is computed by the same code from the same plan, so where it
+ * runs changes no bit.
  */
 
-/** Main thread → worker. */
+/** Main thread → worker: rows of map `map`; `plan` comes with a pooled worker's first chunk of a map. */
 export interface ToWorker {
+  readonly map: number;
+  readonly plan?: TolerancePlan;
   readonly rows: readonly number[];
 }
 
 /** Worker → main thread. */
 export type FromWorker =
-  | { readonly type: "row"; readonly y: number; readonly row: RowResult }
-  | { readonly type: "idle" }
-  | { readonly type: "failed"; readonly y: number; readonly message: string; readonly stack: string };
+  | { readonly type: "ready"; readonly map: number }
+  | { readonly type: "row"; readonly map: number; readonly y: number; readonly row: RowResult }
+  | { readonly type: "idle"; readonly map: number }
+  | { readonly type: "failed"; readonly map: number; readonly y: number; readonly message: string; readonly stack: string };
 
 /**
  * The compiled worker script. Built code finds it beside itself; code run from the TypeScript
@@ -35,49 +40,64 @@ export function workerScript(): string {
   return file;
 }
 
-export function runRowsInWorkers(plan: TolerancePlan, workers: number, options: ToleranceMapOptions): Promise<RowCollector> {
+/** How many chunks each worker is kept ahead by. */
+const AHEAD = 2;
+
+/**
+ * Hands the rows of one map to the given (started) workers and collects them. `sendPlan`:
+ * the plan goes with each worker's first chunk (pooled workers serve many maps). Resolves
+ * when every row is in; on failure or abort it stops feeding and rejects; `release` is then
+ * called once, after which no message of this map is looked at.
+ */
+function dispatchRows(
+  workers: readonly Worker[],
+  plan: TolerancePlan,
+  map: number,
+  sendPlan: boolean,
+  options: ToleranceMapOptions,
+  release: (outcome: "done" | "failed") => Promise<void>,
+): Promise<RowCollector> {
   const collector = new RowCollector(plan);
   const rows = collector.rows;
   const { signal, onProgress } = options;
-  if (signal?.aborted) return Promise.reject(new ToleranceMapCancelled(0, rows, signal.reason));
-  const script = workerScript();
-  // About eight chunks per worker: small enough to balance, large enough to keep messages rare.
-  const chunk = Math.max(1, Math.floor(rows / (workers * 8)));
+  if (signal?.aborted) {
+    const cancelled = new ToleranceMapCancelled(0, rows, signal.reason);
+    return release("done").then(() => Promise.reject(cancelled));
+  }
 
   return new Promise<RowCollector>((resolve, reject) => {
-    const pool: Worker[] = [];
     let next = 0;
     let settled = false;
+    const planSent = new Set<Worker>();
+    const cleanups: (() => void)[] = [];
 
-    const stopAll = (): Promise<void> => Promise.all(pool.map((w) => w.terminate())).then(
-      () => undefined,
-      () => undefined,
-    );
-    const settle = (outcome: () => void): void => {
+    const settle = (outcome: "done" | "failed", finish: () => void): void => {
       if (settled) return;
       settled = true;
       signal?.removeEventListener("abort", onAbort);
-      // Settle only once every worker has exited.
-      void stopAll().then(outcome);
+      for (const c of cleanups) c();
+      void release(outcome).then(finish, finish);
     };
-    const fail = (error: unknown): void => settle(() => reject(error));
+    const fail = (error: unknown): void => settle("failed", () => reject(error));
     function onAbort(): void {
       fail(new ToleranceMapCancelled(collector.rowsDone, rows, signal?.reason));
     }
     const feed = (w: Worker): void => {
-      if (next >= rows) return;
+      if (next >= rows || settled) return;
+      // A share of what is left: large chunks first, single rows at the end.
+      const chunk = Math.max(1, Math.ceil((rows - next) / (workers.length * 4)));
       const batch: number[] = [];
       while (batch.length < chunk && next < rows) batch.push(next++);
-      w.postMessage({ rows: batch } satisfies ToWorker);
+      const withPlan = sendPlan && !planSent.has(w);
+      planSent.add(w);
+      w.postMessage((withPlan ? { map, plan, rows: batch } : { map, rows: batch }) satisfies ToWorker);
     };
 
     signal?.addEventListener("abort", onAbort, { once: true });
     try {
-      for (let k = 0; k < workers; k++) {
-        const w = new Worker(script, { workerData: { plan } });
-        pool.push(w);
-        w.on("message", (m: FromWorker) => {
-          if (settled) return;
+      for (const w of workers) {
+        const onMessage = (m: FromWorker): void => {
+          if (settled || m.map !== map) return;
           if (m.type === "idle") {
             feed(w);
           } else if (m.type === "row") {
@@ -88,22 +108,124 @@ export function runRowsInWorkers(plan: TolerancePlan, workers: number, options: 
               fail(e);
               return;
             }
-            if (done === rows) settle(() => resolve(collector));
-          } else {
+            if (done === rows) settle("done", () => resolve(collector));
+          } else if (m.type === "failed") {
             const error = new Error(`tolerance map: row ${m.y} failed in a worker: ${m.message}`);
             error.stack = `${error.message}\n--- in the worker ---\n${m.stack}`;
             fail(error);
           }
-        });
+        };
+        const onExit = (code: number): void => {
+          if (!settled) fail(new Error(`a tolerance-map worker stopped (exit code ${code}) before the map was done`));
+        };
+        w.on("message", onMessage);
         w.on("error", fail);
         w.on("messageerror", fail);
-        w.on("exit", (code) => {
-          if (!settled) fail(new Error(`a tolerance-map worker stopped (exit code ${code}) before the map was done`));
+        w.on("exit", onExit);
+        cleanups.push(() => {
+          w.off("message", onMessage);
+          w.off("error", fail);
+          w.off("messageerror", fail);
+          w.off("exit", onExit);
         });
-        feed(w);
+        for (let k = 0; k < AHEAD; k++) feed(w);
       }
     } catch (e) {
       fail(e);
     }
   });
+}
+
+/** Rows of one map on `workers` fresh threads, which are stopped before the promise settles. */
+export function runRowsInWorkers(plan: TolerancePlan, workers: number, options: ToleranceMapOptions): Promise<RowCollector> {
+  if (options.signal?.aborted) return Promise.reject(new ToleranceMapCancelled(0, plan.y.written.length, options.signal.reason));
+  const script = workerScript();
+  const pool: Worker[] = [];
+  for (let k = 0; k < workers; k++) pool.push(new Worker(script, { workerData: { plan } }));
+  const stopAll = (): Promise<void> => Promise.all(pool.map((w) => w.terminate())).then(
+    () => undefined,
+    () => undefined,
+  );
+  return dispatchRows(pool, plan, 0, false, options, stopAll);
+}
+
+/**
+ * Worker threads kept running between tolerance maps, so a map does not pay for starting
+ * threads and compiling the engine again: start one with `TolerancePool.start()`, pass it as
+ * `toleranceMap(setup, spec, { pool })` any number of times (maps on one pool run one after
+ * another), and `close()` it when done. A map that fails or is cancelled stops the pool's
+ * threads and the pool starts fresh ones for the next map, so no stale row is ever computing.
+ */
+export class TolerancePool {
+  private workers: Worker[] = [];
+  private maps = 0;
+  private queue: Promise<unknown> = Promise.resolve();
+  private closed = false;
+
+  private constructor(readonly size: number) {}
+
+  /** Starts `size` worker threads (default: every core) and resolves once each has loaded the engine. */
+  static async start(size: number): Promise<TolerancePool> {
+    if (!Number.isInteger(size) || size < 1) throw new RangeError(`a tolerance pool needs an integer number of threads ≥ 1, got ${size}`);
+    const pool = new TolerancePool(size);
+    await pool.spawn();
+    return pool;
+  }
+
+  private async spawn(): Promise<void> {
+    const script = workerScript();
+    const workers = Array.from({ length: this.size }, () => new Worker(script));
+    this.workers = workers;
+    await Promise.all(
+      this.workers.map(
+        (w) =>
+          new Promise<void>((resolve, reject) => {
+            const onMessage = (m: FromWorker): void => {
+              if (m.type !== "ready") return;
+              w.off("message", onMessage);
+              w.off("error", reject);
+              resolve();
+            };
+            w.on("message", onMessage);
+            w.once("error", reject);
+          }),
+      ),
+    );
+    // Idle threads do not keep the process alive; a running map holds them (see run).
+    for (const w of workers) w.unref();
+  }
+
+  /** Rows of one map on the pool's threads (at most `limit` of them); waits for maps started before. */
+  run(plan: TolerancePlan, limit: number, options: ToleranceMapOptions): Promise<RowCollector> {
+    const turn = this.queue.then(async () => {
+      if (this.closed) throw new Error("this tolerance pool is closed");
+      if (this.workers.length === 0) await this.spawn();
+      const map = ++this.maps;
+      const used = this.workers.slice(0, Math.max(1, Math.min(limit, this.workers.length)));
+      for (const w of used) w.ref();
+      return dispatchRows(used, plan, map, true, options, async (outcome) => {
+        for (const w of used) w.unref();
+        // Threads still busy with rows of a failed or cancelled map are stopped, not waited for.
+        if (outcome === "failed") await this.stop();
+      });
+    });
+    this.queue = turn.catch(() => undefined);
+    return turn;
+  }
+
+  private async stop(): Promise<void> {
+    const workers = this.workers;
+    this.workers = [];
+    await Promise.all(workers.map((w) => w.terminate())).then(
+      () => undefined,
+      () => undefined,
+    );
+  }
+
+  /** Stops every thread once the maps already started are done. */
+  async close(): Promise<void> {
+    this.closed = true;
+    await this.queue;
+    await this.stop();
+  }
 }

@@ -21,6 +21,17 @@ export interface ToleranceMapOptions {
   onProgress?: (done: number, total: number) => void;
   /** Aborting stops the workers and rejects with a ToleranceMapCancelled. */
   signal?: AbortSignal;
+  /**
+   * Node only: worker threads kept warm between maps (`await TolerancePool.start(n)`). The map
+   * then runs on the pool's threads (at most `workers` of them, when given) instead of
+   * starting and stopping its own. The values do not depend on it (bit for bit).
+   */
+  pool?: WarmThreads;
+}
+
+/** What the options see of a TolerancePool (Node only; kept apart so this module stays platform-free). */
+export interface WarmThreads {
+  readonly size: number;
 }
 
 export interface ToleranceAxis {

@@ -4,18 +4,21 @@
  * six-term budget (examples/cryogenic-membrane.json).
  *
  * A move is: set the temperature slider to a new position and dispatch `input`, as a drag
- * does. The widget coalesces input into one update per animation frame, computes the
- * budget with the same model code as Node, hands the new values to the Vega view and awaits
- * its runAsync (the canvas is redrawn when that resolves), and only then sets the element's
- * data-quietframe-fingerprint attribute. End points, timed in the page with performance.now():
- *   "chart"  the MutationObserver callback for that attribute (a microtask after it is set);
- *   "frame"  a task queued from the first requestAnimationFrame callback after that: it runs
- *            once the rendering step that follows the update (style, layout, paint of the
- *            new canvas) is done on the main thread, so the new chart is on its way to screen.
+ * does. An idle widget starts the update in a microtask, computes the budget with the same
+ * model code as Node, hands the new values to the Vega view and awaits its runAsync (the
+ * canvas is redrawn when that resolves), then dispatches "quietframe-drawn" on its element.
+ * The fingerprint (SHA-256 of the curves) is published afterwards, in a task after the next
+ * frame, together with the "ready" status. End points, timed in the page with performance.now():
+ *   "chart"   the "quietframe-drawn" listener (the canvas holds the new curves);
+ *   "frame"   a task queued from the first requestAnimationFrame callback after that: it runs
+ *             once the rendering step that follows the update (style, layout, paint of the
+ *             new canvas) is done on the main thread, so the new chart is on its way to screen
+ *             (the fingerprint task, queued just before it, is included);
+ *   "settled" the MutationObserver callback for the status attribute set with the fingerprint.
  * Baseline, interleaved move by move: an empty input→rAF round trip on the same page
- * (a listener that only requests a frame), which is also the widget's own floor, since it
- * waits for a frame before computing. Each move and each baseline starts at a random phase
- * of the frame clock.
+ * (a listener that only requests a frame): one frame of the page's clock, the latency a
+ * widget that waits for a frame before computing starts with. Each move and each baseline
+ * starts at a random phase of the frame clock.
  */
 const { mkdtempSync, readFileSync, rmSync, writeFileSync, existsSync } = require("node:fs");
 const { tmpdir } = require("node:os");
@@ -81,7 +84,14 @@ async function inPageLatency({ moves, target, widgetSelector, seed }) {
   };
   const frame = () => new Promise((resolve) => requestAnimationFrame(() => resolve(performance.now())));
   const sleep = (ms) => new Promise((resolve) => setTimeout(resolve, ms));
-  const painted = () => new Promise((resolve) => requestAnimationFrame(() => setTimeout(() => resolve(performance.now()), 0)));
+  // Resolves with [the next animation frame callback, a task queued from it] (performance.now()).
+  const painted = () =>
+    new Promise((resolve) =>
+      requestAnimationFrame(() => {
+        const raf = performance.now();
+        setTimeout(() => resolve([raf, performance.now()]), 0);
+      }),
+    );
   const element = document.querySelector(widgetSelector);
   const slider = element.querySelector(`input[type=range][data-target="${target}"]`);
   const steps = Number(slider.max);
@@ -93,14 +103,19 @@ async function inPageLatency({ moves, target, widgetSelector, seed }) {
   let baselineDone;
   dummy.addEventListener("input", () => requestAnimationFrame(() => baselineDone(performance.now())));
 
-  const attributeSet = () =>
+  // The status is set last, with the fingerprint (or alone, when a value is refused).
+  const statusSet = () =>
     new Promise((resolve) => {
+      const names = new Set();
       const observer = new MutationObserver((records) => {
+        for (const r of records) names.add(r.attributeName);
+        if (!names.has("data-quietframe-status")) return;
         observer.disconnect();
-        resolve({ at: performance.now(), status: element.getAttribute("data-quietframe-status"), names: records.map((r) => r.attributeName) });
+        resolve({ at: performance.now(), status: element.getAttribute("data-quietframe-status"), names: [...names] });
       });
       observer.observe(element, { attributes: true, attributeFilter: ["data-quietframe-fingerprint", "data-quietframe-status"] });
     });
+  const drawn = () => new Promise((resolve) => element.addEventListener("quietframe-drawn", () => resolve(performance.now()), { once: true }));
 
   // Optional breakdown of a move, by wrapping two of the widget's non-public members
   // (update: the frame callback's work; chart.show: the Vega changeset and runAsync). If
@@ -130,6 +145,8 @@ async function inPageLatency({ moves, target, widgetSelector, seed }) {
   const baseline = [];
   const chart = [];
   const framed = [];
+  const nextFrame = [];
+  const settled = [];
   let refused = 0;
   let position = Number(slider.value);
   for (let i = 0; i < moves; i++) {
@@ -146,24 +163,34 @@ async function inPageLatency({ moves, target, widgetSelector, seed }) {
     while (next === position) next = Math.floor(random() * (steps + 1));
     position = next;
     slider.value = String(position);
-    const changed = attributeSet();
+    const statusP = statusSet();
+    const drawnP = drawn();
     marks.update = marks.showStart = marks.showEnd = NaN;
     const t0 = performance.now();
     slider.dispatchEvent(new Event("input", { bubbles: true }));
-    const result = await changed;
-    const t2 = await painted();
+    const first = await Promise.race([drawnP.then((at) => ({ at })), statusP.then(() => ({ at: NaN }))]);
+    if (Number.isNaN(first.at)) {
+      // Refused: no chart drawn; the move is counted as refused and not timed.
+      refused++;
+      await statusP;
+      continue;
+    }
+    const [tf, t2] = await painted();
+    const result = await statusP;
     if (result.status !== "ready" || !result.names.includes("data-quietframe-fingerprint")) refused++;
-    chart.push(result.at - t0);
+    chart.push(first.at - t0);
     framed.push(t2 - t0);
+    nextFrame.push(tf - first.at);
+    settled.push(result.at - t0);
     if (instrumented && !Number.isNaN(marks.showEnd)) {
       split.wait.push(marks.update - t0);
       split.model.push(marks.showStart - marks.update);
       split.chart.push(marks.showEnd - marks.showStart);
-      split.after.push(result.at - marks.showEnd);
+      split.after.push(first.at - marks.showEnd);
     }
   }
   dummy.remove();
-  return { baseline, chart, framed, refused, split: instrumented ? split : undefined, finalPosition: position, fingerprint: element.getAttribute("data-quietframe-fingerprint") };
+  return { baseline, chart, framed, nextFrame, settled, refused, split: instrumented ? split : undefined, finalPosition: position, fingerprint: element.getAttribute("data-quietframe-fingerprint") };
 }
 
 async function runBrowserBench(log = () => undefined) {
@@ -239,10 +266,13 @@ async function runBrowserBench(log = () => undefined) {
       refused: r.refused,
       chart: summary(r.chart),
       frame: summary(r.framed),
+      settled: summary(r.settled),
+      // From the drawn chart to the next animation frame callback (before that frame's paint).
+      drawnToFrame: summary(r.nextFrame),
       baseline: summary(r.baseline),
       chartOverBaseline: median(r.chart) / median(r.baseline),
-      // Medians of the parts of a move: frame wait (input → update starts), model (computeExplorer
-      // and bookkeeping, update → chart.show), chart (chart.show: changeset + runAsync), after (→ attribute).
+      // Medians of the parts of a move: wait (input → update starts), model (computeExplorer
+      // and bookkeeping, update → chart.show), chart (chart.show: changeset + runAsync), after (→ drawn event).
       split: r.split && Object.fromEntries(Object.entries(r.split).map(([k, xs]) => [k, { median: median(xs), p95: quantile(xs, 0.95) }])),
       fingerprintMatchesNode: r.fingerprint === expected,
       // Without the in-page breakdown, at least the model's share, timed in Node.

@@ -1,4 +1,4 @@
-import { changeset, parse, View } from "vega";
+import { changeset, parse, View, type Changeset } from "vega";
 import { compile } from "vega-lite";
 import type { BudgetTable } from "../../src/engine/tabulate";
 import { budgetSpec, curveRows, CURVES_DATASET, type CurveRow } from "../chart/budget-spec";
@@ -39,18 +39,24 @@ export class ChartView {
     if (this.view && key === this.layoutKey) {
       const rows = curveRows(input.table);
       const current = this.plotted;
-      const change = changeset();
       if (sameCurvePoints(current, rows)) {
-        // Same curves at the same frequencies (the usual case): update values in place, which
-        // spares Vega from tearing down and rebuilding thousands of scenegraph items.
-        for (let i = 0; i < rows.length; i++) if (!Object.is(current[i].value, rows[i].value)) change.modify(current[i], "value", rows[i].value);
+        // Same curves at the same frequencies (the usual case): the values are written into
+        // the rows Vega holds, and one changeset names the field and passes every row on
+        // (reflow). That spares Vega both a teardown of thousands of scenegraph items and
+        // a per-row entry in the changeset.
+        let first = -1;
+        for (let i = 0; i < rows.length; i++) {
+          if (Object.is(current[i].value, rows[i].value)) continue;
+          current[i].value = rows[i].value;
+          if (first < 0) first = i;
+        }
+        if (first >= 0) await this.view.change(CURVES_DATASET, reflowing().modify(current[first], "value", current[first].value)).runAsync();
       } else {
-        change.remove(() => true).insert(rows);
+        await this.view.change(CURVES_DATASET, changeset().remove(() => true).insert(rows)).runAsync();
         this.plotted = rows;
       }
-      await this.view.change(CURVES_DATASET, change).runAsync();
     } else {
-      const spec = withoutTooltipEncoding(budgetSpec(input.table, input.quantity, { title: input.title }));
+      const spec = liveSpec(budgetSpec(input.table, input.quantity, { title: input.title }));
       const vgSpec = compile(spec as unknown as Parameters<typeof compile>[0]).spec;
       const view = new View(parse(vgSpec), { renderer: "canvas", hover: false });
       // Vega's own tooltip would show the first point of a hovered line; the pointer panel reads every curve at the cursor instead.
@@ -125,6 +131,11 @@ export class ChartView {
   }
 }
 
+/** A changeset that passes every row of the dataset on as modified (Vega's `reflow`, missing from its type declarations). */
+function reflowing(): Changeset {
+  return (changeset() as Changeset & { reflow(): Changeset }).reflow();
+}
+
 function sameCurvePoints(current: readonly CurveRow[], next: readonly CurveRow[]): boolean {
   if (current.length !== next.length) return false;
   for (let i = 0; i < next.length; i++) if (current[i].f !== next[i].f || current[i].series !== next[i].series) return false;
@@ -132,13 +143,26 @@ function sameCurvePoints(current: readonly CurveRow[], next: readonly CurveRow[]
 }
 
 /**
- * The live chart reads values through its pointer panel, so the per-point tooltip
- * encoding (thousands of formatted strings on every update) is dropped here.
+ * The budget chart as the live view draws it, with the same curves, scales, colours and
+ * axes, minus per-point work that every slider move would redo for each of thousands of
+ * points:
+ *  - the tooltip encoding and the per-point ARIA description (two formatted strings per
+ *    point): the pointer panel reads the values at the cursor instead;
+ *  - type parsing of the rows (`f` and `value` are numbers already);
+ *  - the sort key of the line widths (their scale domain lists the order);
+ *  - sorting each line's points by x: the rows come in frequency order (curveRows walks the
+ *    ascending grid), so the lines join the same points in the same order without it.
  */
-function withoutTooltipEncoding(spec: Record<string, unknown>): Record<string, unknown> {
+function liveSpec(spec: Record<string, unknown>): Record<string, unknown> {
   const encoding = { ...(spec.encoding as Record<string, unknown>) };
   delete encoding.tooltip;
-  return { ...spec, encoding };
+  const strokeWidth = { ...(encoding.strokeWidth as Record<string, unknown>) };
+  delete strokeWidth.sort;
+  encoding.strokeWidth = strokeWidth;
+  encoding.order = { value: null };
+  const data = { ...(spec.data as Record<string, unknown>), format: { parse: null } };
+  const mark = { ...(spec.mark as Record<string, unknown>), aria: false };
+  return { ...spec, data, mark, encoding };
 }
 
 function nearestIndex(sorted: Float64Array, x: number): number {

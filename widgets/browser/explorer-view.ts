@@ -15,6 +15,11 @@ import { el } from "./dom";
 
 export type WidgetStatus = "booting" | "ready" | "error";
 
+/** Dispatched on the widget's element each time new curves are drawn (before the fingerprint is published). */
+export const DRAWN_EVENT = "quietframe-drawn";
+
+type StateBase = Omit<ExplorerState, "fingerprint" | "values">;
+
 let widgetCount = 0;
 
 /**
@@ -27,7 +32,10 @@ export class ExplorerWidget {
   /** Resolves when the first chart is drawn (or the widget has shown why it cannot be). */
   readonly ready: Promise<void>;
   private initial: ExplorerState | undefined;
-  private state: ExplorerState | undefined;
+  /** The loaded state without values and fingerprint; with `values` and `computation` it is the current state. */
+  private base: StateBase | undefined;
+  /** Values of the last state that computed (the curves on screen). */
+  private values: Record<string, string | number> = {};
   private computation: ExplorerComputation | undefined;
   /** Values as the controls show them; may differ from `state.values` while refused. */
   private shown: Record<string, string | number> = {};
@@ -50,6 +58,10 @@ export class ExplorerWidget {
   private running = false;
   private dirty = false;
   private disposed = false;
+  /** Counts updates and refusals, so a fingerprint published late never overwrites a newer outcome. */
+  private generation = 0;
+  /** The computation whose fingerprint the element's attribute carries. */
+  private published: ExplorerComputation | undefined;
 
   constructor(element: HTMLElement) {
     this.element = element;
@@ -67,7 +79,14 @@ export class ExplorerWidget {
 
   /** The current (last valid) state, as "Download state" saves it. */
   currentState(): ExplorerState | undefined {
-    return this.state && structuredClone(this.state);
+    const state = this.state();
+    return state && structuredClone(state);
+  }
+
+  /** The state of the curves on screen; its fingerprint is computed here, on first use. */
+  private state(): ExplorerState | undefined {
+    if (!this.base || !this.computation) return undefined;
+    return { ...this.base, values: this.values, fingerprint: this.computation.fingerprint };
   }
 
   /** The rows the chart is plotting now (frequency, value, curve, kind). */
@@ -104,7 +123,9 @@ export class ExplorerWidget {
     this.initial = state;
     // The state held (and downloaded) describes the curves on screen; a stored fingerprint
     // that differs is reported in the notice below, not carried forward.
-    this.state = { ...state, fingerprint: computation.fingerprint };
+    const { values: _values, fingerprint: _fingerprint, ...base } = state;
+    this.base = base;
+    this.values = { ...state.values };
     this.computation = computation;
     this.shown = { ...state.values };
     const id = `quietframe-w${++widgetCount}`;
@@ -125,11 +146,11 @@ export class ExplorerWidget {
     this.element.querySelector<HTMLElement>(".qf-fallback")?.setAttribute("hidden", "");
     this.element.append(live);
     this.showFigures(state, computation);
-    this.element.setAttribute(FINGERPRINT_ATTRIBUTE, computation.fingerprint);
+    this.publishFingerprint(computation);
     this.element.setAttribute(STATUS_ATTRIBUTE, "ready");
   }
 
-  private chartInput(state: ExplorerState, computation: ExplorerComputation) {
+  private chartInput(state: Pick<ExplorerState, "settings">, computation: ExplorerComputation) {
     return {
       table: computation.table,
       quantity: computation.evaluation.budget.quantity.name,
@@ -137,26 +158,35 @@ export class ExplorerWidget {
     };
   }
 
-  /** Coalesces bursts of input (a dragged slider) into one computation per frame. */
+  /**
+   * Input is handled at once when the widget is idle (a microtask, so values set together in
+   * one event are computed once). While a computation or draw is under way, input only marks
+   * the widget dirty; when the draw ends, one more update runs with the newest values, so the
+   * last input always wins and a burst of input (a dragged slider) costs one update per draw.
+   */
   private requestUpdate(): void {
-    if (this.scheduled || this.disposed) return;
-    this.scheduled = true;
-    const run = (): void => {
-      this.scheduled = false;
-      void this.update();
-    };
-    if (typeof requestAnimationFrame === "function" && document.visibilityState === "visible") requestAnimationFrame(run);
-    else setTimeout(run, 0);
-  }
-
-  private async update(): Promise<void> {
-    if (!this.state || this.disposed) return;
+    if (this.disposed) return;
     if (this.running) {
       this.dirty = true;
       return;
     }
+    if (this.scheduled) return;
+    this.scheduled = true;
+    queueMicrotask(() => {
+      this.scheduled = false;
+      void this.update();
+    });
+  }
+
+  private async update(): Promise<void> {
+    const base = this.base;
+    if (!base || this.disposed) return;
+    if (this.running) {
+      this.dirty = true;
+      return;
+    }
+    const generation = ++this.generation;
     const values = { ...this.shown };
-    const base = this.state;
     let computation: ExplorerComputation;
     try {
       computation = computeExplorer({ ...base, values });
@@ -173,7 +203,7 @@ export class ExplorerWidget {
     }
     this.running = false;
     if (drawError) return this.refuse(drawError.error);
-    this.state = { ...base, values, fingerprint: computation.fingerprint };
+    this.values = values;
     this.computation = computation;
     this.showFigures({ ...base, values }, computation);
     this.alert.hidden = true;
@@ -182,20 +212,45 @@ export class ExplorerWidget {
     this.notice.hidden = true;
     this.notice.textContent = "";
     this.controls?.markInvalid([]);
-    this.element.setAttribute(FINGERPRINT_ATTRIBUTE, computation.fingerprint);
-    this.element.setAttribute(STATUS_ATTRIBUTE, "ready");
+    this.element.dispatchEvent(new CustomEvent(DRAWN_EVENT));
     if (this.dirty) {
       this.dirty = false;
       this.requestUpdate();
+    } else {
+      this.publishWhenPainted(generation, computation);
     }
   }
 
+  /**
+   * Sets the fingerprint attribute and the "ready" status together once the new chart has
+   * been painted (a task after the next frame), so the SHA-256 of the curves never delays
+   * the chart. Skipped when a newer update or refusal came first: the attribute always names
+   * the curves on screen, and "ready" with it means both are settled.
+   */
+  private publishWhenPainted(generation: number, computation: ExplorerComputation): void {
+    const publish = (): void => {
+      if (this.disposed || generation !== this.generation || this.running || this.scheduled) return;
+      this.publishFingerprint(computation);
+      this.element.setAttribute(STATUS_ATTRIBUTE, "ready");
+    };
+    const later = (): void => void setTimeout(publish, 0);
+    if (typeof requestAnimationFrame === "function" && document.visibilityState === "visible") requestAnimationFrame(later);
+    else later();
+  }
+
   /** A value the model refuses: say why, keep the last valid state and chart. */
+  private publishFingerprint(computation: ExplorerComputation): void {
+    this.element.setAttribute(FINGERPRINT_ATTRIBUTE, computation.fingerprint);
+    this.published = computation;
+  }
+
   private refuse(e: unknown): void {
+    this.generation++;
+    // Curves drawn but not yet published are the ones on screen: name them before refusing.
+    if (this.computation && this.published !== this.computation) this.publishFingerprint(this.computation);
     this.alert.textContent = `Not applied: ${messageOf(e)}\nThe chart and saved state keep the last valid values.`;
     this.alert.hidden = false;
-    const state = this.state;
-    const changed = state ? Object.keys(this.shown).filter((t) => this.shown[t] !== state.values[t]) : [];
+    const changed = Object.keys(this.shown).filter((t) => this.shown[t] !== this.values[t]);
     this.controls?.markInvalid(changed);
     this.element.setAttribute(STATUS_ATTRIBUTE, "error");
     if (this.dirty) {
@@ -211,7 +266,7 @@ export class ExplorerWidget {
     this.element.setAttribute(STATUS_ATTRIBUTE, "error");
   }
 
-  private showFigures(state: ExplorerState, computation: ExplorerComputation): void {
+  private showFigures(state: Omit<ExplorerState, "fingerprint">, computation: ExplorerComputation): void {
     const reach = this.reachOf(state, computation);
     this.readout.replaceChildren(
       ...headlineSummary(computation.headline).flatMap((line) => [el("dt", {}, [line.label]), el("dd", {}, [line.text])]),
@@ -227,7 +282,7 @@ export class ExplorerWidget {
   }
 
   /** The gauge never stops the widget: a failure to compute it is shown in its place. */
-  private reachOf(state: ExplorerState, computation: ExplorerComputation): ReachFigures | undefined {
+  private reachOf(state: Omit<ExplorerState, "fingerprint">, computation: ExplorerComputation): ReachFigures | undefined {
     try {
       return explorerReach(state, computation);
     } catch (e) {
@@ -280,7 +335,7 @@ export class ExplorerWidget {
       });
       return b;
     };
-    const stem = (): string => fileStem(this.state?.settings.title ?? this.computation?.setup.name ?? "");
+    const stem = (): string => fileStem(this.base?.settings.title ?? this.computation?.setup.name ?? "");
     return el("div", { class: "qf-actions" }, [
       button("Copy state", "Copy the widget-state JSON (set-up, controls, values, fingerprint)", async () => {
         const how = await copyText(stateDocumentText(this.requireState()), this.copyHost);
@@ -320,8 +375,9 @@ export class ExplorerWidget {
   }
 
   private requireState(): ExplorerState {
-    if (!this.state) throw new Error("the widget has no valid state");
-    return this.state;
+    const state = this.state();
+    if (!state) throw new Error("the widget has no valid state");
+    return state;
   }
 
   private requireComputation(): ExplorerComputation {

@@ -50,13 +50,19 @@ export function computeExplorer(state: Omit<ExplorerState, "fingerprint">): Expl
   const setup = loadSetup(applyValues(state.setup, state.values));
   const grid = parseGrid(state.settings.grid, "settings.grid");
   const evaluation = evaluateSetup(setup, grid);
+  // The fingerprint (SHA-256 over every plotted number) is computed on first use and kept:
+  // a dragged slider needs the curves at once, the fingerprint only when a state is shown or saved.
+  let fingerprint: string | undefined;
   return {
     controls,
     setup,
     evaluation,
     table: tabulateBudget(evaluation.budget, state.settings.spectralDensity),
     headline: headlineFigures(evaluation.budget),
-    fingerprint: budgetFingerprint(evaluation.budget),
+    get fingerprint(): string {
+      fingerprint ??= budgetFingerprint(evaluation.budget);
+      return fingerprint;
+    },
   };
 }
 
