@@ -24,7 +24,8 @@ type KernelInfo = ReturnType<JupyterHandlerImpl["handleKernel"]>;
 export class QuietframeHandler extends JupyterHandlerImpl {
   override handleKernel(): KernelInfo {
     const info = super.handleKernel();
-    return { ...info, implementation: "quietframe-ts", implementation_version: QUIETFRAME_VERSION, banner: `${info.banner} (quietframe ${QUIETFRAME_VERSION}, kernel with comms)` };
+    // The messaging spec requires status in every reply; tslab leaves it out of kernel_info_reply.
+    return { ...info, status: "ok", implementation: "quietframe-ts", implementation_version: QUIETFRAME_VERSION, banner: `${info.banner} (quietframe ${QUIETFRAME_VERSION}, kernel with comms)` } as KernelInfo;
   }
 }
 

@@ -83,7 +83,7 @@ export class WidgetModel {
     this.id = this.comm.id;
     widgetRegistry().set(this.id, { id: this.id, fullState: () => removeBuffers(this.current) });
     this.comm.onMessage((msg) => this.receive(msg));
-    this.comm.onInvalid((problem, msg) => this.refuse(String(msg.data.method ?? "?"), problem));
+    this.comm.onInvalid((problem) => this.refuse("comm_msg", problem));
     this.comm.onClose(() => this.closed());
   }
 
@@ -159,7 +159,7 @@ export class WidgetModel {
         for (const cb of [...this.customListeners]) this.guard("custom listener", () => cb(msg.data.content, msg.buffers));
         return;
       default:
-        return this.refuse(String(method), typeof method === "string" ? `unknown method "${method}"` : "data.method is missing", "update, request_state or custom");
+        return this.refuse(typeof method === "string" ? method : "(no method)", typeof method === "string" ? `unknown method "${method}"` : "data.method is missing", "update, request_state or custom");
     }
   }
 
