@@ -46,6 +46,26 @@ export function parseLaunchArgs(argv: readonly string[]): { configPath: string }
   return { configPath };
 }
 
+/**
+ * Ends the kernel once the process that started it is gone. jupyter_client names itself in
+ * JPY_PARENT_PID; without this a kernel whose Jupyter was killed keeps running, unseen.
+ */
+export function watchParent(pid: number, intervalMs = 1000): NodeJS.Timeout {
+  const timer = setInterval(() => {
+    try {
+      process.kill(pid, 0);
+    } catch (e) {
+      // EPERM: it exists but belongs to someone else, so it is alive.
+      if ((e as NodeJS.ErrnoException).code === "ESRCH") {
+        kernelLog(`parent process ${pid} is gone; shutting down`);
+        process.exit(0);
+      }
+    }
+  }, intervalMs);
+  timer.unref();
+  return timer;
+}
+
 export async function startKernel(configPath: string): Promise<CommKernelServer> {
   const convs = converters();
   void convs.node; // warm the compiler before the first cell arrives
@@ -58,6 +78,8 @@ export async function startKernel(configPath: string): Promise<CommKernelServer>
   process.on("uncaughtException", (err) => kernelLog(`uncaught exception: ${err.stack ?? String(err)}`));
   process.on("unhandledRejection", (reason) => kernelLog(`unhandled rejection: ${reason instanceof Error ? (reason.stack ?? reason.message) : String(reason)}`));
   await server.init();
+  const parent = Number(process.env.JPY_PARENT_PID);
+  if (Number.isInteger(parent) && parent > 1) watchParent(parent);
   kernelLog(`started (pid ${process.pid})`);
   return server;
 }
