@@ -1,4 +1,4 @@
-import { describe, expect, it } from "vitest";
+import { describe, expect, it, vi } from "vitest";
 import { installKernelComms, kernelComms } from "../../widgets/kernel/kernel-comms";
 import { frontEnd, recordingComms } from "./fake-transport";
 
@@ -107,6 +107,19 @@ describe("kernelComms", () => {
       expect(kernelComms()).toBe(comms);
       // Reachable through the global symbol, so a second copy of the module sees it too.
       expect((globalThis as Record<symbol, { comms: unknown }>)[Symbol.for("quietframe.kernel")].comms).toBe(comms);
+    } finally {
+      installKernelComms(undefined);
+    }
+  });
+
+  it("is the same manager for a second, separately loaded copy of the module", async () => {
+    const { comms } = recordingComms();
+    installKernelComms(comms);
+    try {
+      vi.resetModules();
+      const copy = await import("../../widgets/kernel/kernel-comms");
+      expect(copy.kernelComms).not.toBe(kernelComms); // really another module instance
+      expect(copy.kernelComms()).toBe(comms);
     } finally {
       installKernelComms(undefined);
     }

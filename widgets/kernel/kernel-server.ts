@@ -63,7 +63,7 @@ export class CommKernelServer extends ZmqServer {
     return this.requests.run(msg.header, () => super.handleShellMessage(sock, ...frames));
   }
 
-  /** tslab's own comm_info handler answers with the wrong message type; ours never reaches it. */
+  /** Served in handleShellMessage; overridden too, so tslab's reply (msg_type "complete_reply", no comms) can never go out. */
   override handleCommInfoRequest(sock: ShellSocket, msg: Parameters<ZmqServer["handleCommInfoRequest"]>[1]): void {
     const content = msg.content as { target_name?: unknown };
     this.reply(sock, { identities: msg.identity, msgType: "comm_info_reply", parent: msg.header, content: this.commInfoContent(content.target_name) });
