@@ -117,7 +117,7 @@ describe("kernelComms", () => {
     installKernelComms(comms);
     try {
       vi.resetModules();
-      const copy = await import("../../widgets/kernel/kernel-comms");
+      const copy = (await import("../../widgets/kernel/kernel-comms.js")) as typeof import("../../widgets/kernel/kernel-comms.js");
       expect(copy.kernelComms).not.toBe(kernelComms); // really another module instance
       expect(copy.kernelComms()).toBe(comms);
     } finally {
