@@ -13,6 +13,8 @@ import { loadExplorerState } from "../../widgets/state/document";
 import { explorerFigures } from "../../widgets/render/static";
 import { standalonePage } from "../../widgets/html/standalone";
 import type { CliIo } from "./run";
+import { isTrajectoryInput } from "../../widgets/trajectory/document";
+import { renderTrajectory } from "./render-trajectory";
 
 /**
  * `render` and `report`: files from explorer states and set-ups. The application layer: it
@@ -47,6 +49,12 @@ export async function renderCommand(args: string[], io: CliIo): Promise<number> 
   const format = outputFormat(values.format, output);
   const scale = pngScale(values.scale);
   const text = readText(input);
+  if (isTrajectoryInput(text)) {
+    const done = await renderTrajectory(text, input, format, { strict: values.strict, scale, source: basename(input) }, io);
+    writeAtomically(output, done.bytes);
+    io.out(`wrote ${output} (${format}, ${done.bytes.length} bytes, ${done.fingerprint})\n`);
+    return 0;
+  }
   const { state, computation, fingerprintMatches } = loadExplorerState(text, basename(input));
   if (!fingerprintMatches) {
     const message =

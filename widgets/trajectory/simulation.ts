@@ -1,0 +1,95 @@
+import { QuietframeError } from "../../src/errors";
+import type { SimulationSettings } from "../../src/timedomain/types";
+import { formatQuantity, parseQuantity } from "../../src/units";
+import { INITIAL_STATES, type SimulationSpec } from "./format";
+
+/**
+ * The simulation settings of a trajectory widget, checked once at the edge: times with their
+ * units become seconds, and every problem names the field, the value and what is allowed.
+ */
+
+/** Largest number of integration steps one widget runs (a browser tab must stay usable). */
+export const MAX_STEPS = 50_000_000;
+/** Stored time points: at least both ends, at most what a chart can draw. */
+export const MIN_SAMPLES = 2;
+export const MAX_SAMPLES = 20_001;
+/** Default stored points when a state does not say. */
+export const DEFAULT_SAMPLES = 2001;
+const MAX_SEED = 0xffffffff;
+
+export interface ResolvedSimulation {
+  /** What the engine is given. */
+  readonly settings: Required<SimulationSettings>;
+  /** Planned steps: ⌊duration / step⌋ (at least one). */
+  readonly steps: number;
+  /** Steps after which the run stops early, or null for a complete run. */
+  readonly stoppedAfter: number | null;
+}
+
+/** Steps the run plans for a duration and a step (seconds). */
+export function plannedSteps(duration: number, step: number): number {
+  return Math.max(1, Math.floor(duration / step));
+}
+
+export function resolveSimulation(spec: SimulationSpec, path = "simulation"): ResolvedSimulation {
+  if (typeof spec !== "object" || spec === null || Array.isArray(spec)) {
+    throw new QuietframeError({ path, value: spec, problem: "must be an object", allowed: '{"duration": "200 us", "step": "10 ns", "seed": 1}' });
+  }
+  const duration = parseQuantity(spec.duration, "time", `${path}.duration`);
+  if (!(duration > 0)) {
+    throw new QuietframeError({ path: `${path}.duration`, value: spec.duration, problem: "must be a positive time", allowed: 'a simulated time above 0, e.g. "200 us"' });
+  }
+  const step = parseQuantity(spec.step, "time", `${path}.step`);
+  if (!(step > 0)) {
+    throw new QuietframeError({ path: `${path}.step`, value: spec.step, problem: "must be a positive time", allowed: 'an integration step above 0, e.g. "10 ns"' });
+  }
+  if (step > duration) {
+    throw new QuietframeError({
+      path: `${path}.step`,
+      value: spec.step,
+      problem: `is longer than the duration (${formatQuantity(duration, "time")})`,
+      allowed: `a step of at most ${formatQuantity(duration, "time")}`,
+    });
+  }
+  const steps = plannedSteps(duration, step);
+  if (steps > MAX_STEPS) {
+    throw new QuietframeError({
+      path: `${path}.step`,
+      value: spec.step,
+      problem: `gives ${steps} steps over ${formatQuantity(duration, "time")}, more than ${MAX_STEPS}`,
+      allowed: `a step of at least ${formatQuantity(duration / MAX_STEPS, "time")}, or a shorter duration`,
+    });
+  }
+  const seed = spec.seed;
+  if (typeof seed !== "number" || !Number.isInteger(seed) || seed < 0 || seed > MAX_SEED) {
+    throw new QuietframeError({ path: `${path}.seed`, value: seed, problem: "is not a seed", allowed: `an integer from 0 to ${MAX_SEED}` });
+  }
+  const samples = spec.samples ?? defaultSamples(steps);
+  if (typeof samples !== "number" || !Number.isInteger(samples) || samples < MIN_SAMPLES || samples > Math.min(MAX_SAMPLES, steps + 1)) {
+    throw new QuietframeError({
+      path: `${path}.samples`,
+      value: samples,
+      problem: "is not a usable number of stored points",
+      allowed: `an integer from ${MIN_SAMPLES} to ${Math.min(MAX_SAMPLES, steps + 1)} (at most one per step, plus the start)`,
+    });
+  }
+  const initial = spec.initial ?? "stationary";
+  if (!(INITIAL_STATES as readonly string[]).includes(initial)) {
+    throw new QuietframeError({ path: `${path}.initial`, value: initial, problem: "is not a starting state", allowed: INITIAL_STATES.join(", ") });
+  }
+  const stopped = spec.stoppedAfter ?? null;
+  if (stopped !== null && (typeof stopped !== "number" || !Number.isInteger(stopped) || stopped < 0 || stopped >= steps)) {
+    throw new QuietframeError({ path: `${path}.stoppedAfter`, value: stopped, problem: "is not a step of this run", allowed: `null for a complete run, or an integer from 0 to ${steps - 1}` });
+  }
+  return { settings: { duration, step, seed, samples, initial }, steps, stoppedAfter: stopped };
+}
+
+/** min(steps + 1, 2001): every step when there are few, otherwise enough for a smooth chart. */
+export function defaultSamples(steps: number): number {
+  return Math.min(steps + 1, DEFAULT_SAMPLES);
+}
+
+/** A time as the widget shows and writes it: six significant digits with an SI prefix. */
+export function writeTime(seconds: number): string {
+  return formatQuantity(seconds, "time", 6);
+}
