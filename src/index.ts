@@ -25,3 +25,4 @@ export { COMPONENT_KINDS } from "./components/registry";
 export type { ComponentKind } from "./components/types";
 export * from "./reach";
 export * from "./tolerance";
+export * from "./timedomain";
