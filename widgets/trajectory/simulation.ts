@@ -1,4 +1,5 @@
 import { QuietframeError } from "../../src/errors";
+import { checkSettings, MAX_STEPS } from "../../src/timedomain/settings";
 import type { SimulationSettings } from "../../src/timedomain/types";
 import { formatQuantity, parseQuantity } from "../../src/units";
 import { INITIAL_STATES, type SimulationSpec } from "./format";
@@ -8,8 +9,7 @@ import { INITIAL_STATES, type SimulationSpec } from "./format";
  * units become seconds, and every problem names the field, the value and what is allowed.
  */
 
-/** Largest number of integration steps one widget runs (a browser tab must stay usable). */
-export const MAX_STEPS = 50_000_000;
+export { MAX_STEPS };
 /** Stored time points: at least both ends, at most what a chart can draw. */
 export const MIN_SAMPLES = 2;
 export const MAX_SAMPLES = 20_001;
@@ -20,15 +20,15 @@ const MAX_SEED = 0xffffffff;
 export interface ResolvedSimulation {
   /** What the engine is given. */
   readonly settings: Required<SimulationSettings>;
-  /** Planned steps: ⌊duration / step⌋ (at least one). */
+  /** Planned steps, counted as the engine counts them (a whole number of steps up to rounding, else rounded up). */
   readonly steps: number;
   /** Steps after which the run stops early, or null for a complete run. */
   readonly stoppedAfter: number | null;
 }
 
-/** Steps the run plans for a duration and a step (seconds). */
+/** Steps the run plans for a duration and a step (seconds), exactly as the engine plans them. */
 export function plannedSteps(duration: number, step: number): number {
-  return Math.max(1, Math.floor(duration / step));
+  return checkSettings({ duration, step, seed: 0, samples: 2 }).steps;
 }
 
 export function resolveSimulation(spec: SimulationSpec, path = "simulation"): ResolvedSimulation {
@@ -51,7 +51,7 @@ export function resolveSimulation(spec: SimulationSpec, path = "simulation"): Re
       allowed: `a step of at most ${formatQuantity(duration, "time")}`,
     });
   }
-  const steps = plannedSteps(duration, step);
+  const steps = Math.ceil(duration / step - 1e-9 * (duration / step));
   if (steps > MAX_STEPS) {
     throw new QuietframeError({
       path: `${path}.step`,
@@ -64,13 +64,14 @@ export function resolveSimulation(spec: SimulationSpec, path = "simulation"): Re
   if (typeof seed !== "number" || !Number.isInteger(seed) || seed < 0 || seed > MAX_SEED) {
     throw new QuietframeError({ path: `${path}.seed`, value: seed, problem: "is not a seed", allowed: `an integer from 0 to ${MAX_SEED}` });
   }
-  const samples = spec.samples ?? defaultSamples(steps);
-  if (typeof samples !== "number" || !Number.isInteger(samples) || samples < MIN_SAMPLES || samples > Math.min(MAX_SAMPLES, steps + 1)) {
+  const planned = plannedSteps(duration, step);
+  const samples = spec.samples ?? defaultSamples(planned);
+  if (typeof samples !== "number" || !Number.isInteger(samples) || samples < MIN_SAMPLES || samples > Math.min(MAX_SAMPLES, planned + 1)) {
     throw new QuietframeError({
       path: `${path}.samples`,
       value: samples,
       problem: "is not a usable number of stored points",
-      allowed: `an integer from ${MIN_SAMPLES} to ${Math.min(MAX_SAMPLES, steps + 1)} (at most one per step, plus the start)`,
+      allowed: `an integer from ${MIN_SAMPLES} to ${Math.min(MAX_SAMPLES, planned + 1)} (at most one per step, plus the start)`,
     });
   }
   const initial = spec.initial ?? "stationary";
@@ -78,10 +79,10 @@ export function resolveSimulation(spec: SimulationSpec, path = "simulation"): Re
     throw new QuietframeError({ path: `${path}.initial`, value: initial, problem: "is not a starting state", allowed: INITIAL_STATES.join(", ") });
   }
   const stopped = spec.stoppedAfter ?? null;
-  if (stopped !== null && (typeof stopped !== "number" || !Number.isInteger(stopped) || stopped < 0 || stopped >= steps)) {
-    throw new QuietframeError({ path: `${path}.stoppedAfter`, value: stopped, problem: "is not a step of this run", allowed: `null for a complete run, or an integer from 0 to ${steps - 1}` });
+  if (stopped !== null && (typeof stopped !== "number" || !Number.isInteger(stopped) || stopped < 0 || stopped >= planned)) {
+    throw new QuietframeError({ path: `${path}.stoppedAfter`, value: stopped, problem: "is not a step of this run", allowed: `null for a complete run, or an integer from 0 to ${planned - 1}` });
   }
-  return { settings: { duration, step, seed, samples, initial }, steps, stoppedAfter: stopped };
+  return { settings: { duration, step, seed, samples, initial }, steps: planned, stoppedAfter: stopped };
 }
 
 /** min(steps + 1, 2001): every step when there are few, otherwise enough for a smooth chart. */
