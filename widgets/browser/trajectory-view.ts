@@ -314,7 +314,7 @@ export class TrajectoryWidget {
       this.notice.hidden = true;
       this.notice.textContent = "";
     }
-    this.showFigures(computation);
+    this.showFigures(computation, state.joint);
     this.setRunning(false);
     this.element.setAttribute(TRAJECTORY_ATTRIBUTES.stopped, String(computation.result.stopped));
     this.element.setAttribute(TRAJECTORY_ATTRIBUTES.stepsTaken, String(computation.result.stepsTaken));
@@ -374,7 +374,7 @@ export class TrajectoryWidget {
   }
 
   private async draw(c: TrajectoryComputation, state: Omit<TrajectoryState, "fingerprint">): Promise<void> {
-    const specs = trajectorySpecs(trajectoryRows(c.result), state.joint.map((j) => j.label), state.pair);
+    const specs = trajectorySpecs(trajectoryRows(c.result, Infinity, state.joint), state.joint.map((j) => j.label), state.pair);
     const hosts = specs.map(() => el("div", { class: "qf-canvas" }));
     const views = specs.map((spec) => new View(parse(compile(spec as unknown as Parameters<typeof compile>[0]).spec), { renderer: "canvas", hover: false }));
     await Promise.all(views.map((v, i) => v.initialize(hosts[i]).runAsync()));
@@ -383,8 +383,8 @@ export class TrajectoryWidget {
     this.charts.replaceChildren(...hosts);
   }
 
-  private showFigures(c: TrajectoryComputation): void {
-    this.readout.replaceChildren(...trajectorySummary(c).flatMap((l) => [el("dt", {}, [l.label]), el("dd", {}, [l.text])]));
+  private showFigures(c: TrajectoryComputation, joint: TrajectoryState["joint"]): void {
+    this.readout.replaceChildren(...trajectorySummary(c, joint).flatMap((l) => [el("dt", {}, [l.label]), el("dd", {}, [l.text])]));
     this.cautionList.replaceChildren(...c.cautions.map((x) => el("li", {}, [x])));
     this.caution.hidden = c.cautions.length === 0;
     this.showProgress(c.result.stepsTaken / c.result.stepsPlanned, c.result.stepsTaken, c.result.stepsPlanned);
@@ -394,7 +394,7 @@ export class TrajectoryWidget {
   private async panelView(): Promise<View> {
     const state = this.requireState();
     const c = this.requireComputation();
-    const spec = trajectoryPanelSpec(trajectoryRows(c.result, STATIC_POINTS), state.joint.map((j) => j.label), state.pair, trajectoryTitle(state));
+    const spec = trajectoryPanelSpec(trajectoryRows(c.result, STATIC_POINTS, state.joint), state.joint.map((j) => j.label), state.pair, trajectoryTitle(state));
     const view = new View(parse(compile(spec as unknown as Parameters<typeof compile>[0]).spec), { renderer: "none" });
     await view.runAsync();
     return view;
@@ -438,7 +438,7 @@ export class TrajectoryWidget {
           view.finalize();
         }
       }),
-      button("CSV", "Save every stored number (shortest round-trip form)", () => downloadText(trajectoryCsv(this.requireComputation().result), `${stem()}.csv`, "text/csv")),
+      button("CSV", "Save every stored number (shortest round-trip form)", () => downloadText(trajectoryCsv(this.requireComputation().result, this.requireState().joint), `${stem()}.csv`, "text/csv")),
       button("Reset", "Back to the values and settings this widget was created with", () => this.reset()),
     ]);
   }

@@ -47,7 +47,7 @@ export function trajectoryHtml(state: TrajectoryState, computation: TrajectoryCo
   if (options.png !== undefined) parts.push(`<img class="qf-fallback-png" alt="${escapeHtml(`Trajectories: ${title}`)}" src="data:image/png;base64,${base64(options.png)}">`);
   parts.push(`<p class="qf-fallback-title"><strong>${escapeHtml(title)}</strong></p>`);
   parts.push(cautionHtml(computation.cautions));
-  const items = trajectorySummary(computation).map((l) => `<dt>${escapeHtml(l.label)}</dt><dd>${escapeHtml(l.text)}</dd>`).join("");
+  const items = trajectorySummary(computation, state.joint).map((l) => `<dt>${escapeHtml(l.label)}</dt><dd>${escapeHtml(l.text)}</dd>`).join("");
   parts.push(`<dl class="qf-summary">${items}</dl>`);
   parts.push(`<p class="qf-fallback-note"><small>Static figure: the controls appear where scripts run (a trusted notebook or a browser page).</small></p>`);
   parts.push(`</div>`);

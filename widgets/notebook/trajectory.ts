@@ -164,7 +164,7 @@ export class NotebookTrajectory {
 
   toString(): string {
     const cautions = this.#computation.cautions.map((c) => `caution: ${c}`);
-    return [trajectoryTitle(this.#state), ...cautions, ...trajectorySummary(this.#computation).map((l) => `${l.label}: ${l.text}`)].join("\n");
+    return [trajectoryTitle(this.#state), ...cautions, ...trajectorySummary(this.#computation, this.#state.joint).map((l) => `${l.label}: ${l.text}`)].join("\n");
   }
 
   [inspect.custom](): string {

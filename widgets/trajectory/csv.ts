@@ -1,11 +1,12 @@
-import type { TrajectoryResult } from "../../src/timedomain/types";
+import type { JointVariable, TrajectoryResult } from "../../src/timedomain/types";
+import { engineDuanLabel, jointDuanSum } from "./duan";
 import { partCurve } from "./series";
 
 /**
  * The stored numbers of a run as CSV: one row per stored time point, times in seconds, every
  * number in shortest round-trip form, so the file reproduces the computed doubles exactly.
  */
-export function trajectoryCsv(r: TrajectoryResult): string {
+export function trajectoryCsv(r: TrajectoryResult, joint: readonly JointVariable[] = []): string {
   const columns: { name: string; values: ArrayLike<number> }[] = [{ name: "time [s]", values: r.time }];
   for (const j of r.joint) {
     columns.push({ name: `${j.label}: true value`, values: j.truth });
@@ -18,7 +19,9 @@ export function trajectoryCsv(r: TrajectoryResult): string {
   if (e) {
     columns.push({ name: "EPR variance x", values: e.eprX });
     columns.push({ name: "EPR variance p", values: e.eprP });
-    columns.push({ name: "Duan sum", values: e.duanSum });
+    columns.push({ name: `Duan sum ${engineDuanLabel(e.pair)}`, values: e.duanSum });
+    const other = jointDuanSum(joint, r, e.pair);
+    if (other) columns.push({ name: `Duan sum ${other.label}`, values: other.values });
     columns.push({ name: "log-negativity [ebit]", values: e.logNegativity });
     columns.push({ name: "unconditional log-negativity [ebit]", values: e.unconditionalLogNegativity });
   }

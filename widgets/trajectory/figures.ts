@@ -15,7 +15,7 @@ export interface TrajectoryFigures {
 
 /** Spec, SVG, PNG and CSV of a run, rendered in Node from the specs the browser shows. */
 export async function trajectoryFigures(c: TrajectoryComputation, state: TrajectoryState, options: RenderPngOptions & RenderSvgOptions = {}): Promise<TrajectoryFigures> {
-  const spec = trajectoryPanelSpec(trajectoryRows(c.result, STATIC_POINTS), state.joint.map((j) => j.label), state.pair, trajectoryTitle(state));
+  const spec = trajectoryPanelSpec(trajectoryRows(c.result, STATIC_POINTS, state.joint), state.joint.map((j) => j.label), state.pair, trajectoryTitle(state));
   const svg = await renderSvg(spec, options);
-  return { spec, svg, png: renderPng(svg, options), csv: trajectoryCsv(c.result) };
+  return { spec, svg, png: renderPng(svg, options), csv: trajectoryCsv(c.result, state.joint) };
 }

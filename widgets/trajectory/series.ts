@@ -1,4 +1,5 @@
-import type { TrajectoryResult } from "../../src/timedomain/types";
+import type { JointVariable, TrajectoryResult } from "../../src/timedomain/types";
+import { engineDuanLabel, jointDuanSum } from "./duan";
 
 /**
  * The rows the charts plot, derived from a run's result. Times are shown in the SI prefix
@@ -59,7 +60,6 @@ export const CURVES = { conditional: "conditional", unconditional: "unconditiona
 export const MEASURES = {
   logNeg: "log-negativity (conditional)",
   logNegUnconditional: "log-negativity (unconditional)",
-  duan: "Duan sum (conditional)",
 } as const;
 
 /** "<component> alone": the conditional variance of the terms of one system. */
@@ -76,13 +76,15 @@ export interface TrajectoryRows {
   readonly duan: MeasureRow[];
   /** The separability bound of the Duan sum, when a pair is followed. */
   readonly duanBound: number | null;
+  /** The Duan sums shown (the engine's convention, and the other one when the joint variables give it). */
+  readonly duanMeasures: string[];
 }
 
 /**
  * Chart rows of a run. `maxPoints` thins the rows for static figures (every k-th stored point
  * and the last); the live charts and the CSV keep every stored point.
  */
-export function trajectoryRows(r: TrajectoryResult, maxPoints = Infinity): TrajectoryRows {
+export function trajectoryRows(r: TrajectoryResult, maxPoints = Infinity, joint: readonly JointVariable[] = []): TrajectoryRows {
   const axis = timeAxis(r.settings.duration);
   const n = r.time.length;
   const stride = Math.max(1, Math.ceil(n / maxPoints));
@@ -90,12 +92,12 @@ export function trajectoryRows(r: TrajectoryResult, maxPoints = Infinity): Traje
   for (let i = 0; i < n; i += stride) index.push(i);
   if (index[index.length - 1] !== n - 1) index.push(n - 1);
   const t = index.map((i) => r.time[i] * axis.factor);
-  const joint: JointRow[] = [];
+  const jointRows: JointRow[] = [];
   const variance: VarianceRow[] = [];
   for (const j of r.joint) {
     index.forEach((i, k) => {
       const sigma = Math.sqrt(j.conditional[i]);
-      joint.push({ t: t[k], series: j.label, estimate: j.estimate[i], lower: j.estimate[i] - sigma, upper: j.estimate[i] + sigma, truth: j.truth[i] });
+      jointRows.push({ t: t[k], series: j.label, estimate: j.estimate[i], lower: j.estimate[i] - sigma, upper: j.estimate[i] + sigma, truth: j.truth[i] });
     });
     const curves: [string, ArrayLike<number>][] = [
       [CURVES.conditional, j.conditional],
@@ -109,14 +111,19 @@ export function trajectoryRows(r: TrajectoryResult, maxPoints = Infinity): Traje
   const logNeg: MeasureRow[] = [];
   const duan: MeasureRow[] = [];
   const e = r.entanglement;
+  const duanMeasures: string[] = [];
   if (e) {
+    const engineLabel = engineDuanLabel(e.pair);
+    const fromJoint = jointDuanSum(joint, r, e.pair);
+    duanMeasures.push(engineLabel, ...(fromJoint ? [fromJoint.label] : []));
     index.forEach((i, k) => {
       logNeg.push({ t: t[k], measure: MEASURES.logNeg, value: e.logNegativity[i] });
       logNeg.push({ t: t[k], measure: MEASURES.logNegUnconditional, value: e.unconditionalLogNegativity[i] });
-      duan.push({ t: t[k], measure: MEASURES.duan, value: e.duanSum[i] });
+      duan.push({ t: t[k], measure: engineLabel, value: e.duanSum[i] });
+      if (fromJoint) duan.push({ t: t[k], measure: fromJoint.label, value: fromJoint.values[i] });
     });
   }
-  return { axis, joint, variance, zeroPoints: r.joint.map((j) => ({ series: j.label, value: j.zeroPoint })), logNeg, duan, duanBound: e ? e.duanBound : null };
+  return { axis, joint: jointRows, variance, zeroPoints: r.joint.map((j) => ({ series: j.label, value: j.zeroPoint })), logNeg, duan, duanBound: e ? e.duanBound : null, duanMeasures };
 }
 
 /** The first non-finite stored number, if any: a run that produced one is refused, never plotted. */

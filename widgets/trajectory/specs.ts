@@ -101,12 +101,17 @@ export function duanSpec(rows: TrajectoryRows): Spec {
     $schema: SCHEMA,
     width: WIDTH,
     height: 170,
-    title: { text: "Duan sum (separable states stay at or above the bound)", font: FONT, fontSize: 13 },
+    title: { text: "Duan sums (separable states stay at or above the bound)", font: FONT, fontSize: 13 },
     layer: [
       {
         data: { name: DATASETS.duan, values: rows.duan },
-        mark: { type: "line", strokeWidth: 1.6, color: "#5b3f8c" },
-        encoding: { x: timeField(rows), y: { field: "value", type: "quantitative", title: "Duan sum", scale: { zero: false } } },
+        mark: { type: "line", strokeWidth: 1.6 },
+        encoding: {
+          x: timeField(rows),
+          // Log scale: the two sign conventions can differ by orders of magnitude.
+          y: { field: "value", type: "quantitative", title: "Duan sum (conditional)", scale: { type: "log" } },
+          color: { field: "measure", type: "nominal", scale: { domain: rows.duanMeasures, range: rows.duanMeasures.length > 1 ? ["#9a9a9a", "#5b3f8c"] : ["#5b3f8c"] }, legend: LEGEND },
+        },
       },
       { data: { values: [{ bound }] }, mark: { type: "rule", color: "#c2571a", strokeDash: [6, 3], strokeWidth: 1.6 }, encoding: { y: { field: "bound", type: "quantitative" } } },
       {

@@ -1,3 +1,5 @@
+import type { JointVariable } from "../../src/timedomain/types";
+import { engineDuanLabel, jointDuanSum } from "./duan";
 import { simulationText, type TrajectoryComputation } from "./model";
 import { writeTime } from "./simulation";
 
@@ -13,7 +15,7 @@ export interface SummaryLine {
 
 const n = (y: number, d = 4): string => (Number.isFinite(y) ? String(Number(y.toPrecision(d))) : String(y));
 
-export function trajectorySummary(c: TrajectoryComputation): SummaryLine[] {
+export function trajectorySummary(c: TrajectoryComputation, joint: readonly JointVariable[] = []): SummaryLine[] {
   const r = c.result;
   const last = r.time.length - 1;
   const lines: SummaryLine[] = [{ label: "Run", text: simulationText(c.simulation, r) }];
@@ -29,10 +31,13 @@ export function trajectorySummary(c: TrajectoryComputation): SummaryLine[] {
   }
   const e = r.entanglement;
   if (e) {
-    const duan = e.duanSum[last];
-    lines.push({ label: `Entanglement ${e.pair[0]}–${e.pair[1]}`, text: `log-negativity ${n(e.logNegativity[last])} ebits (unconditional ${n(e.unconditionalLogNegativity[last])}); Duan sum ${n(duan)} (separable ≥ ${n(e.duanBound)}): ${duan < e.duanBound ? "entangled" : "not shown entangled"}` });
-    const first = firstBelow(e.duanSum, e.duanBound);
-    if (first >= 0) lines.push({ label: "Duan sum first below the bound", text: `after ${writeTime(r.time[first])}` });
+    lines.push({ label: `Entanglement ${e.pair[0]}–${e.pair[1]}`, text: `log-negativity ${n(e.logNegativity[last])} ebits (unconditional ${n(e.unconditionalLogNegativity[last])})` });
+    const other = jointDuanSum(joint, r, e.pair);
+    for (const [label, values] of [[engineDuanLabel(e.pair), e.duanSum] as const, ...(other ? [[other.label, other.values] as const] : [])]) {
+      const first = firstBelow(values, e.duanBound);
+      const verdict = values[last] < e.duanBound ? "entangled" : "not shown entangled";
+      lines.push({ label: "Duan sum", text: `${label} = ${n(values[last])} (separable ≥ ${n(e.duanBound)}): ${verdict}${first >= 0 ? `; first below the bound after ${writeTime(r.time[first])}` : ""}` });
+    }
   }
   lines.push({ label: "Curve fingerprint", text: c.fingerprint });
   return lines;

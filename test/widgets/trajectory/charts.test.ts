@@ -4,7 +4,8 @@ import { trajectoryCsv } from "../../../widgets/trajectory/csv";
 import { computeTrajectory, createTrajectoryState } from "../../../widgets/trajectory/model";
 import { trajectoryRows, timeAxis, partCurve, CURVES } from "../../../widgets/trajectory/series";
 import { DATASETS, trajectoryPanelSpec, trajectorySpecs } from "../../../widgets/trajectory/specs";
-import { hybrid, shortRun } from "./fixtures";
+import { jointDuanSum } from "../../../widgets/trajectory/duan";
+import { hybrid, MEMBRANE_X, P_DIFF, shortRun, SUM_X } from "./fixtures";
 
 const state = createTrajectoryState(hybrid, shortRun());
 const { fingerprint: _f, ...base } = state;
@@ -100,7 +101,35 @@ describe("CSV", () => {
       expect(Number(r[0])).toBe(c.result.time[i]);
       expect(Number(r[col(`${j.label}: estimate`)])).toBe(j.estimate[i]);
       expect(Number(r[col(`${j.label}: conditional variance, membrane alone`)])).toBe(j.parts.membrane[i]);
-      expect(Number(r[col("Duan sum")])).toBe(c.result.entanglement!.duanSum[i]);
+      expect(Number(r[col("Duan sum Var(x membrane − x cell) + Var(p membrane + p cell)")])).toBe(c.result.entanglement!.duanSum[i]);
     });
+  });
+});
+
+describe("Duan sum of the other sign convention", () => {
+  // Duan, Giedke, Cirac & Zoller, Phys. Rev. Lett. 84, 2722 (2000): for separable states
+  // Var(x1 + x2) + Var(p1 − p2) ≥ 2 in units where the vacuum variance is 1/2; rotating mode 2
+  // by π (a local unitary) gives the engine's Var(x1 − x2) + Var(p1 + p2) with the same bound.
+  const both = computeTrajectory({ ...base, joint: [SUM_X, P_DIFF, MEMBRANE_X] });
+
+  it("is the sum of the conditional variances of x1 + x2 and p1 − p2, point for point", () => {
+    const d = jointDuanSum([SUM_X, P_DIFF, MEMBRANE_X], both.result, ["membrane", "cell"])!;
+    expect(d.label).toBe("Var(x membrane + x cell) + Var(p membrane − p cell)");
+    both.result.time.forEach((_, i) => expect(d.values[i]).toBe(both.result.joint[0].conditional[i] + both.result.joint[1].conditional[i]));
+  });
+
+  it("is absent when the joint variables do not give it, or give the engine's own convention", () => {
+    expect(jointDuanSum([SUM_X, MEMBRANE_X], c.result, ["membrane", "cell"])).toBeUndefined();
+    expect(jointDuanSum([SUM_X, P_DIFF], both.result, null)).toBeUndefined();
+    const minus = { label: "x m − x c", terms: [SUM_X.terms[0], { ...SUM_X.terms[1], weight: -1 }] };
+    const plus = { label: "p m + p c", terms: [P_DIFF.terms[0], { ...P_DIFF.terms[1], weight: 1 }] };
+    expect(jointDuanSum([minus, plus], computeTrajectory({ ...base, joint: [minus, plus] }).result, ["membrane", "cell"])).toBeUndefined();
+  });
+
+  it("is drawn beside the engine's sum against the same bound", () => {
+    const rows = trajectoryRows(both.result, Infinity, [SUM_X, P_DIFF, MEMBRANE_X]);
+    expect(rows.duanMeasures).toEqual(["Var(x membrane − x cell) + Var(p membrane + p cell)", "Var(x membrane + x cell) + Var(p membrane − p cell)"]);
+    expect(rows.duan).toHaveLength(2 * both.result.time.length);
+    expect(rows.duanBound).toBe(2);
   });
 });

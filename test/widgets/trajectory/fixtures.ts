@@ -15,6 +15,13 @@ export const SUM_X: JointVariable = {
     { component: "cell", quadrature: "x", weight: 1 },
   ],
 };
+export const P_DIFF: JointVariable = {
+  label: "p membrane − p cell",
+  terms: [
+    { component: "membrane", quadrature: "p", weight: 1 },
+    { component: "cell", quadrature: "p", weight: -1 },
+  ],
+};
 export const MEMBRANE_X: JointVariable = { label: "x membrane", terms: [{ component: "membrane", quadrature: "x", weight: 1 }] };
 
 /** A short run (2,000 steps): enough to exercise every path, quick on a shared machine. */
