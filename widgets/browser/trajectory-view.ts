@@ -121,6 +121,18 @@ export class TrajectoryWidget {
     return this.state && structuredClone(this.state);
   }
 
+  /** The rows a chart is plotting now, by dataset name (see DATASETS in specs.ts); empty if no chart has it. */
+  plotted(dataset: string): Record<string, unknown>[] {
+    for (const v of this.views) {
+      try {
+        return (v.data(dataset) as Record<string, unknown>[]).map((row) => ({ ...row }));
+      } catch {
+        // Not this chart's dataset.
+      }
+    }
+    return [];
+  }
+
   /** Sets a control (a set-up parameter or "simulation.duration" / ".step" / ".seed") as if the reader had. */
   setValue(target: string, value: string | number): void {
     if (target.startsWith("simulation.")) {
@@ -225,12 +237,12 @@ export class TrajectoryWidget {
     const seedText = this.simInputs.seed.value.trim();
     // Text that is not an integer stays what it is, so the model's check can name it.
     const seed = /^[-+]?\d+(\.\d*)?(e[-+]?\d+)?$/i.test(seedText) ? Number(seedText) : (seedText as unknown as number);
-    const { stoppedAfter: _s, samples: _n, ...rest } = base;
+    const { stoppedAfter: _s, ...rest } = base;
     this.shownSimulation = { ...rest, duration: text("duration"), step: text("step"), seed };
     this.requestRun();
   }
 
-  /** Coalesces bursts of input into one run per frame. */
+  /** Coalesces bursts of input (a dragged slider) into one run. */
   private requestRun(): void {
     if (this.scheduled || this.disposed || !this.state) return;
     this.scheduled = true;
@@ -242,8 +254,9 @@ export class TrajectoryWidget {
       const { stoppedAfter: _s, ...simulation } = this.shownSimulation;
       this.launch({ ...rest, values: { ...this.shownValues }, simulation }, true);
     };
-    if (typeof requestAnimationFrame === "function" && document.visibilityState === "visible") requestAnimationFrame(go);
-    else setTimeout(go, 0);
+    // A task, not an animation frame: frames may not come while nothing on the page changes,
+    // and a run is long next to one frame anyway.
+    setTimeout(go, 0);
   }
 
   /** Starts a run for a state, replacing any run in progress. */
