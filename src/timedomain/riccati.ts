@@ -166,41 +166,60 @@ export function conditionalSteadyState(model: StateSpaceModel): Float64Array {
   if (n === 0) return new Float64Array(0);
   const sigma = balance(problem);
   const h0 = 0.5 / Math.max(hamiltonianNorm(problem, sigma), Number.MIN_VALUE);
-  let map = shortMap(problem, sigma, h0);
+  const limit = doublingLimit(shortMap(problem, sigma, h0), n);
+  if ("failed" in limit) throw noSteadyState(model, limit.before, limit.after);
+  return limit.w;
+}
+
+/**
+ * lim W of the map doubled again and again, i.e. the fixed point reached from V = 0 (the
+ * stabilizing solution when the mode set-up is detectable and stabilizable). Converged when
+ * two doublings in a row change no entry by more than CONVERGED of √(W_ii W_jj); by then the
+ * change shrinks quadratically.
+ */
+export function doublingLimit(start: RiccatiMap, n: number): { w: Float64Array } | { failed: true; before: Float64Array; after: Float64Array } {
+  let map = start;
   let settled = 0;
   for (let it = 0; it < MAX_DOUBLINGS; it++) {
     const next = composeMaps(map, map, n);
-    if (!allFinite(next.w)) throw noSteadyState(model, map.w, next.w);
-    let change = 0;
-    for (let i = 0; i < n * n; i++) change = Math.max(change, Math.abs(next.w[i] - map.w[i]));
-    const size = maxAbs(next.w);
-    if (it === MAX_DOUBLINGS - 1) throw noSteadyState(model, map.w, next.w);
+    if (!allFinite(next.w) || it === MAX_DOUBLINGS - 1) return { failed: true, before: map.w, after: next.w };
+    const change = relativeChange(map.w, next.w, n);
     map = next;
-    // Two quiet doublings in a row: by then the change shrinks quadratically.
-    settled = change <= CONVERGED * size ? settled + 1 : 0;
-    if (settled === 2) break;
+    settled = change <= CONVERGED ? settled + 1 : 0;
+    if (settled === 2) return { w: map.w };
   }
-  return map.w;
+  return { failed: true, before: map.w, after: map.w };
+}
+
+/** max |Δ_ij| / √(|W_ii W_jj|), falling back to the largest entry where a variance is zero. */
+export function relativeChange(before: Float64Array, after: Float64Array, n: number): number {
+  const floor = maxAbs(after) || Number.MIN_VALUE;
+  let worst = 0;
+  for (let i = 0; i < n; i++) {
+    for (let j = 0; j < n; j++) {
+      const scale = Math.sqrt(Math.abs(after[i * n + i] * after[j * n + j]));
+      const d = Math.abs(after[i * n + j] - before[i * n + j]) / (scale > 0 ? scale : floor);
+      if (d > worst || d !== d) worst = d;
+    }
+  }
+  return worst;
 }
 
 /** Names the mode whose conditional variance keeps growing (neither damped nor observed). */
 function noSteadyState(model: StateSpaceModel, before: Float64Array, after: Float64Array): QuietframeError {
   const n = model.nStates;
-  let where = "";
-  {
-    let worst = -1;
-    let ratio = 0;
-    for (let i = 0; i < n; i++) {
-      const grown = after[i * n + i] / Math.max(before[i * n + i], Number.MIN_VALUE);
-      const rr = Number.isFinite(grown) ? grown : Infinity;
-      if (rr > ratio || worst < 0) {
-        ratio = rr;
-        worst = i;
-      }
+  let worst = 0;
+  let ratio = -Infinity;
+  for (let i = 0; i < n; i++) {
+    const grown = after[i * n + i] / Math.max(before[i * n + i], Number.MIN_VALUE);
+    const r = Number.isFinite(grown) ? grown : Infinity;
+    if (r > ratio) {
+      ratio = r;
+      worst = i;
     }
-    const mode = model.modes.find((m) => m.x === worst || m.p === worst);
-    if (mode) where = ` (mode '${mode.label}' of '${mode.owner}')`;
   }
+  const mode = model.modes.find((m) => m.x === worst || m.p === worst);
+  const where = mode ? ` (mode '${mode.label}' of '${mode.owner}')` : "";
   return new QuietframeError({
     path: "readout",
     problem: `the conditional covariance has no steady state: a mode is neither damped nor seen by the read-out outputs${where}, so its uncertainty grows without bound`,

@@ -93,6 +93,11 @@ export interface TrajectoryResult {
   readonly entanglement?: EntanglementSeries;
   /** Smallest uncertainty margin (min eigenvalue of V + iΣ/2) met by any conditional covariance. */
   readonly minUncertaintyMargin: number;
+  /**
+   * Step after which the filter's covariance no longer changed (its steady state; later steps
+   * reuse one gain), or undefined if it was still settling when the run ended.
+   */
+  readonly filterSettledAtStep?: number;
 }
 
 /** A run that can be advanced in slices (for progress bars and a stop button). */

@@ -19,7 +19,7 @@ const { join, relative } = require("node:path");
 const { ROOT, dist } = require("./lib/repo");
 const { nowMs } = require("./lib/timing");
 
-const SECTIONS = ["engine", "browser", "notebook", "tolerance"];
+const SECTIONS = ["engine", "browser", "notebook", "tolerance", "timedomain"];
 
 function fmtTime(ms) {
   if (!Number.isFinite(ms)) return String(ms);
@@ -239,6 +239,12 @@ async function main() {
       details.tolerance = await t.runToleranceBench(log);
       rows.push(...t.toleranceRows(details.tolerance));
       if (!details.tolerance.identical) failures.push("tolerance maps differ between runs");
+    },
+    timedomain: async () => {
+      const t = require("./timedomain");
+      details.timedomain = await t.runTimeDomainBench(log);
+      rows.push(...t.timeDomainRows(details.timedomain));
+      if (!details.timedomain.reproducible) failures.push("time-domain runs with the same seed differ");
     },
   };
   for (const name of selected) {

@@ -54,6 +54,30 @@ describe("simulation settings are checked (common practice, no source: the allow
     expect(e.allowed).toMatch(/stationary.*ground/);
   });
 
+  it("a stationary start is refused for a free mass (no stationary state), and chosen by default only where it exists", () => {
+    const free = assemble(loadSetup(probedBody({ body: { mass: "1 g" }, probe: { power: "1 mW" } }))).model;
+    const freeRequest = { joint: [{ label: "x", terms: [{ component: "body", quadrature: "x" as const, weight: 1 }] }] };
+    let caught: unknown;
+    try {
+      startTrajectory(free, { ...good, initial: "stationary" }, freeRequest);
+    } catch (e) {
+      caught = e;
+    }
+    expect(caught).toBeInstanceOf(QuietframeError);
+    expect((caught as QuietframeError).path).toBe("simulation.initial");
+    expect((caught as QuietframeError).allowed).toMatch(/ground/);
+    expect(simulateTrajectory(free, good, freeRequest).settings.initial).toBe("ground");
+    expect(simulateTrajectory(model, good, request).settings.initial).toBe("stationary");
+  });
+
+  it("progress is reported in increasing fractions up to 1", () => {
+    const seen: number[] = [];
+    simulateTrajectory(model, { duration: 2e-3, step: 1e-7, seed: 1, samples: 11 }, request, (f) => seen.push(f));
+    expect(seen.length).toBeGreaterThan(5);
+    expect(seen[seen.length - 1]).toBe(1);
+    for (let i = 1; i < seen.length; i++) expect(seen[i]).toBeGreaterThanOrEqual(seen[i - 1]);
+  });
+
   it("an unknown component or mode in a joint variable is refused, naming what exists", () => {
     expect(() => startTrajectory(model, good, { joint: [{ label: "?", terms: [{ component: "nobody", quadrature: "x", weight: 1 }] }] })).toThrow(
       /joint\[0\]\.terms\[0\]\.component = "nobody".*'body'/,

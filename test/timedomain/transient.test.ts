@@ -131,4 +131,37 @@ describe("unconditional covariance over time", () => {
       expect(relativeDifference(mid[0], nth + 0.5 - nth * Math.exp(-1)), `T = ${T} K at t = 1/γ`).toBeLessThan(1e-11);
     }
   });
+
+  it("an oscillator damped by a linked thermal-bath component relaxes to n̄ + 1/2 in X and P (white force noise at the quantum FDT level: ⟨x²⟩ = S_F/(4m²γΩ²), ⟨p²⟩ = S_F/(4γ) with S_F = 2mγħΩ coth(ħΩ/2k_BT))", () => {
+    for (const T of [0.01, 4]) {
+      const model = assemble(
+        loadSetup(
+          setup(
+            [
+              { name: "light", type: "vacuum" },
+              // Intrinsic damping negligible (Q = 1e12); the bath gives Q = 1e3.
+              { name: "body", type: "oscillator", params: { mass: "1 ng", frequency: "1 MHz", Q: 1e12, temperature: `${T} K` } },
+              { name: "gas", type: "thermal-bath", params: { temperature: `${T} K`, dampingRate: "1 kHz" } },
+              { name: "probe", type: "position-probe", params: { measurementRate: "0 Hz" } },
+              { name: "detector", type: "homodyne" },
+            ],
+            [
+              ["light.out", "probe.in"],
+              ["probe.out", "detector.in"],
+              ["probe.mechanics", "body.body"],
+              ["gas.mechanics", "body.body"],
+            ],
+          ),
+        ),
+      ).model;
+      const nth = thermalOccupation(2 * Math.PI * 1e6, T);
+      const gamma = 2 * Math.PI * 1e3;
+      const v = transientCovariance(model, groundCovariance(model), 60 / gamma);
+      const { x, p } = model.modes[0];
+      const n = model.nStates;
+      // The intrinsic bath adds 1e-9 of the damping: relative change ≲ 1e-9.
+      expect(relativeDifference(v[x * n + x], nth + 0.5), `T = ${T} K, Var X`).toBeLessThan(1e-8);
+      expect(relativeDifference(v[p * n + p], nth + 0.5), `T = ${T} K, Var P`).toBeLessThan(1e-8);
+    }
+  });
 });
