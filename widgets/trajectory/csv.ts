@@ -19,9 +19,10 @@ export function trajectoryCsv(r: TrajectoryResult, joint: readonly JointVariable
   if (e) {
     columns.push({ name: "EPR variance x", values: e.eprX });
     columns.push({ name: "EPR variance p", values: e.eprP });
-    columns.push({ name: `Duan sum ${engineDuanLabel(e.pair)}`, values: e.duanSum });
+    const modes = `1 = ${e.pair[0]}, 2 = ${e.pair[1]}`;
+    columns.push({ name: `Duan sum ${engineDuanLabel(e.pair)}, ${modes}`, values: e.duanSum });
     const other = jointDuanSum(joint, r, e.pair);
-    if (other) columns.push({ name: `Duan sum ${other.label}`, values: other.values });
+    if (other) columns.push({ name: `Duan sum ${other.label}, ${modes}`, values: other.values });
     columns.push({ name: "log-negativity [ebit]", values: e.logNegativity });
     columns.push({ name: "unconditional log-negativity [ebit]", values: e.unconditionalLogNegativity });
   }

@@ -31,10 +31,10 @@ export function jointDuanSum(joint: readonly JointVariable[], r: TrajectoryResul
   const cp = r.joint[pi].conditional;
   const values = new Float64Array(cx.length);
   for (let i = 0; i < values.length; i++) values[i] = cx[i] + cp[i];
-  return { label: `Var(x ${pair[0]} + x ${pair[1]}) + Var(p ${pair[0]} − p ${pair[1]})`, values };
+  return { label: "Var(x₁ + x₂) + Var(p₁ − p₂)", values };
 }
 
-/** The engine's convention, named the same way. */
-export function engineDuanLabel(pair: readonly [string, string]): string {
-  return `Var(x ${pair[0]} − x ${pair[1]}) + Var(p ${pair[0]} + p ${pair[1]})`;
+/** The engine's convention, named the same way (mode 1 is the pair's first component). */
+export function engineDuanLabel(_pair: readonly [string, string]): string {
+  return "Var(x₁ − x₂) + Var(p₁ + p₂)";
 }

@@ -24,20 +24,29 @@ function seriesColor(labels: readonly string[]): Spec {
   return { field: "series", type: "nominal", scale: { domain: [...labels], range: PALETTE.slice(0, Math.max(1, labels.length)) }, legend: LEGEND };
 }
 
-/** Estimated versus true joint variables, with the ±1σ band of the conditional state. */
+/**
+ * Estimated versus true joint variables, with the ±1σ band of the conditional state: one row
+ * per variable with its own scale (a back-action-free sum and a heated difference can differ
+ * by orders of magnitude).
+ */
 export function jointSpec(rows: TrajectoryRows, labels: readonly string[]): Spec {
   return {
     $schema: SCHEMA,
-    width: WIDTH,
-    height: HEIGHT,
     title: { text: "Estimate (line, ±1σ band) and true value (dashed)", font: FONT, fontSize: 13 },
     data: { name: DATASETS.joint, values: rows.joint },
-    encoding: { x: timeField(rows), color: seriesColor(labels) },
-    layer: [
-      { mark: { type: "area", opacity: 0.22 }, encoding: { y: { field: "lower", type: "quantitative", title: "joint variable (quadrature units)" }, y2: { field: "upper" } } },
-      { mark: { type: "line", strokeWidth: 1.6 }, encoding: { y: { field: "estimate", type: "quantitative" } } },
-      { mark: { type: "line", strokeWidth: 1.1, strokeDash: [4, 3] }, encoding: { y: { field: "truth", type: "quantitative" } } },
-    ],
+    facet: { row: { field: "series", type: "nominal", sort: [...labels], title: null, header: { labelAngle: 0, labelAlign: "left", labelAnchor: "start", labelOrient: "top", labelFont: FONT, labelFontSize: 11 } } },
+    spec: {
+      width: WIDTH,
+      height: Math.max(60, Math.round(HEIGHT / Math.max(1, labels.length)) + 20),
+      encoding: { x: timeField(rows), color: { ...seriesColor(labels), legend: null } },
+      layer: [
+        { mark: { type: "area", opacity: 0.25 }, encoding: { y: { field: "lower", type: "quantitative", title: null, axis: { tickCount: 3 } }, y2: { field: "upper" } } },
+        { mark: { type: "line", strokeWidth: 1.4 }, encoding: { y: { field: "estimate", type: "quantitative" } } },
+        { mark: { type: "line", strokeWidth: 1, strokeDash: [4, 3], color: "#222" }, encoding: { y: { field: "truth", type: "quantitative" } } },
+      ],
+    },
+    resolve: { scale: { y: "independent" } },
+    spacing: 8,
     config: { font: FONT },
   };
 }
@@ -95,13 +104,13 @@ export function logNegSpec(rows: TrajectoryRows, pair: readonly [string, string]
 }
 
 /** Duan sum over time with the separability bound (below it: entangled). */
-export function duanSpec(rows: TrajectoryRows): Spec {
+export function duanSpec(rows: TrajectoryRows, pair: readonly [string, string]): Spec {
   const bound = rows.duanBound ?? 2;
   return {
     $schema: SCHEMA,
     width: WIDTH,
     height: 170,
-    title: { text: "Duan sums (separable states stay at or above the bound)", font: FONT, fontSize: 13 },
+    title: { text: `Duan sums, 1 = ${pair[0]}, 2 = ${pair[1]} (separable: ≥ bound)`, font: FONT, fontSize: 13 },
     layer: [
       {
         data: { name: DATASETS.duan, values: rows.duan },
@@ -127,7 +136,7 @@ export function duanSpec(rows: TrajectoryRows): Spec {
 /** The charts a state shows: two always, two more when a pair is followed. */
 export function trajectorySpecs(rows: TrajectoryRows, labels: readonly string[], pair: readonly [string, string] | null): Spec[] {
   const specs = [jointSpec(rows, labels), varianceSpec(rows, labels)];
-  if (pair && rows.logNeg.length > 0) specs.push(logNegSpec(rows, pair), duanSpec(rows));
+  if (pair && rows.logNeg.length > 0) specs.push(logNegSpec(rows, pair), duanSpec(rows, pair));
   return specs;
 }
 

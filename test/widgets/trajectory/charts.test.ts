@@ -101,7 +101,7 @@ describe("CSV", () => {
       expect(Number(r[0])).toBe(c.result.time[i]);
       expect(Number(r[col(`${j.label}: estimate`)])).toBe(j.estimate[i]);
       expect(Number(r[col(`${j.label}: conditional variance, membrane alone`)])).toBe(j.parts.membrane[i]);
-      expect(Number(r[col("Duan sum Var(x membrane − x cell) + Var(p membrane + p cell)")])).toBe(c.result.entanglement!.duanSum[i]);
+      expect(Number(r[col("Duan sum Var(x₁ − x₂) + Var(p₁ + p₂), 1 = membrane, 2 = cell")])).toBe(c.result.entanglement!.duanSum[i]);
     });
   });
 });
@@ -114,7 +114,7 @@ describe("Duan sum of the other sign convention", () => {
 
   it("is the sum of the conditional variances of x1 + x2 and p1 − p2, point for point", () => {
     const d = jointDuanSum([SUM_X, P_DIFF, MEMBRANE_X], both.result, ["membrane", "cell"])!;
-    expect(d.label).toBe("Var(x membrane + x cell) + Var(p membrane − p cell)");
+    expect(d.label).toBe("Var(x₁ + x₂) + Var(p₁ − p₂)");
     both.result.time.forEach((_, i) => expect(d.values[i]).toBe(both.result.joint[0].conditional[i] + both.result.joint[1].conditional[i]));
   });
 
@@ -128,7 +128,7 @@ describe("Duan sum of the other sign convention", () => {
 
   it("is drawn beside the engine's sum against the same bound", () => {
     const rows = trajectoryRows(both.result, Infinity, [SUM_X, P_DIFF, MEMBRANE_X]);
-    expect(rows.duanMeasures).toEqual(["Var(x membrane − x cell) + Var(p membrane + p cell)", "Var(x membrane + x cell) + Var(p membrane − p cell)"]);
+    expect(rows.duanMeasures).toEqual(["Var(x₁ − x₂) + Var(p₁ + p₂)", "Var(x₁ + x₂) + Var(p₁ − p₂)"]);
     expect(rows.duan).toHaveLength(2 * both.result.time.length);
     expect(rows.duanBound).toBe(2);
   });
