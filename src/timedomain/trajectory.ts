@@ -204,6 +204,9 @@ class Run implements TrajectoryRun {
     this.joints = joints;
     if (request.pair) {
       request.pair.forEach((c, i) => findMode(model, { component: c, mode: model.modes.find((m) => m.owner === c)?.label }, `pair[${i}]`));
+      if (request.pair[0] === request.pair[1]) {
+        throw new QuietframeError({ path: "pair[1]", value: request.pair[1], problem: "entanglement needs two different components", allowed: "two distinct component names that own modes" });
+      }
       const s = this.stored.length;
       this.pairTrack = {
         pair: [request.pair[0], request.pair[1]],

@@ -28,13 +28,13 @@ export type InitialState =
   | "ground";
 
 export interface SimulationSettings {
-  /** Simulated time, s (> 0). */
+  /** Simulated time, s (≥ step); rounded up to a whole number of steps (the result's settings show the value used). */
   readonly duration: number;
   /** Integration step, s (> 0, ≤ duration). */
   readonly step: number;
   /** Seed of the pseudo-random generator (integer 0 … 2³²−1); same seed, same bits. */
   readonly seed: number;
-  /** Number of stored time points (decimation of the steps); default min(steps + 1, 2001). */
+  /** Number of stored time points (decimation of the steps), 2 … 10⁵; default min(steps + 1, 2001); at most steps + 1 are kept. */
   readonly samples?: number;
   readonly initial?: InitialState;
 }
@@ -51,9 +51,15 @@ export interface JointSeries {
   readonly label: string;
   /** The hidden (true) value of the simulated system. */
   readonly truth: Float64Array;
-  /** Conditional mean (Kalman–Bucy estimate from the simulated records). */
+  /**
+   * Conditional mean: the Kalman filter of the exactly discretized model reading the
+   * simulated records (the Kalman–Bucy estimate as the step → 0).
+   */
   readonly estimate: Float64Array;
-  /** Conditional variance (Riccati), the ±1σ band is estimate ± √conditional. */
+  /**
+   * Conditional variance: that filter's error covariance (the Riccati solution as the step → 0,
+   * never below it); the ±1σ band is estimate ± √conditional.
+   */
   readonly conditional: Float64Array;
   /** Unconditional variance (transient Lyapunov from the initial state). */
   readonly unconditional: Float64Array;

@@ -7,7 +7,9 @@
  *   2. cost per step against the number of modes (1, 2, 4, 8, 12), as ratios to one mode
  *      timed in the same round, in two regimes: while the filter's covariance still
  *      changes (updated every step, O(n³)), and after it has settled (one fixed gain, O(n²)).
- * Rounds rotate the order of the set-ups so that drifts of a shared machine hit all alike.
+ * Rounds rotate the order of the set-ups so that drifts of a shared machine hit all alike,
+ * and the per-step costs are CPU time of this process (process.cpuUsage), which other
+ * processes on a busy machine inflate much less than wall time; wall time is shown beside.
  */
 const { dist } = require("./lib/repo");
 const { probeChain } = require("./lib/setups");
@@ -32,9 +34,16 @@ function models() {
 
 /** A whole run: set-up (discretization, initial state) and every step, ms. */
 function wholeRun(model, steps, seed) {
+  const c0 = cpuMs();
   const t0 = nowMs();
   const r = qf.simulateTrajectory(model, { duration: steps * STEP, step: STEP, seed, samples: 2001 }, request());
-  return { ms: nowMs() - t0, result: r };
+  return { ms: nowMs() - t0, cpuMs: cpuMs() - c0, result: r };
+}
+
+/** CPU time (user + system) of this process, ms. */
+function cpuMs() {
+  const u = process.cpuUsage();
+  return (u.user + u.system) / 1e3;
 }
 
 function startRun(model, seed) {
@@ -58,15 +67,19 @@ function regimes(model, seed, settledAt) {
   const first = Math.max(1, Math.min(SETTLING_STEPS, (settledAt ?? Infinity) - 1));
   const repeats = Math.ceil(20_000 / first);
   const runs = Array.from({ length: repeats }, (_, i) => startRun(model, seed + i));
+  let c0 = cpuMs();
   let t0 = nowMs();
   for (const run of runs) run.advance(first);
-  const settlingUs = ((nowMs() - t0) * 1e3) / (first * repeats);
+  const settlingUs = ((cpuMs() - c0) * 1e3) / (first * repeats);
+  const settlingWallUs = ((nowMs() - t0) * 1e3) / (first * repeats);
   const run = runs[0];
   if (settledAt !== undefined) run.advance(settledAt - first);
+  c0 = cpuMs();
   t0 = nowMs();
   run.advance(SETTLED_STEPS);
-  const settledUs = ((nowMs() - t0) * 1e3) / SETTLED_STEPS;
-  return { settlingUs, settledUs, first };
+  const settledUs = ((cpuMs() - c0) * 1e3) / SETTLED_STEPS;
+  const settledWallUs = ((nowMs() - t0) * 1e3) / SETTLED_STEPS;
+  return { settlingUs, settledUs, settlingWallUs, settledWallUs, first };
 }
 
 async function runTimeDomainBench(log = () => undefined) {
@@ -84,7 +97,7 @@ async function runTimeDomainBench(log = () => undefined) {
   for (let r = 0; r < ROUNDS; r++) {
     log(`timedomain: round ${r + 1} of ${ROUNDS}`);
     const a = wholeRun(byModes[4], RUN_STEPS, 42);
-    four.push(a.ms);
+    four.push(a);
     if (r === 0) {
       const b = wholeRun(byModes[4], RUN_STEPS, 42);
       const bits = (x) => Buffer.from(x.result.joint[0].truth.buffer).toString("hex");
@@ -100,17 +113,23 @@ async function runTimeDomainBench(log = () => undefined) {
     states: byModes[k].nStates,
     settlingUs: median(rounds.map((r) => r[k].settlingUs)),
     settledUs: median(rounds.map((r) => r[k].settledUs)),
+    settlingWallUs: median(rounds.map((r) => r[k].settlingWallUs)),
+    settledWallUs: median(rounds.map((r) => r[k].settledWallUs)),
     settlingRatio: median(rounds.map((r) => r[k].settlingUs / r[1].settlingUs)),
     settledRatio: median(rounds.map((r) => r[k].settledUs / r[1].settledUs)),
     settledAtStep: settledAt[k],
     settlingTimed: rounds[0][k].first,
   }));
-  const fourMs = median(four);
+  const fourMs = median(four.map((a) => a.ms));
+  const fourCpuMs = median(four.map((a) => a.cpuMs));
   return {
     step: STEP,
     runSteps: RUN_STEPS,
     fourModeMs: fourMs,
-    fourModeStepsPerSecond: RUN_STEPS / (fourMs / 1e3),
+    fourModeCpuMs: fourCpuMs,
+    fourModeStepsPerSecond: RUN_STEPS / (fourCpuMs / 1e3),
+    fourModeStepsPerWallSecond: RUN_STEPS / (fourMs / 1e3),
+    loadAverage1m: require("node:os").loadavg()[0],
     reproducible,
     rows,
   };
@@ -129,20 +148,21 @@ function timeDomainRows(t) {
     {
       id: "7a",
       measure: `seeded run, four probed oscillators (8 states), ${t.runSteps} steps of ${t.step} s, 2001 stored points`,
-      result: `${Math.round(t.fourModeStepsPerSecond).toLocaleString("en-US")} steps/s`,
+      result: `${Math.round(t.fourModeStepsPerSecond).toLocaleString("en-US")} steps/s (CPU)`,
       detail: [
-        `whole run ${(t.fourModeMs / 1e3).toFixed(2)} s (median of rounds), discretization and stored points included · same bits twice: ${t.reproducible ? "yes" : "NO"}`,
+        `whole run ${(t.fourModeCpuMs / 1e3).toFixed(2)} s CPU, ${(t.fourModeMs / 1e3).toFixed(2)} s wall (${Math.round(t.fourModeStepsPerWallSecond).toLocaleString("en-US")} steps/s; medians of ${ROUNDS} rounds; load avg ${t.loadAverage1m.toFixed(1)})`,
+        `discretization, initial state and stored points included · same bits twice: ${t.reproducible ? "yes" : "NO"}`,
       ],
       goal: "",
       met: "",
     },
     {
       id: "7b",
-      measure: `cost per step vs modes (${t.rows.map((r) => r.modes).join(", ")}), ratio to one mode, filter settling / settled`,
+      measure: `CPU cost per step vs modes (${t.rows.map((r) => r.modes).join(", ")}), ratio to one mode, filter settling / settled`,
       result: `${big.modes} modes: ${ratio(big.settlingRatio)} / ${ratio(big.settledRatio)}`,
       detail: t.rows.map(
         (r) =>
-          `${String(r.modes).padStart(2)} mode(s), n=${String(r.states).padStart(2)}: settling ${fmtUs(r.settlingUs)} (${ratio(r.settlingRatio)}, first ${r.settlingTimed} steps) · settled ${fmtUs(r.settledUs)} (${ratio(r.settledRatio)})` +
+          `${String(r.modes).padStart(2)} mode(s), n=${String(r.states).padStart(2)}: settling ${fmtUs(r.settlingUs)} (${ratio(r.settlingRatio)}, first ${r.settlingTimed} steps; wall ${fmtUs(r.settlingWallUs)}) · settled ${fmtUs(r.settledUs)} (${ratio(r.settledRatio)}; wall ${fmtUs(r.settledWallUs)})` +
           (r.settledAtStep === undefined ? " · filter not settled within 1e6 steps" : ` · filter settled after ${r.settledAtStep} steps`),
       ),
       goal: "",

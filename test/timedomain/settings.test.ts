@@ -86,6 +86,7 @@ describe("simulation settings are checked (common practice, no source: the allow
       /joint\[0\]\.terms\[0\]\.mode/,
     );
     expect(() => startTrajectory(model, good, { joint: [], pair: ["body", "ghost"] })).toThrow(/pair\[1\]\.component/);
+    expect(() => startTrajectory(model, good, { joint: [], pair: ["body", "body"] })).toThrow(/pair\[1\] = "body": entanglement needs two different components/);
   });
 
   it("a duration that is not a whole number of steps is rounded up to one, and samples are capped at steps + 1", () => {
