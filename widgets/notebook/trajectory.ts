@@ -172,18 +172,25 @@ export class NotebookTrajectory {
   }
 }
 
-/** Progress as text on stdout for runs that take more than a second. */
-function kernelProgress(): ComputeOptions {
-  const started = Date.now();
+/**
+ * Progress as text for runs that take more than a second: at most one line a second, none for
+ * quick runs (the clock and the writer are parameters so that tests need not wait).
+ */
+export function progressReporter(now: () => number = Date.now, write: (text: string) => void = (t) => void process.stdout.write(t)): ComputeOptions {
+  const started = now();
   let said = started;
   return {
     onProgress(fraction, taken, planned) {
-      const now = Date.now();
-      if (now - started < QUIET_MS || now - said < QUIET_MS) return;
-      said = now;
-      process.stdout.write(`trajectory: ${(100 * fraction).toFixed(0)} % (${taken} of ${planned} steps)\n`);
+      const t = now();
+      if (t - started < QUIET_MS || t - said < QUIET_MS) return;
+      said = t;
+      write(`trajectory: ${(100 * fraction).toFixed(0)} % (${taken} of ${planned} steps)\n`);
     },
   };
+}
+
+function kernelProgress(): ComputeOptions {
+  return progressReporter();
 }
 
 /**

@@ -5,6 +5,7 @@ import { afterAll, describe, expect, it } from "vitest";
 import { runCliAsync } from "../../../src/cli/run";
 import { QuietframeError } from "../../../src/errors";
 import { trajectoryWidget } from "../../../widgets/notebook";
+import { progressReporter } from "../../../widgets/notebook/trajectory";
 import { loadTrajectoryState } from "../../../widgets/trajectory/document";
 import { TRAJECTORY_CLASS, TRAJECTORY_STATE_CLASS } from "../../../widgets/trajectory/names";
 import { hybrid, shortRun } from "./fixtures";
@@ -104,5 +105,23 @@ describe("quietframe render of a trajectory state", () => {
     expect(loose.err).toMatch(/warning: the recomputed curves differ/);
     const strict = await cli(["render", bad, "-o", join(dir, "y.csv"), "--strict"]);
     expect(strict.code).toBe(1);
+  });
+});
+
+describe("kernel-side progress", () => {
+  it("is silent for a quick run and says at most one line a second for a long one", () => {
+    let clock = 0;
+    const lines: string[] = [];
+    const r = progressReporter(() => clock, (t) => lines.push(t));
+    clock = 500;
+    r.onProgress!(0.1, 100, 1000);
+    expect(lines).toEqual([]);
+    clock = 1200;
+    r.onProgress!(0.3, 300, 1000);
+    clock = 1700;
+    r.onProgress!(0.5, 500, 1000);
+    clock = 2300;
+    r.onProgress!(0.8, 800, 1000);
+    expect(lines).toEqual(["trajectory: 30 % (300 of 1000 steps)\n", "trajectory: 80 % (800 of 1000 steps)\n"]);
   });
 });
