@@ -1,21 +1,46 @@
 /**
  * Seeded pseudo-random numbers with the same bits everywhere: xoshiro128** (32-bit
- * integer operations only) seeded through splitmix32, and standard normal pairs by the
- * polar form of the Box–Muller transform (Marsaglia & Bray, SIAM Rev. 6, 260 (1964)) with
- * the portable log: it needs no sine or cosine, which are the slow part of the plain form.
+ * integer operations only) seeded through splitmix32, and standard normal deviates by the
+ * ziggurat method with 128 layers (Marsaglia & Tsang, J. Stat. Softw. 5(8) (2000)), in the
+ * form that draws the layer and the abscissa from independent random bits (Doornik, 2005),
+ * with Marsaglia's exact tail beyond r. The tables and the rare wedge and tail tests use the
+ * portable exp and log. About 98.8 % of deviates cost one uniform, one integer and a product.
  */
-import { log } from "../numeric/portable-math";
+import { exp, log } from "../numeric/portable-math";
 
 const TWO_POW_MINUS_53 = 1 / 9007199254740992;
 const TWO_POW_26 = 67108864;
+
+/** Layers, the start r of the tail and the common area v of every layer (128-layer constants). */
+export const ZIGGURAT_LAYERS = 128;
+export const ZIGGURAT_R = 3.442619855899;
+export const ZIGGURAT_V = 9.91256303526217e-3;
+
+/**
+ * Layer edges x_0 > x_1 = r > … > x_127 > x_128 = 0 with equal areas v: x_0 = v/f(r) is the
+ * width of a rectangle of the bottom layer's area, x_{i+1} from x_i (f(x_{i+1}) − f(x_i)) = v.
+ */
+export const ZIGGURAT_X: Float64Array = (() => {
+  const x = new Float64Array(ZIGGURAT_LAYERS + 1);
+  let f = exp(-0.5 * ZIGGURAT_R * ZIGGURAT_R);
+  x[0] = ZIGGURAT_V / f;
+  x[1] = ZIGGURAT_R;
+  for (let i = 2; i < ZIGGURAT_LAYERS; i++) {
+    x[i] = Math.sqrt(-2 * log(ZIGGURAT_V / x[i - 1] + f));
+    f = exp(-0.5 * x[i] * x[i]);
+  }
+  x[ZIGGURAT_LAYERS] = 0;
+  return x;
+})();
+
+/** x_{i+1}/x_i: below it, a point of layer i lies under the curve for sure. */
+const ZIGGURAT_RATIO = Float64Array.from({ length: ZIGGURAT_LAYERS }, (_, i) => ZIGGURAT_X[i + 1] / ZIGGURAT_X[i]);
 
 export class GaussianSource {
   private s0: number;
   private s1: number;
   private s2: number;
   private s3: number;
-  private spare = 0;
-  private hasSpare = false;
 
   /** seed: an integer 0 … 2³²−1. */
   constructor(seed: number) {
@@ -57,23 +82,28 @@ export class GaussianSource {
 
   /** Standard normal deviate. */
   normal(): number {
-    if (this.hasSpare) {
-      this.hasSpare = false;
-      return this.spare;
+    for (;;) {
+      const u = 2 * this.uniform() - 1;
+      const i = this.nextUint32() & (ZIGGURAT_LAYERS - 1);
+      if (Math.abs(u) < ZIGGURAT_RATIO[i]) return u * ZIGGURAT_X[i];
+      if (i === 0) return this.tail(u < 0);
+      // Wedge: accept when a uniform height between the layer's edges lies under f(x).
+      const x = u * ZIGGURAT_X[i];
+      const f0 = exp(-0.5 * (ZIGGURAT_X[i] * ZIGGURAT_X[i] - x * x));
+      const f1 = exp(-0.5 * (ZIGGURAT_X[i + 1] * ZIGGURAT_X[i + 1] - x * x));
+      if (f1 + this.uniform() * (f0 - f1) < 1) return x;
     }
-    // A point uniform in the unit disc (accepted with probability π/4), then radial rescaling.
-    let u = 0;
-    let v = 0;
-    let s = 0;
+  }
+
+  /** |z| > r, exactly: x = log(U₁)/r, y = log(U₂), accept when −2y ≥ x² (Marsaglia 1964). */
+  private tail(negative: boolean): number {
+    let x = 0;
+    let y = 0;
     do {
-      u = 2 * this.uniform() - 1;
-      v = 2 * this.uniform() - 1;
-      s = u * u + v * v;
-    } while (s >= 1 || s === 0);
-    const factor = Math.sqrt((-2 * log(s)) / s);
-    this.spare = v * factor;
-    this.hasSpare = true;
-    return u * factor;
+      x = log(1 - this.uniform()) / ZIGGURAT_R;
+      y = log(1 - this.uniform());
+    } while (-2 * y < x * x);
+    return negative ? x - ZIGGURAT_R : ZIGGURAT_R - x;
   }
 }
 
