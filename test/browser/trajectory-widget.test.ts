@@ -12,7 +12,10 @@ import { computeTrajectory, createTrajectoryState } from "../../widgets/trajecto
 import { TRAJECTORY_ATTRIBUTES } from "../../widgets/trajectory/names";
 import { DATASETS } from "../../widgets/trajectory/specs";
 import { REPO_ROOT } from "../jupyter/env";
-import { run } from "../jupyter/notebook-file";
+import { createJupyterEnv, SYSTEM_PYTHON, type JupyterEnv } from "../jupyter/env";
+import { executeNotebook, joined, outputsOf, run, type NotebookOutput } from "../jupyter/notebook-file";
+import { RUNTIME_FILE } from "../../widgets/html/runtime-source";
+import { TRAJECTORY_CLASS } from "../../widgets/trajectory/names";
 import { hybrid, MEMBRANE_X, P_DIFF, SUM_X } from "../widgets/trajectory/fixtures";
 import { LOCAL_ONLY, openBrowser, type BrowserSession } from "./helpers/chromium";
 
@@ -229,6 +232,72 @@ describe("state round trip: Node → command line → page → Node", () => {
   });
 
   it("logged no console errors and asked for nothing outside the files", () => {
+    expect(session.consoleErrors).toEqual([]);
+    expect(session.refusedRequests).toEqual([]);
+  });
+});
+
+describe("the time-domain notebook, executed by the kernel and exported by nbconvert", () => {
+  const NOTEBOOK = "time-domain-reference.ipynb";
+  let jupyter: JupyterEnv | undefined;
+  let outDir: string | undefined;
+  let widgets: NotebookOutput[] = [];
+  let html = "";
+  let printed = "";
+  let runtime = "";
+
+  const kernelFingerprint = (o: NotebookOutput): string => {
+    const m = /fingerprint: (sha256:[0-9a-f]{64})/.exec(joined(o.data?.["text/plain"]));
+    if (!m) throw new Error("the widget output names no fingerprint");
+    return m[1];
+  };
+
+  beforeAll(async () => {
+    runtime = readFileSync(join(REPO_ROOT, RUNTIME_FILE), "utf8");
+    jupyter = createJupyterEnv();
+    outDir = mkdtempSync(join(tmpdir(), "quietframe-trajectory-export-"));
+    const executed = await executeNotebook(jupyter, join(REPO_ROOT, "notebooks", NOTEBOOK), outDir, 240_000);
+    if (!executed.notebook) throw new Error(`nbconvert could not execute ${NOTEBOOK}:\n${executed.cellErrors ?? executed.run.stderr.slice(-4000)}`);
+    widgets = outputsOf(executed.notebook).filter((o) => o.output_type === "display_data" && joined(o.data?.["text/html"]).includes(`class="${TRAJECTORY_CLASS}"`));
+    const last = [...executed.notebook.cells].reverse().find((c) => c.cell_type === "code")!;
+    printed = (last.outputs ?? []).filter((o) => o.output_type === "stream" && o.name === "stdout").map((o) => joined(o.text)).join("");
+    const exported = await run(SYSTEM_PYTHON, ["-m", "nbconvert", "--to", "html", executed.file, "--output", "export", "--output-dir", outDir], { env: jupyter.env, timeoutMs: 120_000 });
+    if (exported.code !== 0) throw new Error(`nbconvert --to html exited with ${exported.code}:\n${exported.stderr.slice(-4000)}`);
+    html = readFileSync(join(outDir, "export.html"), "utf8");
+    await session.page.goto(pathToFileURL(join(outDir, "export.html")).href, { waitUntil: "load" });
+    await session.page.waitForFunction(
+      ([sel, st, n]) => {
+        const els = Array.from((globalThis as any).document.querySelectorAll(sel)) as any[];
+        return els.length === n && els.every((e) => e.getAttribute(st) === "ready");
+      },
+      [W, STATUS_ATTRIBUTE, widgets.length] as const,
+      { timeout: WAIT_MS, polling: 200 },
+    );
+  }, 600_000);
+
+  afterAll(() => {
+    jupyter?.dispose();
+    if (outDir) rmSync(outDir, { recursive: true, force: true });
+  });
+
+  it("shows two trajectory widgets, the runtime once", () => {
+    expect(widgets).toHaveLength(2);
+    expect(runtime.length).toBeGreaterThan(10_000);
+    expect(html.split(runtime).length - 1).toBe(1);
+  });
+
+  it("every widget reruns in Chromium to the fingerprint the kernel computed", async () => {
+    const shown = await session.page.locator(W).evaluateAll((els, fp) => els.map((e) => e.getAttribute(fp)), FINGERPRINT_ATTRIBUTE);
+    expect(shown).toEqual(widgets.map(kernelFingerprint));
+  });
+
+  it("the state the notebook prints reruns here, in Node, to the same bits", () => {
+    const loaded = loadTrajectoryState(printed);
+    expect(loaded.fingerprintMatches).toBe(true);
+    expect(loaded.state.fingerprint).toBe(kernelFingerprint(widgets[0]));
+  });
+
+  it("logged no console errors and asked for nothing outside the file", () => {
     expect(session.consoleErrors).toEqual([]);
     expect(session.refusedRequests).toEqual([]);
   });
