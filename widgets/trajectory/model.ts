@@ -16,7 +16,7 @@ import { trajectoryFingerprint } from "./fingerprint";
 import { TRAJECTORY_STATE_FORMAT, TRAJECTORY_STATE_VERSION, type SimulationSpec, type TrajectoryState } from "./format";
 import { checkJoint, checkPair } from "./joint";
 import { firstNonFinite } from "./series";
-import { defaultSamples, plannedSteps, resolveSimulation, writeTime, type ResolvedSimulation } from "./simulation";
+import { defaultSamples, resolveSimulation, writeTime, type ResolvedSimulation } from "./simulation";
 
 /**
  * The trajectory widget's model: state in, simulated curves out. Pure (no DOM, no Jupyter):
@@ -166,7 +166,7 @@ export interface SimulationOptions {
   seed?: number;
   /** Stored time points (default min(steps + 1, 2001)). */
   samples?: number;
-  /** "stationary" (default) or "ground". */
+  /** "stationary" or "ground" (default: stationary where a stationary state exists, else ground). */
   initial?: "stationary" | "ground";
 }
 
@@ -193,7 +193,9 @@ export function newTrajectory(setup: SetupDescription, options: TrajectoryOption
   const controls = structuredClone(options.controls ?? []);
   const values = setupValues(setup, controls);
   const s = options.simulation;
-  const simulation: SimulationSpec = { duration: s.duration, step: s.step, seed: s.seed ?? 1, initial: s.initial ?? "stationary" };
+  for (const key of Object.keys(options)) if (!["controls", "simulation", "joint", "pair", "title"].includes(key)) throw new QuietframeError({ path: `options.${key}`, problem: "is not an option of a trajectory widget", allowed: "controls, simulation, joint, pair, title" });
+  for (const key of Object.keys(s)) if (!["duration", "step", "seed", "samples", "initial"].includes(key)) throw new QuietframeError({ path: `options.simulation.${key}`, problem: "is not a simulation setting", allowed: "duration, step, seed, samples, initial" });
+  const simulation: SimulationSpec = { duration: s.duration, step: s.step, seed: s.seed ?? 1, ...(s.initial === undefined ? {} : { initial: s.initial }) };
   // Resolve once without samples to learn the steps, then store the samples explicitly.
   const steps = resolveSimulation(simulation, "options.simulation").steps;
   simulation.samples = s.samples ?? defaultSamples(steps);
@@ -211,7 +213,7 @@ export function newTrajectory(setup: SetupDescription, options: TrajectoryOption
     ...(options.title === undefined ? {} : { title: options.title }),
   };
   const computation = computeTrajectory(base, compute);
-  return { state: { ...base, fingerprint: computation.fingerprint }, computation };
+  return { state: withComputation(base, computation), computation };
 }
 
 /** x of every mechanical or spin mode, one joint variable each. */
@@ -229,11 +231,11 @@ export function trajectoryTitle(state: Pick<TrajectoryState, "title" | "setup">)
   return state.title ?? state.setup.name ?? "Trajectories";
 }
 
-/** The state's run written out for summaries: "200 µs in 20000 steps of 10 ns, seed 1". */
-export function simulationText(sim: ResolvedSimulation, result?: TrajectoryResult): string {
-  const s = sim.settings;
+/** The run written out for summaries: "200 µs in 20000 steps of 10 ns, seed 1, …". */
+export function simulationText(sim: ResolvedSimulation, result: TrajectoryResult): string {
+  const s = result.settings;
   const base = `${writeTime(s.duration)} in ${sim.steps} steps of ${writeTime(s.step)}, seed ${s.seed}, ${s.samples} stored points, starting ${s.initial === "ground" ? "from the ground state" : "stationary"}`;
-  if (result?.stopped) return `${base}; stopped after ${result.stepsTaken} steps (${writeTime(result.stepsTaken * s.step)})`;
+  if (result.stopped) return `${base}; stopped after ${result.stepsTaken} steps (${writeTime(result.stepsTaken * s.step)})`;
   return base;
 }
 
@@ -241,9 +243,8 @@ export function simulationText(sim: ResolvedSimulation, result?: TrajectoryResul
 export function withComputation(state: Omit<TrajectoryState, "fingerprint">, c: TrajectoryComputation): TrajectoryState {
   const stoppedAfter = c.result.stopped ? c.result.stepsTaken : null;
   const { stoppedAfter: _old, ...rest } = state.simulation;
-  // The stored points are written out, so the state says exactly what was run.
-  const simulation: SimulationSpec = { ...rest, samples: c.simulation.settings.samples };
+  // Stored points and starting state are written out, so the state says exactly what was run.
+  const simulation: SimulationSpec = { ...rest, samples: c.simulation.settings.samples, initial: c.result.settings.initial };
   return { ...state, simulation: stoppedAfter === null ? simulation : { ...simulation, stoppedAfter }, fingerprint: c.fingerprint };
 }
 
-export { plannedSteps };

@@ -18,8 +18,8 @@ export const DEFAULT_SAMPLES = 2001;
 const MAX_SEED = 0xffffffff;
 
 export interface ResolvedSimulation {
-  /** What the engine is given. */
-  readonly settings: Required<SimulationSettings>;
+  /** What the engine is given (no `initial`: the engine's choice, stationary where a stationary state exists). */
+  readonly settings: SimulationSettings & { readonly samples: number };
   /** Planned steps, counted as the engine counts them (a whole number of steps up to rounding, else rounded up). */
   readonly steps: number;
   /** Steps after which the run stops early, or null for a complete run. */
@@ -74,15 +74,15 @@ export function resolveSimulation(spec: SimulationSpec, path = "simulation"): Re
       allowed: `an integer from ${MIN_SAMPLES} to ${Math.min(MAX_SAMPLES, planned + 1)} (at most one per step, plus the start)`,
     });
   }
-  const initial = spec.initial ?? "stationary";
-  if (!(INITIAL_STATES as readonly string[]).includes(initial)) {
+  const initial = spec.initial;
+  if (initial !== undefined && !(INITIAL_STATES as readonly string[]).includes(initial)) {
     throw new QuietframeError({ path: `${path}.initial`, value: initial, problem: "is not a starting state", allowed: INITIAL_STATES.join(", ") });
   }
   const stopped = spec.stoppedAfter ?? null;
   if (stopped !== null && (typeof stopped !== "number" || !Number.isInteger(stopped) || stopped < 0 || stopped >= planned)) {
     throw new QuietframeError({ path: `${path}.stoppedAfter`, value: stopped, problem: "is not a step of this run", allowed: `null for a complete run, or an integer from 0 to ${planned - 1}` });
   }
-  return { settings: { duration, step, seed, samples, initial }, steps: planned, stoppedAfter: stopped };
+  return { settings: { duration, step, seed, samples, ...(initial === undefined ? {} : { initial }) }, steps: planned, stoppedAfter: stopped };
 }
 
 /** min(steps + 1, 2001): every step when there are few, otherwise enough for a smooth chart. */

@@ -144,3 +144,22 @@ describe("runs in slices and stopped runs", () => {
     expect(again.computation.result.stepsTaken).toBe(633);
   });
 });
+
+describe("the starting state", () => {
+  it("is the engine's choice when not given, and the saved state names it", async () => {
+    const { readFileSync } = await import("node:fs");
+    const { join } = await import("node:path");
+    const { REPO_ROOT } = await import("../../jupyter/env");
+    const freeMass = JSON.parse(readFileSync(join(REPO_ROOT, "examples", "free-test-mass.json"), "utf8"));
+    // A free mass has no stationary state (its position diffuses without bound), so the run starts from the ground state.
+    const s = createTrajectoryState(freeMass, { simulation: { duration: "1 ms", step: "1 us", seed: 3 } });
+    expect(s.simulation.initial).toBe("ground");
+    expect(state.simulation.initial).toBe("stationary");
+    expect(loadTrajectoryState(s).fingerprintMatches).toBe(true);
+  });
+
+  it("unknown options are named", () => {
+    expect(() => createTrajectoryState(hybrid, { ...shortRun(), simulaton: {} } as never)).toThrow(/options\.simulaton: is not an option of a trajectory widget/);
+    expect(() => createTrajectoryState(hybrid, { ...shortRun(), simulation: { duration: "1 us", step: "1 ns", sed: 3 } } as never)).toThrow(/options\.simulation\.sed: is not a simulation setting/);
+  });
+});
