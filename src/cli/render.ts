@@ -25,7 +25,8 @@ export const OUTPUT_FORMATS = ["html", "svg", "png", "csv"] as const;
 export type OutputFormat = (typeof OUTPUT_FORMATS)[number];
 
 export const RENDER_USAGE = `  quietframe render <state.json> -o <out.html|out.svg|out.png|out.csv> [--format F] [--strict] [--scale S]
-      Recomputes a saved widget state and writes its figure: a standalone interactive page
+      Recomputes a saved widget state (an explorer, or a trajectory widget whose simulation
+      runs again from its seed) and writes its figure: a standalone interactive page
       (html), the chart (svg, png at --scale, default 2) or the plotted numbers (csv). Warns
       when the recomputed curves differ from the stored fingerprint; --strict makes that an error.
   quietframe report <setup.json> -o <report.html> [--control target[=min:max[:log|linear]]]... [--title T]
