@@ -9,3 +9,8 @@ export { toleranceHeatmapSpec } from "./tolerance/heatmap-spec";
 export { entangledHtml, type EntangledHtmlOptions } from "./html/entangled-html";
 export { computeEntangled, createEntangledState, loadEntangledState, entangledStateText, ENTANGLED_STATE_FORMAT, ENTANGLED_STATE_VERSION, type EntangledComputation, type EntangledOptions, type EntangledState } from "./entangled/model";
 export { panelSpec as entangledPanelSpec } from "./entangled/specs";
+export { trajectoryHtml, trajectoryPage, type TrajectoryHtmlOptions } from "./html/trajectory-html";
+export { computeTrajectory, createTrajectoryState, prepareTrajectory, finishTrajectory, type TrajectoryComputation, type TrajectoryOptions } from "./trajectory/model";
+export { loadTrajectoryState, parseTrajectoryState, trajectoryDocumentText, isTrajectoryInput } from "./trajectory/document";
+export { TRAJECTORY_STATE_FORMAT, TRAJECTORY_STATE_VERSION, type TrajectoryState, type SimulationSpec } from "./trajectory/format";
+export { trajectoryPanelSpec } from "./trajectory/specs";

@@ -13,6 +13,8 @@ import { loadExplorerState } from "../../widgets/state/document";
 import { explorerFigures } from "../../widgets/render/static";
 import { standalonePage } from "../../widgets/html/standalone";
 import type { CliIo } from "./run";
+import { isTrajectoryInput } from "../../widgets/trajectory/document";
+import { renderTrajectory } from "./render-trajectory";
 
 /**
  * `render` and `report`: files from explorer states and set-ups. The application layer: it
@@ -23,7 +25,8 @@ export const OUTPUT_FORMATS = ["html", "svg", "png", "csv"] as const;
 export type OutputFormat = (typeof OUTPUT_FORMATS)[number];
 
 export const RENDER_USAGE = `  quietframe render <state.json> -o <out.html|out.svg|out.png|out.csv> [--format F] [--strict] [--scale S]
-      Recomputes a saved widget state and writes its figure: a standalone interactive page
+      Recomputes a saved widget state (an explorer, or a trajectory widget whose simulation
+      runs again from its seed) and writes its figure: a standalone interactive page
       (html), the chart (svg, png at --scale, default 2) or the plotted numbers (csv). Warns
       when the recomputed curves differ from the stored fingerprint; --strict makes that an error.
   quietframe report <setup.json> -o <report.html> [--control target[=min:max[:log|linear]]]... [--title T]
@@ -47,6 +50,12 @@ export async function renderCommand(args: string[], io: CliIo): Promise<number> 
   const format = outputFormat(values.format, output);
   const scale = pngScale(values.scale);
   const text = readText(input);
+  if (isTrajectoryInput(text)) {
+    const done = await renderTrajectory(text, input, format, { strict: values.strict, scale, source: basename(input) }, io);
+    writeAtomically(output, done.bytes);
+    io.out(`wrote ${output} (${format}, ${done.bytes.length} bytes, ${done.fingerprint})\n`);
+    return 0;
+  }
   const { state, computation, fingerprintMatches } = loadExplorerState(text, basename(input));
   if (!fingerprintMatches) {
     const message =

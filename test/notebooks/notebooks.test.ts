@@ -5,6 +5,8 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { EXPLORER_CLASS } from "../../widgets/html/names";
 import { RUNTIME_FILE } from "../../widgets/html/runtime-source";
 import { loadExplorerState } from "../../widgets/state/document";
+import { isTrajectoryInput, loadTrajectoryState } from "../../widgets/trajectory/document";
+import { TRAJECTORY_CLASS } from "../../widgets/trajectory/names";
 import { VEGA_LITE_MIME } from "../../widgets/notebook/chart";
 import { createJupyterEnv, REPO_ROOT, type JupyterEnv } from "../jupyter/env";
 import { executeNotebook, joined, outputsOf, validateWithNbformat, type ExecutedNotebook, type Notebook, type NotebookOutput } from "../jupyter/notebook-file";
@@ -21,7 +23,18 @@ const EXECUTE_TIMEOUT_MS = 240_000;
 const PNG_SIGNATURE = Buffer.from([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a]);
 
 function isWidget(o: NotebookOutput): boolean {
-  return o.output_type === "display_data" && joined(o.data?.["text/html"]).includes(`class="${EXPLORER_CLASS}"`);
+  const html = joined(o.data?.["text/html"]);
+  return o.output_type === "display_data" && (html.includes(`class="${EXPLORER_CLASS}"`) || html.includes(`class="${TRAJECTORY_CLASS}"`));
+}
+
+/** A printed state document, explorer or trajectory, recomputed here: its fingerprint and whether it matches. */
+function loadPrinted(text: string): { fingerprint: string; fingerprintMatches: boolean } {
+  if (isTrajectoryInput(text)) {
+    const t = loadTrajectoryState(text, "printed state");
+    return { fingerprint: t.state.fingerprint, fingerprintMatches: t.fingerprintMatches };
+  }
+  const e = loadExplorerState(text, "printed state");
+  return { fingerprint: e.state.fingerprint, fingerprintMatches: e.fingerprintMatches };
 }
 
 function describeFailure(r: ExecutedNotebook): string {
@@ -119,12 +132,12 @@ describe.each(NOTEBOOKS)("%s", (name) => {
     const last = [...nb.cells].reverse().find((c) => c.cell_type === "code")!;
     const printed = (last.outputs ?? []).filter((o) => o.output_type === "stream" && o.name === "stdout").map((o) => joined(o.text)).join("");
     // Recomputed by the TypeScript sources under test, not by the kernel's build.
-    const loaded = loadExplorerState(printed, "printed state");
+    const loaded = loadPrinted(printed);
     expect(loaded.fingerprintMatches).toBe(true);
-    expect(loaded.state.fingerprint).toMatch(/^sha256:/);
+    expect(loaded.fingerprint).toMatch(/^sha256:/);
     // The state matches one of the widgets shown in the notebook.
     const shown = outputsOf(nb).filter(isWidget).map((w) => joined(w.data!["text/plain"]));
-    expect(shown.some((t) => t.includes(loaded.state.fingerprint))).toBe(true);
+    expect(shown.some((t) => t.includes(loaded.fingerprint))).toBe(true);
   });
 });
 

@@ -5,6 +5,7 @@ import { bootLoaders } from "./loader";
 import { bootEntangledPanels } from "./entangled-view";
 import { injectStyles } from "./styles";
 import { bootTolerance, type ToleranceWidget } from "./tolerance-view";
+import { bootTrajectoryWidgets } from "./trajectory-view";
 
 /**
  * The browser runtime: boots every explorer element on the page that has not booted yet.
@@ -49,6 +50,7 @@ function install(): QuietframeRuntime {
     bootLoaders(root, boot, release);
     bootTolerance(root, boot, toleranceMaps);
     bootEntangledPanels(root);
+    bootTrajectoryWidgets(root);
     return started;
   };
   return {

@@ -1,0 +1,249 @@
+import { QuietframeError, QuietframeErrors } from "../../src/errors";
+import { parseJsonText } from "../../src/setup/parse-json";
+import type { SetupDescription } from "../../src/setup/format";
+import { QUIETFRAME_VERSION } from "../../src/version";
+import { MAX_STATE_TEXT_BYTES } from "../state/document";
+import { CONTROL_TYPES, SLIDER_SCALES, WIDGET_MODULE, type ControlSpec, type JupyterWidgetStateDocument } from "../state/format";
+import { TRAJECTORY_MODEL_NAME, TRAJECTORY_STATE_FORMAT, TRAJECTORY_STATE_VERSION, type SimulationSpec, type TrajectoryState } from "./format";
+import { checkJoint, checkPair } from "./joint";
+import { computeTrajectory, type ComputeOptions, type TrajectoryComputation } from "./model";
+
+/**
+ * A trajectory widget's state file: a Jupyter widget-state document (format 2.0) holding one
+ * trajectory model, or the bare state. Reading is strict (unknown or mistyped fields are
+ * errors with their path) and builds fresh objects, so nothing in the input reaches a prototype.
+ */
+
+const STATE_KEYS = ["format", "version", "quietframe", "setup", "controls", "values", "simulation", "joint", "pair", "title", "fingerprint"] as const;
+const SIMULATION_KEYS = ["duration", "step", "seed", "samples", "initial", "stoppedAfter"] as const;
+const CONTROL_KEYS = ["target", "label", "control", "scale", "min", "max", "steps", "choices"] as const;
+const FINGERPRINT_PATTERN = /^sha256:[0-9a-f]{64}$/;
+const VERSION_PATTERN = /^\d{1,9}\.\d{1,9}\.\d{1,9}(?:-[0-9A-Za-z.-]{1,64})?(?:\+[0-9A-Za-z.-]{1,64})?$/;
+const RESERVED_KEYS = new Set(["__proto__", "constructor", "prototype"]);
+const MAX_DEPTH = 32;
+// Model error paths that already start at a field of the state rather than of the set-up.
+const STATE_FIELD = /^(values|controls|simulation|joint|pair|setup)(?=$|[.[])/;
+
+/** Deterministic model id: the same curves always get the same id. */
+export function trajectoryModelId(fingerprint: string): string {
+  return `quietframe-trajectory-${fingerprint.slice("sha256:".length, "sha256:".length + 16)}`;
+}
+
+export function toTrajectoryDocument(state: TrajectoryState): JupyterWidgetStateDocument {
+  const clean = checkTrajectoryState(state, "state");
+  return {
+    version_major: 2,
+    version_minor: 0,
+    state: {
+      [trajectoryModelId(clean.fingerprint)]: {
+        model_name: TRAJECTORY_MODEL_NAME,
+        model_module: WIDGET_MODULE,
+        model_module_version: QUIETFRAME_VERSION,
+        state: clean as unknown as Record<string, unknown>,
+      },
+    },
+  };
+}
+
+/** The state file's text: two-space JSON and a final newline. */
+export function trajectoryDocumentText(state: TrajectoryState): string {
+  return `${JSON.stringify(toTrajectoryDocument(state), null, 2)}\n`;
+}
+
+/** True when the input (text or parsed) is a trajectory state or a document holding one; never throws. */
+export function isTrajectoryInput(input: unknown): boolean {
+  let value = input;
+  if (typeof input === "string") {
+    try {
+      value = JSON.parse(input);
+    } catch {
+      return false;
+    }
+  }
+  if (!isRecord(value)) return false;
+  if (value.format === TRAJECTORY_STATE_FORMAT) return true;
+  return isRecord(value.state) && Object.values(value.state).some((m) => isRecord(m) && m.model_module === WIDGET_MODULE && m.model_name === TRAJECTORY_MODEL_NAME);
+}
+
+/** Reads a state document or a bare state, text or parsed. Shape only: see loadTrajectoryState. */
+export function parseTrajectoryState(input: unknown, source = "state"): TrajectoryState {
+  return locate(input, source).state;
+}
+
+export interface LoadedTrajectoryState {
+  readonly state: TrajectoryState;
+  readonly computation: TrajectoryComputation;
+  /** Whether the rerun gives bit for bit the curves the file records. */
+  readonly fingerprintMatches: boolean;
+}
+
+/** Parses a state and runs its simulation again; errors name the field in the file. */
+export function loadTrajectoryState(input: unknown, source = "state", options: ComputeOptions = {}): LoadedTrajectoryState {
+  const { state, path } = locate(input, source);
+  const computation = rebased(path, () => computeTrajectory(state, options));
+  return { state, computation, fingerprintMatches: computation.fingerprint === state.fingerprint };
+}
+
+/** Re-throws model errors with paths into the file: state fields as they are, set-up problems under `setup.`. */
+export function rebased<T>(path: string, fn: () => T): T {
+  const rebase = (e: QuietframeError): QuietframeError =>
+    new QuietframeError({ path: `${path}.${STATE_FIELD.test(e.path) ? "" : "setup."}${e.path}`, value: e.value, problem: e.problem, allowed: e.allowed });
+  try {
+    return fn();
+  } catch (e) {
+    if (e instanceof QuietframeError) throw rebase(e);
+    if (e instanceof QuietframeErrors) throw new QuietframeErrors(e.problems.map(rebase));
+    throw e;
+  }
+}
+
+function locate(input: unknown, source: string): { state: TrajectoryState; path: string } {
+  if (typeof input === "string" && input.length > MAX_STATE_TEXT_BYTES) {
+    throw new QuietframeError({ path: source, problem: `is more than ${MAX_STATE_TEXT_BYTES} characters of text`, allowed: "a state document of at most 5 MiB" });
+  }
+  const value = typeof input === "string" ? parseJsonText(input, source) : input;
+  const top = expectRecord(value, source, "a widget-state document or a trajectory state (a JSON object)");
+  if (Object.prototype.hasOwnProperty.call(top, "format")) return { state: checkTrajectoryState(top, source), path: source };
+  if (top.version_major !== 2) {
+    throw new QuietframeError({ path: `${source}.version_major`, value: top.version_major, problem: "is not a widget-state format this quietframe reads", allowed: `2, or a bare state {"format": "${TRAJECTORY_STATE_FORMAT}", …}` });
+  }
+  const models = expectRecord(top.state, `${source}.state`, "an object of widget models keyed by model id");
+  const ours = Object.keys(models).filter((id) => {
+    const m = models[id];
+    return isRecord(m) && m.model_module === WIDGET_MODULE && m.model_name === TRAJECTORY_MODEL_NAME;
+  });
+  if (ours.length !== 1) {
+    throw new QuietframeError({
+      path: `${source}.state`,
+      problem: ours.length ? `holds ${ours.length} quietframe trajectory models` : "holds no quietframe trajectory model",
+      allowed: `exactly one model with model_module "${WIDGET_MODULE}" and model_name "${TRAJECTORY_MODEL_NAME}"`,
+    });
+  }
+  const id = ours[0];
+  const path = `${source}.state${/^[A-Za-z0-9_-]+$/.test(id) ? `.${id}` : `[${JSON.stringify(id)}]`}.state`;
+  return { state: checkTrajectoryState((models[id] as Record<string, unknown>).state, path), path };
+}
+
+/** Checks a trajectory state field by field and returns a fresh copy. */
+export function checkTrajectoryState(input: unknown, path: string): TrajectoryState {
+  const o = expectRecord(input, path, `a trajectory state {"format": "${TRAJECTORY_STATE_FORMAT}", …}`);
+  if (o.format !== TRAJECTORY_STATE_FORMAT) throw new QuietframeError({ path: `${path}.format`, value: o.format, problem: "is not a quietframe trajectory state", allowed: `"${TRAJECTORY_STATE_FORMAT}"` });
+  const version = o.version;
+  if (typeof version !== "number" || !Number.isInteger(version) || version < 1) throw new QuietframeError({ path: `${path}.version`, value: version, problem: "must be a positive integer", allowed: String(TRAJECTORY_STATE_VERSION) });
+  if (version > TRAJECTORY_STATE_VERSION) throw new QuietframeError({ path: `${path}.version`, value: version, problem: "was written by a newer quietframe than this one", allowed: `versions up to ${TRAJECTORY_STATE_VERSION}; upgrade quietframe to read it` });
+  rejectUnknownKeys(o, STATE_KEYS, path, "a trajectory state");
+  if (typeof o.quietframe !== "string" || !VERSION_PATTERN.test(o.quietframe)) throw new QuietframeError({ path: `${path}.quietframe`, value: o.quietframe, problem: "is not a quietframe version", allowed: `a version such as "${QUIETFRAME_VERSION}"` });
+  const setup = copyJson(expectRecord(o.setup, `${path}.setup`, "a set-up object (docs/setup-format.md)"), `${path}.setup`, 0) as unknown as SetupDescription;
+  const controls = expectArray(o.controls, `${path}.controls`, "an array of controls (may be empty)").map((c, i) => checkControl(c, `${path}.controls[${i}]`));
+  const valuesIn = expectRecord(o.values, `${path}.values`, 'current values keyed by control target, e.g. {"membrane.temperature": "6 K"}');
+  const values: Record<string, string | number> = {};
+  for (const key of Object.keys(valuesIn)) {
+    if (!/^[A-Za-z_][A-Za-z0-9_-]{0,63}\.[A-Za-z_][A-Za-z0-9_]{0,63}$/.test(key) || RESERVED_KEYS.has(key.slice(0, key.indexOf(".")))) {
+      throw new QuietframeError({ path: `${path}.values.${key}`, problem: "is not a control target", allowed: '"component.parameter"' });
+    }
+    define(values, key, expectQuantity(valuesIn[key], `${path}.values.${key}`));
+  }
+  const simulation = checkSimulation(o.simulation, `${path}.simulation`);
+  const joint = checkJoint(o.joint, `${path}.joint`);
+  const pair = checkPair(o.pair, `${path}.pair`);
+  if (o.title !== undefined && (typeof o.title !== "string" || o.title.length > 200)) throw new QuietframeError({ path: `${path}.title`, value: o.title, problem: "must be text of at most 200 characters", allowed: "plain text" });
+  if (typeof o.fingerprint !== "string" || !FINGERPRINT_PATTERN.test(o.fingerprint)) throw new QuietframeError({ path: `${path}.fingerprint`, value: o.fingerprint, problem: "is not a curve fingerprint", allowed: '"sha256:" followed by 64 lowercase hex digits' });
+  return {
+    format: TRAJECTORY_STATE_FORMAT,
+    version,
+    quietframe: o.quietframe,
+    setup,
+    controls,
+    values,
+    simulation,
+    joint,
+    pair,
+    ...(o.title === undefined ? {} : { title: o.title as string }),
+    fingerprint: o.fingerprint,
+  };
+}
+
+/** Shape of the simulation settings; their values are checked by resolveSimulation. */
+function checkSimulation(input: unknown, path: string): SimulationSpec {
+  const o = expectRecord(input, path, '{"duration": "200 us", "step": "10 ns", "seed": 1, …}');
+  rejectUnknownKeys(o, SIMULATION_KEYS, path, "the simulation settings");
+  const out: SimulationSpec = { duration: expectQuantity(o.duration, `${path}.duration`), step: expectQuantity(o.step, `${path}.step`), seed: o.seed as number };
+  if (o.samples !== undefined) out.samples = o.samples as number;
+  if (o.initial !== undefined) out.initial = o.initial as SimulationSpec["initial"];
+  if (o.stoppedAfter !== undefined) out.stoppedAfter = o.stoppedAfter as number | null;
+  return out;
+}
+
+function checkControl(input: unknown, path: string): ControlSpec {
+  const o = expectRecord(input, path, '{"target": "component.parameter", …}');
+  rejectUnknownKeys(o, CONTROL_KEYS, path, "a control");
+  if (typeof o.target !== "string") throw new QuietframeError({ path: `${path}.target`, value: o.target, problem: "must be a string", allowed: '"component.parameter"' });
+  const out: ControlSpec = { target: o.target };
+  if (o.label !== undefined) out.label = expectString(o.label, `${path}.label`);
+  if (o.control !== undefined) out.control = expectWord(o.control, CONTROL_TYPES, `${path}.control`);
+  if (o.scale !== undefined) out.scale = expectWord(o.scale, SLIDER_SCALES, `${path}.scale`);
+  if (o.min !== undefined) out.min = expectQuantity(o.min, `${path}.min`);
+  if (o.max !== undefined) out.max = expectQuantity(o.max, `${path}.max`);
+  if (o.steps !== undefined) {
+    if (typeof o.steps !== "number" || !Number.isInteger(o.steps)) throw new QuietframeError({ path: `${path}.steps`, value: o.steps, problem: "must be an integer", allowed: "a number of slider steps, e.g. 200" });
+    out.steps = o.steps;
+  }
+  if (o.choices !== undefined) out.choices = expectArray(o.choices, `${path}.choices`, "values as the set-up writes them").map((c, k) => expectQuantity(c, `${path}.choices[${k}]`));
+  return out;
+}
+
+function copyJson(value: unknown, path: string, depth: number): unknown {
+  if (value === null || typeof value === "string" || typeof value === "boolean") return value;
+  if (typeof value === "number") {
+    if (Number.isFinite(value)) return value;
+    throw new QuietframeError({ path, value, problem: "is not a finite number", allowed: "JSON numbers" });
+  }
+  if (depth >= MAX_DEPTH) throw new QuietframeError({ path, problem: `is nested more than ${MAX_DEPTH} levels deep`, allowed: "a set-up as docs/setup-format.md describes it" });
+  if (Array.isArray(value)) return value.map((v, i) => copyJson(v, `${path}[${i}]`, depth + 1));
+  if (isRecord(value)) {
+    const out: Record<string, unknown> = {};
+    for (const key of Object.keys(value)) {
+      if (RESERVED_KEYS.has(key)) throw new QuietframeError({ path: `${path}.${key}`, problem: "is a reserved name, not a field of a set-up", allowed: "the fields of docs/setup-format.md" });
+      define(out, key, copyJson(value[key], `${path}.${key}`, depth + 1));
+    }
+    return out;
+  }
+  throw new QuietframeError({ path, value: String(value), problem: "is not JSON data", allowed: "objects, arrays, strings, finite numbers, booleans, null" });
+}
+
+function define(target: Record<string, unknown>, key: string, value: unknown): void {
+  Object.defineProperty(target, key, { value, enumerable: true, writable: true, configurable: true });
+}
+
+function isRecord(v: unknown): v is Record<string, unknown> {
+  return typeof v === "object" && v !== null && !Array.isArray(v);
+}
+
+function expectRecord(v: unknown, path: string, allowed: string): Record<string, unknown> {
+  if (!isRecord(v)) throw new QuietframeError({ path, value: v, problem: v === undefined ? "is required" : "must be an object", allowed });
+  return v;
+}
+
+function expectArray(v: unknown, path: string, allowed: string): unknown[] {
+  if (!Array.isArray(v)) throw new QuietframeError({ path, value: v, problem: v === undefined ? "is required" : "must be an array", allowed });
+  return v;
+}
+
+function expectString(v: unknown, path: string): string {
+  if (typeof v !== "string") throw new QuietframeError({ path, value: v, problem: "must be a string", allowed: "text" });
+  return v;
+}
+
+function expectWord<W extends string>(v: unknown, words: readonly W[], path: string): W {
+  if (typeof v !== "string" || !(words as readonly string[]).includes(v)) throw new QuietframeError({ path, value: v, problem: "is not one of the choices", allowed: words.join(", ") });
+  return v as W;
+}
+
+function expectQuantity(v: unknown, path: string): string | number {
+  if (typeof v === "string" || (typeof v === "number" && Number.isFinite(v))) return v;
+  throw new QuietframeError({ path, value: v, problem: v === undefined ? "is required" : "must be a value with its unit or a number", allowed: 'e.g. "6 K", "200 us" or 0.95' });
+}
+
+function rejectUnknownKeys(obj: Record<string, unknown>, known: readonly string[], path: string, what: string): void {
+  for (const key of Object.keys(obj)) if (!known.includes(key)) throw new QuietframeError({ path: `${path}.${key}`, problem: `is not a field of ${what}`, allowed: known.join(", ") });
+}
