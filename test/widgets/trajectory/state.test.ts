@@ -1,4 +1,6 @@
 import Ajv from "ajv";
+import { readFileSync } from "node:fs";
+import { join } from "node:path";
 import { describe, expect, it } from "vitest";
 import { QuietframeError } from "../../../src/errors";
 import { createExplorerState } from "../../../widgets/explorer/model";
@@ -6,6 +8,7 @@ import { stateDocumentText } from "../../../widgets/state/document";
 import { isTrajectoryInput, loadTrajectoryState, parseTrajectoryState, toTrajectoryDocument, trajectoryDocumentText } from "../../../widgets/trajectory/document";
 import type { TrajectoryState } from "../../../widgets/trajectory/format";
 import { computeTrajectory, createTrajectoryState, finishTrajectory, prepareTrajectory, withComputation } from "../../../widgets/trajectory/model";
+import { REPO_ROOT } from "../../jupyter/env";
 import { hybrid, shortRun } from "./fixtures";
 
 // Outside reference for the documents: the Jupyter widget-state schema v2 as @jupyter-widgets/schema ships it.
@@ -147,9 +150,6 @@ describe("runs in slices and stopped runs", () => {
 
 describe("the starting state", () => {
   it("is the engine's choice when not given, and the saved state names it", async () => {
-    const { readFileSync } = await import("node:fs");
-    const { join } = await import("node:path");
-    const { REPO_ROOT } = await import("../../jupyter/env");
     const freeMass = JSON.parse(readFileSync(join(REPO_ROOT, "examples", "free-test-mass.json"), "utf8"));
     // A free mass has no stationary state (its position diffuses without bound), so the run starts from the ground state.
     const s = createTrajectoryState(freeMass, { simulation: { duration: "1 ms", step: "1 us", seed: 3 } });
