@@ -1,5 +1,5 @@
 import type { MimeBundle } from "../../widgets/notebook/display";
-import type { LiveModel, StandardWidget, WidgetHost } from "../../widgets/live/host";
+import type { LiveModel, StandardControl, WidgetHost } from "../../widgets/live/host";
 
 /**
  * An in-memory widget host: models hold their state and fire "change:<key>" and "change"
@@ -53,8 +53,13 @@ export class FakeHost implements WidgetHost {
   readonly models: FakeModel[] = [];
   readonly displayed: { model: LiveModel; fallback: MimeBundle }[] = [];
 
-  standard(kind: StandardWidget, state: Record<string, unknown>): FakeModel {
+  control(kind: StandardControl, state: Record<string, unknown>): FakeModel {
     return this.add(kind, state);
+  }
+
+  vbox(children: readonly LiveModel[]): FakeModel {
+    // Jupyter widget protocol: containers refer to children as "IPY_MODEL_<model id>".
+    return this.add("VBox", { children: children.map((c) => `IPY_MODEL_${c.id}`) });
   }
 
   custom(state: Record<string, unknown>): FakeModel {

@@ -1,8 +1,8 @@
 import { QuietframeError } from "../../src/errors";
-import { log10 } from "../../src/numeric/portable-math";
+import { log10, pow } from "../../src/numeric/portable-math";
 import { parseQuantity, type QuantityKind } from "../../src/units";
 import { checkValue, sliderPosition, sliderValue, writeValue, type ResolvedControl } from "../explorer/controls";
-import type { StandardWidget } from "./host";
+import type { StandardControl } from "./host";
 
 /**
  * One explorer control as a standard Jupyter control: which widget, its initial state, and
@@ -15,13 +15,13 @@ import type { StandardWidget } from "./host";
  */
 export interface ControlWidget {
   readonly control: ResolvedControl;
-  readonly widget: StandardWidget;
+  readonly widget: StandardControl;
   /** The state key that holds the value ("value", or "index" for dropdowns). */
   readonly key: "value" | "index";
   /** Initial state (description, bounds, step, the value). */
   initialState(written: string | number): Record<string, unknown>;
   /** Widget value of a (checked) written value. */
-  toWidget(written: string | number): number;
+  toWidget(written: string | number): number | string;
   /** Written value of what the widget holds; QuietframeError when it holds nothing usable. */
   fromWidget(held: unknown): string | number;
 }
@@ -54,21 +54,23 @@ function numericWidget(c: ResolvedControl): ControlWidget {
   if (c.control === "number") {
     return {
       control: c,
-      widget: "FloatText",
+      widget: "Text",
       key: "value",
-      initialState: (written) => ({ description, value: toWidget(written) }),
-      toWidget,
-      // A typed number keeps the digits as typed: "0.925 %" rather than a re-rounded SI value.
+      // Sent on Enter or leaving the field, not on every key: half-typed numbers are not values.
+      initialState: (written) => ({ description, value: String(written), continuous_update: false }),
+      toWidget: (written) => String(written),
       fromWidget: (held) => {
-        fromNumber(held);
-        return c.unit ? `${held as number} ${c.unit}` : (held as number);
+        if (typeof held !== "string") throw new QuietframeError({ path: `values.${c.target}`, value: held, problem: "the field holds no text", allowed: `a value such as "${c.unit ? `1 ${c.unit}` : "1"}"` });
+        const text = held.trim();
+        // A bare number is taken in the unit shown in the description, as on the kernel-free page.
+        if (/^[-+]?(\d+\.?\d*|\.\d+)(e[-+]?\d+)?$/i.test(text)) return c.unit ? `${text} ${c.unit}` : Number(text);
+        return text;
       },
     };
   }
   const snap = (held: unknown): string => writeValue(c, sliderValue(c, sliderPosition(c, fromNumber(held))));
   if (c.scale === "log") {
-    const lo = log10(min);
-    const hi = log10(max);
+    const [lo, hi] = exponentsAround(min, max);
     return {
       control: c,
       widget: "FloatLogSlider",
@@ -108,4 +110,17 @@ function dropdownWidget(c: ResolvedControl): ControlWidget {
       return choices[held];
     },
   };
+}
+
+/**
+ * Exponents of 10 whose powers enclose [min, max]: log10 then pow may land a last bit inside
+ * the range, and a front-end or kernel that checks the slider value against 10^min … 10^max
+ * would then refuse the control's own end values.
+ */
+function exponentsAround(min: number, max: number): [number, number] {
+  let lo = log10(min);
+  let hi = log10(max);
+  for (let i = 0; i < 8 && pow(10, lo) > min; i++) lo -= Math.max(Math.abs(lo), 1) * Number.EPSILON;
+  for (let i = 0; i < 8 && pow(10, hi) < max; i++) hi += Math.max(Math.abs(hi), 1) * Number.EPSILON;
+  return [lo, hi];
 }

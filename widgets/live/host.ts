@@ -18,18 +18,15 @@ export interface LiveModel {
 }
 
 /** A standard control or container of @jupyter-widgets/controls. */
-export type StandardWidget = "FloatSlider" | "FloatLogSlider" | "FloatText" | "Dropdown" | "HTML" | "VBox" | "HBox";
+export type StandardControl = "FloatSlider" | "FloatLogSlider" | "Text" | "Dropdown";
 
 export interface WidgetHost {
-  /** A standard widget; `state` holds only the keys that differ from the widget's defaults. */
-  standard(kind: StandardWidget, state: Record<string, unknown>): LiveModel;
+  /** A standard control; `state` holds only the keys that differ from the control's defaults. */
+  control(kind: StandardControl, state: Record<string, unknown>): LiveModel;
+  /** A VBox of the given models, in order. */
+  vbox(children: readonly LiveModel[]): LiveModel;
   /** A model of our own; `state` is complete, with its _model_* and _view_* keys. */
   custom(state: Record<string, unknown>): LiveModel;
   /** Displays a model's view, with `fallback` for front-ends that cannot show it. */
   display(model: LiveModel, fallback: MimeBundle): void;
-}
-
-/** How a container refers to its children in widget state. */
-export function modelReference(model: LiveModel): string {
-  return `IPY_MODEL_${model.id}`;
 }

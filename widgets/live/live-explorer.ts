@@ -5,7 +5,7 @@ import type { MimeBundle } from "../notebook/display";
 import type { ExplorerState } from "../state/format";
 import { chartPatch, initialChartState } from "./chart-state";
 import { controlWidget, type ControlWidget } from "./control-widgets";
-import { modelReference, type LiveModel, type WidgetHost } from "./host";
+import type { LiveModel, WidgetHost } from "./host";
 
 /** Values keyed by control target, written as in a set-up ("6 K", "95 %", 1e6, "negative"). */
 export type ControlValues = Record<string, string | number>;
@@ -59,12 +59,12 @@ export class LiveExplorer {
     this.#shown = { ...state.values };
     for (const c of resolveControls(state.setup, state.controls)) {
       const binding = controlWidget(c);
-      const model = host.standard(binding.widget, binding.initialState(state.values[c.target]));
+      const model = host.control(binding.widget, binding.initialState(state.values[c.target]));
       model.on(`change:${binding.key}`, () => this.#fromFrontEnd(c.target));
       this.#controls.set(c.target, { binding, model });
     }
     this.#chart = host.custom(initialChartState(this.#state, computation));
-    this.#box = host.standard("VBox", { children: [...[...this.#controls.values()].map((b) => modelReference(b.model)), modelReference(this.#chart)] });
+    this.#box = host.vbox([...[...this.#controls.values()].map((b) => b.model), this.#chart]);
   }
 
   /** What the controls show now (which may be values that could not be computed: see `error`). */
