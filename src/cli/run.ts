@@ -9,6 +9,7 @@ import { evaluateSetup, FALLBACK_GRID, loadSetup } from "../pipeline";
 import { parseQuantity } from "../units";
 import { QUIETFRAME_VERSION } from "../version";
 import { RENDER_USAGE, renderCommand, reportCommand } from "./render";
+import { KERNEL_USAGE, kernelCommand } from "./kernel-install";
 
 export interface CliIo {
   out: (s: string) => void;
@@ -29,7 +30,7 @@ usage:
       Validates a set-up and reports its size and stability.
   quietframe types [type]
       Lists component types, or one type's parameters and ports.
-${RENDER_USAGE}`;
+${RENDER_USAGE}${KERNEL_USAGE}`;
 
 /** Commands that render figures (Vega renders asynchronously); runCliAsync runs them. */
 const ASYNC_COMMANDS: Readonly<Record<string, (args: string[], io: CliIo) => Promise<number>>> = {
@@ -64,6 +65,8 @@ export function runCli(argv: string[], io: CliIo): number {
         return summaryCommand(rest, io);
       case "types":
         return typesCommand(rest, io);
+      case "kernel":
+        return kernelCommand(rest, io);
       case undefined:
         io.err(USAGE);
         return 2;

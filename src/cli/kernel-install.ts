@@ -1,0 +1,26 @@
+import { parseArgs } from "node:util";
+import { QuietframeError } from "../errors";
+import { installKernelSpec, KERNEL_DISPLAY_NAME, KERNEL_NAME } from "../../widgets/kernel/kernel-spec";
+import type { CliIo } from "./run";
+
+/** `quietframe kernel install`: registers the quietframe kernel (tslab with comms) with Jupyter. */
+
+export const KERNEL_USAGE = `  quietframe kernel install [--user | --prefix DIR] [--python PATH]
+      Registers the "${KERNEL_DISPLAY_NAME}" kernel (${KERNEL_NAME}): TypeScript cells with
+      live widgets. --user (default unless root): your own Jupyter; --prefix DIR: DIR/share/jupyter;
+      --python: the Python your Jupyter runs on (default python3).
+`;
+
+export function kernelCommand(args: string[], io: CliIo): number {
+  const [sub, ...rest] = args;
+  if (sub !== "install") {
+    throw new QuietframeError({ path: "kernel", value: sub ?? "", problem: "is not a kernel subcommand", allowed: "install" });
+  }
+  const { values } = parseArgs({
+    args: rest,
+    options: { user: { type: "boolean" }, prefix: { type: "string" }, python: { type: "string" } },
+  });
+  const dir = installKernelSpec({ user: values.user, prefix: values.prefix, python: values.python });
+  io.out(`Installed the ${KERNEL_DISPLAY_NAME} kernel spec (${KERNEL_NAME}) in ${dir}\n`);
+  return 0;
+}
