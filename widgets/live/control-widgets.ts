@@ -75,7 +75,7 @@ function numericWidget(c: ResolvedControl): ControlWidget {
       control: c,
       widget: "FloatLogSlider",
       key: "value",
-      initialState: (written) => ({ description, base: 10, min: lo, max: hi, step: (hi - lo) / c.steps, value: toWidget(written), readout_format: ".4g" }),
+      initialState: (written) => ({ description, base: 10, min: lo, max: hi, step: (hi - lo) / c.steps, value: toWidget(written), readout_format: ".4~g" }),
       toWidget,
       fromWidget: snap,
     };
@@ -84,7 +84,7 @@ function numericWidget(c: ResolvedControl): ControlWidget {
     control: c,
     widget: "FloatSlider",
     key: "value",
-    initialState: (written) => ({ description, min, max, step: (max - min) / c.steps, value: toWidget(written), readout_format: ".4g" }),
+    initialState: (written) => ({ description, min, max, step: (max - min) / c.steps, value: toWidget(written), readout_format: ".4~g" }),
     toWidget,
     fromWidget: snap,
   };
