@@ -4,7 +4,9 @@
  * model and view, Vega and Vega-Lite) in the two forms widget managers load:
  *
  *   dist/live-frontend/esm/index.js   an ES module (JupyterLab-style managers, pages with import maps)
- *   dist/live-frontend/amd/index.js   a require.js module (the classic notebook's widget manager)
+ *   dist/live-frontend/amd/index.js   a require.js module (the classic notebook's widget manager),
+ *                                     with amd/extension.js, the notebook extension that maps the
+ *                                     module name "quietframe-live" to it
  *
  * @jupyter-widgets/base stays outside: the manager provides its own copy, and the model and
  * view classes must extend exactly that one.
@@ -48,6 +50,12 @@ async function main() {
     `var require = function (name) { if (name === "${BASE}") return __quietframeBase; throw new Error("quietframe-live: no module " + name); };\n` +
     `${cjs.outputFiles[0].text}\nreturn module.exports;\n});\n`;
   writeFileSync(join(out, "amd", "index.js"), amd);
+  // The classic notebook's widget manager asks require.js for the module by its name; this
+  // notebook extension maps the name to the installed file (see README, "Live explorers").
+  writeFileSync(
+    join(out, "amd", "extension.js"),
+    `define(function () {\n  "use strict";\n  window.require.config({ map: { "*": { "quietframe-live": "nbextensions/quietframe-live/index" } } });\n  return { load_ipython_extension: function () {} };\n});\n`,
+  );
   // The manifest front-ends read the module name and version from.
   const version = JSON.parse(readFileSync(join(root, "package.json"), "utf8")).version;
   writeFileSync(join(out, "package.json"), `${JSON.stringify({ name: "quietframe-live", version, module: "esm/index.js", main: "amd/index.js" }, null, 2)}\n`);
