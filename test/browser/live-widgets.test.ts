@@ -31,6 +31,7 @@ const EXAMPLE = join(REPO_ROOT, "examples", "cryogenic-membrane.json");
 const CONTROLS: ControlSpec[] = [
   { target: "detector.efficiency", label: "detection efficiency", min: "50 %", max: "100 %" },
   { target: "cavity.photons", label: "intracavity photons", min: 1e4, max: 1e8 },
+  { target: "cavity.detuning", label: "cavity detuning", control: "number", min: "-20 MHz", max: "20 MHz" },
 ];
 const GRID = { from: "1.1 MHz", to: "1.3 MHz", points: 200 };
 const TIMEOUT_MS = 120_000;
@@ -206,6 +207,26 @@ describe("a live explorer under a real widget manager", { timeout: TIMEOUT_MS * 
     const result = await execute(`w.set("detector.efficiency", "45 %")`);
     expect(`${result.error ?? ""}${result.stderr}`).toMatch(/values\.detector\.efficiency.*outside the control's range/);
     expect(await sliderReadout(0)).toBe("70");
+  });
+
+  it("a typed value the model cannot compute shows the reason in the chart and keeps its curves", async () => {
+    // A blue-detuned drive makes the mechanics unstable (Aspelmeyer, Kippenberg & Marquardt,
+    // Rev. Mod. Phys. 86, 1391 (2014), sec. VII); the kernel says so instead of plotting.
+    const rows = await plottedRows();
+    const field = page.locator(".widget-text input").first();
+    await field.fill("1.2");
+    await field.press("Enter");
+    const alert = page.locator(`.${CHART_VIEW_CLASS} .qf-alert`);
+    await expect.poll(() => alert.isVisible(), { timeout: TIMEOUT_MS }).toBe(true);
+    expect(await alert.innerText()).toMatch(/unstable.*blue-detuned/);
+    expect(await plottedRows()).toEqual(rows);
+    expect(printedValue((await execute("w.values")).stdout, "cavity.detuning")).toBe("1.2 MHz");
+    // The last valid state is what the kernel keeps.
+    expect((await execute(`w.state.values["cavity.detuning"]`)).stdout).toMatch(/0 Hz/);
+    // Back to resonance from a cell: the field follows and the reason goes.
+    await execute(`w.set("cavity.detuning", "0 Hz")`);
+    await expect.poll(() => alert.isVisible(), { timeout: TIMEOUT_MS }).toBe(false);
+    expect(await field.inputValue()).toBe("0 Hz");
   });
 
   it("the widget state the manager saves holds the explorer state, which the CLI's reader loads", async () => {
