@@ -8,6 +8,8 @@ import { installKernelComms } from "../../widgets/kernel/kernel-comms";
 import { CHART_MODEL_NAME, LIVE_MODULE } from "../../widgets/live/names";
 import type { LiveChange } from "../../widgets/live/live-explorer";
 import { explorer } from "../../widgets/notebook/explorer";
+import { liveRuntimeCarried, resetLiveSession } from "../../widgets/live/live-session";
+import { resetDisplaySession, runtimeShown } from "../../widgets/notebook/session";
 import { frontEnd, recordingComms, type Published } from "../kernel/fake-transport";
 
 /**
@@ -27,7 +29,11 @@ const OPTIONS = {
   settings: { grid: { from: "1.1 MHz", to: "1.3 MHz", points: 50 } },
 };
 
-afterEach(() => installKernelComms(undefined));
+afterEach(() => {
+  installKernelComms(undefined);
+  resetLiveSession();
+  resetDisplaySession();
+});
 
 function opened(sent: Published[], modelName: string): Published[] {
   return sent.filter((m) => m.msgType === "comm_open" && (m.content.data as { state: Record<string, unknown> }).state._model_name === modelName);
@@ -92,6 +98,18 @@ describe("explorer(...).show() under the quietframe kernel", () => {
     w.values = { "cavity.photons": 2e6 };
     expect(w.state.values).toMatchObject({ "detector.efficiency": "70 %", "cavity.photons": 2e6 });
     expect(() => w.set("detector.efficiency", "45 %")).toThrow(QuietframeError);
+  });
+});
+
+describe("the browser runtime in live fallbacks", () => {
+  test("goes into the first live fallback only, and leaves kernel-free outputs to carry their own", async () => {
+    const { comms } = recordingComms();
+    installKernelComms(comms);
+    expect(liveRuntimeCarried()).toBe(false);
+    await explorer(membrane(), OPTIONS).show();
+    expect(liveRuntimeCarried()).toBe(true);
+    // A front-end with widgets never renders the fallback, so the page may still lack the runtime.
+    expect(runtimeShown()).toBe(false);
   });
 });
 

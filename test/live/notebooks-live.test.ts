@@ -2,6 +2,7 @@ import { mkdtempSync, readdirSync, readFileSync, rmSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { basename, join } from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { RUNTIME_FILE } from "../../widgets/html/runtime-source";
 import { CHART_MODEL_NAME, LIVE_MODULE } from "../../widgets/live/names";
 import { liveStateSource } from "../../widgets/live/saved-state";
 import { loadExplorerState, WIDGET_STATE_MIME } from "../../widgets/state/document";
@@ -77,6 +78,13 @@ describe.each(NOTEBOOKS)("%s with the quietframe kernel", (name) => {
       expect(joined(w.data!["text/html"])).toContain('type="application/json"');
       expect(joined(w.data!["text/plain"])).toMatch(/fingerprint: sha256:[0-9a-f]{64}/);
     }
+  });
+
+  it("carries the browser runtime in the first live widget's fallback only", () => {
+    const runtime = readFileSync(join(REPO_ROOT, RUNTIME_FILE), "utf8");
+    const carrying = outputsOf(nb!).filter(isLiveWidget).map((w) => joined(w.data!["text/html"]).includes(runtime));
+    expect(carrying[0]).toBe(true);
+    expect(carrying.slice(1).every((c) => !c)).toBe(true);
   });
 
   it("stores the charts' widget state in the metadata; each explorer state reproduces its curves", () => {

@@ -12,6 +12,7 @@ import { notebookFigures, summaryText, type NotebookFigures } from "./figures";
 import { markRuntimeShown, runtimeShown } from "./session";
 import { kernelWidgetHost } from "../live/kernel-host";
 import { LiveExplorer, type ControlValues, type LiveChange, type LiveChangeListener } from "../live/live-explorer";
+import { liveRuntimeCarried, markLiveRuntimeCarried } from "../live/live-session";
 
 export interface ShowOptions {
   /** Carry the browser runtime in this output (default: only if no widget carried it yet in this kernel). */
@@ -154,10 +155,11 @@ export class NotebookExplorer {
    * `await w.show()`: otherwise the cell ends before the output exists.
    */
   async show(options: ShowOptions = {}): Promise<void> {
-    const includeRuntime = options.includeRuntime ?? !runtimeShown();
-    const bundle = await this.bundle({ ...options, includeRuntime });
     const host = options.live === false ? undefined : kernelWidgetHost();
     if (host) {
+      // The fallback (kernel-free output) carries the runtime once per kernel for viewers without widgets.
+      const carry = options.includeRuntime ?? !liveRuntimeCarried();
+      const bundle = await this.bundle({ ...options, includeRuntime: carry });
       // One live explorer per object: showing it again adds another view of the same models.
       if (!this.#live) {
         this.#live = new LiveExplorer(host, this.#state, this.#computation);
@@ -167,10 +169,11 @@ export class NotebookExplorer {
         });
       }
       this.#live.display(bundle);
-      if (includeRuntime) markRuntimeShown();
+      if (carry) markLiveRuntimeCarried();
       return;
     }
-    const result = displayBundle(bundle);
+    const includeRuntime = options.includeRuntime ?? !runtimeShown();
+    const result = displayBundle(await this.bundle({ ...options, includeRuntime }));
     if (includeRuntime && result.via !== "none") markRuntimeShown();
   }
 
