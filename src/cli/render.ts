@@ -10,6 +10,7 @@ import type { ControlSpec, ExplorerState } from "../../widgets/state/format";
 import { SLIDER_SCALES, type SliderScale } from "../../widgets/state/format";
 import { computeExplorer, createExplorerState, type ExplorerComputation } from "../../widgets/explorer/model";
 import { loadExplorerState } from "../../widgets/state/document";
+import { liveStateSource } from "../../widgets/live/saved-state";
 import { explorerFigures } from "../../widgets/render/static";
 import { standalonePage } from "../../widgets/html/standalone";
 import type { CliIo } from "./run";
@@ -29,6 +30,7 @@ export const RENDER_USAGE = `  quietframe render <state.json> -o <out.html|out.s
       runs again from its seed) and writes its figure: a standalone interactive page
       (html), the chart (svg, png at --scale, default 2) or the plotted numbers (csv). Warns
       when the recomputed curves differ from the stored fingerprint; --strict makes that an error.
+      A saved notebook (.ipynb) works too: the state of its live chart (--widget N if several).
   quietframe report <setup.json> -o <report.html> [--control target[=min:max[:log|linear]]]... [--title T]
       An interactive HTML report of a set-up with sliders for the given parameters, e.g.
       --control "membrane.temperature=10 mK:300 K"; prints the headline figures.
@@ -39,7 +41,12 @@ const RENDER_OPTIONS = {
   format: { type: "string" },
   strict: { type: "boolean", default: false },
   scale: { type: "string" },
+  widget: { type: "string" },
 } as const;
+
+function widgetNumber(text: string | undefined): number | undefined {
+  return text === undefined ? undefined : /^\d+$/.test(text) ? Number(text) : NaN;
+}
 
 export async function renderCommand(args: string[], io: CliIo): Promise<number> {
   const { values, positionals } = parseArgs({ args, allowPositionals: true, options: RENDER_OPTIONS });
@@ -56,7 +63,8 @@ export async function renderCommand(args: string[], io: CliIo): Promise<number> 
     io.out(`wrote ${output} (${format}, ${done.bytes.length} bytes, ${done.fingerprint})\n`);
     return 0;
   }
-  const { state, computation, fingerprintMatches } = loadExplorerState(text, basename(input));
+  const saved = liveStateSource(text, basename(input), widgetNumber(values.widget));
+  const { state, computation, fingerprintMatches } = loadExplorerState(saved.value, saved.source);
   if (!fingerprintMatches) {
     const message =
       `the recomputed curves differ from the ones stored in ${input} ` +

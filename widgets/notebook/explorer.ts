@@ -10,12 +10,21 @@ import { EXPLORER_STATE_FORMAT, type ExplorerState } from "../state/format";
 import { displayBundle, type MimeBundle } from "./display";
 import { notebookFigures, summaryText, type NotebookFigures } from "./figures";
 import { markRuntimeShown, runtimeShown } from "./session";
+import { kernelWidgetHost } from "../live/kernel-host";
+import { LiveExplorer, type ControlValues, type LiveChange, type LiveChangeListener } from "../live/live-explorer";
+import { liveRuntimeCarried, markLiveRuntimeCarried } from "../live/live-session";
 
 export interface ShowOptions {
   /** Carry the browser runtime in this output (default: only if no widget carried it yet in this kernel). */
   includeRuntime?: boolean;
   /** PNG fallback resolution (default scale 1: one image pixel per chart pixel) and fonts. */
   png?: RenderPngOptions;
+  /**
+   * Under the quietframe kernel the widget is live (standard controls and quietframe's chart
+   * over the Jupyter widget protocol, with the kernel-free output as the fallback); false
+   * shows the kernel-free output there too. Elsewhere the output is always kernel-free.
+   */
+  live?: boolean;
 }
 
 /**
@@ -32,6 +41,8 @@ export class NotebookExplorer {
   #state: ExplorerState;
   #computation: ExplorerComputation;
   #fingerprintMatches: boolean;
+  #live: LiveExplorer | undefined;
+  readonly #listeners: LiveChangeListener[] = [];
 
   constructor(state: ExplorerState, computation: ExplorerComputation, fingerprintMatches = true) {
     this.#state = state;
@@ -58,14 +69,70 @@ export class NotebookExplorer {
     return this.#fingerprintMatches;
   }
 
-  /** Moves controls to new values (written as in a set-up, e.g. "3 K") and recomputes. */
-  set(values: Record<string, string | number>): this {
-    const base = { ...this.#state, values: { ...this.#state.values, ...values } };
+  /** What the controls show now, keyed by target (written as in a set-up, e.g. "3 K"). */
+  get values(): ControlValues {
+    return this.#live ? this.#live.values : { ...this.#state.values };
+  }
+
+  /** Moves the controls (in a live widget, the front-end's too); see set(). */
+  set values(values: ControlValues) {
+    this.set(values);
+  }
+
+  /** In a live widget: why the controls' values could not be computed (undefined when the chart matches them). */
+  get error(): string | undefined {
+    return this.#live?.error;
+  }
+
+  /**
+   * Moves controls to new values (written as in a set-up, e.g. "3 K") and recomputes:
+   * `w.set({"membrane.temperature": "3 K"})` or `w.set("membrane.temperature", "3 K")`.
+   */
+  set(values: ControlValues): this;
+  set(target: string, value: string | number): this;
+  set(values: ControlValues | string, value?: string | number): this {
+    const patch: ControlValues = typeof values === "string" ? { [values]: value as string | number } : values;
+    if (this.#live) {
+      this.#live.setValues(patch);
+      return this;
+    }
+    const base = { ...this.#state, values: { ...this.#state.values, ...patch } };
     const computation = computeExplorer(base);
-    this.#state = { ...base, fingerprint: computation.fingerprint };
+    this.#accept({ ...base, fingerprint: computation.fingerprint }, computation);
+    this.#notify({ values: { ...base.values }, changed: Object.keys(patch), source: "kernel", state: this.state, computation });
+    return this;
+  }
+
+  /**
+   * Calls `listener` after every recomputation (a control moved in the notebook, or set()
+   * from a cell) with the values, the state and the computation; returns a function that
+   * stops it. A listener that throws is reported and the widget carries on.
+   */
+  onChange(listener: (change: LiveChange) => void): () => void {
+    if (typeof listener !== "function") {
+      throw new QuietframeError({ path: "onChange", value: typeof listener, problem: "needs a function", allowed: "(change) => { … }" });
+    }
+    this.#listeners.push(listener);
+    return () => {
+      const i = this.#listeners.indexOf(listener);
+      if (i >= 0) this.#listeners.splice(i, 1);
+    };
+  }
+
+  #accept(state: ExplorerState, computation: ExplorerComputation): void {
+    this.#state = state;
     this.#computation = computation;
     this.#fingerprintMatches = true;
-    return this;
+  }
+
+  #notify(change: LiveChange): void {
+    for (const listener of [...this.#listeners]) {
+      try {
+        listener(change);
+      } catch (e) {
+        console.error(`quietframe: an onChange listener failed: ${e instanceof Error ? e.message : String(e)}`);
+      }
+    }
   }
 
   /** The widget-state document (Jupyter widget state 2.0) as text: the shareable form of this widget. */
@@ -88,6 +155,23 @@ export class NotebookExplorer {
    * `await w.show()`: otherwise the cell ends before the output exists.
    */
   async show(options: ShowOptions = {}): Promise<void> {
+    const host = options.live === false ? undefined : kernelWidgetHost();
+    if (host) {
+      // The fallback (kernel-free output) carries the runtime once per kernel for viewers without widgets.
+      const carry = options.includeRuntime ?? !liveRuntimeCarried();
+      const bundle = await this.bundle({ ...options, includeRuntime: carry });
+      // One live explorer per object: showing it again adds another view of the same models.
+      if (!this.#live) {
+        this.#live = new LiveExplorer(host, this.#state, this.#computation);
+        this.#live.onChange((change) => {
+          this.#accept(change.state, change.computation);
+          this.#notify(change);
+        });
+      }
+      this.#live.display(bundle);
+      if (carry) markLiveRuntimeCarried();
+      return;
+    }
     const includeRuntime = options.includeRuntime ?? !runtimeShown();
     const result = displayBundle(await this.bundle({ ...options, includeRuntime }));
     if (includeRuntime && result.via !== "none") markRuntimeShown();

@@ -15,6 +15,7 @@ import { validateSetup } from "../../src/setup/validate";
  */
 export { displayBundle, displayMarkdown, encodeBundle, kernelDisplayWriter, type DisplayOptions, type DisplayResult, type MimeBundle } from "./display";
 export { explorer, NotebookExplorer, type ExplorerInput, type ShowOptions } from "./explorer";
+export type { ControlValues, LiveChange } from "../live/live-explorer";
 export { entangledPanel, EntangledPanel, type EntangledFigures, type EntangledShowOptions } from "./entangled";
 export { trajectoryWidget, NotebookTrajectory, type TrajectoryChanges, type TrajectoryFiguresPlain, type TrajectoryShowOptions } from "./trajectory";
 export { chartBundle, showChart, VEGA_LITE_MIME } from "./chart";

@@ -1,0 +1,239 @@
+import { readFileSync } from "node:fs";
+import { join } from "node:path";
+import { describe, expect, test } from "vitest";
+import { QuietframeError } from "../../src/errors";
+import type { SetupDescription } from "../../src/setup/format";
+import { resolveControls, sliderPosition, sliderValue, writeValue } from "../../widgets/explorer/controls";
+import { computeExplorer, createExplorerState } from "../../widgets/explorer/model";
+import { curvesFromWire, type WireCurves } from "../../widgets/live/chart-wire";
+import { LiveExplorer, type LiveChange } from "../../widgets/live/live-explorer";
+import { CHART_MODEL_NAME, CHART_VIEW_NAME, LIVE_MODULE } from "../../widgets/live/names";
+import type { ControlSpec } from "../../widgets/state/format";
+import { QUIETFRAME_VERSION } from "../../src/version";
+import { pow } from "../../src/numeric/portable-math";
+import { FakeHost, type FakeModel } from "./fake-host";
+
+const ROOT = join(__dirname, "..", "..");
+const membrane = (): SetupDescription => JSON.parse(readFileSync(join(ROOT, "examples", "cryogenic-membrane.json"), "utf8"));
+
+const CONTROLS: ControlSpec[] = [
+  { target: "cavity.photons", label: "intracavity photons", min: 1e4, max: 1e8 },
+  { target: "detector.efficiency", min: "50 %", max: "100 %" },
+  { target: "membrane.temperature", control: "number", min: "10 mK", max: "300 K" },
+  { target: "cavity.detuning", control: "number", min: "-20 MHz", max: "20 MHz" },
+];
+
+function live(controls: ControlSpec[] = CONTROLS) {
+  const state = createExplorerState(membrane(), { controls, settings: { grid: { from: "1.1 MHz", to: "1.3 MHz", points: 60 } } });
+  const host = new FakeHost();
+  const w = new LiveExplorer(host, state, computeExplorer(state));
+  const chart = host.byKind(CHART_MODEL_NAME)[0];
+  const control = (target: string): FakeModel => w.control(target) as FakeModel;
+  return { state, host, w, chart, control };
+}
+
+/** The curves the chart model holds now, decoded as a front-end decodes them. */
+function chartCurves(chart: FakeModel) {
+  return curvesFromWire(chart.get("curves") as WireCurves);
+}
+
+describe("LiveExplorer: the widgets it opens", () => {
+  test("a VBox holds one standard control per explorer control, then the chart", () => {
+    const { host, w, chart } = live();
+    const box = w.widget as FakeModel;
+    expect(box.kind).toBe("VBox");
+    const children = box.get("children") as string[];
+    expect(children).toEqual([...CONTROLS.map((c) => `IPY_MODEL_${w.control(c.target)!.id}`), `IPY_MODEL_${chart.id}`]);
+    expect(host.byKind("FloatLogSlider")).toHaveLength(1);
+    expect(host.byKind("Text")).toHaveLength(2);
+  });
+
+  test("a log control becomes a log slider whose exponents span the control's decades", () => {
+    const { control } = live();
+    const s = control("cavity.photons");
+    expect(s.kind).toBe("FloatLogSlider");
+    expect(s.get("base")).toBe(10);
+    expect(s.get("min")).toBeCloseTo(4, 12);
+    expect(s.get("max")).toBeCloseTo(8, 12);
+    expect(s.get("value")).toBe(1e6);
+    // The end values themselves must lie inside 10^min … 10^max, or a range check would refuse them.
+    expect(pow(10, s.get("min") as number)).toBeLessThanOrEqual(1e4);
+    expect(pow(10, s.get("max") as number)).toBeGreaterThanOrEqual(1e8);
+  });
+
+  test("a linear slider shows its unit in the description and its value in that unit", () => {
+    const { control } = live();
+    const s = control("detector.efficiency");
+    expect(s.kind).toBe("FloatSlider");
+    expect(s.get("description")).toBe("detector.efficiency [%]");
+    expect(s.get("min")).toBeCloseTo(50, 12);
+    expect(s.get("max")).toBeCloseTo(100, 12);
+    expect(s.get("value")).toBeCloseTo(95, 12);
+  });
+
+  test("a choice parameter becomes a dropdown of its choices with the current one selected", () => {
+    const { control } = live([{ target: "membrane.temperature", min: "1 K", max: "10 K" }, { target: "detector.angle", choices: ["0 deg", "45 deg", "90 deg"] }]);
+    const d = control("detector.angle");
+    expect(d.kind).toBe("Dropdown");
+    expect(d.get("_options_labels")).toEqual(["0 deg", "45 deg", "90 deg"]);
+    expect(d.get("index")).toBe(2);
+  });
+
+  test("the chart model names quietframe's module, model and view at the package version", () => {
+    const { chart } = live();
+    expect(chart.get("_model_module")).toBe(LIVE_MODULE);
+    expect(chart.get("_model_name")).toBe(CHART_MODEL_NAME);
+    expect(chart.get("_view_name")).toBe(CHART_VIEW_NAME);
+    expect(chart.get("_model_module_version")).toBe(QUIETFRAME_VERSION);
+    expect(chart.get("error")).toBe("");
+  });
+
+  test("the chart starts with the state's curves, bit for bit", () => {
+    const { state, chart } = live();
+    const expected = computeExplorer(state).table;
+    const got = chartCurves(chart);
+    expect(got.unit).toBe(expected.unit);
+    expect(got.columns.map((c) => c.id)).toEqual(expected.columns.map((c) => c.id));
+    got.columns.forEach((c, k) => expect(Buffer.from(c.values.buffer).equals(Buffer.from(expected.columns[k].values.buffer))).toBe(true));
+    expect((chart.get("explorer_state") as { fingerprint: string }).fingerprint).toBe(state.fingerprint);
+  });
+});
+
+describe("LiveExplorer: a control moved in a front-end", () => {
+  test("recomputes with the explorer model and pushes the new curves to the chart", () => {
+    const { state, w, chart, control } = live();
+    control("cavity.photons").frontEndUpdate({ value: 1e7 });
+    const c = resolveControls(state.setup, state.controls)[0];
+    // The value is snapped to a slider position, as the kernel-free page writes it.
+    const written = writeValue(c, sliderValue(c, sliderPosition(c, 1e7)));
+    expect(w.values["cavity.photons"]).toBe(written);
+    const expected = computeExplorer({ ...state, values: { ...state.values, "cavity.photons": written } });
+    expect(chartCurves(chart).columns[0].values).toEqual(expected.table.columns[0].values);
+    expect((chart.get("explorer_state") as { fingerprint: string }).fingerprint).toBe(expected.fingerprint);
+    expect(w.state.fingerprint).toBe(expected.fingerprint);
+    expect(chart.get("revision")).toBe(2);
+  });
+
+  test("the new curves differ from the old ones (more photons: less imprecision)", () => {
+    const { state, chart, control } = live();
+    const before = chartCurves(chart).columns[0].values;
+    control("cavity.photons").frontEndUpdate({ value: 1e7 });
+    const after = chartCurves(chart).columns[0].values;
+    expect(after).not.toEqual(before);
+    expect(after.length).toBe(state.settings.grid.points);
+  });
+
+  test("a slider's value in display units is read back in SI through its unit", () => {
+    const { w, control } = live();
+    control("detector.efficiency").frontEndUpdate({ value: 80 });
+    expect(w.values["detector.efficiency"]).toBe("80 %");
+  });
+
+  test("a value typed out of range shows the reason in the chart and keeps the last valid curves and state", () => {
+    const { state, w, chart, control } = live();
+    const before = chartCurves(chart).columns[0].values;
+    control("membrane.temperature").frontEndUpdate({ value: "500" });
+    expect(w.values["membrane.temperature"]).toBe("500 K");
+    expect(chart.get("error")).toMatch(/values\.membrane\.temperature.*outside the control's range/);
+    expect(w.error).toBe(chart.get("error"));
+    expect(chartCurves(chart).columns[0].values).toEqual(before);
+    expect(w.state).toEqual(state);
+    // Back in range: the error goes and the curves follow.
+    control("membrane.temperature").frontEndUpdate({ value: "3 K" });
+    expect(chart.get("error")).toBe("");
+    expect(w.error).toBeUndefined();
+    expect(w.state.values["membrane.temperature"]).toBe("3 K");
+  });
+
+  test("a front-end that sends no number gets an error text, not a NaN curve", () => {
+    const { chart, control } = live();
+    control("detector.efficiency").frontEndUpdate({ value: null });
+    expect(chart.get("error")).toMatch(/detector\.efficiency.*no number/);
+  });
+
+  test("a blue-detuned cavity that makes the set-up unstable shows why and keeps the curves and state", () => {
+    // A blue-detuned drive gives the mechanics negative optical damping: a parametric
+    // instability once it beats the intrinsic damping (Aspelmeyer, Kippenberg & Marquardt,
+    // Rev. Mod. Phys. 86, 1391 (2014), sec. VII); with Q = 1e8 any blue detuning does.
+    const { state, w, chart, control } = live();
+    const before = chartCurves(chart).columns[0].values;
+    control("cavity.detuning").frontEndUpdate({ value: "1.2" });
+    expect(w.values["cavity.detuning"]).toBe("1.2 MHz");
+    expect(chart.get("error")).toMatch(/unstable.*blue-detuned/);
+    expect(chartCurves(chart).columns[0].values).toEqual(before);
+    expect(w.state).toEqual(state);
+    // The red side of the same detuning cools instead: computed, and the error is gone.
+    control("cavity.detuning").frontEndUpdate({ value: "-1.2 MHz" });
+    expect(chart.get("error")).toBe("");
+    expect(w.state.values["cavity.detuning"]).toBe("-1.2 MHz");
+  });
+});
+
+describe("LiveExplorer: a cell reads and moves the controls", () => {
+  test("setValues moves the control models and recomputes once", () => {
+    const { w, chart, control } = live();
+    w.setValues({ "detector.efficiency": "70 %", "cavity.photons": 3e6 });
+    expect(control("detector.efficiency").get("value")).toBeCloseTo(70, 12);
+    expect(control("cavity.photons").get("value")).toBe(3e6);
+    expect(w.values["detector.efficiency"]).toBe("70 %");
+    // One computation for both values: the kernel's own writes are not taken as front-end input.
+    expect(chart.get("revision")).toBe(2);
+    expect(w.state.values).toMatchObject({ "detector.efficiency": "70 %", "cavity.photons": 3e6 });
+  });
+
+  test("a value between slider positions is kept exactly as written", () => {
+    const { w } = live();
+    w.setValues({ "detector.efficiency": "91.234 %" });
+    expect(w.state.values["detector.efficiency"]).toBe("91.234 %");
+  });
+
+  test("out-of-range and unknown values are refused with the path, and nothing moves", () => {
+    const { w, chart, control } = live();
+    let caught: unknown;
+    try {
+      w.setValues({ "detector.efficiency": "120 %" });
+    } catch (e) {
+      caught = e;
+    }
+    expect(caught).toBeInstanceOf(QuietframeError);
+    expect((caught as QuietframeError).path).toBe("values.detector.efficiency");
+    expect(() => w.setValues({ "laser.power": "1 W" })).toThrow(/values\.laser\.power.*has no control/);
+    expect(() => w.setValues({ "detector.efficiency": "3 kg" })).toThrow(QuietframeError);
+    expect(control("detector.efficiency").sent).toHaveLength(0);
+    expect(chart.get("revision")).toBe(1);
+  });
+
+  test("onChange listeners see every recomputation, from either side; a failing listener does not stop the rest", () => {
+    const { w, control } = live();
+    const seen: LiveChange[] = [];
+    w.onChange(() => {
+      throw new Error("user code failed");
+    });
+    const stop = w.onChange((c) => seen.push(c));
+    const errors: unknown[] = [];
+    const original = console.error;
+    console.error = (...args: unknown[]) => errors.push(args);
+    try {
+      control("detector.efficiency").frontEndUpdate({ value: 60 });
+      w.setValues({ "cavity.photons": 2e6 });
+    } finally {
+      console.error = original;
+    }
+    expect(seen.map((c) => [c.source, c.changed])).toEqual([
+      ["front-end", ["detector.efficiency"]],
+      ["kernel", ["cavity.photons"]],
+    ]);
+    expect(seen[1].values["detector.efficiency"]).toBe("60 %");
+    expect(seen[1].state.fingerprint).toBe(seen[1].computation.fingerprint);
+    expect(errors).toHaveLength(2);
+    stop();
+    w.setValues({ "cavity.photons": 4e6 });
+    expect(seen).toHaveLength(2);
+  });
+
+  test("close closes every model it opened", () => {
+    const { host, w } = live();
+    w.close();
+    expect(host.models.every((m) => m.closed)).toBe(true);
+  });
+});
