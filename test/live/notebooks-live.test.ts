@@ -18,6 +18,9 @@ import { createQuietframeKernelEnv, type QuietframeKernelEnv } from "../kernel/k
  */
 const NOTEBOOK_DIR = join(REPO_ROOT, "notebooks");
 const NOTEBOOKS = readdirSync(NOTEBOOK_DIR).filter((f) => f.endsWith(".ipynb")).sort();
+/** Notebooks whose cells build explorers (the widget that has a live form); the others keep their kernel-free widgets. */
+const usesExplorer = (name: string): boolean =>
+  (JSON.parse(readFileSync(join(NOTEBOOK_DIR, name), "utf8")) as Notebook).cells.some((c) => /\bexplorer\(/.test(joined(c.source)));
 const EXECUTE_TIMEOUT_MS = 240_000;
 const WIDGET_VIEW_MIME = "application/vnd.jupyter.widget-view+json";
 
@@ -68,6 +71,17 @@ describe.each(NOTEBOOKS)("%s with the quietframe kernel", (name) => {
     const v = await validateWithNbformat({ dir: jupyter.dir, env: jupyter.env, kernelSpec: jupyter.kernelSpec, dispose: () => undefined }, file());
     expect(v.stdout.trim(), v.stderr).toBe("valid");
   });
+
+  if (!usesExplorer(name)) {
+    it("keeps its kernel-free widgets (no explorer, so no live widget) under the quietframe kernel", () => {
+      const outputs = outputsOf(nb!);
+      expect(outputs.filter(isLiveWidget)).toEqual([]);
+      const runtime = readFileSync(join(REPO_ROOT, RUNTIME_FILE), "utf8");
+      // The first widget output carries the browser runtime, as under plain tslab.
+      expect(outputs.some((o) => o.output_type === "display_data" && joined(o.data?.["text/html"]).includes(runtime))).toBe(true);
+    });
+    return;
+  }
 
   it("shows each explorer as a live widget with the kernel-free output beside it", () => {
     const widgets = outputsOf(nb!).filter(isLiveWidget);
