@@ -1,4 +1,3 @@
-import { QuietframeError, QuietframeErrors } from "../../src/errors";
 import { tableToCsv } from "../../src/engine/tabulate";
 import type { CurveRow } from "../chart/budget-spec";
 import { computeExplorer, type ExplorerComputation } from "../explorer/model";
@@ -9,6 +8,7 @@ import { methodsText } from "../methods/methods";
 import { loadExplorerState, stateDocumentText } from "../state/document";
 import type { ExplorerState } from "../state/format";
 import { copyText, downloadText, downloadUrl, fileStem } from "./actions";
+import { messageOf } from "./boot";
 import { ChartView } from "./chart-view";
 import { ControlsView } from "./controls-view";
 import { el } from "./dom";
@@ -387,8 +387,3 @@ export class ExplorerWidget {
 }
 
 const GAUGE_ATTRIBUTES = ["data-range-mpc", "data-horizon-mpc", "data-reference-range-mpc", "data-range-ratio", "data-volume-gain"] as const;
-
-function messageOf(e: unknown): string {
-  if (e instanceof QuietframeError || e instanceof QuietframeErrors) return e.message;
-  return `internal error: ${e instanceof Error ? e.message : String(e)}`;
-}

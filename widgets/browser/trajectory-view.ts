@@ -1,6 +1,6 @@
 import { parse, View } from "vega";
 import { compile } from "vega-lite";
-import { QuietframeError, QuietframeErrors } from "../../src/errors";
+import { QuietframeError } from "../../src/errors";
 import { resolveControls } from "../explorer/controls";
 import { CAUTION_HEADING } from "../html/summary";
 import { FINGERPRINT_ATTRIBUTE, STATUS_ATTRIBUTE } from "../html/names";
@@ -14,12 +14,12 @@ import { resolveSimulation, writeTime } from "../trajectory/simulation";
 import { trajectoryPanelSpec, trajectorySpecs } from "../trajectory/specs";
 import { trajectorySummary } from "../trajectory/summary";
 import { copyText, downloadText, downloadUrl, fileStem } from "./actions";
+import { bootNew, injectStyleOnce, messageOf } from "./boot";
 import { ControlsView } from "./controls-view";
 import { el } from "./dom";
 
 export type TrajectoryStatus = "booting" | "running" | "ready" | "error";
 
-const BOOTED = "data-quietframe-booted";
 const STYLE_ID = "quietframe-trajectory-style";
 const T = `.${TRAJECTORY_CLASS}`;
 const CSS = `
@@ -503,26 +503,12 @@ function nextTask(): Promise<void> {
   return new Promise((resolve) => setTimeout(resolve, 0));
 }
 
-function messageOf(e: unknown): string {
-  if (e instanceof QuietframeError || e instanceof QuietframeErrors) return e.message;
-  return `internal error: ${e instanceof Error ? e.message : String(e)}`;
-}
-
 const live: TrajectoryWidget[] = [];
 
 /** Boots the trajectory widgets under root that have not booted yet; returns the live widgets. */
 export function bootTrajectoryWidgets(root: ParentNode = document): TrajectoryWidget[] {
-  if (!document.getElementById(STYLE_ID)) {
-    const style = document.createElement("style");
-    style.id = STYLE_ID;
-    style.textContent = CSS;
-    (document.head ?? document.documentElement).append(style);
-  }
-  for (let i = live.length - 1; i >= 0; i--) if (!live[i].element.isConnected) live.splice(i, 1)[0].dispose();
-  for (const element of root.querySelectorAll<HTMLElement>(`.${TRAJECTORY_CLASS}:not([${BOOTED}])`)) {
-    element.setAttribute(BOOTED, "");
-    live.push(new TrajectoryWidget(element));
-  }
+  injectStyleOnce(STYLE_ID, CSS);
+  bootNew(root, TRAJECTORY_CLASS, live, (element) => new TrajectoryWidget(element));
   return [...live];
 }
 
