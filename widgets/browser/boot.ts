@@ -3,15 +3,6 @@ import { QuietframeError, QuietframeErrors } from "../../src/errors";
 /** Marks an element whose widget has started, so a later boot() leaves it alone. */
 export const BOOTED = "data-quietframe-booted";
 
-/** Adds a style sheet to the page once; later calls with the same id do nothing. */
-export function injectStyleOnce(id: string, css: string): void {
-  if (document.getElementById(id)) return;
-  const style = document.createElement("style");
-  style.id = id;
-  style.textContent = css;
-  (document.head ?? document.documentElement).append(style);
-}
-
 /**
  * Disposes the widgets in `live` whose element left the page, then starts one widget for each
  * element of `className` under root that has not booted yet. Returns the widgets started.

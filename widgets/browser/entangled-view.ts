@@ -15,8 +15,8 @@ import { ENTANGLED_CLASS, ENTANGLED_NUMBER_ATTRIBUTES, ENTANGLED_STATE_CLASS } f
 import { ellipseSpec, eprSpec, spectrumSpec } from "../entangled/specs";
 import { STATUS_ATTRIBUTE } from "../html/names";
 import { downloadText } from "./actions";
-import { bootNew, injectStyleOnce, messageOf } from "./boot";
-import { el } from "./dom";
+import { bootNew, messageOf } from "./boot";
+import { el, injectStyleOnce } from "./dom";
 
 const STYLE_ID = "quietframe-entangled-style";
 const P = `.${ENTANGLED_CLASS}`;

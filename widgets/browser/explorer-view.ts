@@ -7,7 +7,7 @@ import { CAUTION_HEADING, distanceText, headlineSummary, reachSummary } from "..
 import { methodsText } from "../methods/methods";
 import { loadExplorerState, stateDocumentText } from "../state/document";
 import type { ExplorerState } from "../state/format";
-import { copyText, downloadText, downloadUrl, fileStem } from "./actions";
+import { actionButton, copyText, downloadText, downloadUrl, fileStem } from "./actions";
 import { messageOf } from "./boot";
 import { ChartView } from "./chart-view";
 import { ControlsView } from "./controls-view";
@@ -323,18 +323,7 @@ export class ExplorerWidget {
   }
 
   private actions(): HTMLElement {
-    const button = (label: string, title: string, action: () => unknown): HTMLButtonElement => {
-      const b = el("button", { type: "button", title }, [label]);
-      b.addEventListener("click", () => {
-        Promise.resolve()
-          .then(action)
-          .catch((e: unknown) => {
-            this.alert.textContent = `${label} failed: ${messageOf(e)}`;
-            this.alert.hidden = false;
-          });
-      });
-      return b;
-    };
+    const button = (label: string, title: string, action: () => unknown): HTMLButtonElement => actionButton(label, title, action, this.alert);
     const stem = (): string => fileStem(this.base?.settings.title ?? this.computation?.setup.name ?? "");
     return el("div", { class: "qf-actions" }, [
       button("Copy state", "Copy the widget-state JSON (set-up, controls, values, fingerprint)", async () => {

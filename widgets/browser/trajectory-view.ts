@@ -13,10 +13,10 @@ import { STATIC_POINTS, trajectoryRows } from "../trajectory/series";
 import { resolveSimulation, writeTime } from "../trajectory/simulation";
 import { trajectoryPanelSpec, trajectorySpecs } from "../trajectory/specs";
 import { trajectorySummary } from "../trajectory/summary";
-import { copyText, downloadText, downloadUrl, fileStem } from "./actions";
-import { bootNew, injectStyleOnce, messageOf } from "./boot";
+import { actionButton, copyText, downloadText, downloadUrl, fileStem } from "./actions";
+import { bootNew, messageOf } from "./boot";
 import { ControlsView } from "./controls-view";
-import { el } from "./dom";
+import { el, injectStyleOnce } from "./dom";
 
 export type TrajectoryStatus = "booting" | "running" | "ready" | "error";
 
@@ -414,18 +414,7 @@ export class TrajectoryWidget {
   }
 
   private actions(): HTMLElement {
-    const button = (label: string, title: string, action: () => unknown): HTMLButtonElement => {
-      const b = el("button", { type: "button", title }, [label]);
-      b.addEventListener("click", () => {
-        Promise.resolve()
-          .then(action)
-          .catch((e: unknown) => {
-            this.alert.textContent = `${label} failed: ${messageOf(e)}`;
-            this.alert.hidden = false;
-          });
-      });
-      return b;
-    };
+    const button = (label: string, title: string, action: () => unknown): HTMLButtonElement => actionButton(label, title, action, this.alert);
     const stem = (): string => fileStem(this.state ? trajectoryTitle(this.state) : "trajectory");
     return el("div", { class: "qf-actions" }, [
       button("Copy state", "Copy the widget-state JSON (set-up, controls, values, simulation, fingerprint)", async () => {
