@@ -28,3 +28,12 @@ export function injectStyleOnce(id: string, css: string, doc: Document = documen
   style.textContent = css;
   (doc.head ?? doc.documentElement).append(style);
 }
+
+/** Shows a short note, hidden again after 2.5 s unless a newer note replaced it. */
+export function flashText(note: HTMLElement, text: string): void {
+  note.textContent = text;
+  note.hidden = false;
+  setTimeout(() => {
+    if (note.textContent === text) note.hidden = true;
+  }, 2500);
+}

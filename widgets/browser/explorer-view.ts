@@ -11,7 +11,7 @@ import { actionButton, copyText, downloadText, downloadUrl, fileStem } from "./a
 import { messageOf } from "./boot";
 import { ChartView } from "./chart-view";
 import { ControlsView } from "./controls-view";
-import { el } from "./dom";
+import { el, flashText } from "./dom";
 
 export type WidgetStatus = "booting" | "ready" | "error";
 
@@ -356,11 +356,7 @@ export class ExplorerWidget {
   }
 
   private flash(text: string): void {
-    this.flashNote.textContent = text;
-    this.flashNote.hidden = false;
-    setTimeout(() => {
-      if (this.flashNote.textContent === text) this.flashNote.hidden = true;
-    }, 2500);
+    flashText(this.flashNote, text);
   }
 
   private requireState(): ExplorerState {

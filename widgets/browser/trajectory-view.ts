@@ -16,7 +16,7 @@ import { trajectorySummary } from "../trajectory/summary";
 import { actionButton, copyText, downloadText, downloadUrl, fileStem } from "./actions";
 import { bootNew, messageOf } from "./boot";
 import { ControlsView } from "./controls-view";
-import { el, injectStyleOnce } from "./dom";
+import { el, flashText, injectStyleOnce } from "./dom";
 
 export type TrajectoryStatus = "booting" | "running" | "ready" | "error";
 
@@ -457,11 +457,7 @@ export class TrajectoryWidget {
   }
 
   private flash(text: string): void {
-    this.flashNote.textContent = text;
-    this.flashNote.hidden = false;
-    setTimeout(() => {
-      if (this.flashNote.textContent === text) this.flashNote.hidden = true;
-    }, 2500);
+    flashText(this.flashNote, text);
   }
 
   private requireState(): TrajectoryState {
