@@ -32,13 +32,12 @@ export function tslabBinary(): string {
   return join(REPO_ROOT, "node_modules", ".bin", "tslab");
 }
 
-export function createJupyterEnv(): JupyterEnv {
-  if (!existsSync(SYSTEM_PYTHON)) {
-    throw new Error(`${SYSTEM_PYTHON} is missing: run scripts/ensure-system-deps.sh (npm test does) to install the Debian Jupyter packages`);
-  }
-  const binary = tslabBinary();
-  if (!existsSync(binary)) throw new Error("node_modules/.bin/tslab is missing: run npm ci");
-  const dir = mkdtempSync(join(tmpdir(), "quietframe-jupyter-"));
+/**
+ * Private Jupyter directories (config, data, runtime, IPython, a kernel-spec prefix) in a new
+ * temp dir whose name starts with `label`, and the environment that points Jupyter at them.
+ */
+export function createPrivateJupyterDirs(label: string): { dir: string; prefix: string; env: NodeJS.ProcessEnv } {
+  const dir = mkdtempSync(join(tmpdir(), label));
   const sub = (name: string): string => {
     const p = join(dir, name);
     mkdirSync(p, { recursive: true });
@@ -61,6 +60,16 @@ export function createJupyterEnv(): JupyterEnv {
   };
   // A Jupyter config dir from the caller's environment must not leak in.
   delete env.JUPYTER_PREFER_ENV_PATH;
+  return { dir, prefix, env };
+}
+
+export function createJupyterEnv(): JupyterEnv {
+  if (!existsSync(SYSTEM_PYTHON)) {
+    throw new Error(`${SYSTEM_PYTHON} is missing: run scripts/ensure-system-deps.sh (npm test does) to install the Debian Jupyter packages`);
+  }
+  const binary = tslabBinary();
+  if (!existsSync(binary)) throw new Error("node_modules/.bin/tslab is missing: run npm ci");
+  const { dir, prefix, env } = createPrivateJupyterDirs("quietframe-jupyter-");
   try {
     execFileSync(binary, ["install", `--python=${SYSTEM_PYTHON}`, `--binary=${binary}`, "--prefix", prefix], {
       env,

@@ -1,6 +1,5 @@
 import { describe, expect, it } from "vitest";
 import { GRAVITATIONAL_CONSTANT, SOLAR_MASS, SPEED_OF_LIGHT } from "../../src/constants";
-import { QuietframeError } from "../../src/errors";
 import { evaluateSetup, loadSetup } from "../../src/pipeline";
 import {
   ASTRONOMICAL_UNIT,
@@ -14,6 +13,7 @@ import {
   strainCurve,
   volumeGain,
 } from "../../src/reach";
+import { quietframeErrorOf } from "../helpers/errors";
 import { setup } from "../helpers/setups";
 
 /**
@@ -197,15 +197,6 @@ describe("integration rule on a smooth curve", () => {
 describe("bad input names the field, the value and what is allowed", () => {
   const f = logGrid(10, 1000, 20);
   const s = new Float64Array(20).fill(S0);
-  function problem(fn: () => unknown): QuietframeError {
-    try {
-      fn();
-    } catch (e) {
-      if (e instanceof QuietframeError) return e;
-      throw e;
-    }
-    throw new Error("expected a QuietframeError");
-  }
   it.each([
     ["frequencies[3]", () => inspiralHorizon(Float64Array.from(f, (x, i) => (i === 3 ? f[2] : x)), s)],
     ["frequencies[0]", () => inspiralHorizon(Float64Array.from(f, (x, i) => (i === 0 ? -1 : x)), s)],
@@ -217,7 +208,7 @@ describe("bad input names the field, the value and what is allowed", () => {
     ["options.fMin", () => inspiralHorizon(f, s, { fMin: 2000 })],
     ["frequencies", () => inspiralHorizon(logGrid(2000, 3000, 5), new Float64Array(5).fill(S0))],
   ])("%s", (path, fn) => {
-    const e = problem(fn);
+    const e = quietframeErrorOf(fn);
     expect(e.path).toBe(path);
     expect(e.allowed).toBeTruthy();
   });
@@ -250,18 +241,8 @@ describe("reach of an evaluated interferometer budget", () => {
 
   it("refuses a budget referred to displacement", () => {
     const budget = evaluateSetup(ifo("displacement"), { from: 10, to: 5000, points: 20 }).budget;
-    const e = problem(() => strainCurve(budget));
+    const e = quietframeErrorOf(() => strainCurve(budget));
     expect(e.path).toBe("signal.referTo");
     expect(e.value).toBe("displacement");
   });
-
-  function problem(fn: () => unknown): QuietframeError {
-    try {
-      fn();
-    } catch (e) {
-      if (e instanceof QuietframeError) return e;
-      throw e;
-    }
-    throw new Error("expected a QuietframeError");
-  }
 });

@@ -1,4 +1,6 @@
+import { assemble } from "../../src/network/assemble";
 import type { StateSpaceModel } from "../../src/network/model";
+import { loadSetup } from "../../src/pipeline";
 
 /** Row-major Float64Array → nested rows, for mathjs. */
 export function toRows(a: ArrayLike<number>, n: number, c = n): number[][] {
@@ -52,4 +54,30 @@ export function handModel(o: {
     groups: [],
     outputs: Array.from({ length: p }, (_, i) => ({ owner: `detector${i}`, label: `output ${i}` })),
   };
+}
+
+/**
+ * A stiff set-up (invented for the tests): a Q = 1e7 oscillator behind a cavity whose field
+ * decays in ~1e-8 s while the oscillator rings for ~16 s.
+ */
+export function stiffCavityBody(): StateSpaceModel {
+  return assemble(
+    loadSetup({
+      format: "quietframe.setup",
+      version: 1,
+      components: [
+        { name: "light", type: "coherent" },
+        { name: "body", type: "oscillator", params: { mass: "10 ng", frequency: "100 kHz", Q: 1e7, temperature: "4 K", damping: "symmetric" } },
+        { name: "cavity", type: "cavity", params: { linewidth: "16 MHz", inputCoupling: 0.9, g0: "100 Hz", photons: 1e5 } },
+        { name: "detector", type: "homodyne", params: { angle: "90 deg", efficiency: 0.8 } },
+      ],
+      connections: [
+        ["light.out", "cavity.in"],
+        ["cavity.out", "detector.in"],
+        ["cavity.mechanics", "body.body"],
+      ],
+      readout: ["detector"],
+      signal: { kind: "force", on: "body", referTo: "displacement" },
+    }),
+  ).model;
 }

@@ -6,7 +6,7 @@ import { loadSetup } from "../../src/pipeline";
 import { conditionalSteadyState, conditionalTransient, groundCovariance, riccatiResidual } from "../../src/timedomain";
 import { relativeDifference } from "../helpers/close";
 import { probedBody } from "../helpers/setups";
-import { handModel, relativeMatrixError } from "./helpers";
+import { handModel, relativeMatrixError, stiffCavityBody } from "./helpers";
 
 /**
  * Continuous position measurement, in the model's units (one-sided PSDs, vacuum 1; the
@@ -172,25 +172,7 @@ describe("transient of the Riccati equation", () => {
   });
 
   it("stays accurate in a stiff set-up: Q = 1e7 oscillator behind a cavity of linewidth ~1e8 rad/s, 1e-9 s … 1e2 s", () => {
-    const model = assemble(
-      loadSetup({
-        format: "quietframe.setup",
-        version: 1,
-        components: [
-          { name: "light", type: "coherent" },
-          { name: "body", type: "oscillator", params: { mass: "10 ng", frequency: "100 kHz", Q: 1e7, temperature: "4 K", damping: "symmetric" } },
-          { name: "cavity", type: "cavity", params: { linewidth: "16 MHz", inputCoupling: 0.9, g0: "100 Hz", photons: 1e5 } },
-          { name: "detector", type: "homodyne", params: { angle: "90 deg", efficiency: 0.8 } },
-        ],
-        connections: [
-          ["light.out", "cavity.in"],
-          ["cavity.out", "detector.in"],
-          ["cavity.mechanics", "body.body"],
-        ],
-        readout: ["detector"],
-        signal: { kind: "force", on: "body", referTo: "displacement" },
-      }),
-    ).model;
+    const model = stiffCavityBody();
     const times = Float64Array.of(0, 1e-9, 1e-7, 1e-5, 1e-3, 1e-1, 10, 100);
     const vs = conditionalTransient(model, groundCovariance(model), times);
     const n = model.nStates;

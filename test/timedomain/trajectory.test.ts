@@ -4,6 +4,7 @@ import { assemble } from "../../src/network/assemble";
 import { loadSetup } from "../../src/pipeline";
 import { conditionalTransient, simulateTrajectory, stationaryCovariance, type JointVariable } from "../../src/timedomain";
 import { probedBody } from "../helpers/setups";
+import { stiffCavityBody } from "./helpers";
 
 const oscillator = (extra: Record<string, string | number>, rate: string, efficiency = 0.9) =>
   assemble(
@@ -211,25 +212,7 @@ describe("Wiener–Khinchin: the PSD of a long simulated record is the engine's 
 
 describe("a stiff set-up simulated with a step far longer than its fastest time scale", () => {
   // Cavity field decays in ~1e-8 s, the Q = 1e7 oscillator in ~16 s; step 1 µs.
-  const model = assemble(
-    loadSetup({
-      format: "quietframe.setup",
-      version: 1,
-      components: [
-        { name: "light", type: "coherent" },
-        { name: "body", type: "oscillator", params: { mass: "10 ng", frequency: "100 kHz", Q: 1e7, temperature: "4 K", damping: "symmetric" } },
-        { name: "cavity", type: "cavity", params: { linewidth: "16 MHz", inputCoupling: 0.9, g0: "100 Hz", photons: 1e5 } },
-        { name: "detector", type: "homodyne", params: { angle: "90 deg", efficiency: 0.8 } },
-      ],
-      connections: [
-        ["light.out", "cavity.in"],
-        ["cavity.out", "detector.in"],
-        ["cavity.mechanics", "body.body"],
-      ],
-      readout: ["detector"],
-      signal: { kind: "force", on: "body", referTo: "displacement" },
-    }),
-  ).model;
+  const model = stiffCavityBody();
   const duration = 5e-3;
   const r = simulateTrajectory(model, { duration, step: 1e-6, seed: 9, samples: 51 }, { joint: [X] });
 

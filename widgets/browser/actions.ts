@@ -1,3 +1,4 @@
+import { messageOf } from "./boot";
 import { el } from "./dom";
 
 /** Saves text or a URL as a file through a temporary link (works offline and from file://). */
@@ -47,4 +48,18 @@ export function fileStem(title: string): string {
     .slice(0, 48)
     .replace(/-+$/, "");
   return stem ? `quietframe-${stem}` : "quietframe";
+}
+
+/** A toolbar button whose action may be async; a failure is shown in `alert` under the button's label. */
+export function actionButton(label: string, title: string, action: () => unknown, alert: HTMLElement): HTMLButtonElement {
+  const b = el("button", { type: "button", title }, [label]);
+  b.addEventListener("click", () => {
+    Promise.resolve()
+      .then(action)
+      .catch((e: unknown) => {
+        alert.textContent = `${label} failed: ${messageOf(e)}`;
+        alert.hidden = false;
+      });
+  });
+  return b;
 }

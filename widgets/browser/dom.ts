@@ -19,3 +19,21 @@ export function el<K extends keyof HTMLElementTagNameMap>(
 export function setText(node: Node, text: string): void {
   node.textContent = text;
 }
+
+/** Adds a style sheet to the page once; later calls with the same id do nothing. */
+export function injectStyleOnce(id: string, css: string, doc: Document = document): void {
+  if (doc.getElementById(id)) return;
+  const style = doc.createElement("style");
+  style.id = id;
+  style.textContent = css;
+  (doc.head ?? doc.documentElement).append(style);
+}
+
+/** Shows a short note, hidden again after 2.5 s unless a newer note replaced it. */
+export function flashText(note: HTMLElement, text: string): void {
+  note.textContent = text;
+  note.hidden = false;
+  setTimeout(() => {
+    if (note.textContent === text) note.hidden = true;
+  }, 2500);
+}

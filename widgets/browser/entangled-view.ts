@@ -1,6 +1,5 @@
 import { parse, View } from "vega";
 import { compile } from "vega-lite";
-import { QuietframeError } from "../../src/errors";
 import {
   computeEntangled,
   entangledStateText,
@@ -16,9 +15,9 @@ import { ENTANGLED_CLASS, ENTANGLED_NUMBER_ATTRIBUTES, ENTANGLED_STATE_CLASS } f
 import { ellipseSpec, eprSpec, spectrumSpec } from "../entangled/specs";
 import { STATUS_ATTRIBUTE } from "../html/names";
 import { downloadText } from "./actions";
-import { el } from "./dom";
+import { bootNew, messageOf } from "./boot";
+import { el, injectStyleOnce } from "./dom";
 
-const BOOTED = "data-quietframe-booted";
 const STYLE_ID = "quietframe-entangled-style";
 const P = `.${ENTANGLED_CLASS}`;
 const CSS = `
@@ -183,26 +182,12 @@ function formatValue(kind: "dB" | "r" | "efficiency", v: number): string {
   return v.toFixed(2);
 }
 
-function messageOf(e: unknown): string {
-  if (e instanceof QuietframeError) return e.message;
-  return `internal error: ${e instanceof Error ? e.message : String(e)}`;
-}
-
 const live: EntangledPanelView[] = [];
 
 /** Boots the entangled panels under root that have not booted yet; returns the live panels. */
 export function bootEntangledPanels(root: ParentNode = document): EntangledPanelView[] {
-  if (!document.getElementById(STYLE_ID)) {
-    const style = document.createElement("style");
-    style.id = STYLE_ID;
-    style.textContent = CSS;
-    (document.head ?? document.documentElement).append(style);
-  }
-  for (let i = live.length - 1; i >= 0; i--) if (!live[i].element.isConnected) live.splice(i, 1)[0].dispose();
-  for (const element of root.querySelectorAll<HTMLElement>(`.${ENTANGLED_CLASS}:not([${BOOTED}])`)) {
-    element.setAttribute(BOOTED, "");
-    live.push(new EntangledPanelView(element));
-  }
+  injectStyleOnce(STYLE_ID, CSS);
+  bootNew(root, ENTANGLED_CLASS, live, (element) => new EntangledPanelView(element));
   return [...live];
 }
 

@@ -1,4 +1,3 @@
-import { QuietframeError, QuietframeErrors } from "../../src/errors";
 import { tableToCsv } from "../../src/engine/tabulate";
 import type { CurveRow } from "../chart/budget-spec";
 import { computeExplorer, type ExplorerComputation } from "../explorer/model";
@@ -8,10 +7,11 @@ import { CAUTION_HEADING, distanceText, headlineSummary, reachSummary } from "..
 import { methodsText } from "../methods/methods";
 import { loadExplorerState, stateDocumentText } from "../state/document";
 import type { ExplorerState } from "../state/format";
-import { copyText, downloadText, downloadUrl, fileStem } from "./actions";
+import { actionButton, copyText, downloadText, downloadUrl, fileStem } from "./actions";
+import { messageOf } from "./boot";
 import { ChartView } from "./chart-view";
 import { ControlsView } from "./controls-view";
-import { el } from "./dom";
+import { el, flashText } from "./dom";
 
 export type WidgetStatus = "booting" | "ready" | "error";
 
@@ -323,18 +323,7 @@ export class ExplorerWidget {
   }
 
   private actions(): HTMLElement {
-    const button = (label: string, title: string, action: () => unknown): HTMLButtonElement => {
-      const b = el("button", { type: "button", title }, [label]);
-      b.addEventListener("click", () => {
-        Promise.resolve()
-          .then(action)
-          .catch((e: unknown) => {
-            this.alert.textContent = `${label} failed: ${messageOf(e)}`;
-            this.alert.hidden = false;
-          });
-      });
-      return b;
-    };
+    const button = (label: string, title: string, action: () => unknown): HTMLButtonElement => actionButton(label, title, action, this.alert);
     const stem = (): string => fileStem(this.base?.settings.title ?? this.computation?.setup.name ?? "");
     return el("div", { class: "qf-actions" }, [
       button("Copy state", "Copy the widget-state JSON (set-up, controls, values, fingerprint)", async () => {
@@ -367,11 +356,7 @@ export class ExplorerWidget {
   }
 
   private flash(text: string): void {
-    this.flashNote.textContent = text;
-    this.flashNote.hidden = false;
-    setTimeout(() => {
-      if (this.flashNote.textContent === text) this.flashNote.hidden = true;
-    }, 2500);
+    flashText(this.flashNote, text);
   }
 
   private requireState(): ExplorerState {
@@ -387,8 +372,3 @@ export class ExplorerWidget {
 }
 
 const GAUGE_ATTRIBUTES = ["data-range-mpc", "data-horizon-mpc", "data-reference-range-mpc", "data-range-ratio", "data-volume-gain"] as const;
-
-function messageOf(e: unknown): string {
-  if (e instanceof QuietframeError || e instanceof QuietframeErrors) return e.message;
-  return `internal error: ${e instanceof Error ? e.message : String(e)}`;
-}

@@ -1,6 +1,7 @@
 import { QUIETFRAME_VERSION } from "../../src/version";
 import { EXPLORER_CLASS, RUNTIME_READY_EVENT } from "../html/names";
 import { ExplorerWidget } from "./explorer-view";
+import { bootNew } from "./boot";
 import { bootLoaders } from "./loader";
 import { bootEntangledPanels } from "./entangled-view";
 import { injectStyles } from "./styles";
@@ -22,8 +23,6 @@ export interface QuietframeRuntime {
   readonly toleranceMaps: readonly ToleranceWidget[];
 }
 
-const BOOTED = "data-quietframe-booted";
-
 function install(): QuietframeRuntime {
   const live: ExplorerWidget[] = [];
   const toleranceMaps: ToleranceWidget[] = [];
@@ -39,14 +38,7 @@ function install(): QuietframeRuntime {
   };
   const boot = (root: ParentNode = document): ExplorerWidget[] => {
     injectStyles(document);
-    prune();
-    const started: ExplorerWidget[] = [];
-    for (const element of root.querySelectorAll<HTMLElement>(`.${EXPLORER_CLASS}:not([${BOOTED}])`)) {
-      element.setAttribute(BOOTED, "");
-      const widget = new ExplorerWidget(element);
-      live.push(widget);
-      started.push(widget);
-    }
+    const started = bootNew(root, EXPLORER_CLASS, live, (element) => new ExplorerWidget(element));
     bootLoaders(root, boot, release);
     bootTolerance(root, boot, toleranceMaps);
     bootEntangledPanels(root);

@@ -1,3 +1,4 @@
+import { injectStyleOnce } from "./dom";
 import { EXPLORER_CLASS } from "../html/names";
 
 /** Runtime styles, added to the page once however many widgets and runtime copies it holds. */
@@ -49,9 +50,5 @@ ${W} .qf-copy-fallback{width:100%;min-height:6em;font-family:ui-monospace,monosp
 `;
 
 export function injectStyles(doc: Document): void {
-  if (doc.getElementById(STYLE_ID)) return;
-  const style = doc.createElement("style");
-  style.id = STYLE_ID;
-  style.textContent = CSS;
-  (doc.head ?? doc.documentElement).append(style);
+  injectStyleOnce(STYLE_ID, CSS, doc);
 }

@@ -1,6 +1,5 @@
 import { parse, View } from "vega";
 import { compile } from "vega-lite";
-import { QuietframeError, QuietframeErrors } from "../../src/errors";
 import { CellStatus } from "../../src/tolerance/evaluate";
 import { EXPLORER_CLASS, STATE_SCRIPT_CLASS, STATUS_ATTRIBUTE } from "../html/names";
 import { stateDocumentText } from "../state/document";
@@ -8,6 +7,7 @@ import type { ExplorerState } from "../state/format";
 import { toleranceHeatmapSpec } from "../tolerance/heatmap-spec";
 import { cellExplorerState, heatmapCells, loadToleranceState, type HeatmapCell, type ToleranceWidgetState } from "../tolerance/model";
 import { SELECTED_CELL_ATTRIBUTE, TOLERANCE_CLASS, TOLERANCE_STATE_CLASS } from "../tolerance/names";
+import { bootNew, messageOf } from "./boot";
 import { el } from "./dom";
 
 // The cell set-ups come from src/tolerance/run.ts, whose in-process runner yields with
@@ -198,22 +198,5 @@ export class ToleranceWidget {
 
 /** Boots the tolerance maps under root that have not booted yet; keeps the live ones in `live`. */
 export function bootTolerance(root: ParentNode, boot: BootFunction, live: ToleranceWidget[]): ToleranceWidget[] {
-  for (let k = live.length - 1; k >= 0; k--) {
-    if (!live[k].element.isConnected) live.splice(k, 1)[0].dispose();
-  }
-  const started: ToleranceWidget[] = [];
-  for (const element of root.querySelectorAll<HTMLElement>(`.${TOLERANCE_CLASS}:not([${BOOTED}])`)) {
-    element.setAttribute(BOOTED, "");
-    const widget = new ToleranceWidget(element, boot);
-    live.push(widget);
-    started.push(widget);
-  }
-  return started;
-}
-
-const BOOTED = "data-quietframe-booted";
-
-function messageOf(e: unknown): string {
-  if (e instanceof QuietframeError || e instanceof QuietframeErrors) return e.message;
-  return `internal error: ${e instanceof Error ? e.message : String(e)}`;
+  return bootNew(root, TOLERANCE_CLASS, live, (element) => new ToleranceWidget(element, boot));
 }

@@ -1,6 +1,6 @@
 import { parse, View } from "vega";
 import { compile } from "vega-lite";
-import { QuietframeError, QuietframeErrors } from "../../src/errors";
+import { QuietframeError } from "../../src/errors";
 import { resolveControls } from "../explorer/controls";
 import { CAUTION_HEADING } from "../html/summary";
 import { FINGERPRINT_ATTRIBUTE, STATUS_ATTRIBUTE } from "../html/names";
@@ -13,13 +13,13 @@ import { STATIC_POINTS, trajectoryRows } from "../trajectory/series";
 import { resolveSimulation, writeTime } from "../trajectory/simulation";
 import { trajectoryPanelSpec, trajectorySpecs } from "../trajectory/specs";
 import { trajectorySummary } from "../trajectory/summary";
-import { copyText, downloadText, downloadUrl, fileStem } from "./actions";
+import { actionButton, copyText, downloadText, downloadUrl, fileStem } from "./actions";
+import { bootNew, messageOf } from "./boot";
 import { ControlsView } from "./controls-view";
-import { el } from "./dom";
+import { el, flashText, injectStyleOnce } from "./dom";
 
 export type TrajectoryStatus = "booting" | "running" | "ready" | "error";
 
-const BOOTED = "data-quietframe-booted";
 const STYLE_ID = "quietframe-trajectory-style";
 const T = `.${TRAJECTORY_CLASS}`;
 const CSS = `
@@ -414,18 +414,7 @@ export class TrajectoryWidget {
   }
 
   private actions(): HTMLElement {
-    const button = (label: string, title: string, action: () => unknown): HTMLButtonElement => {
-      const b = el("button", { type: "button", title }, [label]);
-      b.addEventListener("click", () => {
-        Promise.resolve()
-          .then(action)
-          .catch((e: unknown) => {
-            this.alert.textContent = `${label} failed: ${messageOf(e)}`;
-            this.alert.hidden = false;
-          });
-      });
-      return b;
-    };
+    const button = (label: string, title: string, action: () => unknown): HTMLButtonElement => actionButton(label, title, action, this.alert);
     const stem = (): string => fileStem(this.state ? trajectoryTitle(this.state) : "trajectory");
     return el("div", { class: "qf-actions" }, [
       button("Copy state", "Copy the widget-state JSON (set-up, controls, values, simulation, fingerprint)", async () => {
@@ -468,11 +457,7 @@ export class TrajectoryWidget {
   }
 
   private flash(text: string): void {
-    this.flashNote.textContent = text;
-    this.flashNote.hidden = false;
-    setTimeout(() => {
-      if (this.flashNote.textContent === text) this.flashNote.hidden = true;
-    }, 2500);
+    flashText(this.flashNote, text);
   }
 
   private requireState(): TrajectoryState {
@@ -503,26 +488,12 @@ function nextTask(): Promise<void> {
   return new Promise((resolve) => setTimeout(resolve, 0));
 }
 
-function messageOf(e: unknown): string {
-  if (e instanceof QuietframeError || e instanceof QuietframeErrors) return e.message;
-  return `internal error: ${e instanceof Error ? e.message : String(e)}`;
-}
-
 const live: TrajectoryWidget[] = [];
 
 /** Boots the trajectory widgets under root that have not booted yet; returns the live widgets. */
 export function bootTrajectoryWidgets(root: ParentNode = document): TrajectoryWidget[] {
-  if (!document.getElementById(STYLE_ID)) {
-    const style = document.createElement("style");
-    style.id = STYLE_ID;
-    style.textContent = CSS;
-    (document.head ?? document.documentElement).append(style);
-  }
-  for (let i = live.length - 1; i >= 0; i--) if (!live[i].element.isConnected) live.splice(i, 1)[0].dispose();
-  for (const element of root.querySelectorAll<HTMLElement>(`.${TRAJECTORY_CLASS}:not([${BOOTED}])`)) {
-    element.setAttribute(BOOTED, "");
-    live.push(new TrajectoryWidget(element));
-  }
+  injectStyleOnce(STYLE_ID, CSS);
+  bootNew(root, TRAJECTORY_CLASS, live, (element) => new TrajectoryWidget(element));
   return [...live];
 }
 

@@ -146,3 +146,18 @@ export function checkValue(c: ResolvedControl, value: unknown, path: string): nu
   }
   return v;
 }
+
+/** Resolves a state's controls and checks its values: exactly one allowed value per control. */
+export function resolveStateControls(setup: SetupDescription, specs: readonly ControlSpec[], values: Readonly<Record<string, unknown>>): ResolvedControl[] {
+  const controls = resolveControls(setup, specs);
+  for (const c of controls) {
+    if (!(c.target in values)) throw new QuietframeError({ path: `values.${c.target}`, problem: "has no current value", allowed: "a value for every control" });
+    checkValue(c, values[c.target], `values.${c.target}`);
+  }
+  for (const target of Object.keys(values)) {
+    if (!controls.some((c) => c.target === target)) {
+      throw new QuietframeError({ path: `values.${target}`, problem: "has no control", allowed: controls.map((c) => c.target).join(", ") || "no values" });
+    }
+  }
+  return controls;
+}

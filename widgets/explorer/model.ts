@@ -15,7 +15,7 @@ import {
   type ExplorerSettings,
   type ExplorerState,
 } from "../state/format";
-import { checkValue, resolveControls, type ResolvedControl } from "./controls";
+import { resolveControls, resolveStateControls, type ResolvedControl } from "./controls";
 
 /** Re-exported: widgets and notebooks write control values into set-ups with it. */
 export { applyValues };
@@ -37,16 +37,7 @@ export interface ExplorerComputation {
 export function computeExplorer(state: Omit<ExplorerState, "fingerprint">): ExplorerComputation {
   // Validate the set-up itself first, so controls are only ever resolved against a well-formed one.
   loadSetup(state.setup);
-  const controls = resolveControls(state.setup, state.controls);
-  for (const c of controls) {
-    if (!(c.target in state.values)) throw new QuietframeError({ path: `values.${c.target}`, problem: "has no current value", allowed: "a value for every control" });
-    checkValue(c, state.values[c.target], `values.${c.target}`);
-  }
-  for (const target of Object.keys(state.values)) {
-    if (!controls.some((c) => c.target === target)) {
-      throw new QuietframeError({ path: `values.${target}`, problem: "has no control", allowed: controls.map((c) => c.target).join(", ") || "no values" });
-    }
-  }
+  const controls = resolveStateControls(state.setup, state.controls, state.values);
   const setup = loadSetup(applyValues(state.setup, state.values));
   const grid = parseGrid(state.settings.grid, "settings.grid");
   const evaluation = evaluateSetup(setup, grid);

@@ -5,6 +5,7 @@ import { base64, escapeHtml, jsonTextForScript } from "./escape";
 import { runtimeSource } from "./runtime-source";
 import { bootstrapScriptTag } from "./explorer-html";
 import { STATUS_ATTRIBUTE } from "./names";
+import { plainSvg } from "./plain-svg";
 
 export interface EntangledHtmlOptions {
   /** Carry the browser runtime in this fragment (once per page or notebook). */
@@ -44,16 +45,6 @@ export function entangledHtml(state: EntangledState, options: EntangledHtmlOptio
   // The shared bootstrap: it also says, after a while, when the page never got the runtime.
   parts.push(bootstrapScriptTag());
   return parts.join("\n");
-}
-
-/** The static SVG must be a plain drawing: no scripts, foreign objects, links or handlers. */
-function plainSvg(svg: string): string {
-  const text = svg.replace(/^\s*<\?xml[^>]*\?>\s*/, "").trim();
-  if (!/^<svg[\s>]/.test(text) || !/<\/svg>$/.test(text)) throw new Error("quietframe: the static figure is not an SVG element");
-  if (/<(script|foreignobject|iframe|object|embed|use|image|a)[\s>/]/i.test(text) || /\son\w+\s*=/i.test(text) || /(javascript|data):/i.test(text)) {
-    throw new Error("quietframe: the static figure has active content");
-  }
-  return text;
 }
 
 export { STATUS_ATTRIBUTE };

@@ -8,6 +8,7 @@ import { base64, escapeHtml, jsonTextForScript } from "./escape";
 import { cautionHtml, RUNTIME_MISSING_TEXT, runtimeScriptTag } from "./explorer-html";
 import { FINGERPRINT_ATTRIBUTE, RUNTIME_READY_EVENT, STATUS_ATTRIBUTE } from "./names";
 import { htmlDocument } from "./page";
+import { plainSvg } from "./plain-svg";
 
 export interface TrajectoryHtmlOptions {
   /** Carry the browser runtime in this fragment (once per page or notebook). */
@@ -67,12 +68,3 @@ export function trajectoryPage(state: TrajectoryState, computation: TrajectoryCo
   ]);
 }
 
-/** The static SVG must be a plain drawing: no scripts, foreign objects, links or handlers. */
-function plainSvg(svg: string): string {
-  const text = svg.replace(/^\s*<\?xml[^>]*\?>\s*/, "").trim();
-  if (!/^<svg[\s>]/.test(text) || !/<\/svg>$/.test(text)) throw new Error("quietframe: the static figure is not an SVG element");
-  if (/<(script|foreignobject|iframe|object|embed|use|image|a)[\s>/]/i.test(text) || /\son\w+\s*=/i.test(text) || /(javascript|data):/i.test(text)) {
-    throw new Error("quietframe: the static figure has active content");
-  }
-  return text;
-}

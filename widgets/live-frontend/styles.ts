@@ -1,3 +1,4 @@
+import { injectStyleOnce } from "../browser/dom";
 import { CHART_VIEW_CLASS } from "../live/names";
 
 /** Styles of the chart view, added once per page. Our own class, so the kernel-free runtime never boots it. */
@@ -20,9 +21,5 @@ ${R} .qf-readout dd{margin:0}
 `;
 
 export function injectLiveStyles(doc: Document): void {
-  if (doc.getElementById(STYLE_ID)) return;
-  const style = doc.createElement("style");
-  style.id = STYLE_ID;
-  style.textContent = CSS;
-  (doc.head ?? doc.documentElement).append(style);
+  injectStyleOnce(STYLE_ID, CSS, doc);
 }

@@ -3,6 +3,7 @@ import { checkValue, resolveControls } from "../explorer/controls";
 import { computeExplorer, type ExplorerComputation } from "../explorer/model";
 import type { MimeBundle } from "../notebook/display";
 import type { ExplorerState } from "../state/format";
+import { ChangeListeners } from "./change-listeners";
 import { chartPatch, initialChartState } from "./chart-state";
 import { controlWidget, type ControlWidget } from "./control-widgets";
 import type { LiveModel, WidgetHost } from "./host";
@@ -43,7 +44,7 @@ export class LiveExplorer {
   readonly #controls: Map<string, BoundControl> = new Map();
   readonly #chart: LiveModel;
   readonly #box: LiveModel;
-  readonly #listeners: LiveChangeListener[] = [];
+  readonly #listeners = new ChangeListeners<LiveChange>();
   #state: ExplorerState;
   #computation: ExplorerComputation;
   #shown: ControlValues;
@@ -142,14 +143,7 @@ export class LiveExplorer {
 
   /** Calls `listener` after each successful recomputation; returns a function that stops it. */
   onChange(listener: LiveChangeListener): () => void {
-    if (typeof listener !== "function") {
-      throw new QuietframeError({ path: "onChange", value: typeof listener, problem: "needs a function", allowed: "(change) => { … }" });
-    }
-    this.#listeners.push(listener);
-    return () => {
-      const i = this.#listeners.indexOf(listener);
-      if (i >= 0) this.#listeners.splice(i, 1);
-    };
+    return this.#listeners.add(listener);
   }
 
   display(fallback: MimeBundle): void {
@@ -160,7 +154,7 @@ export class LiveExplorer {
     this.#box.close();
     this.#chart.close();
     for (const { model } of this.#controls.values()) model.close();
-    this.#listeners.length = 0;
+    this.#listeners.clear();
   }
 
   #fromFrontEnd(target: string): void {
@@ -192,14 +186,7 @@ export class LiveExplorer {
     this.#revision += 1;
     this.#chart.set({ ...chartPatch(this.#state, computation, this.#revision), error: "" });
     const change: LiveChange = { values: { ...values }, changed, source, state: this.state, computation };
-    for (const listener of [...this.#listeners]) {
-      try {
-        listener(change);
-      } catch (e) {
-        // A user's own computation failing must not stop the widget or the other listeners.
-        console.error(`quietframe: an onChange listener failed: ${e instanceof Error ? e.message : String(e)}`);
-      }
-    }
+    this.#listeners.notify(change);
   }
 
   #showError(e: unknown): void {

@@ -10,8 +10,9 @@ import { EXPLORER_STATE_FORMAT, type ExplorerState } from "../state/format";
 import { displayBundle, type MimeBundle } from "./display";
 import { notebookFigures, summaryText, type NotebookFigures } from "./figures";
 import { markRuntimeShown, runtimeShown } from "./session";
+import { ChangeListeners } from "../live/change-listeners";
 import { kernelWidgetHost } from "../live/kernel-host";
-import { LiveExplorer, type ControlValues, type LiveChange, type LiveChangeListener } from "../live/live-explorer";
+import { LiveExplorer, type ControlValues, type LiveChange } from "../live/live-explorer";
 import { liveRuntimeCarried, markLiveRuntimeCarried } from "../live/live-session";
 
 export interface ShowOptions {
@@ -42,7 +43,7 @@ export class NotebookExplorer {
   #computation: ExplorerComputation;
   #fingerprintMatches: boolean;
   #live: LiveExplorer | undefined;
-  readonly #listeners: LiveChangeListener[] = [];
+  readonly #listeners = new ChangeListeners<LiveChange>();
 
   constructor(state: ExplorerState, computation: ExplorerComputation, fingerprintMatches = true) {
     this.#state = state;
@@ -109,14 +110,7 @@ export class NotebookExplorer {
    * stops it. A listener that throws is reported and the widget carries on.
    */
   onChange(listener: (change: LiveChange) => void): () => void {
-    if (typeof listener !== "function") {
-      throw new QuietframeError({ path: "onChange", value: typeof listener, problem: "needs a function", allowed: "(change) => { … }" });
-    }
-    this.#listeners.push(listener);
-    return () => {
-      const i = this.#listeners.indexOf(listener);
-      if (i >= 0) this.#listeners.splice(i, 1);
-    };
+    return this.#listeners.add(listener);
   }
 
   #accept(state: ExplorerState, computation: ExplorerComputation): void {
@@ -126,13 +120,7 @@ export class NotebookExplorer {
   }
 
   #notify(change: LiveChange): void {
-    for (const listener of [...this.#listeners]) {
-      try {
-        listener(change);
-      } catch (e) {
-        console.error(`quietframe: an onChange listener failed: ${e instanceof Error ? e.message : String(e)}`);
-      }
-    }
+    this.#listeners.notify(change);
   }
 
   /** The widget-state document (Jupyter widget state 2.0) as text: the shareable form of this widget. */

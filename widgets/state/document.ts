@@ -1,4 +1,4 @@
-import { QuietframeError, QuietframeErrors } from "../../src/errors";
+import { QuietframeError } from "../../src/errors";
 import { loadSetup } from "../../src/pipeline";
 import { parseJsonText } from "../../src/setup/parse-json";
 import type { SetupDescription } from "../../src/setup/format";
@@ -16,6 +16,20 @@ import {
   type ExplorerState,
   type JupyterWidgetStateDocument,
 } from "./format";
+import {
+  copyJson,
+  define,
+  expectArray,
+  expectRecord,
+  FINGERPRINT_PATTERN,
+  isRecord,
+  modelIdOf,
+  rebasedErrors,
+  RESERVED_KEYS,
+  rejectUnknownKeys,
+  singleModelDocument,
+  VERSION_PATTERN,
+} from "./strict-read";
 
 /**
  * The state file users keep beside a figure: a Jupyter widget-state document (format 2.0)
@@ -29,13 +43,6 @@ export const WIDGET_STATE_MIME = "application/vnd.jupyter.widget-state+json";
 /** Largest state text accepted (UTF-8 bytes); real states are a few kilobytes. */
 export const MAX_STATE_TEXT_BYTES = 5 * 1024 * 1024;
 
-// Deeper nesting than any set-up needs; guards the recursive copy against hostile input.
-const MAX_SETUP_DEPTH = 32;
-const FINGERPRINT_PATTERN = /^sha256:[0-9a-f]{64}$/;
-const VERSION_PATTERN = /^\d{1,9}\.\d{1,9}\.\d{1,9}(?:-[0-9A-Za-z.-]{1,64})?(?:\+[0-9A-Za-z.-]{1,64})?$/;
-// Names that mean something to JavaScript objects; never valid in a set-up.
-const RESERVED_KEYS = new Set(["__proto__", "constructor", "prototype"]);
-
 const STATE_KEYS = ["format", "version", "quietframe", "setup", "controls", "values", "settings", "fingerprint"] as const;
 const CONTROL_KEYS = ["target", "label", "control", "scale", "min", "max", "steps", "choices"] as const;
 const SETTINGS_KEYS = ["grid", "spectralDensity", "title"] as const;
@@ -46,24 +53,13 @@ const STATE_FIELD = /^(values|controls|settings|setup)(?=$|[.[])/;
 
 /** Deterministic model id: the same curves always get the same id. */
 export function explorerModelId(fingerprint: string): string {
-  return `quietframe-${fingerprint.slice("sha256:".length, "sha256:".length + 16)}`;
+  return modelIdOf("quietframe-", fingerprint);
 }
 
 /** The widget-state envelope with the state as its one model (the state is checked first). */
 export function toWidgetStateDocument(state: ExplorerState): JupyterWidgetStateDocument {
   const clean = checkState(state, "state");
-  return {
-    version_major: 2,
-    version_minor: 0,
-    state: {
-      [explorerModelId(clean.fingerprint)]: {
-        model_name: EXPLORER_MODEL_NAME,
-        model_module: WIDGET_MODULE,
-        model_module_version: QUIETFRAME_VERSION,
-        state: clean as unknown as Record<string, unknown>,
-      },
-    },
-  };
+  return singleModelDocument(explorerModelId(clean.fingerprint), EXPLORER_MODEL_NAME, clean);
 }
 
 /** The state file's text: two-space JSON and a final newline, so diffs stay readable. */
@@ -88,8 +84,9 @@ export interface LoadedExplorerState {
 export function loadExplorerState(input: string | unknown, source = "state"): LoadedExplorerState {
   const { state, path } = locateState(input, source);
   // The set-up first: the controls are resolved against it and assume it is well formed.
-  rebased((p) => `${path}.setup.${p}`, () => loadSetup(state.setup));
-  const computation = rebased((p) => `${path}.${STATE_FIELD.test(p) ? "" : "setup."}${p}`, () => computeExplorer(state));
+  rebasedErrors((p) => `${path}.setup.${p}`, () => loadSetup(state.setup));
+  // Model paths are relative to the state (`values.…`, `controls[0]…`, `settings.…`) or, for set-up problems, to the set-up.
+  const computation = rebasedErrors((p) => `${path}.${STATE_FIELD.test(p) ? "" : "setup."}${p}`, () => computeExplorer(state));
   return { state, computation, fingerprintMatches: computation.fingerprint === state.fingerprint };
 }
 
@@ -266,66 +263,8 @@ function checkSettings(input: unknown, path: string): ExplorerSettings {
   return out;
 }
 
-/** A copy that holds only JSON data; keys are defined, never assigned, so none can reach a prototype. */
-function copyJson(value: unknown, path: string, depth: number): unknown {
-  if (value === null || typeof value === "string" || typeof value === "boolean") return value;
-  if (typeof value === "number") {
-    if (Number.isFinite(value)) return value;
-    throw new QuietframeError({ path, value, problem: "is not a finite number", allowed: "JSON numbers" });
-  }
-  if (depth >= MAX_SETUP_DEPTH) {
-    throw new QuietframeError({ path, problem: `is nested more than ${MAX_SETUP_DEPTH} levels deep`, allowed: "a set-up as docs/setup-format.md describes it" });
-  }
-  if (Array.isArray(value)) return value.map((v, i) => copyJson(v, `${path}[${i}]`, depth + 1));
-  if (isRecord(value)) {
-    const out: Record<string, unknown> = {};
-    for (const key of Object.keys(value)) {
-      if (RESERVED_KEYS.has(key)) {
-        throw new QuietframeError({ path: `${path}.${key}`, problem: "is a reserved name, not a field of a set-up", allowed: "the fields of docs/setup-format.md" });
-      }
-      define(out, key, copyJson(value[key], `${path}.${key}`, depth + 1));
-    }
-    return out;
-  }
-  throw new QuietframeError({ path, value: String(value), problem: "is not JSON data", allowed: "objects, arrays, strings, finite numbers, booleans, null" });
-}
-
-/**
- * Re-throws the model's errors with paths into the file. The model's paths are relative to the
- * state (`values.…`, `controls[0]…`, `settings.…`) or, for set-up problems, to the set-up.
- */
-function rebased<T>(where: (path: string) => string, fn: () => T): T {
-  const rebase = (e: QuietframeError): QuietframeError =>
-    new QuietframeError({ path: where(e.path), value: e.value, problem: e.problem, allowed: e.allowed });
-  try {
-    return fn();
-  } catch (e) {
-    if (e instanceof QuietframeError) throw rebase(e);
-    if (e instanceof QuietframeErrors) throw new QuietframeErrors(e.problems.map(rebase));
-    throw e;
-  }
-}
-
-function define(target: Record<string, unknown>, key: string, value: unknown): void {
-  Object.defineProperty(target, key, { value, enumerable: true, writable: true, configurable: true });
-}
-
 function hasOwn(obj: object, key: string): boolean {
   return Object.prototype.hasOwnProperty.call(obj, key);
-}
-
-function isRecord(v: unknown): v is Record<string, unknown> {
-  return typeof v === "object" && v !== null && !Array.isArray(v);
-}
-
-function expectRecord(v: unknown, path: string, allowed: string): Record<string, unknown> {
-  if (!isRecord(v)) throw new QuietframeError({ path, value: v, problem: v === undefined ? "is required" : "must be an object", allowed });
-  return v;
-}
-
-function expectArray(v: unknown, path: string, allowed: string): unknown[] {
-  if (!Array.isArray(v)) throw new QuietframeError({ path, value: v, problem: v === undefined ? "is required" : "must be an array", allowed });
-  return v;
 }
 
 function expectString(v: unknown, path: string, allowed: string): string {
@@ -346,10 +285,3 @@ function expectQuantity(v: unknown, path: string): string | number {
   throw new QuietframeError({ path, value: v, problem: "must be a value with its unit or a number", allowed: 'e.g. "6 K" or 0.95' });
 }
 
-function rejectUnknownKeys(obj: Record<string, unknown>, known: readonly string[], path: string, what: string): void {
-  for (const key of Object.keys(obj)) {
-    if (!known.includes(key)) {
-      throw new QuietframeError({ path: `${path}.${key}`, problem: `is not a field of ${what}`, allowed: known.join(", ") });
-    }
-  }
-}

@@ -1,9 +1,23 @@
-import { QuietframeError, QuietframeErrors } from "../../src/errors";
+import { QuietframeError } from "../../src/errors";
 import { parseJsonText } from "../../src/setup/parse-json";
 import type { SetupDescription } from "../../src/setup/format";
 import { QUIETFRAME_VERSION } from "../../src/version";
 import { MAX_STATE_TEXT_BYTES } from "../state/document";
 import { CONTROL_TYPES, SLIDER_SCALES, WIDGET_MODULE, type ControlSpec, type JupyterWidgetStateDocument } from "../state/format";
+import {
+  copyJson,
+  define,
+  expectArray,
+  expectRecord,
+  FINGERPRINT_PATTERN,
+  isRecord,
+  modelIdOf,
+  rebasedErrors,
+  RESERVED_KEYS,
+  rejectUnknownKeys,
+  singleModelDocument,
+  VERSION_PATTERN,
+} from "../state/strict-read";
 import { TRAJECTORY_MODEL_NAME, TRAJECTORY_STATE_FORMAT, TRAJECTORY_STATE_VERSION, type SimulationSpec, type TrajectoryState } from "./format";
 import { checkJoint, checkPair } from "./joint";
 import { computeTrajectory, type ComputeOptions, type TrajectoryComputation } from "./model";
@@ -17,32 +31,17 @@ import { computeTrajectory, type ComputeOptions, type TrajectoryComputation } fr
 const STATE_KEYS = ["format", "version", "quietframe", "setup", "controls", "values", "simulation", "joint", "pair", "title", "fingerprint"] as const;
 const SIMULATION_KEYS = ["duration", "step", "seed", "samples", "initial", "stoppedAfter"] as const;
 const CONTROL_KEYS = ["target", "label", "control", "scale", "min", "max", "steps", "choices"] as const;
-const FINGERPRINT_PATTERN = /^sha256:[0-9a-f]{64}$/;
-const VERSION_PATTERN = /^\d{1,9}\.\d{1,9}\.\d{1,9}(?:-[0-9A-Za-z.-]{1,64})?(?:\+[0-9A-Za-z.-]{1,64})?$/;
-const RESERVED_KEYS = new Set(["__proto__", "constructor", "prototype"]);
-const MAX_DEPTH = 32;
 // Model error paths that already start at a field of the state rather than of the set-up.
 const STATE_FIELD = /^(values|controls|simulation|joint|pair|setup)(?=$|[.[])/;
 
 /** Deterministic model id: the same curves always get the same id. */
 export function trajectoryModelId(fingerprint: string): string {
-  return `quietframe-trajectory-${fingerprint.slice("sha256:".length, "sha256:".length + 16)}`;
+  return modelIdOf("quietframe-trajectory-", fingerprint);
 }
 
 export function toTrajectoryDocument(state: TrajectoryState): JupyterWidgetStateDocument {
   const clean = checkTrajectoryState(state, "state");
-  return {
-    version_major: 2,
-    version_minor: 0,
-    state: {
-      [trajectoryModelId(clean.fingerprint)]: {
-        model_name: TRAJECTORY_MODEL_NAME,
-        model_module: WIDGET_MODULE,
-        model_module_version: QUIETFRAME_VERSION,
-        state: clean as unknown as Record<string, unknown>,
-      },
-    },
-  };
+  return singleModelDocument(trajectoryModelId(clean.fingerprint), TRAJECTORY_MODEL_NAME, clean);
 }
 
 /** The state file's text: two-space JSON and a final newline. */
@@ -86,15 +85,7 @@ export function loadTrajectoryState(input: unknown, source = "state", options: C
 
 /** Re-throws model errors with paths into the file: state fields as they are, set-up problems under `setup.`. */
 export function rebased<T>(path: string, fn: () => T): T {
-  const rebase = (e: QuietframeError): QuietframeError =>
-    new QuietframeError({ path: `${path}.${STATE_FIELD.test(e.path) ? "" : "setup."}${e.path}`, value: e.value, problem: e.problem, allowed: e.allowed });
-  try {
-    return fn();
-  } catch (e) {
-    if (e instanceof QuietframeError) throw rebase(e);
-    if (e instanceof QuietframeErrors) throw new QuietframeErrors(e.problems.map(rebase));
-    throw e;
-  }
+  return rebasedErrors((p) => `${path}.${STATE_FIELD.test(p) ? "" : "setup."}${p}`, fn);
 }
 
 function locate(input: unknown, source: string): { state: TrajectoryState; path: string } {
@@ -192,43 +183,6 @@ function checkControl(input: unknown, path: string): ControlSpec {
   return out;
 }
 
-function copyJson(value: unknown, path: string, depth: number): unknown {
-  if (value === null || typeof value === "string" || typeof value === "boolean") return value;
-  if (typeof value === "number") {
-    if (Number.isFinite(value)) return value;
-    throw new QuietframeError({ path, value, problem: "is not a finite number", allowed: "JSON numbers" });
-  }
-  if (depth >= MAX_DEPTH) throw new QuietframeError({ path, problem: `is nested more than ${MAX_DEPTH} levels deep`, allowed: "a set-up as docs/setup-format.md describes it" });
-  if (Array.isArray(value)) return value.map((v, i) => copyJson(v, `${path}[${i}]`, depth + 1));
-  if (isRecord(value)) {
-    const out: Record<string, unknown> = {};
-    for (const key of Object.keys(value)) {
-      if (RESERVED_KEYS.has(key)) throw new QuietframeError({ path: `${path}.${key}`, problem: "is a reserved name, not a field of a set-up", allowed: "the fields of docs/setup-format.md" });
-      define(out, key, copyJson(value[key], `${path}.${key}`, depth + 1));
-    }
-    return out;
-  }
-  throw new QuietframeError({ path, value: String(value), problem: "is not JSON data", allowed: "objects, arrays, strings, finite numbers, booleans, null" });
-}
-
-function define(target: Record<string, unknown>, key: string, value: unknown): void {
-  Object.defineProperty(target, key, { value, enumerable: true, writable: true, configurable: true });
-}
-
-function isRecord(v: unknown): v is Record<string, unknown> {
-  return typeof v === "object" && v !== null && !Array.isArray(v);
-}
-
-function expectRecord(v: unknown, path: string, allowed: string): Record<string, unknown> {
-  if (!isRecord(v)) throw new QuietframeError({ path, value: v, problem: v === undefined ? "is required" : "must be an object", allowed });
-  return v;
-}
-
-function expectArray(v: unknown, path: string, allowed: string): unknown[] {
-  if (!Array.isArray(v)) throw new QuietframeError({ path, value: v, problem: v === undefined ? "is required" : "must be an array", allowed });
-  return v;
-}
-
 function expectString(v: unknown, path: string): string {
   if (typeof v !== "string") throw new QuietframeError({ path, value: v, problem: "must be a string", allowed: "text" });
   return v;
@@ -244,6 +198,3 @@ function expectQuantity(v: unknown, path: string): string | number {
   throw new QuietframeError({ path, value: v, problem: v === undefined ? "is required" : "must be a value with its unit or a number", allowed: 'e.g. "6 K", "200 us" or 0.95' });
 }
 
-function rejectUnknownKeys(obj: Record<string, unknown>, known: readonly string[], path: string, what: string): void {
-  for (const key of Object.keys(obj)) if (!known.includes(key)) throw new QuietframeError({ path: `${path}.${key}`, problem: `is not a field of ${what}`, allowed: known.join(", ") });
-}

@@ -1,5 +1,5 @@
 import type { TrajectoryResult } from "../../src/timedomain/types";
-import { sha256Hex, utf8 } from "../state/sha256";
+import { seriesFingerprint } from "../state/series-fingerprint";
 
 /**
  * Fingerprint of a simulated run: SHA-256 over the exact IEEE-754 doubles (little-endian) of
@@ -7,44 +7,28 @@ import { sha256Hex, utf8 } from "../state/sha256";
  * only if every number the widget plots or exports agrees bit for bit.
  */
 export function trajectoryFingerprint(r: TrajectoryResult): string {
-  const parts: Uint8Array[] = [];
-  const label = (s: string): void => {
-    parts.push(utf8(`${s}\n`));
-  };
-  const series = (name: string, values: ArrayLike<number>): void => {
-    label(name);
-    const bytes = new Uint8Array(values.length * 8);
-    const view = new DataView(bytes.buffer);
-    for (let i = 0; i < values.length; i++) view.setFloat64(8 * i, values[i], true);
-    parts.push(bytes);
-  };
-  label(`steps ${r.stepsTaken} of ${r.stepsPlanned}${r.stopped ? " stopped" : ""}`);
-  series("time", r.time);
-  for (const rec of r.records) series(`record ${rec.output}`, rec.values);
-  for (const j of r.joint) {
-    series(`joint ${j.label} truth`, j.truth);
-    series(`joint ${j.label} estimate`, j.estimate);
-    series(`joint ${j.label} conditional`, j.conditional);
-    series(`joint ${j.label} unconditional`, j.unconditional);
-    series(`joint ${j.label} zero-point`, [j.zeroPoint]);
-    for (const name of Object.keys(j.parts).sort()) series(`joint ${j.label} part ${name}`, j.parts[name]);
-  }
-  const e = r.entanglement;
-  if (e) {
-    label(`pair ${e.pair[0]} ${e.pair[1]}`);
-    series("epr x", e.eprX);
-    series("epr p", e.eprP);
-    series("duan sum", e.duanSum);
-    series("duan bound", [e.duanBound]);
-    series("log-negativity", e.logNegativity);
-    series("unconditional log-negativity", e.unconditionalLogNegativity);
-  }
-  series("min uncertainty margin", [r.minUncertaintyMargin]);
-  const all = new Uint8Array(parts.reduce((n, p) => n + p.length, 0));
-  let offset = 0;
-  for (const p of parts) {
-    all.set(p, offset);
-    offset += p.length;
-  }
-  return `sha256:${sha256Hex(all)}`;
+  return seriesFingerprint(({ label, series }) => {
+    label(`steps ${r.stepsTaken} of ${r.stepsPlanned}${r.stopped ? " stopped" : ""}`);
+    series("time", r.time);
+    for (const rec of r.records) series(`record ${rec.output}`, rec.values);
+    for (const j of r.joint) {
+      series(`joint ${j.label} truth`, j.truth);
+      series(`joint ${j.label} estimate`, j.estimate);
+      series(`joint ${j.label} conditional`, j.conditional);
+      series(`joint ${j.label} unconditional`, j.unconditional);
+      series(`joint ${j.label} zero-point`, [j.zeroPoint]);
+      for (const name of Object.keys(j.parts).sort()) series(`joint ${j.label} part ${name}`, j.parts[name]);
+    }
+    const e = r.entanglement;
+    if (e) {
+      label(`pair ${e.pair[0]} ${e.pair[1]}`);
+      series("epr x", e.eprX);
+      series("epr p", e.eprP);
+      series("duan sum", e.duanSum);
+      series("duan bound", [e.duanBound]);
+      series("log-negativity", e.logNegativity);
+      series("unconditional log-negativity", e.unconditionalLogNegativity);
+    }
+    series("min uncertainty margin", [r.minUncertaintyMargin]);
+  });
 }

@@ -9,7 +9,7 @@ import type { ResolvedSetup } from "../../src/setup/validate";
 import { startTrajectory } from "../../src/timedomain";
 import type { JointVariable, TrajectoryRequest, TrajectoryResult, TrajectoryRun } from "../../src/timedomain/types";
 import { QUIETFRAME_VERSION } from "../../src/version";
-import { checkValue, resolveControls, type ResolvedControl } from "../explorer/controls";
+import { resolveStateControls, type ResolvedControl } from "../explorer/controls";
 import { setupValues } from "../explorer/model";
 import type { ControlSpec } from "../state/format";
 import { trajectoryFingerprint } from "./fingerprint";
@@ -104,16 +104,7 @@ function engineModel(assembled: AssembledSetup): StateSpaceModel {
 export function prepareTrajectory(state: Omit<TrajectoryState, "fingerprint">): PreparedTrajectory {
   // The set-up first, so controls are only ever resolved against a well-formed one.
   loadSetup(state.setup);
-  const controls = resolveControls(state.setup, state.controls);
-  for (const c of controls) {
-    if (!(c.target in state.values)) throw new QuietframeError({ path: `values.${c.target}`, problem: "has no current value", allowed: "a value for every control" });
-    checkValue(c, state.values[c.target], `values.${c.target}`);
-  }
-  for (const target of Object.keys(state.values)) {
-    if (!controls.some((c) => c.target === target)) {
-      throw new QuietframeError({ path: `values.${target}`, problem: "has no control", allowed: controls.map((c) => c.target).join(", ") || "no values" });
-    }
-  }
+  const controls = resolveStateControls(state.setup, state.controls, state.values);
   const simulation = resolveSimulation(state.simulation, "simulation");
   const joint = checkJoint(state.joint, "joint");
   const pair = checkPair(state.pair, "pair");

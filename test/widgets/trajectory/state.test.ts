@@ -2,12 +2,12 @@ import Ajv from "ajv";
 import { readFileSync } from "node:fs";
 import { join } from "node:path";
 import { describe, expect, it } from "vitest";
-import { QuietframeError } from "../../../src/errors";
 import { createExplorerState } from "../../../widgets/explorer/model";
 import { stateDocumentText } from "../../../widgets/state/document";
 import { isTrajectoryInput, loadTrajectoryState, parseTrajectoryState, toTrajectoryDocument, trajectoryDocumentText } from "../../../widgets/trajectory/document";
 import type { TrajectoryState } from "../../../widgets/trajectory/format";
 import { computeTrajectory, createTrajectoryState, finishTrajectory, prepareTrajectory, withComputation } from "../../../widgets/trajectory/model";
+import { quietframeErrorOf } from "../../helpers/errors";
 import { REPO_ROOT } from "../../jupyter/env";
 import { hybrid, shortRun } from "./fixtures";
 
@@ -16,16 +16,6 @@ const widgetSchemas = require("@jupyter-widgets/schema") as { v2: { state: objec
 const validateWidgetState = new Ajv({ allErrors: true, strict: false }).compile(widgetSchemas.v2.state);
 
 const state = createTrajectoryState(hybrid, shortRun());
-
-function errorOf(fn: () => unknown): QuietframeError {
-  try {
-    fn();
-  } catch (e) {
-    if (e instanceof QuietframeError) return e;
-    throw e;
-  }
-  throw new Error("expected a QuietframeError");
-}
 
 describe("trajectory state documents", () => {
   it("are Jupyter widget-state 2.0 documents that the published schema accepts", () => {
@@ -71,15 +61,15 @@ describe("trajectory state documents", () => {
   });
 
   it("refuse unknown fields, naming them", () => {
-    const e = errorOf(() => parseTrajectoryState({ ...state, extra: 1 }));
+    const e = quietframeErrorOf(() => parseTrajectoryState({ ...state, extra: 1 }));
     expect(e.path).toBe("state.extra");
-    const s = errorOf(() => parseTrajectoryState({ ...state, simulation: { ...state.simulation, speed: 2 } }));
+    const s = quietframeErrorOf(() => parseTrajectoryState({ ...state, simulation: { ...state.simulation, speed: 2 } }));
     expect(s.path).toBe("state.simulation.speed");
   });
 
   it("keep nothing that could reach a prototype", () => {
     const text = trajectoryDocumentText(state).replace('"format": "quietframe.setup"', '"__proto__": {"polluted": true}, "format": "quietframe.setup"');
-    expect(errorOf(() => parseTrajectoryState(text)).path).toMatch(/setup\.__proto__$/);
+    expect(quietframeErrorOf(() => parseTrajectoryState(text)).path).toMatch(/setup\.__proto__$/);
     expect(({} as Record<string, unknown>).polluted).toBeUndefined();
   });
 });
@@ -98,14 +88,14 @@ describe("bad simulation settings in a state", () => {
     [{ initial: "excited" }, "state.simulation.initial", /starting state/],
     [{ stoppedAfter: 2000 }, "state.simulation.stoppedAfter", /not a step/],
   ])("%j is refused at %s", (sim, path, problem) => {
-    const e = errorOf(() => loadTrajectoryState(withSim(sim)));
+    const e = quietframeErrorOf(() => loadTrajectoryState(withSim(sim)));
     expect(e.path).toBe(path);
     expect(e.problem).toMatch(problem);
     expect(e.message).toContain(path);
   });
 
   it("a set-up value out of its control's range names the value", () => {
-    const e = errorOf(() => loadTrajectoryState({ ...state, values: { "cell.field": "1 T" } }));
+    const e = quietframeErrorOf(() => loadTrajectoryState({ ...state, values: { "cell.field": "1 T" } }));
     expect(e.path).toBe("state.values.cell.field");
   });
 
