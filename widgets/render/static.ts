@@ -109,13 +109,16 @@ export function renderPng(svg: string, options: RenderPngOptions = {}): Uint8Arr
   return new Uint8Array(resvg.render().asPng());
 }
 
-export interface ExplorerFigures {
+/** A widget's static figure: its Vega-Lite spec, SVG, PNG and the plotted numbers. */
+export interface StaticFigures {
   readonly spec: Record<string, unknown>;
   readonly svg: string;
   readonly png: Uint8Array;
   /** The plotted numbers, exactly (shortest round-trip form). */
   readonly csv: string;
 }
+
+export type ExplorerFigures = StaticFigures;
 
 /** Spec, SVG, PNG and CSV of an explorer's figure; the title is the state's, or the set-up's name. */
 export async function explorerFigures(computation: ExplorerComputation, state: ExplorerState, options: RenderPngOptions & RenderSvgOptions = {}): Promise<ExplorerFigures> {

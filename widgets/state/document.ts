@@ -5,31 +5,27 @@ import type { SetupDescription } from "../../src/setup/format";
 import { QUIETFRAME_VERSION } from "../../src/version";
 import { computeExplorer, type ExplorerComputation } from "../explorer/model";
 import {
-  CONTROL_TYPES,
   EXPLORER_MODEL_NAME,
   EXPLORER_STATE_FORMAT,
   EXPLORER_STATE_VERSION,
-  SLIDER_SCALES,
   WIDGET_MODULE,
-  type ControlSpec,
   type ExplorerSettings,
   type ExplorerState,
   type JupyterWidgetStateDocument,
 } from "./format";
 import {
   copyJson,
-  define,
   expectArray,
   expectRecord,
   FINGERPRINT_PATTERN,
   isRecord,
   modelIdOf,
   rebasedErrors,
-  RESERVED_KEYS,
   rejectUnknownKeys,
   singleModelDocument,
   VERSION_PATTERN,
 } from "./strict-read";
+import { checkControlSpec, checkControlValues, expectString, expectWord } from "./control-read";
 
 /**
  * The state file users keep beside a figure: a Jupyter widget-state document (format 2.0)
@@ -44,7 +40,6 @@ export const WIDGET_STATE_MIME = "application/vnd.jupyter.widget-state+json";
 export const MAX_STATE_TEXT_BYTES = 5 * 1024 * 1024;
 
 const STATE_KEYS = ["format", "version", "quietframe", "setup", "controls", "values", "settings", "fingerprint"] as const;
-const CONTROL_KEYS = ["target", "label", "control", "scale", "min", "max", "steps", "choices"] as const;
 const SETTINGS_KEYS = ["grid", "spectralDensity", "title"] as const;
 const GRID_KEYS = ["from", "to", "points"] as const;
 const DENSITIES = ["amplitude", "power"] as const;
@@ -198,48 +193,14 @@ function checkState(input: unknown, path: string): ExplorerState {
   }
   const setupRecord = expectRecord(obj.setup, `${path}.setup`, "a set-up object (docs/setup-format.md)");
   const setup = copyJson(setupRecord, `${path}.setup`, 0) as unknown as SetupDescription;
-  const controls = expectArray(obj.controls, `${path}.controls`, "an array of controls (may be empty)").map((c, i) => checkControl(c, `${path}.controls[${i}]`));
-  const values = checkValues(obj.values, `${path}.values`);
+  const controls = expectArray(obj.controls, `${path}.controls`, "an array of controls (may be empty)").map((c, i) => checkControlSpec(c, `${path}.controls[${i}]`));
+  const values = checkControlValues(obj.values, `${path}.values`);
   const settings = checkSettings(obj.settings, `${path}.settings`);
   const fingerprint = obj.fingerprint;
   if (typeof fingerprint !== "string" || !FINGERPRINT_PATTERN.test(fingerprint)) {
     throw new QuietframeError({ path: `${path}.fingerprint`, value: fingerprint, problem: "is not a curve fingerprint", allowed: '"sha256:" followed by 64 lowercase hex digits' });
   }
   return { format: EXPLORER_STATE_FORMAT, version, quietframe, setup, controls, values, settings, fingerprint };
-}
-
-function checkControl(input: unknown, path: string): ControlSpec {
-  const obj = expectRecord(input, path, '{"target": "component.parameter", …}');
-  rejectUnknownKeys(obj, CONTROL_KEYS, path, "a control");
-  const out: ControlSpec = { target: expectString(obj.target, `${path}.target`, '"component.parameter", e.g. "membrane.temperature"') };
-  if (obj.label !== undefined) out.label = expectString(obj.label, `${path}.label`, "text");
-  if (obj.control !== undefined) out.control = expectWord(obj.control, CONTROL_TYPES, `${path}.control`);
-  if (obj.scale !== undefined) out.scale = expectWord(obj.scale, SLIDER_SCALES, `${path}.scale`);
-  if (obj.min !== undefined) out.min = expectQuantity(obj.min, `${path}.min`);
-  if (obj.max !== undefined) out.max = expectQuantity(obj.max, `${path}.max`);
-  if (obj.steps !== undefined) {
-    if (typeof obj.steps !== "number" || !Number.isInteger(obj.steps)) {
-      throw new QuietframeError({ path: `${path}.steps`, value: obj.steps, problem: "must be an integer", allowed: "a number of slider steps, e.g. 200" });
-    }
-    out.steps = obj.steps;
-  }
-  if (obj.choices !== undefined) {
-    out.choices = expectArray(obj.choices, `${path}.choices`, 'values as the set-up writes them, e.g. ["0 deg", "90 deg"]').map((c, k) => expectQuantity(c, `${path}.choices[${k}]`));
-  }
-  return out;
-}
-
-function checkValues(input: unknown, path: string): Record<string, string | number> {
-  const obj = expectRecord(input, path, 'current values keyed by control target, e.g. {"membrane.temperature": "6 K"}');
-  const out: Record<string, string | number> = {};
-  for (const key of Object.keys(obj)) {
-    // Targets are "component.parameter"; this also keeps "__proto__" and friends out.
-    if (!/^[A-Za-z_][A-Za-z0-9_-]{0,63}\.[A-Za-z_][A-Za-z0-9_]{0,63}$/.test(key) || RESERVED_KEYS.has(key.slice(0, key.indexOf(".")))) {
-      throw new QuietframeError({ path: `${path}.${key}`, problem: "is not a control target", allowed: '"component.parameter", e.g. "membrane.temperature"' });
-    }
-    define(out, key, expectQuantity(obj[key], `${path}.${key}`));
-  }
-  return out;
 }
 
 function checkSettings(input: unknown, path: string): ExplorerSettings {
@@ -265,23 +226,5 @@ function checkSettings(input: unknown, path: string): ExplorerSettings {
 
 function hasOwn(obj: object, key: string): boolean {
   return Object.prototype.hasOwnProperty.call(obj, key);
-}
-
-function expectString(v: unknown, path: string, allowed: string): string {
-  if (typeof v !== "string") throw new QuietframeError({ path, value: v, problem: v === undefined ? "is required" : "must be a string", allowed });
-  return v;
-}
-
-function expectWord<W extends string>(v: unknown, words: readonly W[], path: string): W {
-  if (typeof v !== "string" || !(words as readonly string[]).includes(v)) {
-    throw new QuietframeError({ path, value: v, problem: v === undefined ? "is required" : "is not one of the choices", allowed: words.join(", ") });
-  }
-  return v as W;
-}
-
-/** A value as a set-up writes it: text with its unit, or a finite number. */
-function expectQuantity(v: unknown, path: string): string | number {
-  if (typeof v === "string" || (typeof v === "number" && Number.isFinite(v))) return v;
-  throw new QuietframeError({ path, value: v, problem: "must be a value with its unit or a number", allowed: 'e.g. "6 K" or 0.95' });
 }
 

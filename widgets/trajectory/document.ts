@@ -3,21 +3,20 @@ import { parseJsonText } from "../../src/setup/parse-json";
 import type { SetupDescription } from "../../src/setup/format";
 import { QUIETFRAME_VERSION } from "../../src/version";
 import { MAX_STATE_TEXT_BYTES } from "../state/document";
-import { CONTROL_TYPES, SLIDER_SCALES, WIDGET_MODULE, type ControlSpec, type JupyterWidgetStateDocument } from "../state/format";
+import { WIDGET_MODULE, type JupyterWidgetStateDocument } from "../state/format";
 import {
   copyJson,
-  define,
   expectArray,
   expectRecord,
   FINGERPRINT_PATTERN,
   isRecord,
   modelIdOf,
   rebasedErrors,
-  RESERVED_KEYS,
   rejectUnknownKeys,
   singleModelDocument,
   VERSION_PATTERN,
 } from "../state/strict-read";
+import { checkControlSpec, checkControlValues, expectQuantity } from "../state/control-read";
 import { TRAJECTORY_MODEL_NAME, TRAJECTORY_STATE_FORMAT, TRAJECTORY_STATE_VERSION, type SimulationSpec, type TrajectoryState } from "./format";
 import { checkJoint, checkPair } from "./joint";
 import { computeTrajectory, type ComputeOptions, type TrajectoryComputation } from "./model";
@@ -30,7 +29,6 @@ import { computeTrajectory, type ComputeOptions, type TrajectoryComputation } fr
 
 const STATE_KEYS = ["format", "version", "quietframe", "setup", "controls", "values", "simulation", "joint", "pair", "title", "fingerprint"] as const;
 const SIMULATION_KEYS = ["duration", "step", "seed", "samples", "initial", "stoppedAfter"] as const;
-const CONTROL_KEYS = ["target", "label", "control", "scale", "min", "max", "steps", "choices"] as const;
 // Model error paths that already start at a field of the state rather than of the set-up.
 const STATE_FIELD = /^(values|controls|simulation|joint|pair|setup)(?=$|[.[])/;
 
@@ -125,15 +123,8 @@ export function checkTrajectoryState(input: unknown, path: string): TrajectorySt
   rejectUnknownKeys(o, STATE_KEYS, path, "a trajectory state");
   if (typeof o.quietframe !== "string" || !VERSION_PATTERN.test(o.quietframe)) throw new QuietframeError({ path: `${path}.quietframe`, value: o.quietframe, problem: "is not a quietframe version", allowed: `a version such as "${QUIETFRAME_VERSION}"` });
   const setup = copyJson(expectRecord(o.setup, `${path}.setup`, "a set-up object (docs/setup-format.md)"), `${path}.setup`, 0) as unknown as SetupDescription;
-  const controls = expectArray(o.controls, `${path}.controls`, "an array of controls (may be empty)").map((c, i) => checkControl(c, `${path}.controls[${i}]`));
-  const valuesIn = expectRecord(o.values, `${path}.values`, 'current values keyed by control target, e.g. {"membrane.temperature": "6 K"}');
-  const values: Record<string, string | number> = {};
-  for (const key of Object.keys(valuesIn)) {
-    if (!/^[A-Za-z_][A-Za-z0-9_-]{0,63}\.[A-Za-z_][A-Za-z0-9_]{0,63}$/.test(key) || RESERVED_KEYS.has(key.slice(0, key.indexOf(".")))) {
-      throw new QuietframeError({ path: `${path}.values.${key}`, problem: "is not a control target", allowed: '"component.parameter"' });
-    }
-    define(values, key, expectQuantity(valuesIn[key], `${path}.values.${key}`));
-  }
+  const controls = expectArray(o.controls, `${path}.controls`, "an array of controls (may be empty)").map((c, i) => checkControlSpec(c, `${path}.controls[${i}]`));
+  const values = checkControlValues(o.values, `${path}.values`);
   const simulation = checkSimulation(o.simulation, `${path}.simulation`);
   const joint = checkJoint(o.joint, `${path}.joint`);
   const pair = checkPair(o.pair, `${path}.pair`);
@@ -163,38 +154,5 @@ function checkSimulation(input: unknown, path: string): SimulationSpec {
   if (o.initial !== undefined) out.initial = o.initial as SimulationSpec["initial"];
   if (o.stoppedAfter !== undefined) out.stoppedAfter = o.stoppedAfter as number | null;
   return out;
-}
-
-function checkControl(input: unknown, path: string): ControlSpec {
-  const o = expectRecord(input, path, '{"target": "component.parameter", …}');
-  rejectUnknownKeys(o, CONTROL_KEYS, path, "a control");
-  if (typeof o.target !== "string") throw new QuietframeError({ path: `${path}.target`, value: o.target, problem: "must be a string", allowed: '"component.parameter"' });
-  const out: ControlSpec = { target: o.target };
-  if (o.label !== undefined) out.label = expectString(o.label, `${path}.label`);
-  if (o.control !== undefined) out.control = expectWord(o.control, CONTROL_TYPES, `${path}.control`);
-  if (o.scale !== undefined) out.scale = expectWord(o.scale, SLIDER_SCALES, `${path}.scale`);
-  if (o.min !== undefined) out.min = expectQuantity(o.min, `${path}.min`);
-  if (o.max !== undefined) out.max = expectQuantity(o.max, `${path}.max`);
-  if (o.steps !== undefined) {
-    if (typeof o.steps !== "number" || !Number.isInteger(o.steps)) throw new QuietframeError({ path: `${path}.steps`, value: o.steps, problem: "must be an integer", allowed: "a number of slider steps, e.g. 200" });
-    out.steps = o.steps;
-  }
-  if (o.choices !== undefined) out.choices = expectArray(o.choices, `${path}.choices`, "values as the set-up writes them").map((c, k) => expectQuantity(c, `${path}.choices[${k}]`));
-  return out;
-}
-
-function expectString(v: unknown, path: string): string {
-  if (typeof v !== "string") throw new QuietframeError({ path, value: v, problem: "must be a string", allowed: "text" });
-  return v;
-}
-
-function expectWord<W extends string>(v: unknown, words: readonly W[], path: string): W {
-  if (typeof v !== "string" || !(words as readonly string[]).includes(v)) throw new QuietframeError({ path, value: v, problem: "is not one of the choices", allowed: words.join(", ") });
-  return v as W;
-}
-
-function expectQuantity(v: unknown, path: string): string | number {
-  if (typeof v === "string" || (typeof v === "number" && Number.isFinite(v))) return v;
-  throw new QuietframeError({ path, value: v, problem: v === undefined ? "is required" : "must be a value with its unit or a number", allowed: 'e.g. "6 K", "200 us" or 0.95' });
 }
 

@@ -1,17 +1,12 @@
-import { renderPng, renderSvg, type RenderPngOptions, type RenderSvgOptions } from "../render/static";
+import { renderPng, renderSvg, type RenderPngOptions, type RenderSvgOptions, type StaticFigures } from "../render/static";
 import { trajectoryCsv } from "./csv";
 import type { TrajectoryState } from "./format";
 import { trajectoryTitle, type TrajectoryComputation } from "./model";
 import { STATIC_POINTS, trajectoryRows } from "./series";
 import { trajectoryPanelSpec } from "./specs";
 
-export interface TrajectoryFigures {
-  readonly spec: Record<string, unknown>;
-  readonly svg: string;
-  readonly png: Uint8Array;
-  /** Every stored number (shortest round-trip form). */
-  readonly csv: string;
-}
+/** The CSV holds every stored number of the run. */
+export type TrajectoryFigures = StaticFigures;
 
 /** Spec, SVG, PNG and CSV of a run, rendered in Node from the specs the browser shows. */
 export async function trajectoryFigures(c: TrajectoryComputation, state: TrajectoryState, options: RenderPngOptions & RenderSvgOptions = {}): Promise<TrajectoryFigures> {
