@@ -1,6 +1,9 @@
 /**
  * quietframe: one engine for linear quantum noise.
  * Pipeline (see pipeline.ts): parse → validate → assemble → check stability → evaluate.
+ *
+ * This entry is browser-safe (no Node module behind it, a test bundles it for a browser);
+ * the worker pool and file reading are in "quietframe/node" (src/node.ts).
  */
 export { QUIETFRAME_VERSION } from "./version";
 export { QuietframeError, QuietframeErrors } from "./errors";

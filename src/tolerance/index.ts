@@ -1,6 +1,7 @@
-/** Tolerance maps: a figure of merit over a grid of two parameters of a set-up. */
-export { toleranceMap } from "./map";
-export { TolerancePool } from "./parallel";
+/**
+ * Tolerance maps: a figure of merit over a grid of two parameters of a set-up. This entry is
+ * platform-free (cells, in-process maps); the worker pool is Node-only, in ./node.
+ */
 export {
   toleranceMapInProcess,
   toleranceCellSetup,

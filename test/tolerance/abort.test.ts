@@ -19,7 +19,7 @@ vi.mock("node:worker_threads", async (importOriginal) => {
   return { ...original, default: { ...original, Worker: TrackedWorker }, Worker: TrackedWorker };
 });
 
-import { toleranceMap, ToleranceMapCancelled, type ToleranceMapSpec } from "../../src/tolerance";
+import { toleranceMap, ToleranceMapCancelled, type ToleranceMapSpec } from "../../src/node";
 import { example } from "./helpers";
 
 const squeezed = example("cryogenic-membrane-squeezed.json");

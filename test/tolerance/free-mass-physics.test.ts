@@ -1,6 +1,6 @@
 import { describe, expect, it } from "vitest";
 import { HBAR, SPEED_OF_LIGHT } from "../../src/constants";
-import { CellStatus, toleranceMap } from "../../src/tolerance";
+import { CellStatus, toleranceMap } from "../../src/node";
 import { probedBody } from "../helpers/setups";
 
 /**

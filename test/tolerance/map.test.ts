@@ -5,7 +5,7 @@ import { log10 } from "../../src/numeric/portable-math";
 import { parseQuantity } from "../../src/units";
 import { evaluateSetup, loadSetup } from "../../src/pipeline";
 import { strainCurve, volumeGain, inspiralRange } from "../../src/reach";
-import { CellStatus, toleranceCellSetup, toleranceMap, toleranceMapInProcess, type ToleranceMapSpec } from "../../src/tolerance";
+import { CellStatus, toleranceCellSetup, toleranceMap, toleranceMapInProcess, type ToleranceMapSpec } from "../../src/node";
 import { resolveControls, sliderValue, writeValue } from "../../widgets/explorer/controls";
 import { applyValues } from "../../widgets/explorer/model";
 import { example, firstDifference } from "./helpers";

@@ -1,6 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { QuietframeError } from "../../src/errors";
-import { toleranceMap, TolerancePool, ToleranceMapCancelled, type ToleranceMapSpec } from "../../src/tolerance";
+import { toleranceMap, TolerancePool, ToleranceMapCancelled, type ToleranceMapSpec } from "../../src/node";
 import { example, sameBits } from "./helpers";
 
 const squeezed = example("cryogenic-membrane-squeezed.json");

@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { MAX_TOLERANCE_CELLS, toleranceMap, type ToleranceMapSpec } from "../../src/tolerance";
+import { MAX_TOLERANCE_CELLS, toleranceMap, type ToleranceMapSpec } from "../../src/node";
 import { example, rejection } from "./helpers";
 
 const squeezed = example("cryogenic-membrane-squeezed.json");

@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { toleranceMap, type ToleranceMap, type ToleranceMapSpec } from "../../src/tolerance";
+import { toleranceMap, type ToleranceMap, type ToleranceMapSpec } from "../../src/node";
 import { example, sameBits } from "./helpers";
 
 const squeezed = example("cryogenic-membrane-squeezed.json");

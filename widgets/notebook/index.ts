@@ -1,9 +1,5 @@
-import { readFileSync } from "node:fs";
-import { resolve } from "node:path";
-import { QuietframeError } from "../../src/errors";
 import type { SetupDescription } from "../../src/setup/format";
-import { parseJsonText } from "../../src/setup/parse-json";
-import { validateSetup } from "../../src/setup/validate";
+import { loadSetupFile as readSetupFile } from "../../src/setup/load-file";
 
 /**
  * The notebook API (kernel side, for tslab TypeScript notebooks):
@@ -31,14 +27,5 @@ export type { SetupDescription } from "../../src/setup/format";
  * notebook's folder) and checks it; errors name the file, the field and the value.
  */
 export function loadSetupFile(path: string): SetupDescription {
-  let text: string;
-  try {
-    text = readFileSync(resolve(path), "utf8");
-  } catch (e) {
-    const reason = (e as NodeJS.ErrnoException).code === "ENOENT" ? "does not exist" : "cannot be read";
-    throw new QuietframeError({ path, problem: `${reason} (looked in ${process.cwd()})`, allowed: "a set-up JSON file; relative paths start at the notebook's folder" });
-  }
-  const setup = parseJsonText(text, path);
-  validateSetup(setup);
-  return setup as SetupDescription;
+  return readSetupFile(path, "a set-up JSON file; relative paths start at the notebook's folder");
 }

@@ -1,0 +1,7 @@
+/**
+ * quietframe for Node: everything of the browser-safe main entry, plus what needs the
+ * platform — tolerance maps on worker threads and reading set-up files.
+ */
+export * from "./index";
+export { toleranceMap, TolerancePool } from "./tolerance/node";
+export { loadSetupFile } from "./setup/load-file";
