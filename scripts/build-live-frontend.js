@@ -51,7 +51,7 @@ async function main() {
     `${cjs.outputFiles[0].text}\nreturn module.exports;\n});\n`;
   writeFileSync(join(out, "amd", "index.js"), amd);
   // The classic notebook's widget manager asks require.js for the module by its name; this
-  // notebook extension maps the name to the installed file (see README, "Live explorers").
+  // notebook extension maps the name to the installed file (see docs/kernel.md, "Live explorers").
   writeFileSync(
     join(out, "amd", "extension.js"),
     `define(function () {\n  "use strict";\n  window.require.config({ map: { "*": { "quietframe-live": "nbextensions/quietframe-live/index" } } });\n  return { load_ipython_extension: function () {} };\n});\n`,
