@@ -1,21 +1,32 @@
 /**
  * quietframe: one engine for linear quantum noise.
- * Pipeline (see pipeline.ts): parse → validate → assemble → check stability → evaluate.
+ * Pipeline (see pipeline.ts): parse → validate → assemble → check (prepare) → evaluate or simulate.
  *
  * This entry is browser-safe (no Node module behind it, a test bundles it for a browser);
  * the worker pool and file reading are in "quietframe/node" (src/node.ts).
  */
 export { QUIETFRAME_VERSION } from "./version";
 export { QuietframeError, QuietframeErrors } from "./errors";
-export { loadSetup, evaluateSetup, FALLBACK_GRID, type Evaluation } from "./pipeline";
+export {
+  loadSetup,
+  prepare,
+  evaluate,
+  simulate,
+  startSimulation,
+  evaluateSetup,
+  FALLBACK_GRID,
+  type PreparedSetup,
+  type SetupValues,
+  type Evaluation,
+} from "./pipeline";
 export { SETUP_FORMAT, SETUP_VERSION, type SetupDescription, type ComponentDescription } from "./setup/format";
 export { validateSetup, type ResolvedSetup } from "./setup/validate";
 export { assemble, type AssembledSetup } from "./network/assemble";
 export type { StateSpaceModel, ModeInfo, NoiseGroup } from "./network/model";
 export { noiseBudget, type NoiseBudget, type BudgetTerm, type ReferenceSpectrum } from "./engine/budget";
 export { outputSpectra, signalResponse, inputTransfer, type ComplexSeries } from "./engine/spectra";
-export { analyzeStability, type StabilityReport, type Eigenmode } from "./engine/stability";
-export { stationaryCovariance, uncertaintyMargin, diffusionMatrix } from "./engine/covariance";
+export { analyzeStability, UnstableSetupError, type StabilityReport, type Eigenmode } from "./engine/stability";
+export { stationaryCovariance, uncertaintyMargin, diffusionMatrix, checkPhysicality, type PhysicalityReport } from "./engine/covariance";
 export * from "./engine/entanglement";
 export { logGrid, parseGrid, type FrequencyGridSpec } from "./engine/grid";
 export { headlineFigures, describeHeadline, type HeadlineFigures } from "./engine/headline";

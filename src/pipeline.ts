@@ -1,45 +1,31 @@
-import { assemble, type AssembledSetup } from "./network/assemble";
-import { DEFAULT_GRID_POINTS, logGrid, type FrequencyGridSpec } from "./engine/grid";
-import { noiseBudget, type NoiseBudget } from "./engine/budget";
-import { analyzeStability, requireNoGrowingModes, type StabilityReport } from "./engine/stability";
-import { checkPhysicality, type PhysicalityReport } from "./engine/covariance";
-import { parseJsonText } from "./setup/parse-json";
-import { requireSomeDetection, validateSetup, type ResolvedSetup } from "./setup/validate";
+import type { FrequencyGridSpec } from "./engine/grid";
+import { evaluate, type Evaluation } from "./evaluate";
+import { prepare } from "./prepare";
+import type { ResolvedSetup } from "./setup/validate";
 
 /**
- * The one-way pipeline every entry point (CLI, notebook API, widgets) goes through:
- *   1. parse     JSON text → plain object (errors carry line and column)
- *   2. validate  units → SI numbers, ports resolved (errors carry the field path)
- *   3. assemble  components → state-space model (A, B, C, D, N, signal)
- *   4. check     eigenvalues of A: growing modes are an error that says where and why
- *   5. evaluate  noise budget and reference curves on a log-spaced frequency grid
+ * The one-way pipeline every entry point (CLI, notebook API, widgets, tolerance cells) goes
+ * through, one module per step:
+ *   1. parse     src/setup/parse-json.ts  JSON text → plain object (errors carry line and column)
+ *   2. validate  src/setup/validate.ts    units → SI numbers, ports resolved (errors carry the field path)
+ *                                         (1 and 2 together: loadSetup, src/setup/load.ts)
+ *   3. assemble  src/network/assemble.ts  components → state-space model (A, B, C, D, N, signal)
+ *   4. check     src/engine/stability.ts  a readout that detects something; eigenvalues of A: growing
+ *                                         modes are an error that says where and why; the uncertainty
+ *                                         relation of the stationary state (a warning)
+ *                → prepare(setup, values?) in src/prepare.ts runs 1–4 once: a PreparedSetup
+ *   5. evaluate  src/evaluate.ts          evaluate(prepared, grid?): noise budget and reference
+ *                                         curves on a log-spaced frequency grid
+ *      or simulate src/simulate.ts        simulate(prepared, settings, request) / startSimulation:
+ *                                         seeded trajectories in time (src/timedomain)
  */
 
-/** Grid used when neither the set-up nor the caller gives one. */
-export const FALLBACK_GRID: FrequencyGridSpec = { from: 1, to: 1e5, points: DEFAULT_GRID_POINTS };
+export { loadSetup } from "./setup/load";
+export { prepare, type PreparedSetup, type SetupValues } from "./prepare";
+export { evaluate, FALLBACK_GRID, type Evaluation } from "./evaluate";
+export { simulate, startSimulation } from "./simulate";
 
-export function loadSetup(input: string | unknown, source = "setup"): ResolvedSetup {
-  return validateSetup(typeof input === "string" ? parseJsonText(input, source) : input);
-}
-
-export interface Evaluation {
-  readonly assembled: AssembledSetup;
-  readonly stability: StabilityReport;
-  /** Uncertainty-relation check of the stationary state (absent when there is none, e.g. a free mass). */
-  readonly physicality?: PhysicalityReport;
-  readonly budget: NoiseBudget;
-  readonly cautions: readonly string[];
-  readonly warnings: readonly string[];
-}
-
+/** prepare then evaluate, for a set-up evaluated once. */
 export function evaluateSetup(setup: ResolvedSetup, grid?: FrequencyGridSpec): Evaluation {
-  requireSomeDetection(setup);
-  const assembled = assemble(setup);
-  const stability = requireNoGrowingModes(assembled, analyzeStability(assembled));
-  const budget = noiseBudget(assembled, logGrid(grid ?? setup.grid ?? FALLBACK_GRID));
-  const warnings = [...budget.warnings];
-  if (stability.undamped.length > 0) warnings.push(stability.summary);
-  const physicality = stability.stable ? checkPhysicality(assembled.model) : undefined;
-  if (physicality && !physicality.physical) warnings.push(physicality.summary);
-  return { assembled, stability, physicality, budget, cautions: assembled.cautions, warnings };
+  return evaluate(prepare(setup), grid);
 }

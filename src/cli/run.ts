@@ -5,7 +5,7 @@ import { checkGrid, type FrequencyGridSpec } from "../engine/grid";
 import { describeHeadline, headlineFigures } from "../engine/headline";
 import { jsonNumbers, spectralDensityUnit, tableToCsv, tabulateBudget } from "../engine/tabulate";
 import { COMPONENT_KINDS } from "../components/registry";
-import { evaluateSetup, FALLBACK_GRID, loadSetup } from "../pipeline";
+import { evaluate, FALLBACK_GRID, loadSetup, prepare } from "../pipeline";
 import { parseQuantity } from "../units";
 import { QUIETFRAME_VERSION } from "../version";
 import { RENDER_USAGE, renderCommand, reportCommand } from "./render";
@@ -149,7 +149,7 @@ function evalCommand(args: string[], io: CliIo): number {
   }
   const setup = readSetupFile(positionals[0]);
   const grid = gridFromOptions(setup.grid ?? FALLBACK_GRID, values);
-  const result = evaluateSetup(setup, grid);
+  const result = evaluate(prepare(setup), grid);
   const table = tabulateBudget(result.budget, values.psd ? "power" : "amplitude");
   for (const c of result.cautions) io.err(`caution: ${c}\n`);
   for (const w of result.warnings) io.err(`warning: ${w}\n`);
@@ -178,7 +178,7 @@ function evalCommand(args: string[], io: CliIo): number {
 function summaryCommand(args: string[], io: CliIo): number {
   const { values, positionals } = parseArgs({ args, allowPositionals: true, options: GRID_OPTIONS });
   const setup = readSetupFile(positionals[0]);
-  const result = evaluateSetup(setup, gridFromOptions(setup.grid ?? FALLBACK_GRID, values));
+  const result = evaluate(prepare(setup), gridFromOptions(setup.grid ?? FALLBACK_GRID, values));
   const q = result.budget.quantity;
   const grid = result.budget.frequencies;
   io.out(
@@ -195,7 +195,8 @@ function summaryCommand(args: string[], io: CliIo): number {
 function checkCommand(args: string[], io: CliIo): number {
   const { positionals } = parseArgs({ args, allowPositionals: true, options: {} });
   const setup = readSetupFile(positionals[0]);
-  const result = evaluateSetup(setup, { from: 1, to: 10, points: 2 });
+  // Two frequencies are enough to know the referred quantity and that the signal reaches the readout.
+  const result = evaluate(prepare(setup), { from: 1, to: 10, points: 2 });
   const m = result.assembled.model;
   io.out(
     `${positionals[0]}: valid quietframe set-up${setup.name ? ` "${setup.name}"` : ""}\n` +

@@ -74,11 +74,22 @@ function everyModeDissipates(assembled: AssembledSetup): boolean {
   });
 }
 
-/** Throws a QuietframeError that says which mode grows, where it lives and why, if any does. */
-export function requireNoGrowingModes(assembled: AssembledSetup, report: StabilityReport = analyzeStability(assembled)): StabilityReport {
-  if (report.growing.length > 0) {
-    throw new QuietframeError({ path: "setup", problem: report.summary, allowed: "a set-up whose modes all decay" });
+/**
+ * A set-up with a growing mode. Its own class so that callers that grade set-ups (tolerance
+ * cells: "unstable" rather than "invalid") can tell it apart; name and message are those of
+ * any QuietframeError, so users see the same text everywhere.
+ */
+export class UnstableSetupError extends QuietframeError {
+  readonly report: StabilityReport;
+  constructor(report: StabilityReport) {
+    super({ path: "setup", problem: report.summary, allowed: "a set-up whose modes all decay" });
+    this.report = report;
   }
+}
+
+/** Throws an UnstableSetupError that says which mode grows, where it lives and why, if any does. */
+export function requireNoGrowingModes(assembled: AssembledSetup, report: StabilityReport = analyzeStability(assembled)): StabilityReport {
+  if (report.growing.length > 0) throw new UnstableSetupError(report);
   return report;
 }
 

@@ -1,10 +1,10 @@
-import { noiseBudget, type NoiseBudget } from "../engine/budget";
+import type { NoiseBudget } from "../engine/budget";
 import { headlineFigures } from "../engine/headline";
-import { analyzeStability } from "../engine/stability";
+import { UnstableSetupError } from "../engine/stability";
 import { QuietframeError, QuietframeErrors } from "../errors";
-import { assemble } from "../network/assemble";
+import { evaluate } from "../evaluate";
 import { log10 } from "../numeric/portable-math";
-import { loadSetup } from "../pipeline";
+import { prepare } from "../prepare";
 import { inspiralRange } from "../reach";
 import { applyValues } from "../setup/apply-values";
 import type { SetupDescription } from "../setup/format";
@@ -12,7 +12,8 @@ import type { FigurePlan, TolerancePlan } from "./spec";
 
 /**
  * One cell of a tolerance map: the set-up with the two axis values written in, through the
- * ordinary pipeline (validate, assemble, stability, budget), reduced to one number.
+ * ordinary pipeline (prepare, evaluate), reduced to one number. A cell is refused with the
+ * same message any other caller gets for that set-up.
  * Pure and platform-free: the in-process run, every worker and a browser run this code.
  */
 
@@ -22,7 +23,11 @@ export const CellStatus = {
   ok: 0,
   /** The set-up has a growing mode: its spectra mean nothing. */
   unstable: 1,
-  /** The set-up is rejected (a value outside its range, a blind readout, …) or the figure is undefined there. */
+  /**
+   * The set-up is rejected (a value outside its range, a blind readout, …), its stationary
+   * state breaks the uncertainty relation (the model is outside its validity range), or the
+   * figure is undefined there.
+   */
   invalid: 2,
 } as const;
 export type CellStatusCode = (typeof CellStatus)[keyof typeof CellStatus];
@@ -59,16 +64,17 @@ export function cellSetup(plan: Pick<TolerancePlan, "setup" | "x" | "y">, i: num
 /** Value and status of one cell; failures carry a message. */
 export function evaluateCell(plan: TolerancePlan, frequencies: Float64Array, i: number, j: number): { value: number; status: CellStatusCode; message?: string } {
   try {
-    const assembled = assemble(loadSetup(cellSetup(plan, i, j)));
-    const stability = analyzeStability(assembled);
-    if (stability.growing.length > 0) return { value: NaN, status: CellStatus.unstable, message: stability.summary };
-    const budget = noiseBudget(assembled, frequencies);
+    const prepared = prepare(cellSetup(plan, i, j));
+    // Elsewhere a warning beside the curves; a map cell has nowhere to show one, and its figure would mean nothing.
+    if (prepared.physicality && !prepared.physicality.physical) return { value: NaN, status: CellStatus.invalid, message: prepared.physicality.summary };
+    const budget = evaluate(prepared, frequencies).budget;
     const value = figureValue(plan.figure, budget, frequencies);
     if (Number.isNaN(value)) {
       return { value: NaN, status: CellStatus.invalid, message: "the figure of merit is undefined here (the noise or its reference is 0/0 or ∞/∞)" };
     }
     return { value, status: CellStatus.ok };
   } catch (e) {
+    if (e instanceof UnstableSetupError) return { value: NaN, status: CellStatus.unstable, message: e.message };
     if (e instanceof QuietframeError || e instanceof QuietframeErrors) return { value: NaN, status: CellStatus.invalid, message: e.message };
     throw e;
   }

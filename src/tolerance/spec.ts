@@ -4,7 +4,7 @@ import { logGrid, parseGrid, type FrequencyGridSpec } from "../engine/grid";
 import { QuietframeError, QuietframeErrors } from "../errors";
 import { assemble } from "../network/assemble";
 import { log, pow } from "../numeric/portable-math";
-import { evaluateSetup, FALLBACK_GRID, loadSetup } from "../pipeline";
+import { evaluate, FALLBACK_GRID, loadSetup, prepare } from "../pipeline";
 import { inspiralRange, strainCurve, type InspiralDistance, type InspiralOptions } from "../reach";
 import type { SetupDescription } from "../setup/format";
 import type { ResolvedSetup } from "../setup/validate";
@@ -384,7 +384,7 @@ function rangeGain(setup: SetupDescription, raw: RangeGainSpec, grid: FrequencyG
   const shown = typeof reference === "string" ? reference : "(set-up)";
   let range: InspiralDistance;
   try {
-    const budget = evaluateSetup(loadSetup(typeof reference === "string" ? setup : reference), grid).budget;
+    const budget = evaluate(prepare(typeof reference === "string" ? setup : reference), grid).budget;
     const curve = strainCurve(budget);
     range = inspiralRange(curve.frequencies, curve.strainPsd, inspiral);
   } catch (e) {

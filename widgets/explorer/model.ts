@@ -2,7 +2,7 @@ import { QuietframeError } from "../../src/errors";
 import { headlineFigures, type HeadlineFigures } from "../../src/engine/headline";
 import { parseGrid } from "../../src/engine/grid";
 import { tabulateBudget, type BudgetTable } from "../../src/engine/tabulate";
-import { evaluateSetup, loadSetup, type Evaluation } from "../../src/pipeline";
+import { evaluate, loadSetup, prepare, type Evaluation } from "../../src/pipeline";
 import { applyValues } from "../../src/setup/apply-values";
 import type { SetupDescription } from "../../src/setup/format";
 import type { ResolvedSetup } from "../../src/setup/validate";
@@ -38,9 +38,10 @@ export function computeExplorer(state: Omit<ExplorerState, "fingerprint">): Expl
   // Validate the set-up itself first, so controls are only ever resolved against a well-formed one.
   loadSetup(state.setup);
   const controls = resolveStateControls(state.setup, state.controls, state.values);
-  const setup = loadSetup(applyValues(state.setup, state.values));
+  const prepared = prepare(state.setup, state.values);
+  const setup = prepared.setup;
   const grid = parseGrid(state.settings.grid, "settings.grid");
-  const evaluation = evaluateSetup(setup, grid);
+  const evaluation = evaluate(prepared, grid);
   // The fingerprint (SHA-256 over every plotted number) is computed on first use and kept:
   // a dragged slider needs the curves at once, the fingerprint only when a state is shown or saved.
   let fingerprint: string | undefined;

@@ -1,12 +1,9 @@
 import { QuietframeError } from "../../src/errors";
-import { analyzeStability, requireNoGrowingModes } from "../../src/engine/stability";
 import { assemble, type AssembledSetup } from "../../src/network/assemble";
-import type { StateSpaceModel } from "../../src/network/model";
-import { loadSetup } from "../../src/pipeline";
+import { loadSetup, prepare, startSimulation } from "../../src/pipeline";
 import { applyValues } from "../../src/setup/apply-values";
 import type { SetupDescription } from "../../src/setup/format";
 import type { ResolvedSetup } from "../../src/setup/validate";
-import { startTrajectory } from "../../src/timedomain";
 import type { JointVariable, TrajectoryRequest, TrajectoryResult, TrajectoryRun } from "../../src/timedomain/types";
 import { QUIETFRAME_VERSION } from "../../src/version";
 import { resolveStateControls, type ResolvedControl } from "../explorer/controls";
@@ -95,11 +92,6 @@ export class SlicedRun {
   }
 }
 
-/** The model the time-domain engine works on. */
-function engineModel(assembled: AssembledSetup): StateSpaceModel {
-  return assembled.model;
-}
-
 /** Checks a state and starts its run (no steps taken yet). Throws QuietframeError for bad input. */
 export function prepareTrajectory(state: Omit<TrajectoryState, "fingerprint">): PreparedTrajectory {
   // The set-up first, so controls are only ever resolved against a well-formed one.
@@ -108,12 +100,10 @@ export function prepareTrajectory(state: Omit<TrajectoryState, "fingerprint">): 
   const simulation = resolveSimulation(state.simulation, "simulation");
   const joint = checkJoint(state.joint, "joint");
   const pair = checkPair(state.pair, "pair");
-  const setup = loadSetup(applyValues(state.setup, state.values));
-  const assembled = assemble(setup);
-  requireNoGrowingModes(assembled, analyzeStability(assembled));
+  const prepared = prepare(state.setup, state.values);
   const request: TrajectoryRequest = pair ? { joint, pair } : { joint };
-  const run = startTrajectory(engineModel(assembled), simulation.settings, request);
-  return { controls, setup, assembled, simulation, request, run: new SlicedRun(run, simulation.steps, simulation.stoppedAfter) };
+  const run = startSimulation(prepared, simulation.settings, request);
+  return { controls, setup: prepared.setup, assembled: prepared.assembled, simulation, request, run: new SlicedRun(run, simulation.steps, simulation.stoppedAfter) };
 }
 
 /** The computation of a run that has ended (finished or stopped). */

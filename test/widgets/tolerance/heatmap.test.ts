@@ -74,7 +74,7 @@ describe("heat-map data", () => {
       }
     });
     expect(cells[0].message).toMatch(/inputCoupling/);
-    expect(cells[8].message).toMatch(/^unstable/);
+    expect(cells[8].message).toMatch(/^setup: unstable/);
   });
 
   it("draws cells edge to edge in the written unit (MHz and %), halfway between values", () => {

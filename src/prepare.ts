@@ -1,0 +1,83 @@
+import { checkPhysicality, type PhysicalityReport } from "./engine/covariance";
+import { analyzeStability, requireNoGrowingModes, type StabilityReport } from "./engine/stability";
+import { QuietframeError } from "./errors";
+import { assemble, type AssembledSetup } from "./network/assemble";
+import { applyValues } from "./setup/apply-values";
+import type { SetupDescription } from "./setup/format";
+import { loadSetup } from "./setup/load";
+import { parseJsonText } from "./setup/parse-json";
+import { requireSomeDetection, type ResolvedSetup } from "./setup/validate";
+
+/**
+ * Passes 1–4 of the pipeline in one place: a set-up, with values written in, validated,
+ * checked for a readout that detects something, assembled and checked for growing modes.
+ * Every caller (CLI, explorer, tolerance cells, trajectories) prepares through here, so all
+ * of them refuse the same set-ups with the same message; a prepared set-up is then evaluated
+ * on any number of grids or simulated in time without repeating these passes.
+ */
+
+/** Parameter values by target ("component.parameter"), written as a set-up writes them: "6 K", "-7.5 dB", 0.9. */
+export type SetupValues = Readonly<Record<string, string | number>>;
+
+export interface PreparedSetup {
+  /** The validated set-up (SI numbers), values written in. */
+  readonly setup: ResolvedSetup;
+  /** Its state-space model and signal. */
+  readonly assembled: AssembledSetup;
+  /** Eigenmodes of the dynamics: never a growing one (prepare refuses those). */
+  readonly stability: StabilityReport;
+  /** Uncertainty-relation check of the stationary state; absent when there is none (an undamped mode, e.g. a free mass). */
+  readonly physicality?: PhysicalityReport;
+  /** Safety notes of the components (optical power on a membrane, …). */
+  readonly cautions: readonly string[];
+  /** What makes the set-up's results doubtful: undamped modes, a stationary state that breaks the uncertainty relation. */
+  readonly warnings: readonly string[];
+}
+
+/**
+ * Prepares a set-up: JSON text, a set-up description or an already validated set-up, with
+ * `values` (optional) written into a copy of the description first. Throws QuietframeError(s)
+ * naming the field: validation problems, `values.<target>` for a value that names no
+ * component, `components.<detector>.efficiency` for a readout that detects nothing, and an
+ * UnstableSetupError (path `setup`) that says which mode grows and why.
+ */
+export function prepare(setup: string | SetupDescription | ResolvedSetup, values?: SetupValues): PreparedSetup {
+  const resolved = resolveWithValues(setup, values);
+  requireSomeDetection(resolved);
+  const assembled = assemble(resolved);
+  const stability = requireNoGrowingModes(assembled, analyzeStability(assembled));
+  const warnings: string[] = [];
+  if (stability.undamped.length > 0) warnings.push(stability.summary);
+  const physicality = stability.stable ? checkPhysicality(assembled.model) : undefined;
+  if (physicality && !physicality.physical) warnings.push(physicality.summary);
+  return { setup: resolved, assembled, stability, physicality, cautions: assembled.cautions, warnings };
+}
+
+/** A validated set-up carries its component kinds in a Map, which no JSON document can hold. */
+function isResolved(setup: unknown): setup is ResolvedSetup {
+  return typeof setup === "object" && setup !== null && (setup as { kinds?: unknown }).kinds instanceof Map;
+}
+
+function resolveWithValues(setup: string | SetupDescription | ResolvedSetup, values: SetupValues | undefined): ResolvedSetup {
+  if (values === undefined) return isResolved(setup) ? setup : loadSetup(setup);
+  if (typeof values !== "object" || values === null || Array.isArray(values)) {
+    throw new QuietframeError({ path: "values", value: values, problem: "must be an object", allowed: '{ "component.parameter": value }, e.g. { "membrane.temperature": "6 K" }' });
+  }
+  if (isResolved(setup)) {
+    throw new QuietframeError({
+      path: "values",
+      value: values,
+      problem: "cannot be written into a set-up that is already validated",
+      allowed: "the set-up description (or its JSON text) together with the values, or no values",
+    });
+  }
+  const description = typeof setup === "string" ? parseJsonText(setup, "setup") : setup;
+  // A malformed description goes to validation as it is, which names what is wrong with it.
+  if (!hasComponentList(description)) return loadSetup(description);
+  return loadSetup(applyValues(description, values));
+}
+
+function hasComponentList(description: unknown): description is SetupDescription {
+  const components = (description as { components?: unknown } | null)?.components;
+  return Array.isArray(components) && components.every((c) => typeof c === "object" && c !== null);
+}
