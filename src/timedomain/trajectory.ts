@@ -21,19 +21,18 @@
  * step, at least the continuous-record covariance and equal to it up to O(h); it is the
  * true error covariance of the estimate shown, so the band ẑ ± √P is honest at any step.
  */
-import { stationaryCovariance } from "../engine/covariance";
+import { fastUncertaintyMargin, stationaryCovariance } from "../engine/covariance";
 import { duanBound, duanSum, eprVariances, logarithmicNegativity, modePairCovariance } from "../engine/entanglement";
 import { QuietframeError } from "../errors";
-import { realLuFactor, realLuSolve } from "../linalg/real-dense";
+import { realLuFactor, realLuSolve, solve } from "../linalg/real-lu";
 import type { StateSpaceModel } from "../network/model";
-import { block, congruence, maxAbs, multiply, solve, symmetrize, transpose } from "./dense";
+import { block, congruence, maxAbs, multiply, symmetrize, transpose } from "../linalg/real-matrix";
 import { doublingLimit, relativeChange, type RiccatiMap } from "./riccati";
 import { discreteStep, repeatStep, type DiscreteStep } from "./discretize";
-import { applyFactor, psdFactor, type Factor } from "./factor";
+import { applyFactor, psdFactor, type Factor } from "../linalg/psd-factor";
 import { findMode, jointParts, jointVariance, resolveJointVariable, zeroPointVariance } from "./joint";
 import { measurementNoise } from "./measurement";
 import { GaussianSource } from "./random";
-import { fastUncertaintyMargin } from "./smallest-eigenvalue";
 import { checkSettings, storedSteps } from "./settings";
 import { groundCovariance } from "./transient";
 import type { EntanglementSeries, JointSeries, SimulationSettings, TrajectoryRequest, TrajectoryResult, TrajectoryRun } from "./types";
