@@ -1,4 +1,4 @@
-import { parametricPump, twoModeSpectrum, type TwoModeSqueezing } from "../components/two-mode-squeezing";
+import { parametricPump, twoModeSpectrum, type TwoModeSqueezing } from "../physics/two-mode-squeezing";
 import type { StateSpaceModel } from "../network/model";
 import { log } from "../numeric/portable-math";
 

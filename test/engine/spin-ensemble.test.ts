@@ -1,5 +1,5 @@
 import { beforeAll, describe, expect, it } from "vitest";
-import { occupationFromPolarization, polarizationFromOccupation } from "../../src/components/spin-statistics";
+import { occupationFromPolarization, polarizationFromOccupation } from "../../src/physics/spin-statistics";
 import { diffusionMatrix, stationaryCovariance, uncertaintyMargin } from "../../src/engine/covariance";
 import { QuietframeError, QuietframeErrors } from "../../src/errors";
 import { assemble } from "../../src/network/assemble";
