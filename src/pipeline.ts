@@ -1,5 +1,5 @@
-import { assemble, type AssembledSetup } from "./network/assemble";
-import { DEFAULT_GRID_POINTS, logGrid, type FrequencyGridSpec } from "./engine/grid";
+import { assemble, type AssembledSetup } from "./setup/assemble";
+import { DEFAULT_GRID_POINTS, logGrid, type FrequencyGridSpec } from "./setup/grid";
 import { noiseBudget, type NoiseBudget } from "./engine/budget";
 import { analyzeStability, requireNoGrowingModes, type StabilityReport } from "./engine/stability";
 import { checkPhysicality, type PhysicalityReport } from "./engine/covariance";

@@ -1,6 +1,6 @@
 import { QuietframeError } from "../errors";
 import { eigenvectorFor, realEigenvalues } from "../linalg";
-import type { AssembledSetup } from "../network/assemble";
+import type { AssembledSetup } from "../setup/assemble";
 import { hypot } from "../numeric/portable-math";
 
 /** One eigenmode of the dynamics matrix A. */

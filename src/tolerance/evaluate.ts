@@ -2,7 +2,7 @@ import { noiseBudget, type NoiseBudget } from "../engine/budget";
 import { headlineFigures } from "../engine/headline";
 import { analyzeStability } from "../engine/stability";
 import { QuietframeError, QuietframeErrors } from "../errors";
-import { assemble } from "../network/assemble";
+import { assemble } from "../setup/assemble";
 import { log10 } from "../numeric/portable-math";
 import { loadSetup } from "../pipeline";
 import { inspiralRange } from "../reach";

@@ -1,7 +1,7 @@
 import { beforeAll, describe, expect, it } from "vitest";
 import { loadMathjs, type MathJs } from "../helpers/mathjs";
 import { diffusionMatrix, fastUncertaintyMargin, stationaryCovariance, uncertaintyMargin } from "../../src/engine/covariance";
-import { assemble } from "../../src/network/assemble";
+import { assemble } from "../../src/setup/assemble";
 import { evaluateSetup, loadSetup } from "../../src/pipeline";
 import { thermalOccupation } from "../../src/reference/limits";
 import { GaussianSource } from "../../src/timedomain/random";

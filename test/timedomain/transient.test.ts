@@ -1,6 +1,6 @@
 import { beforeAll, describe, expect, it } from "vitest";
 import { diffusionMatrix, stationaryCovariance } from "../../src/engine/covariance";
-import { assemble } from "../../src/network/assemble";
+import { assemble } from "../../src/setup/assemble";
 import { loadSetup } from "../../src/pipeline";
 import { thermalOccupation } from "../../src/reference/limits";
 import { groundCovariance, transientCovariance } from "../../src/timedomain";

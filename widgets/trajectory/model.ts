@@ -1,6 +1,6 @@
 import { QuietframeError } from "../../src/errors";
 import { analyzeStability, requireNoGrowingModes } from "../../src/engine/stability";
-import { assemble, type AssembledSetup } from "../../src/network/assemble";
+import { assemble, type AssembledSetup } from "../../src/setup/assemble";
 import type { StateSpaceModel } from "../../src/network/model";
 import { loadSetup } from "../../src/pipeline";
 import { applyValues } from "../../src/setup/apply-values";
