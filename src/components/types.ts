@@ -1,3 +1,7 @@
+/**
+ * The contract between component plug-ins and the rest of the engine: parameter and port
+ * specifications, the resolved component, and the ComponentKind interface itself.
+ */
 import type { NetworkBuilder } from "../network/builder";
 import type { Field } from "../network/linear-form";
 import type { ModeInfo } from "../network/model";

@@ -1,7 +1,14 @@
-import { describe, expect, it } from "vitest";
+import { beforeAll, describe, expect, it } from "vitest";
 import { symmetricEigenvalues } from "../../src/linalg/symmetric-eigen";
 import { smallestSymmetricEigenvalue } from "../../src/linalg/smallest-eigenvalue";
 import { GaussianSource } from "../../src/timedomain/random";
+import { toRows } from "./helpers";
+import { type MathJsStatic, loadMathjs } from "./mathjs-reference";
+
+let math: MathJsStatic;
+beforeAll(async () => {
+  math = await loadMathjs();
+});
 
 /** Deterministic test matrices (seeded; invented data). */
 function randomSymmetric(m: number, seed: number): Float64Array {
@@ -19,6 +26,13 @@ describe("smallest eigenvalue by tridiagonalization and bisection", () => {
       const scale = Math.max(...Array.from(symmetricEigenvalues(Float64Array.from(a), m), Math.abs));
       expect(Math.abs(smallestSymmetricEigenvalue(a, m) - ref)).toBeLessThan(1e-13 * scale * m);
     }
+  });
+
+  it.each([4, 12, 30])("matches the smallest of mathjs eigs for order %i (mathjs's symmetric path as reference)", (m) => {
+    const a = randomSymmetric(m, 77 + m);
+    const values = (math.eigs(toRows(a, m), { eigenvectors: false }).values as unknown as number[]).slice().sort((x, y) => x - y);
+    const scale = Math.max(...values.map(Math.abs));
+    expect(Math.abs(smallestSymmetricEigenvalue(a, m) - values[0])).toBeLessThan(1e-13 * scale * m);
   });
 
   it("finds repeated and exactly zero eigenvalues (diag(3, 0, 0, 5) rotated)", () => {
