@@ -1,9 +1,9 @@
 import { noiseBudget, type NoiseBudget } from "./engine/budget";
 import type { PhysicalityReport } from "./engine/covariance";
-import { checkGrid, DEFAULT_GRID_POINTS, logGrid, type FrequencyGridSpec } from "./engine/grid";
+import { checkGrid, DEFAULT_GRID_POINTS, logGrid, type FrequencyGridSpec } from "./setup/grid";
 import type { StabilityReport } from "./engine/stability";
 import { QuietframeError } from "./errors";
-import type { AssembledSetup } from "./network/assemble";
+import type { AssembledSetup } from "./setup/assemble";
 import type { PreparedSetup } from "./prepare";
 
 /**

@@ -21,14 +21,14 @@ export {
 } from "./pipeline";
 export { SETUP_FORMAT, SETUP_VERSION, type SetupDescription, type ComponentDescription } from "./setup/format";
 export { validateSetup, type ResolvedSetup } from "./setup/validate";
-export { assemble, type AssembledSetup } from "./network/assemble";
+export { assemble, type AssembledSetup } from "./setup/assemble";
 export type { StateSpaceModel, ModeInfo, NoiseGroup } from "./network/model";
 export { noiseBudget, type NoiseBudget, type BudgetTerm, type ReferenceSpectrum } from "./engine/budget";
 export { outputSpectra, signalResponse, inputTransfer, type ComplexSeries } from "./engine/spectra";
 export { analyzeStability, UnstableSetupError, type StabilityReport, type Eigenmode } from "./engine/stability";
 export { stationaryCovariance, uncertaintyMargin, diffusionMatrix, checkPhysicality, type PhysicalityReport } from "./engine/covariance";
 export * from "./engine/entanglement";
-export { logGrid, parseGrid, type FrequencyGridSpec } from "./engine/grid";
+export { logGrid, parseGrid, type FrequencyGridSpec } from "./setup/grid";
 export { headlineFigures, describeHeadline, type HeadlineFigures } from "./engine/headline";
 export { tabulateBudget, tableToCsv, type BudgetTable } from "./engine/tabulate";
 export * from "./reference/limits";

@@ -1,4 +1,4 @@
-import type { FrequencyGridSpec } from "./engine/grid";
+import type { FrequencyGridSpec } from "./setup/grid";
 import { evaluate, type Evaluation } from "./evaluate";
 import { prepare } from "./prepare";
 import type { ResolvedSetup } from "./setup/validate";
@@ -9,7 +9,7 @@ import type { ResolvedSetup } from "./setup/validate";
  *   1. parse     src/setup/parse-json.ts  JSON text → plain object (errors carry line and column)
  *   2. validate  src/setup/validate.ts    units → SI numbers, ports resolved (errors carry the field path)
  *                                         (1 and 2 together: loadSetup, src/setup/load.ts)
- *   3. assemble  src/network/assemble.ts  components → state-space model (A, B, C, D, N, signal)
+ *   3. assemble  src/setup/assemble.ts    components → state-space model (A, B, C, D, N, signal)
  *   4. check     src/engine/stability.ts  a readout that detects something; eigenvalues of A: growing
  *                                         modes are an error that says where and why; the uncertainty
  *                                         relation of the stationary state (a warning)

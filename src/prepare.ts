@@ -1,7 +1,7 @@
 import { checkPhysicality, type PhysicalityReport } from "./engine/covariance";
 import { analyzeStability, requireNoGrowingModes, type StabilityReport } from "./engine/stability";
 import { QuietframeError } from "./errors";
-import { assemble, type AssembledSetup } from "./network/assemble";
+import { assemble, type AssembledSetup } from "./setup/assemble";
 import { applyValues } from "./setup/apply-values";
 import type { SetupDescription } from "./setup/format";
 import { loadSetup } from "./setup/load";

@@ -1,7 +1,7 @@
 import { readFileSync } from "node:fs";
 import { parseArgs } from "node:util";
 import { QuietframeError, QuietframeErrors } from "../errors";
-import { checkGrid, type FrequencyGridSpec } from "../engine/grid";
+import { checkGrid, type FrequencyGridSpec } from "../setup/grid";
 import { describeHeadline, headlineFigures } from "../engine/headline";
 import { jsonNumbers, spectralDensityUnit, tableToCsv, tabulateBudget } from "../engine/tabulate";
 import { COMPONENT_KINDS } from "../components/registry";

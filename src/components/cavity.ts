@@ -2,7 +2,7 @@ import { QuietframeError } from "../errors";
 import { combine, type Field } from "../network/linear-form";
 import type { ModeInfo } from "../network/model";
 import { HBAR } from "../constants";
-import { opticalAngularFrequency, pushOnBody, zeroPointDisplacement } from "./optomechanics";
+import { opticalAngularFrequency, pushOnBody, zeroPointDisplacement } from "../physics/optomechanics";
 import { maybeNum, num, type ComponentKind, type MechanicalBody, type ResolvedComponent } from "./types";
 
 interface CavityHandle {

@@ -2,7 +2,7 @@ import { QuietframeError } from "../errors";
 import { combine, combineFields, type Field } from "../network/linear-form";
 import type { ModeInfo } from "../network/model";
 import { MAX_SQUEEZE_FACTOR, squeezeFactorFromDb } from "./light-sources";
-import { parametricPump, whiteTwoModeNoise, type TwoModeSqueezing } from "./two-mode-squeezing";
+import { parametricPump, whiteTwoModeNoise, type TwoModeSqueezing } from "../physics/two-mode-squeezing";
 import { maybeNum, num, type ComponentKind, type ResolvedComponent } from "./types";
 
 interface EntangledHandle {

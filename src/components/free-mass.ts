@@ -1,4 +1,4 @@
-import { allocateBody, applyForceSignal, forceSignalReference, wireBody } from "./mechanics";
+import { allocateBody, applyForceSignal, forceSignalReference, wireBody } from "../physics/mechanics";
 import { num, type ComponentKind, type MechanicalBody } from "./types";
 
 /** A free test mass: no restoring force, no damping unless a thermal bath is linked. */

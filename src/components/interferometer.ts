@@ -4,8 +4,8 @@ import type { NetworkBuilder } from "../network/builder";
 import { combine, type Field } from "../network/linear-form";
 import type { ModeInfo } from "../network/model";
 import { strainSql } from "../reference/limits";
-import { wireBody } from "./mechanics";
-import { opticalAngularFrequency, pushOnBody } from "./optomechanics";
+import { wireBody } from "../physics/mechanics";
+import { opticalAngularFrequency, pushOnBody } from "../physics/optomechanics";
 import { num, type ComponentKind, type MechanicalBody, type ResolvedComponent, type SignalReference } from "./types";
 
 /**

@@ -1,4 +1,4 @@
-import { addSymmetricBath, addViscousBath, allocateBody, applyForceSignal, forceSignalReference, thermalQuadratureNoise, wireBody } from "./mechanics";
+import { addSymmetricBath, addViscousBath, allocateBody, applyForceSignal, forceSignalReference, thermalQuadratureNoise, wireBody } from "../physics/mechanics";
 import { num, type ComponentKind, type MechanicalBody } from "./types";
 
 /** Above this Q the resonance is narrower than double precision resolves Ω_m² − Ω² (relative error ~ 2e-16·Q on resonance). */

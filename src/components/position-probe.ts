@@ -1,7 +1,7 @@
 import { HBAR } from "../constants";
 import { QuietframeError } from "../errors";
 import { combine } from "../network/linear-form";
-import { pushOnBody, reflectionForcePsd, zeroPointDisplacement } from "./optomechanics";
+import { pushOnBody, reflectionForcePsd, zeroPointDisplacement } from "../physics/optomechanics";
 import { maybeNum, num, type ComponentKind, type MechanicalBody, type ResolvedComponent } from "./types";
 
 /**

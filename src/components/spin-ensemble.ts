@@ -1,7 +1,7 @@
 import { QuietframeError } from "../errors";
 import { combine } from "../network/linear-form";
 import type { ModeInfo } from "../network/model";
-import { isValidSpin, MAX_SPIN, occupationFromPolarization, polarizationFromOccupation } from "./spin-statistics";
+import { isValidSpin, MAX_SPIN, occupationFromPolarization, polarizationFromOccupation } from "../physics/spin-statistics";
 import { maybeNum, num, type ComponentKind, type ResolvedComponent } from "./types";
 
 interface SpinHandle {

@@ -1,4 +1,4 @@
-import { addViscousBath } from "./mechanics";
+import { addViscousBath } from "../physics/mechanics";
 import { num, type ComponentKind, type ThermalBathInfo } from "./types";
 
 interface BathHandle {

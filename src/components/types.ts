@@ -1,7 +1,16 @@
+/**
+ * The contract between component plug-ins and the rest of the engine: parameter and port
+ * specifications, the resolved component, and the ComponentKind interface itself.
+ */
 import type { NetworkBuilder } from "../network/builder";
 import type { Field } from "../network/linear-form";
 import type { ModeInfo } from "../network/model";
+import type { MechanicalBody } from "../physics/mechanical-body";
+import type { SignalReference } from "../physics/signal-reference";
 import type { QuantityKind } from "../units";
+
+export type { MechanicalBody, ThermalBathInfo } from "../physics/mechanical-body";
+export type { ReferenceCurve, ReferredQuantity, SignalReference } from "../physics/signal-reference";
 
 /** A parameter whose value carries a unit, e.g. "40 kg". */
 export interface QuantityParam {
@@ -57,58 +66,6 @@ export interface ResolvedComponent {
   readonly raw: Readonly<Record<string, unknown>>;
   /** Path prefix for messages, e.g. `components.membrane`. */
   readonly path: string;
-}
-
-/** What a mechanical element shows to the couplers and baths linked to it. */
-export interface MechanicalBody {
-  readonly owner: string;
-  readonly mode: ModeInfo;
-  /** Metres per unit of the dimensionless position quadrature X. */
-  readonly xScale: number;
-  /** Newton-seconds per unit of P; xScale · pScale = ħ so that [X, P] = i. */
-  readonly pScale: number;
-  /** Mass in kg (positive). */
-  readonly mass: number;
-  /** +1 or −1: sign of the effective mass. */
-  readonly massSign: 1 | -1;
-  /** Angular resonance frequency in rad/s; 0 for a free mass. */
-  readonly omega: number;
-  /** Viscous damping baths acting on this body (intrinsic and attached). */
-  readonly baths: ThermalBathInfo[];
-}
-
-export interface ThermalBathInfo {
-  readonly owner: string;
-  /** "viscous": m ẍ = … − m γ ẋ; "symmetric": amplitude damping of both quadratures at γ/2. */
-  readonly kind: "viscous" | "symmetric";
-  /** Energy damping rate γ in rad/s. */
-  readonly gamma: number;
-  /** Bath temperature in K. */
-  readonly temperature: number;
-}
-
-/** Curves that stand beside every budget, as one-sided PSDs in the signal's own unit. */
-export interface ReferenceCurve {
-  readonly id: string;
-  readonly label: string;
-  readonly psd: (omega: number) => number;
-}
-
-/** A quantity the signal-referred noise can be expressed in (force, displacement, strain...). */
-export interface ReferredQuantity {
-  readonly name: string;
-  /** SI unit of the amplitude, e.g. "m" (so the ASD is m/√Hz). */
-  readonly unit: string;
-  /** Multiplies a PSD in signal units to give the PSD of this quantity. */
-  readonly psdFactor: (omega: number) => number;
-}
-
-export interface SignalReference {
-  /** Unit of the signal itself (what b_s multiplies), e.g. "N". */
-  readonly signalUnit: string;
-  /** The first is the default when a set-up does not say `referTo`. */
-  readonly quantities: readonly ReferredQuantity[];
-  readonly curves: readonly ReferenceCurve[];
 }
 
 export interface WireContext<H> {

@@ -1,7 +1,7 @@
 import { QuietframeError } from "../errors";
 import { complexLuFactor, complexLuSolve } from "../linalg/complex-lu";
 import { SingularMatrixError } from "../linalg/singular-error";
-import type { AssembledSetup } from "../network/assemble";
+import type { AssembledSetup } from "../setup/assemble";
 import type { NoiseCategory, StateSpaceModel } from "../network/model";
 import { TransferEvaluator } from "./transfer";
 

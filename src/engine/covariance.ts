@@ -1,5 +1,10 @@
-import { minEigenvalueHermitian, solveLyapunov } from "../linalg";
-import type { StateSpaceModel } from "../network/model";
+/**
+ * Covariances of the model's states: the stationary one (Lyapunov), the diffusion matrix
+ * it is built from, and the uncertainty-relation margin that says whether a covariance
+ * belongs to a physical state.
+ */
+import { hermitianEmbedding, minEigenvalueHermitian, smallestSymmetricEigenvalue, solveLyapunov } from "../linalg";
+import type { ModeInfo, StateSpaceModel } from "../network/model";
 
 /**
  * Stationary covariance of the states, V_ij = ⟨{z_i, z_j}⟩/2, from
@@ -40,13 +45,25 @@ export function diffusionMatrix(model: StateSpaceModel): Float64Array {
  * value is in units of the quadrature variance (vacuum: V = 1/2).
  */
 export function uncertaintyMargin(model: StateSpaceModel, v: Float64Array): number {
-  const n = model.nStates;
+  return minEigenvalueHermitian(v, halfSymplecticForm(model.modes, model.nStates), model.nStates);
+}
+
+/**
+ * The same margin by the faster smallest-eigenvalue solver (tridiagonalization and
+ * bisection instead of Jacobi), for a trajectory that checks it at every stored point.
+ */
+export function fastUncertaintyMargin(modes: readonly Pick<ModeInfo, "x" | "p">[], v: ArrayLike<number>, n: number): number {
+  return smallestSymmetricEigenvalue(hermitianEmbedding(v, halfSymplecticForm(modes, n), n), 2 * n);
+}
+
+/** Σ/2: +1/2 at (x, p) and −1/2 at (p, x) of each conjugate pair ([x, p] = i). */
+function halfSymplecticForm(modes: readonly Pick<ModeInfo, "x" | "p">[], n: number): Float64Array {
   const im = new Float64Array(n * n);
-  for (const mode of model.modes) {
+  for (const mode of modes) {
     im[mode.x * n + mode.p] = 0.5;
     im[mode.p * n + mode.x] = -0.5;
   }
-  return minEigenvalueHermitian(v, im, n);
+  return im;
 }
 
 export interface PhysicalityReport {

@@ -1,7 +1,3 @@
-import { parametricPump, twoModeSpectrum, type TwoModeSqueezing } from "../components/two-mode-squeezing";
-import type { StateSpaceModel } from "../network/model";
-import { log } from "../numeric/portable-math";
-
 /**
  * Entanglement of two bosonic modes from their covariance matrix.
  *
@@ -9,6 +5,11 @@ import { log } from "../numeric/portable-math";
  * z = (X1, P1, X2, P2) with [X_j, P_j] = i, so vacuum has V = I/2. This is what
  * `stationaryCovariance` returns for a pair of modes (see `modePairCovariance`).
  */
+import { parametricPump, twoModeSpectrum, type TwoModeSqueezing } from "../physics/two-mode-squeezing";
+import type { StateSpaceModel } from "../network/model";
+import { solve } from "../linalg/real-lu";
+import { SingularMatrixError } from "../linalg/singular-error";
+import { log } from "../numeric/portable-math";
 export type TwoModeCovariance = ArrayLike<number>;
 
 /**
@@ -137,36 +138,16 @@ export function conditionalVariance(v: TwoModeCovariance, target: number, given:
     rhs[a] = at(v, given[a], target);
     for (let b = 0; b < k; b++) g[a * k + b] = at(v, given[a], given[b]);
   }
-  const solution = solveSymmetric(g, rhs, k);
+  let solution: Float64Array;
+  try {
+    solution = solve(g, rhs, k, 1);
+  } catch (e) {
+    if (e instanceof SingularMatrixError) throw new Error("conditional variance: the measured quadratures have a singular covariance");
+    throw e;
+  }
   let reduction = 0;
   for (let a = 0; a < k; a++) reduction += rhs[a] * solution[a];
   return at(v, target, target) - reduction;
-}
-
-/** Gaussian elimination with partial pivoting for the tiny systems above. */
-function solveSymmetric(m: Float64Array, b: Float64Array, n: number): Float64Array {
-  const a = Float64Array.from(m);
-  const x = Float64Array.from(b);
-  for (let col = 0; col < n; col++) {
-    let pivot = col;
-    for (let r = col + 1; r < n; r++) if (Math.abs(a[r * n + col]) > Math.abs(a[pivot * n + col])) pivot = r;
-    if (a[pivot * n + col] === 0) throw new Error("conditional variance: the measured quadratures have a singular covariance");
-    if (pivot !== col) {
-      for (let c = 0; c < n; c++) [a[col * n + c], a[pivot * n + c]] = [a[pivot * n + c], a[col * n + c]];
-      [x[col], x[pivot]] = [x[pivot], x[col]];
-    }
-    for (let r = col + 1; r < n; r++) {
-      const f = a[r * n + col] / a[col * n + col];
-      for (let c = col; c < n; c++) a[r * n + c] -= f * a[col * n + c];
-      x[r] -= f * x[col];
-    }
-  }
-  for (let r = n - 1; r >= 0; r--) {
-    let s = x[r];
-    for (let c = r + 1; c < n; c++) s -= a[r * n + c] * x[c];
-    x[r] = s / a[r * n + r];
-  }
-  return x;
 }
 
 /**

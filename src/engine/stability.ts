@@ -1,6 +1,12 @@
+/**
+ * The stability report of an assembled set-up: eigenmodes of A classified as growing,
+ * undamped or decaying, each critical mode placed in the components it lives in, with a
+ * plain-language summary and the error a growing mode raises. The bare numerical test
+ * "does every mode decay" behind the Lyapunov solver is linalg/non-decaying-mode.ts.
+ */
 import { QuietframeError } from "../errors";
 import { eigenvectorFor, realEigenvalues } from "../linalg";
-import type { AssembledSetup } from "../network/assemble";
+import type { AssembledSetup } from "../setup/assemble";
 import { hypot } from "../numeric/portable-math";
 
 /** One eigenmode of the dynamics matrix A. */

@@ -1,9 +1,9 @@
-import { hypot } from "../numeric/portable-math";
 /**
  * Eigenvalues of an upper Hessenberg matrix by the implicit Francis double-shift QR
  * iteration with deflation (Golub & Van Loan, Matrix Computations, 4th ed., §7.5,
  * Algorithms 7.5.1–7.5.2), eigenvalues only.
  */
+import { hypot } from "../numeric/portable-math";
 
 const EPS = Number.EPSILON;
 

@@ -6,9 +6,9 @@
  * symmetric, and so is the equation), and solve the resulting dense linear system by LU.
  * For n ≤ 40 that is at most 820 unknowns, a fraction of a second.
  */
-import { realLuFactor, realLuSolve } from "./real-dense";
+import { realLuFactor, realLuSolve } from "./real-lu";
 import { SingularMatrixError } from "./singular-error";
-import { findNonDecayingMode } from "./stability";
+import { findNonDecayingMode } from "./non-decaying-mode";
 
 /** Index of V[i][j] (i ≤ j) in the packed upper triangle. */
 function packed(i: number, j: number, n: number): number {

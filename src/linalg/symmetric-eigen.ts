@@ -4,6 +4,8 @@
  * simplicity and because, with the threshold |a_pq| ≤ ε·sqrt(|a_pp·a_qq|), it keeps small
  * eigenvalues of graded matrices to high relative accuracy (Demmel & Veselić, SIAM J.
  * Matrix Anal. Appl. 13 (1992) 1204–1245), which matters for a positivity check.
+ * When only the smallest eigenvalue is wanted and speed matters (every stored point of a
+ * run), smallest-eigenvalue.ts does that job by bisection; the two round differently.
  */
 const EPS = Number.EPSILON;
 const MAX_SWEEPS = 60;

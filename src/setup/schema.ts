@@ -1,6 +1,6 @@
 import { COMPONENT_KINDS } from "../components/registry";
 import type { ComponentKind, ParamSpec, QuantityParam } from "../components/types";
-import { MAX_GRID_POINTS } from "../engine/grid";
+import { MAX_GRID_POINTS } from "./grid";
 import { QUANTITY_KIND_INFO } from "../units";
 import { SETUP_FORMAT, SETUP_KEYS, SETUP_VERSION } from "./format";
 import { describeRange } from "./params";

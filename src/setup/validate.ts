@@ -1,7 +1,7 @@
 import { QuietframeError, QuietframeErrors } from "../errors";
 import { componentKind, COMPONENT_KINDS } from "../components/registry";
 import type { ComponentKind, PortSpec, ResolvedComponent } from "../components/types";
-import { parseGrid, type FrequencyGridSpec } from "../engine/grid";
+import { parseGrid, type FrequencyGridSpec } from "./grid";
 import { SETUP_FORMAT, SETUP_KEYS, SETUP_VERSION, type SetupDescription } from "./format";
 import { resolveParams } from "./params";
 

@@ -9,14 +9,21 @@
  *   Φ(2h) = Φ(h)²,  W(2h) = Φ(h) W(h) Φ(h)ᵀ + W(h),
  * where every term stays bounded. Works for stable, marginally stable and growing A alike.
  */
-import { block, congruence, mul, norm1, powerOfTwo, setBlock, symmetrize, transpose } from "./dense";
-import { expm } from "./expm";
+import { expm } from "../linalg/expm";
+import { block, congruence, mul, norm1, setBlock, symmetrize, transpose } from "../linalg/real-matrix";
 
 export interface DiscreteStep {
   /** e^{Ah}, n×n. */
   readonly phi: Float64Array;
   /** Covariance of the noise gathered over the step, n×n. */
   readonly w: Float64Array;
+}
+
+/** 2^k for an integer k ≥ 0, by doubling (exact): the factor a step is cut by. */
+export function powerOfTwo(k: number): number {
+  let x = 1;
+  for (let i = 0; i < k; i++) x *= 2;
+  return x;
 }
 
 /** Number of halvings that bring ‖A‖₁·h to at most 1/2. */

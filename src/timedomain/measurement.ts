@@ -6,7 +6,7 @@
 import { QuietframeError } from "../errors";
 import { diffusionMatrix } from "../engine/covariance";
 import type { StateSpaceModel } from "../network/model";
-import { multiply, transpose } from "./dense";
+import { multiply, transpose } from "../linalg/real-matrix";
 
 export interface MeasurementNoise {
   readonly n: number;

@@ -17,9 +17,10 @@
  */
 import { QuietframeError } from "../errors";
 import type { StateSpaceModel } from "../network/model";
-import { allFinite, block, congruence, maxAbs, mul, multiply, norm1, powerOfTwo, setBlock, solve, symmetrize, transpose } from "./dense";
-import { halvingsFor } from "./discretize";
-import { expm } from "./expm";
+import { expm } from "../linalg/expm";
+import { solve } from "../linalg/real-lu";
+import { allFinite, block, congruence, identity, maxAbs, mul, multiply, norm1, setBlock, symmetrize, transpose } from "../linalg/real-matrix";
+import { halvingsFor, powerOfTwo } from "./discretize";
 import { measurementNoise } from "./measurement";
 import { checkCovarianceShape } from "./transient";
 
@@ -95,7 +96,7 @@ function shortMap(problem: RiccatiProblem, sigma: number, h: number): RiccatiMap
   const e22 = block(e, m, n, n, n, n);
   // Φ = E₂₂⁻ᵀ, Γ = E₂₂⁻¹E₂₁, W = E₁₂E₂₂⁻¹ = (E₂₂⁻ᵀE₁₂ᵀ)ᵀ; then undo the balancing (V = σV').
   const e22t = transpose(e22, n);
-  const phi = solve(e22t, identityOf(n), n, n);
+  const phi = solve(e22t, identity(n), n, n);
   const gamma = solve(e22, e21, n, n);
   const w = transpose(solve(e22t, transpose(e12, n), n, n), n);
   for (let i = 0; i < n * n; i++) {
@@ -103,12 +104,6 @@ function shortMap(problem: RiccatiProblem, sigma: number, h: number): RiccatiMap
     gamma[i] /= sigma;
   }
   return { phi, gamma: symmetrize(gamma, n), w: symmetrize(w, n) };
-}
-
-function identityOf(n: number): Float64Array {
-  const out = new Float64Array(n * n);
-  for (let i = 0; i < n; i++) out[i * n + i] = 1;
-  return out;
 }
 
 /**

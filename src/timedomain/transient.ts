@@ -7,7 +7,7 @@
 import { QuietframeError } from "../errors";
 import { diffusionMatrix } from "../engine/covariance";
 import type { StateSpaceModel } from "../network/model";
-import { congruence, symmetrize } from "./dense";
+import { congruence, symmetrize } from "../linalg/real-matrix";
 import { discreteStep } from "./discretize";
 
 /** Every mode in its ground state: V = I/2 (vacuum variance 1/2 per quadrature). */

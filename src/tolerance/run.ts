@@ -1,4 +1,4 @@
-import { logGrid, type FrequencyGridSpec } from "../engine/grid";
+import { logGrid, type FrequencyGridSpec } from "../setup/grid";
 import { QuietframeError } from "../errors";
 import { applyValues } from "../setup/apply-values";
 import type { SetupDescription } from "../setup/format";

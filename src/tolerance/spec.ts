@@ -1,8 +1,8 @@
 import { componentKind } from "../components/registry";
 import type { QuantityParam } from "../components/types";
-import { logGrid, parseGrid, type FrequencyGridSpec } from "../engine/grid";
+import { logGrid, parseGrid, type FrequencyGridSpec } from "../setup/grid";
 import { QuietframeError, QuietframeErrors } from "../errors";
-import { assemble } from "../network/assemble";
+import { assemble } from "../setup/assemble";
 import { log, pow } from "../numeric/portable-math";
 import { evaluate, FALLBACK_GRID, loadSetup, prepare } from "../pipeline";
 import { inspiralRange, strainCurve, type InspiralDistance, type InspiralOptions } from "../reach";

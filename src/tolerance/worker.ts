@@ -1,5 +1,5 @@
 import { parentPort, workerData } from "node:worker_threads";
-import { logGrid } from "../engine/grid";
+import { logGrid } from "../setup/grid";
 import { evaluateRow } from "./evaluate";
 import type { TolerancePlan } from "./spec";
 import type { ToWorker, FromWorker } from "./parallel";

@@ -32,7 +32,7 @@ const sqlClosedForm: Record<string, (f: number) => number> = {
 /**
  * The membrane of hybrid-spin-reference.json (4 ng, 1.1 MHz, Q = 2e7) has symmetric (amplitude)
  * damping, χ = 1/(m(Ω_m² + γ²/4 − Ω² − iγΩ)) (the form of a Lindblad-damped mode, derived in
- * src/components/mechanics.ts), so 2ħ|χ| = 2ħ/(m √((Ω_m² + γ²/4 − Ω²)² + γ²Ω²)).
+ * src/physics/mechanics.ts), so 2ħ|χ| = 2ħ/(m √((Ω_m² + γ²/4 − Ω²)² + γ²Ω²)).
  */
 function hybridMembraneSql(f: number): number {
   const m = 4e-12;

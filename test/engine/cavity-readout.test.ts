@@ -2,7 +2,7 @@ import { beforeAll, describe, expect, it } from "vitest";
 import { loadMathjs, type MathComplex as Complex, type MathJs, type MathMatrix as Matrix } from "../helpers/mathjs";
 import { HBAR, SPEED_OF_LIGHT } from "../../src/constants";
 import { QuietframeError } from "../../src/errors";
-import { assemble } from "../../src/network/assemble";
+import { assemble } from "../../src/setup/assemble";
 import { evaluateSetup, loadSetup } from "../../src/pipeline";
 import { oscillatorSusceptibility } from "../../src/reference/limits";
 import { expectAllClose } from "../helpers/close";

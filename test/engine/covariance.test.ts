@@ -1,10 +1,12 @@
 import { beforeAll, describe, expect, it } from "vitest";
 import { loadMathjs, type MathJs } from "../helpers/mathjs";
-import { diffusionMatrix, stationaryCovariance, uncertaintyMargin } from "../../src/engine/covariance";
-import { assemble } from "../../src/network/assemble";
+import { diffusionMatrix, fastUncertaintyMargin, stationaryCovariance, uncertaintyMargin } from "../../src/engine/covariance";
+import { assemble } from "../../src/setup/assemble";
 import { evaluateSetup, loadSetup } from "../../src/pipeline";
 import { thermalOccupation } from "../../src/reference/limits";
+import { GaussianSource } from "../../src/timedomain/random";
 import { cavityReadout, setup } from "../helpers/setups";
+import { handModel } from "../timedomain/helpers";
 
 function toRows(a: Float64Array, n: number): number[][] {
   return Array.from({ length: n }, (_, i) => Array.from(a.subarray(i * n, i * n + n)));
@@ -101,5 +103,39 @@ describe("damping models and the uncertainty relation", () => {
     const e = evaluateSetup(strongLowQ("symmetric"), { from: 1e5, to: 1e7, points: 5 });
     expect(e.physicality!.physical).toBe(true);
     expect(e.physicality!.margin).toBeGreaterThanOrEqual(-1e-9 * e.physicality!.largestVariance);
+  });
+});
+
+/** Deterministic test matrices (seeded; invented data). */
+function randomSymmetric(m: number, seed: number): Float64Array {
+  const g = new GaussianSource(seed);
+  const a = new Float64Array(m * m);
+  for (let i = 0; i < m; i++) for (let j = 0; j <= i; j++) a[i * m + j] = a[j * m + i] = g.normal();
+  return a;
+}
+
+describe("uncertainty margin by the faster solver", () => {
+  it("the uncertainty margin equals uncertaintyMargin of engine/covariance.ts", () => {
+    const model = handModel({
+      modes: ["a", "b", "c"],
+      A: Array.from({ length: 6 }, () => new Array(6).fill(0)),
+      B: Array.from({ length: 6 }, () => []),
+      N: [],
+    });
+    for (let seed = 0; seed < 10; seed++) {
+      const r = randomSymmetric(6, seed);
+      // V = RRᵀ/6 + I/2 (positive, near the quantum limit).
+      const v = new Float64Array(36);
+      for (let i = 0; i < 6; i++) for (let j = 0; j < 6; j++) {
+        let s = i === j ? 0.5 : 0;
+        for (let k = 0; k < 6; k++) s += (r[i * 6 + k] * r[j * 6 + k]) / 6;
+        v[i * 6 + j] = s;
+      }
+      expect(Math.abs(fastUncertaintyMargin(model.modes, v, 6) - uncertaintyMargin(model, v))).toBeLessThan(1e-13);
+    }
+    // Vacuum: the margin is exactly 0 (pure state at the limit).
+    const vacuum = new Float64Array(36);
+    for (let i = 0; i < 6; i++) vacuum[i * 7] = 0.5;
+    expect(Math.abs(fastUncertaintyMargin(model.modes, vacuum, 6))).toBeLessThan(1e-15);
   });
 });

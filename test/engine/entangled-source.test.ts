@@ -3,7 +3,7 @@ import { HBAR } from "../../src/constants";
 import { conditionalVariance, entangledSourceCovariance, entangledSourceSpectrum } from "../../src/engine/entanglement";
 import { outputSpectra } from "../../src/engine/spectra";
 import { QuietframeError, QuietframeErrors } from "../../src/errors";
-import { assemble } from "../../src/network/assemble";
+import { assemble } from "../../src/setup/assemble";
 import { evaluateSetup, loadSetup } from "../../src/pipeline";
 import type { SetupDescription } from "../../src/setup/format";
 import { expectAllClose } from "../helpers/close";

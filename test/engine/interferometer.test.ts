@@ -2,7 +2,7 @@ import { beforeAll, describe, expect, it } from "vitest";
 import { HBAR, SPEED_OF_LIGHT } from "../../src/constants";
 import { inputTransfer, signalResponse } from "../../src/engine/spectra";
 import { QuietframeError, QuietframeErrors } from "../../src/errors";
-import { assemble } from "../../src/network/assemble";
+import { assemble } from "../../src/setup/assemble";
 import { evaluateSetup, loadSetup } from "../../src/pipeline";
 import type { ComponentDescription, SetupDescription } from "../../src/setup/format";
 import { expectAllClose } from "../helpers/close";

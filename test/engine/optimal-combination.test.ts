@@ -1,7 +1,7 @@
 import { beforeAll, describe, expect, it } from "vitest";
 import { noiseBudget } from "../../src/engine/budget";
 import { outputSpectra, signalResponse } from "../../src/engine/spectra";
-import { assemble } from "../../src/network/assemble";
+import { assemble } from "../../src/setup/assemble";
 import { evaluateSetup, loadSetup } from "../../src/pipeline";
 import type { SetupDescription } from "../../src/setup/format";
 import { expectAllClose } from "../helpers/close";

@@ -3,7 +3,7 @@ import fc from "fast-check";
 import { QuietframeError } from "../../src/errors";
 import { stationaryCovariance, uncertaintyMargin } from "../../src/engine/covariance";
 import { outputSpectra } from "../../src/engine/spectra";
-import { assemble } from "../../src/network/assemble";
+import { assemble } from "../../src/setup/assemble";
 import { evaluateSetup, loadSetup } from "../../src/pipeline";
 import type { ComponentDescription } from "../../src/setup/format";
 import { cavityReadout, setup } from "../helpers/setups";

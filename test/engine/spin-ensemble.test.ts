@@ -1,8 +1,8 @@
 import { beforeAll, describe, expect, it } from "vitest";
-import { occupationFromPolarization, polarizationFromOccupation } from "../../src/components/spin-statistics";
+import { occupationFromPolarization, polarizationFromOccupation } from "../../src/physics/spin-statistics";
 import { diffusionMatrix, stationaryCovariance, uncertaintyMargin } from "../../src/engine/covariance";
 import { QuietframeError, QuietframeErrors } from "../../src/errors";
-import { assemble } from "../../src/network/assemble";
+import { assemble } from "../../src/setup/assemble";
 import type { StateSpaceModel } from "../../src/network/model";
 import { evaluateSetup, loadSetup } from "../../src/pipeline";
 import type { SetupDescription } from "../../src/setup/format";

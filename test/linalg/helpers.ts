@@ -126,3 +126,39 @@ export function multisetDistance(got: Eig[], want: Eig[]): number {
 export function pairs(v: { re: Float64Array; im: Float64Array }): Eig[] {
   return Array.from(v.re, (re, i) => ({ re, im: v.im[i] }));
 }
+
+/**
+ * Q B Qᵀ with Q a random orthogonal matrix and B block diagonal with the given eigenvalues
+ * (a real λ as a 1×1 block, a pair a ± ib as [[a, b], [−b, a]]): a normal matrix whose
+ * spectrum is known exactly (a similarity keeps the eigenvalues).
+ */
+export function knownSpectrum(rand: () => number, eigenvalues: readonly Eig[]): { a: Float64Array; n: number } {
+  const n = eigenvalues.length;
+  const b = new Float64Array(n * n);
+  for (let k = 0; k < n; k++) {
+    const e = eigenvalues[k];
+    if (e.im === 0) {
+      b[k * n + k] = e.re;
+    } else {
+      b[k * n + k] = e.re;
+      b[(k + 1) * n + k + 1] = e.re;
+      b[k * n + k + 1] = e.im;
+      b[(k + 1) * n + k] = -e.im;
+      k++;
+    }
+  }
+  const q = randomOrthogonal(rand, n);
+  return { a: matMul(matMul(q, b, n, n, n), transpose(q, n), n, n, n), n };
+}
+
+/** A spectrum of `pairs` complex pairs and `reals` real values, spread over [−3, 3] (conjugates adjacent). */
+export function spreadSpectrum(pairs: number, reals: number): Eig[] {
+  const out: Eig[] = [];
+  for (let k = 0; k < pairs; k++) {
+    const re = -2.5 + (5 * k) / Math.max(pairs, 1);
+    const im = 0.5 + 0.3 * k;
+    out.push({ re, im }, { re, im: -im });
+  }
+  for (let k = 0; k < reals; k++) out.push({ re: -3 + (6 * (k + 0.5)) / reals, im: 0 });
+  return out;
+}

@@ -1,7 +1,7 @@
 import { buildSync } from "esbuild";
 import { join } from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { assemble } from "../../src/network/assemble";
+import { assemble } from "../../src/setup/assemble";
 import { loadSetup } from "../../src/pipeline";
 import { conditionalSteadyState, simulateTrajectory } from "../../src/timedomain";
 import { LOCAL_ONLY, openBrowser, type BrowserSession } from "../browser/helpers/chromium";
@@ -53,7 +53,7 @@ describe("a seeded run gives the same bits in headless Chromium as in Node", () 
       stdin: {
         contents: `
           import { loadSetup } from "./src/pipeline";
-          import { assemble } from "./src/network/assemble";
+          import { assemble } from "./src/setup/assemble";
           import { simulateTrajectory, conditionalSteadyState } from "./src/timedomain";
           globalThis.runTimeDomain = (setup, settings, request) => {
             const model = assemble(loadSetup(setup)).model;

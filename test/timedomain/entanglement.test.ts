@@ -1,6 +1,6 @@
 import { describe, expect, it } from "vitest";
 import { logarithmicNegativity, modePairCovariance } from "../../src/engine/entanglement";
-import { assemble } from "../../src/network/assemble";
+import { assemble } from "../../src/setup/assemble";
 import { loadSetup } from "../../src/pipeline";
 import { conditionalSteadyState, groundCovariance, jointVariance, resolveJointVariable, simulateTrajectory, transientCovariance, type JointVariable } from "../../src/timedomain";
 import { relativeDifference } from "../helpers/close";

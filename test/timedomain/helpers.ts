@@ -1,4 +1,4 @@
-import { assemble } from "../../src/network/assemble";
+import { assemble } from "../../src/setup/assemble";
 import type { StateSpaceModel } from "../../src/network/model";
 import { loadSetup } from "../../src/pipeline";
 

@@ -2,7 +2,7 @@ import { readdirSync, readFileSync } from "node:fs";
 import { join } from "node:path";
 import { describe, expect, it } from "vitest";
 import { uncertaintyMargin } from "../../src/engine/covariance";
-import { assemble } from "../../src/network/assemble";
+import { assemble } from "../../src/setup/assemble";
 import { loadSetup } from "../../src/pipeline";
 import { conditionalSteadyState, conditionalTransient, groundCovariance, riccatiResidual, simulateTrajectory } from "../../src/timedomain";
 

@@ -1,7 +1,7 @@
 import { describe, expect, it } from "vitest";
 import { uncertaintyMargin } from "../../src/engine/covariance";
 import { QuietframeError } from "../../src/errors";
-import { assemble } from "../../src/network/assemble";
+import { assemble } from "../../src/setup/assemble";
 import { loadSetup } from "../../src/pipeline";
 import { conditionalSteadyState, conditionalTransient, groundCovariance, riccatiResidual } from "../../src/timedomain";
 import { relativeDifference } from "../helpers/close";

@@ -1,6 +1,6 @@
 import { describe, expect, it } from "vitest";
 import { QuietframeError } from "../../src/errors";
-import { assemble } from "../../src/network/assemble";
+import { assemble } from "../../src/setup/assemble";
 import { loadSetup } from "../../src/pipeline";
 import { MAX_STEPS, simulateTrajectory, startTrajectory, type SimulationSettings } from "../../src/timedomain";
 import { probedBody } from "../helpers/setups";

@@ -1,6 +1,6 @@
 import { describe, expect, it } from "vitest";
 import { outputSpectra } from "../../src/engine/spectra";
-import { assemble } from "../../src/network/assemble";
+import { assemble } from "../../src/setup/assemble";
 import { loadSetup } from "../../src/pipeline";
 import { conditionalTransient, simulateTrajectory, stationaryCovariance, type JointVariable } from "../../src/timedomain";
 import { probedBody } from "../helpers/setups";

@@ -1,6 +1,6 @@
 import { describe, expect, it } from "vitest";
 import { headlineFigures } from "../../src/engine/headline";
-import { parseGrid } from "../../src/engine/grid";
+import { parseGrid } from "../../src/setup/grid";
 import { log10 } from "../../src/numeric/portable-math";
 import { parseQuantity } from "../../src/units";
 import { evaluateSetup, loadSetup } from "../../src/pipeline";

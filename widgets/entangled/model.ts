@@ -1,6 +1,6 @@
 import { QuietframeError } from "../../src/errors";
 import { squeezeFactorFromDb } from "../../src/components/light-sources";
-import type { TwoModeSqueezing } from "../../src/components/two-mode-squeezing";
+import type { TwoModeSqueezing } from "../../src/physics/two-mode-squeezing";
 import {
   AMPLITUDE_CORRELATED,
   conditionalVariance,

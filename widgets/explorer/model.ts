@@ -1,6 +1,6 @@
 import { QuietframeError } from "../../src/errors";
 import { headlineFigures, type HeadlineFigures } from "../../src/engine/headline";
-import { parseGrid } from "../../src/engine/grid";
+import { parseGrid } from "../../src/setup/grid";
 import { tabulateBudget, type BudgetTable } from "../../src/engine/tabulate";
 import { evaluate, loadSetup, prepare, type Evaluation } from "../../src/pipeline";
 import { applyValues } from "../../src/setup/apply-values";

@@ -1,5 +1,5 @@
 import { inspect } from "node:util";
-import { logGrid } from "../../src/engine/grid";
+import { logGrid } from "../../src/setup/grid";
 import type { SetupDescription } from "../../src/setup/format";
 import { CellStatus, evaluateCell, type CellMessage } from "../../src/tolerance/evaluate";
 import { toleranceMap } from "../../src/tolerance/map";

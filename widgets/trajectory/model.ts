@@ -1,5 +1,5 @@
 import { QuietframeError } from "../../src/errors";
-import { assemble, type AssembledSetup } from "../../src/network/assemble";
+import { assemble, type AssembledSetup } from "../../src/setup/assemble";
 import { loadSetup, prepare, startSimulation } from "../../src/pipeline";
 import { applyValues } from "../../src/setup/apply-values";
 import type { SetupDescription } from "../../src/setup/format";

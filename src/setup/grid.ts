@@ -1,3 +1,7 @@
+/**
+ * The frequency grid of a set-up: read from its JSON with units, checked, and laid out
+ * log-spaced with exact bounds. Every frequency-domain result is evaluated on one.
+ */
 import { QuietframeError } from "../errors";
 import { parseQuantity } from "../units";
 import { log10, pow } from "../numeric/portable-math";

@@ -1,8 +1,8 @@
 /**
- * Small dense real matrices for the time-domain engine: row-major Float64Array, square
- * unless a shape is given. Plain loops, no allocation hidden behind operators.
+ * Arithmetic on small dense real matrices (row-major Float64Array, square unless a shape is
+ * given): products, transpose, congruence, symmetrizing, norms and blocks. Plain loops, no
+ * allocation hidden behind operators. Solving is in real-lu.ts.
  */
-import { realLuFactor, realLuSolve } from "../linalg/real-dense";
 
 export function identity(n: number): Float64Array {
   const out = new Float64Array(n * n);
@@ -85,16 +85,6 @@ export function allFinite(a: ArrayLike<number>): boolean {
   return true;
 }
 
-/** Solves M X = B (M n×n, B n×c) by LU with partial pivoting; M is left untouched. */
-export function solve(m: ArrayLike<number>, b: ArrayLike<number>, n: number, c: number): Float64Array {
-  const lu = Float64Array.from(m);
-  const piv = new Int32Array(n);
-  realLuFactor(lu, n, piv);
-  const x = Float64Array.from(b);
-  realLuSolve(lu, n, piv, x, c);
-  return x;
-}
-
 /** Block (r0.., c0..) of size r×c from an N-column matrix. */
 export function block(a: ArrayLike<number>, cols: number, r0: number, c0: number, r: number, c: number): Float64Array {
   const out = new Float64Array(r * c);
@@ -114,11 +104,4 @@ export function setBlock(
   scale = 1,
 ): void {
   for (let i = 0; i < r; i++) for (let j = 0; j < c; j++) target[(r0 + i) * cols + c0 + j] = scale * src[i * c + j];
-}
-
-/** 2^k for an integer k ≥ 0, by doubling (exact). */
-export function powerOfTwo(k: number): number {
-  let x = 1;
-  for (let i = 0; i < k; i++) x *= 2;
-  return x;
 }

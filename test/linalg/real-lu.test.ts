@@ -1,5 +1,5 @@
 import { beforeAll, describe, expect, it } from "vitest";
-import { realLuFactor, realLuSolve } from "../../src/linalg/real-dense";
+import { realLuFactor, realLuSolve } from "../../src/linalg/real-lu";
 import { SingularMatrixError } from "../../src/linalg/singular-error";
 import { maxAbs, randomMatrix, seededRandom, toRows } from "./helpers";
 import { type MathJsStatic, loadMathjs } from "./mathjs-reference";

@@ -1,6 +1,7 @@
 /**
  * Real dense LU with partial pivoting (row-major Float64Array), same conventions as
  * complexLuFactor: P A = L U stored in place, row k exchanged with piv[k] at step k.
+ * `solve` wraps factor and solve for callers that can afford two copies.
  */
 import { SingularMatrixError } from "./singular-error";
 
@@ -83,4 +84,14 @@ export function realLuSolve(
     const d = a[i * n + i];
     for (let c = 0; c < nrhs; c++) b[bi + c] /= d;
   }
+}
+
+/** Solves M X = B (M n×n, B n×c) by LU with partial pivoting; M and B are left untouched. */
+export function solve(m: ArrayLike<number>, b: ArrayLike<number>, n: number, c: number): Float64Array {
+  const lu = Float64Array.from(m);
+  const piv = new Int32Array(n);
+  realLuFactor(lu, n, piv);
+  const x = Float64Array.from(b);
+  realLuSolve(lu, n, piv, x, c);
+  return x;
 }

@@ -1,5 +1,3 @@
-import { expm1, tanh } from "../numeric/portable-math";
-
 /**
  * Noise of two-mode squeezed (EPR) light, shared by the entangled-source component and the
  * entanglement measures. Quadrature order: X1, P1, X2, P2 (amplitude and phase of arm 1,
@@ -12,6 +10,7 @@ import { expm1, tanh } from "../numeric/portable-math";
  * Power transmission η_j of arm j mixes in vacuum: c → η_j c + 1 − η_j on arm j's diagonal,
  * s → √(η1 η2) s off the diagonal.
  */
+import { expm1, tanh } from "../numeric/portable-math";
 
 export interface TwoModeSqueezing {
   /** Squeeze factor r ≥ 0 (at zero sideband frequency when a bandwidth is given). */

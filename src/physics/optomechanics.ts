@@ -1,8 +1,3 @@
-import { HBAR, SPEED_OF_LIGHT } from "../constants";
-import type { NetworkBuilder } from "../network/builder";
-import type { LinearForm } from "../network/linear-form";
-import type { MechanicalBody } from "./types";
-
 /**
  * Linearized radiation-pressure coupling in the project's quadratures. With a cavity
  * frequency ω_c(x) = ω_c − G x and a real mean intracavity amplitude ā, the interaction
@@ -10,6 +5,10 @@ import type { MechanicalBody } from "./types";
  *   dP/dt += g·δa1  (radiation-pressure force)   and   dδa2/dt += g·X  (phase readout).
  * A travelling-wave QND probe has the same structure with δa1 the incoming amplitude quadrature.
  */
+import { HBAR, SPEED_OF_LIGHT } from "../constants";
+import type { NetworkBuilder } from "../network/builder";
+import type { LinearForm } from "../network/linear-form";
+import type { MechanicalBody } from "./mechanical-body";
 export function pushOnBody(builder: NetworkBuilder, body: MechanicalBody, amplitude: LinearForm, g: number): void {
   builder.drive(body.mode.p, amplitude, g);
 }

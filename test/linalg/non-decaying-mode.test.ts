@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { findNonDecayingMode } from "../../src/linalg/stability";
+import { findNonDecayingMode } from "../../src/linalg/non-decaying-mode";
 import { fromRows, matMul, randomOrthogonal, seededRandom, transpose, uniform } from "./helpers";
 
 describe("findNonDecayingMode", () => {

@@ -1,8 +1,11 @@
 /**
- * Decides whether every mode of dz = A z dt decays, with a rounding-aware margin.
+ * Decides whether every mode of dz = A z dt decays, with a rounding-aware margin: the
+ * numerical predicate behind the Lyapunov solver. The user-facing stability report (which
+ * mode, in which component, why) is engine/stability.ts, built on the same eigenvalues.
  */
 import { irreducibleBlocks, principalSubmatrix } from "./block-triangular";
 import { realEigenvalues } from "./eigen";
+import { norm1 } from "./real-matrix";
 
 export interface NonDecayingMode {
   re: number;
@@ -26,13 +29,7 @@ export function findNonDecayingMode(a: Float64Array, n: number): NonDecayingMode
   for (const block of irreducibleBlocks(a, n)) {
     const m = block.length;
     const b = principalSubmatrix(a, n, block);
-    let norm = 0;
-    for (let j = 0; j < m; j++) {
-      let col = 0;
-      for (let i = 0; i < m; i++) col += Math.abs(b[i * m + j]);
-      norm = Math.max(norm, col);
-    }
-    const tol = MARGIN * norm;
+    const tol = MARGIN * norm1(b, m);
     const eig = realEigenvalues(b, m);
     for (let k = 0; k < m; k++) {
       const re = eig.re[k];

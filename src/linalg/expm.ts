@@ -4,7 +4,8 @@
  * (2005), Algorithm 2.3). Only + − × ÷ and an LU solve, so the result has the same bits in
  * every JavaScript engine.
  */
-import { identity, mul, norm1, solve } from "./dense";
+import { identity, mul, norm1 } from "./real-matrix";
+import { solve } from "./real-lu";
 
 /** Largest 1-norm for which degree m is accurate to double precision without scaling. */
 const THETA: readonly [number, number][] = [

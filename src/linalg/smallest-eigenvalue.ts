@@ -3,6 +3,11 @@
  * form, then bisection on the Sturm sequence count (Golub & Van Loan, Matrix Computations,
  * §8.3 and §8.4). About (4/3)m³ flops, a tenth of a Jacobi sweep sequence, which matters
  * when it runs at every stored point of a trajectory.
+ *
+ * A second job beside symmetric-eigen.ts (all eigenvalues by Jacobi), not a copy of it:
+ * Jacobi keeps tiny eigenvalues of graded matrices to high relative accuracy and serves
+ * the stationary physicality check; this one is for speed. The two round differently, and
+ * saved trajectory states hold this one's bits, so neither replaces the other.
  */
 
 /** Smallest eigenvalue of the symmetric m×m row-major `a` (only its lower triangle is read). */
@@ -75,29 +80,4 @@ function countBelow(d: Float64Array, e: Float64Array, m: number, x: number): num
     if (q < 0) count++;
   }
   return count;
-}
-
-/**
- * The uncertainty margin of engine/covariance.ts (smallest eigenvalue of V + iΣ/2, through
- * the real embedding [[V, −Σ/2], [Σ/2, V]] whose spectrum is that of V + iΣ/2 doubled), with
- * the faster solver above; used at every stored point of a run.
- */
-export function fastUncertaintyMargin(modes: readonly { x: number; p: number }[], v: ArrayLike<number>, n: number): number {
-  const m = 2 * n;
-  const e = new Float64Array(m * m);
-  for (let i = 0; i < n; i++) {
-    for (let j = 0; j < n; j++) {
-      const s = 0.5 * (v[i * n + j] + v[j * n + i]);
-      e[i * m + j] = s;
-      e[(i + n) * m + (j + n)] = s;
-    }
-  }
-  for (const mode of modes) {
-    // Im part: +1/2 at (x, p), −1/2 at (p, x); embedding puts −Im top right, +Im bottom left.
-    e[mode.x * m + (mode.p + n)] = -0.5;
-    e[mode.p * m + (mode.x + n)] = 0.5;
-    e[(mode.x + n) * m + mode.p] = 0.5;
-    e[(mode.p + n) * m + mode.x] = -0.5;
-  }
-  return smallestSymmetricEigenvalue(e, m);
 }

@@ -1,8 +1,3 @@
-import { BOLTZMANN, HBAR } from "../constants";
-import { displacementSql, oscillatorSusceptibility, thermalForcePsd, thermalOccupation, zeroPointDisplacementPsd } from "../reference/limits";
-import type { NetworkBuilder } from "../network/builder";
-import type { MechanicalBody, ReferenceCurve, SignalReference, ThermalBathInfo } from "./types";
-
 /**
  * Shared model of a mechanical degree of freedom with a signed mass m (negative mass =
  * inverted oscillator). In dimensionless quadratures x = x_s X, p = p_s P with x_s p_s = ħ:
@@ -14,6 +9,11 @@ import type { MechanicalBody, ReferenceCurve, SignalReference, ThermalBathInfo }
  * - symmetric (amplitude damping, the Lindblad form): −(γ/2)X and −(γ/2)P with noise on
  *   both; always physical; χ = 1/(m(Ω_m² + γ²/4 − Ω² − iγΩ)).
  */
+import { BOLTZMANN, HBAR } from "../constants";
+import { displacementSql, oscillatorSusceptibility, thermalForcePsd, thermalOccupation, zeroPointDisplacementPsd } from "../reference/limits";
+import type { NetworkBuilder } from "../network/builder";
+import type { MechanicalBody, ThermalBathInfo } from "./mechanical-body";
+import type { ReferenceCurve, SignalReference } from "./signal-reference";
 
 /** Scale frequency for a free mass; any positive value gives the same spectra. */
 const FREE_MASS_SCALE_OMEGA = 2 * Math.PI;

@@ -1,9 +1,14 @@
-import { QuietframeError } from "../errors";
+/**
+ * The assemble pass: a validated set-up becomes a state-space model. Components claim
+ * modes and inputs, light is wired through them in flow order, the signal is applied.
+ * It sits above components and network (which know nothing of set-ups).
+ */
 import type { MechanicalBody, ReferredQuantity, SignalReference } from "../components/types";
-import type { ResolvedSetup } from "../setup/validate";
-import { NetworkBuilder } from "./builder";
-import type { Field } from "./linear-form";
-import type { StateSpaceModel } from "./model";
+import { QuietframeError } from "../errors";
+import { NetworkBuilder } from "../network/builder";
+import type { Field } from "../network/linear-form";
+import type { StateSpaceModel } from "../network/model";
+import type { ResolvedSetup } from "./validate";
 
 /** A set-up turned into matrices, plus what is needed to read the results. */
 export interface AssembledSetup {
