@@ -60,9 +60,7 @@ describe("the unit and integration projects", () => {
   });
 
   it("put every test file in exactly one project", () => {
-    const wrong = TEST_FILES.map((file) => ({ file, projects: Object.keys(PROJECTS).filter((name) => inProject(file, PROJECTS[name]!)) })).filter(
-      (f) => f.projects.length !== 1,
-    );
+    const wrong = TEST_FILES.map((file) => ({ file, projects: Object.keys(PROJECTS).filter((name) => inProject(file, PROJECTS[name]!)) })).filter((f) => f.projects.length !== 1);
     expect(wrong).toEqual([]);
   });
 
