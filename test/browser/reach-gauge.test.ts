@@ -7,7 +7,7 @@ import type { SetupDescription } from "../../src/setup/format";
 import { parseQuantity } from "../../src/units";
 import { computeExplorer, createExplorerState } from "../../widgets/explorer/model";
 import { explorerReach } from "../../widgets/explorer/reach";
-import { explorerHtml, runtimeScriptTag } from "../../widgets/html/explorer-html";
+import { explorerHtml } from "../../widgets/html/explorer-html";
 import { reachSummary } from "../../widgets/html/summary";
 import type { ExplorerState } from "../../widgets/state/format";
 import { actionButton } from "./helpers/actions";

@@ -11,7 +11,7 @@ import {
   partialTransposeSymplecticEigenvalues,
   symplecticEigenvalues,
 } from "../../src/engine/entanglement";
-import { loadMathjs, type MathComplex, type MathJs, type MathMatrix } from "../helpers/mathjs";
+import { loadMathjs, type MathJs, type MathMatrix } from "../helpers/mathjs";
 
 /**
  * Entanglement measures of two modes, covariance over (X1, P1, X2, P2) with [X, P] = i and

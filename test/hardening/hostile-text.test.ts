@@ -7,7 +7,6 @@ import { toleranceMapInProcess, type ToleranceMap, type ToleranceMapSpec } from 
 import { createEntangledState } from "../../widgets/entangled/model";
 import { computeExplorer, createExplorerState } from "../../widgets/explorer/model";
 import { entangledHtml } from "../../widgets/html/entangled-html";
-import { escapeHtml } from "../../widgets/html/escape";
 import { explorerHtml } from "../../widgets/html/explorer-html";
 import { standalonePage } from "../../widgets/html/standalone";
 import { tolerancePage, toleranceHtml } from "../../widgets/html/tolerance-html";

@@ -46,7 +46,6 @@ export class EntangledPanelView {
   readonly element: HTMLElement;
   readonly ready: Promise<void>;
   private state: EntangledState | undefined;
-  private computation: EntangledComputation | undefined;
   private views: View[] = [];
   private readonly charts = el("div", { class: "qf-charts" });
   private readonly readout = el("dl", { class: "qf-readout", "aria-live": "polite" });
@@ -79,7 +78,6 @@ export class EntangledPanelView {
       const computation = computeEntangled(state);
       await this.draw(computation, state);
       this.state = state;
-      this.computation = computation;
       const live = el("div", { class: "qf-live" }, [el("strong", { class: "qf-title" }, [state.title]), this.controls(state), this.alert, this.charts, this.readout, this.actions()]);
       this.element.querySelector<HTMLElement>(".qf-fallback")?.setAttribute("hidden", "");
       this.element.append(live);
@@ -139,7 +137,6 @@ export class EntangledPanelView {
         const computation = computeEntangled(state);
         await this.draw(computation, state);
         this.state = state;
-        this.computation = computation;
         this.showNumbers(state, computation);
         this.alert.hidden = true;
         this.alert.textContent = "";

@@ -164,7 +164,7 @@ describe("summary and HTML", () => {
     });
     expect(s.best?.value).toBe(best);
     expect(s.best && s.best.j * 5 + s.best.i).toBe(at);
-    const ok = Array.from(map.values).filter((v, k) => map.status[k] === 0);
+    const ok = Array.from(map.values).filter((_v, k) => map.status[k] === 0);
     expect(s.atLeastNeutral).toBe(ok.filter((v) => v >= 0).length / 15);
     expect(s.atLeastTarget).toBe(ok.filter((v) => v >= 3).length / 15);
     const text = toleranceSummaryText(state);
