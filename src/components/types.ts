@@ -4,7 +4,6 @@
  */
 import type { NetworkBuilder } from "../network/builder";
 import type { Field } from "../network/linear-form";
-import type { ModeInfo } from "../network/model";
 import type { MechanicalBody } from "../physics/mechanical-body";
 import type { SignalReference } from "../physics/signal-reference";
 import type { QuantityKind } from "../units";

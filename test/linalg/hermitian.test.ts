@@ -1,7 +1,7 @@
 import { beforeAll, describe, expect, it } from "vitest";
 import fc from "fast-check";
 import { hermitianEmbedding, minEigenvalueHermitian } from "../../src/linalg/hermitian";
-import { randomMatrix, seededRandom, toRows } from "./helpers";
+import { randomMatrix, seededRandom } from "./helpers";
 import { type MathJsStatic, loadMathjs } from "./mathjs-reference";
 
 let math: MathJsStatic;
