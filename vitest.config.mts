@@ -21,11 +21,13 @@ export default defineConfig({
           // Every core (vitest's default leaves one free): the main process only waits on these
           // CPU-bound files, and on 2 cores one worker would take nearly twice as long.
           maxWorkers: availableParallelism(),
+          // Projects with different worker counts run as separate groups: the fast unit loop first.
+          sequence: { groupOrder: 0 },
         },
       },
       {
         extends: true,
-        test: { name: "integration", include: [...INTEGRATION_TESTS.include], exclude: [...INTEGRATION_TESTS.exclude] },
+        test: { name: "integration", include: [...INTEGRATION_TESTS.include], exclude: [...INTEGRATION_TESTS.exclude], sequence: { groupOrder: 1 } },
       },
     ],
   },

@@ -15,7 +15,7 @@
 /** Integration files, each with the reason it cannot run in the unit loop. */
 export const INTEGRATION_FILES: Readonly<Record<string, string>> = {
   "test/browser/**/*.test.ts": "headless Chromium on built pages, notebook exports and servers",
-  "test/cli/cli.test.ts": "spawns the built binary dist/src/cli/main.js",
+  "test/cli/binary.test.ts": "spawns the built binary dist/src/cli/main.js",
   "test/cli/render.test.ts": "spawns the built binary dist/src/cli/main.js",
   "test/hardening/hostile-page.test.ts": "headless Chromium",
   "test/kernel/kernel-conformance.test.ts": "Debian's jupyter_kernel_test against the built kernel",
