@@ -1,7 +1,7 @@
 import { QuietframeError } from "../errors";
 import { loadTrajectoryState } from "../../widgets/trajectory/document";
 import { trajectoryFigures } from "../../widgets/trajectory/figures";
-import { trajectoryPage } from "../../widgets/html/trajectory-html";
+import { trajectoryPage } from "../../widgets/trajectory/fragment";
 import type { CliIo } from "./run";
 
 /**

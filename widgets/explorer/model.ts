@@ -7,15 +7,15 @@ import { applyValues } from "../../src/setup/apply-values";
 import type { SetupDescription } from "../../src/setup/format";
 import type { ResolvedSetup } from "../../src/setup/validate";
 import { QUIETFRAME_VERSION } from "../../src/version";
-import { budgetFingerprint } from "../state/fingerprint";
+import { budgetFingerprint } from "./fingerprint";
 import {
   EXPLORER_STATE_FORMAT,
   EXPLORER_STATE_VERSION,
   type ControlSpec,
   type ExplorerSettings,
   type ExplorerState,
-} from "../state/format";
-import { resolveControls, resolveStateControls, type ResolvedControl } from "./controls";
+} from "./format";
+import { resolveControls, resolveStateControls, type ResolvedControl } from "../core/controls/setup-controls";
 
 /** Re-exported: widgets and notebooks write control values into set-ups with it. */
 export { applyValues };

@@ -1,6 +1,6 @@
 import { QuietframeError, QuietframeErrors } from "../../src/errors";
 import { inspiralHorizon, inspiralRange, strainCurve, type InspiralDistance } from "../../src/reach";
-import type { ExplorerState } from "../state/format";
+import type { ExplorerState } from "./format";
 import { computeExplorer, initialValues, type ExplorerComputation } from "./model";
 
 /**

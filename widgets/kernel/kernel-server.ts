@@ -2,7 +2,7 @@ import { AsyncLocalStorage } from "node:async_hooks";
 import { randomUUID } from "node:crypto";
 import { JupyterHandlerImpl, ZmqServer } from "tslab/dist/jupyter";
 import { QUIETFRAME_VERSION } from "../../src/version";
-import { CommManager, isFrontEndCommType } from "./comm-manager";
+import { CommManager, isFrontEndCommType } from "../core/comm/comm-manager";
 import { decodeMessage, encodeMessage, type MessageHeader, type OutgoingMessage, type SigningKey, type WireMessage } from "./wire";
 
 /**

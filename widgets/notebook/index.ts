@@ -9,17 +9,17 @@ import { loadSetupFile as readSetupFile } from "../../src/setup/load-file";
  *   w.state;             // plain, shareable state
  *   w.figures;           // headline figures and the plotted table
  */
-export { displayBundle, displayMarkdown, encodeBundle, kernelDisplayWriter, type DisplayOptions, type DisplayResult, type MimeBundle } from "./display";
-export { explorer, NotebookExplorer, type ExplorerInput, type ShowOptions } from "./explorer";
-export type { ControlValues, LiveChange } from "../live/live-explorer";
-export { entangledPanel, EntangledPanel, type EntangledFigures, type EntangledShowOptions } from "./entangled";
-export { trajectoryWidget, NotebookTrajectory, type TrajectoryChanges, type TrajectoryFiguresPlain, type TrajectoryShowOptions } from "./trajectory";
-export { chartBundle, showChart, VEGA_LITE_MIME } from "./chart";
-export { toleranceWidget, NotebookTolerance, type ToleranceWidgetOptions, type ToleranceShowOptions } from "./tolerance";
-export { notebookFigures, summaryText, type NotebookFigures } from "./figures";
-export { resetDisplaySession } from "./session";
+export { displayBundle, displayMarkdown, encodeBundle, kernelDisplayWriter, type DisplayOptions, type DisplayResult, type MimeBundle } from "../core/notebook/display";
+export { explorer, NotebookExplorer, type ExplorerInput, type ShowOptions } from "../explorer/notebook/explorer";
+export type { ControlValues, LiveChange } from "../explorer/live/live-explorer";
+export { entangledPanel, EntangledPanel, type EntangledFigures, type EntangledShowOptions } from "../entangled/notebook";
+export { trajectoryWidget, NotebookTrajectory, type TrajectoryChanges, type TrajectoryFiguresPlain, type TrajectoryShowOptions } from "../trajectory/notebook";
+export { chartBundle, showChart, VEGA_LITE_MIME } from "../explorer/notebook/chart";
+export { toleranceWidget, NotebookTolerance, type ToleranceWidgetOptions, type ToleranceShowOptions } from "../tolerance/notebook";
+export { notebookFigures, summaryText, type NotebookFigures } from "../explorer/notebook/figures";
+export { resetDisplaySession } from "../core/notebook/session";
 export { applyValues, type ExplorerOptions } from "../explorer/model";
-export type { ControlSpec, ExplorerSettings, ExplorerState } from "../state/format";
+export type { ControlSpec, ExplorerSettings, ExplorerState } from "../explorer/format";
 export type { SetupDescription } from "../../src/setup/format";
 
 /**

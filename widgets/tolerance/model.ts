@@ -7,8 +7,8 @@ import type { AxisScale, FigureInfo, ToleranceMapSpec } from "../../src/toleranc
 import { parseQuantity, type QuantityKind } from "../../src/units";
 import { QUIETFRAME_VERSION } from "../../src/version";
 import { createExplorerState } from "../explorer/model";
-import type { ControlSpec, ExplorerState } from "../state/format";
-import { parseUntrustedJson } from "../state/document";
+import type { ControlSpec, ExplorerState } from "../explorer/format";
+import { parseUntrustedJson } from "../explorer/document";
 
 /**
  * The tolerance-map widget's model: a finished map as plain JSON (it travels inside the

@@ -1,4 +1,4 @@
-import { renderPng, renderSvg, type RenderPngOptions, type RenderSvgOptions, type StaticFigures } from "../render/static";
+import { renderPng, renderSvg, type RenderPngOptions, type RenderSvgOptions, type StaticFigures } from "../core/render/static";
 import { trajectoryCsv } from "./csv";
 import type { TrajectoryState } from "./format";
 import { trajectoryTitle, type TrajectoryComputation } from "./model";

@@ -1,5 +1,5 @@
 import type { TrajectoryResult } from "../../src/timedomain/types";
-import { seriesFingerprint } from "../state/series-fingerprint";
+import { seriesFingerprint } from "../core/state/series-fingerprint";
 
 /**
  * Fingerprint of a simulated run: SHA-256 over the exact IEEE-754 doubles (little-endian) of
