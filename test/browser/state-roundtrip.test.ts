@@ -7,7 +7,7 @@ import type { Page } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { tableToCsv } from "../../src/engine/tabulate";
 import { computeExplorer } from "../../widgets/explorer/model";
-import { STATE_SCRIPT_CLASS } from "../../widgets/core/page/names";
+import { STATE_SCRIPT_CLASS } from "../../widgets/explorer/names";
 import { loadExplorerState, parseExplorerState } from "../../widgets/explorer/document";
 import type { ExplorerState } from "../../widgets/explorer/format";
 import { createJupyterEnv, REPO_ROOT, type JupyterEnv } from "../jupyter/env";

@@ -5,7 +5,7 @@ import { pathToFileURL } from "node:url";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { FINGERPRINT_ATTRIBUTE, STATUS_ATTRIBUTE } from "../../widgets/core/page/names";
 import { htmlDocument } from "../../widgets/core/page/html-document";
-import { trajectoryHtml } from "../../widgets/trajectory/fragment";
+import { trajectoryHtml } from "../../widgets/trajectory/html";
 import { loadTrajectoryState, trajectoryDocumentText } from "../../widgets/trajectory/document";
 import type { TrajectoryState } from "../../widgets/trajectory/format";
 import { computeTrajectory, createTrajectoryState } from "../../widgets/trajectory/model";

@@ -8,7 +8,7 @@ import { computeExplorer, createExplorerState } from "../../widgets/explorer/mod
 import { curvesFromWire, type WireCurves } from "../../widgets/explorer/live/chart-wire";
 import { LiveExplorer, type LiveChange } from "../../widgets/explorer/live/live-explorer";
 import { CHART_MODEL_NAME, CHART_VIEW_NAME, LIVE_MODULE } from "../../widgets/explorer/live/names";
-import type { ControlSpec } from "../../widgets/explorer/format";
+import type { ControlSpec } from "../../widgets/core/controls/control-spec";
 import { QUIETFRAME_VERSION } from "../../src/version";
 import { pow } from "../../src/numeric/portable-math";
 import { FakeHost, type FakeModel } from "./fake-host";

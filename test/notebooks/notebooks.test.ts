@@ -2,7 +2,7 @@ import { mkdtempSync, readdirSync, readFileSync, rmSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { EXPLORER_CLASS } from "../../widgets/core/page/names";
+import { EXPLORER_CLASS } from "../../widgets/explorer/names";
 import { RUNTIME_FILE } from "../../widgets/core/page/runtime-source";
 import { loadExplorerState } from "../../widgets/explorer/document";
 import { isTrajectoryInput, loadTrajectoryState } from "../../widgets/trajectory/document";

@@ -1,50 +1,44 @@
+/** The entangled-light panel's page fragment and standalone page. Pure: the runtime's text is passed in (html.ts reads it in Node). */
 import { QUIETFRAME_VERSION } from "../../src/version";
 import { computeEntangled, entangledStateText, entangledSummary, type EntangledComputation, type EntangledState } from "./model";
 import { ENTANGLED_CLASS, ENTANGLED_NUMBER_ATTRIBUTES, ENTANGLED_STATE_CLASS } from "./names";
-import { base64, escapeHtml, jsonTextForScript } from "../core/page/escape";
-import { runtimeSource } from "../core/page/runtime-source";
-import { bootstrapScriptTag } from "../explorer/fragment";
-import { STATUS_ATTRIBUTE } from "../core/page/names";
+import { escapeHtml, jsonTextForScript } from "../core/page/escape";
+import { bootstrapScriptTag, runtimeScriptTag } from "../core/page/bootstrap";
+import { fallbackNote, fallbackPng, fallbackStyle, summaryListHtml } from "../core/page/fallback";
+import { VERSION_ATTRIBUTE } from "../core/page/names";
+import type { FragmentParts, PageParts } from "../core/page/parts";
 import { plainSvg } from "../core/page/plain-svg";
+import { standaloneShell } from "../core/page/standalone-shell";
 
-export interface EntangledHtmlOptions {
-  /** Carry the browser runtime in this fragment (once per page or notebook). */
-  includeRuntime: boolean;
-  /** Static SVG of the panel (from renderSvg), shown until the runtime boots. */
-  svg?: string;
-  /** Static PNG (bytes), shown where inline SVG is stripped. */
-  png?: Uint8Array;
-}
-
-const FALLBACK_STYLE =
-  `.${ENTANGLED_CLASS} .qf-fallback svg+img.qf-fallback-png{display:none}` +
-  `.${ENTANGLED_CLASS} .qf-fallback img,.${ENTANGLED_CLASS} .qf-fallback svg{max-width:100%;height:auto}`;
+const FALLBACK_STYLE = fallbackStyle(ENTANGLED_CLASS);
 
 /**
  * A self-contained fragment for one entangled-light panel: static figure and the numbers as
  * text, the state as application/json, and a bootstrap that starts the live panel.
  */
-export function entangledHtml(state: EntangledState, options: EntangledHtmlOptions, computation: EntangledComputation = computeEntangled(state)): string {
+export function entangledFragment(state: EntangledState, parts: FragmentParts, computation: EntangledComputation = computeEntangled(state)): string {
   const numbers = Object.entries(ENTANGLED_NUMBER_ATTRIBUTES)
     .map(([key, attr]) => ` ${attr}="${escapeHtml(String(computation[key as keyof typeof ENTANGLED_NUMBER_ATTRIBUTES]))}"`)
     .join("");
-  const parts: string[] = [];
-  parts.push(`<div class="${ENTANGLED_CLASS}" data-quietframe-version="${escapeHtml(QUIETFRAME_VERSION)}"${numbers}>`);
-  parts.push(`<style>${FALLBACK_STYLE}</style>`);
-  parts.push(`<div class="qf-fallback">`);
-  if (options.svg !== undefined) parts.push(plainSvg(options.svg));
-  if (options.png !== undefined) parts.push(`<img class="qf-fallback-png" alt="${escapeHtml(`Entangled light: ${state.title}`)}" src="data:image/png;base64,${base64(options.png)}">`);
-  parts.push(`<p class="qf-fallback-title"><strong>${escapeHtml(state.title)}</strong></p>`);
-  const items = entangledSummary(state, computation).map((l) => `<dt>${escapeHtml(l.label)}</dt><dd>${escapeHtml(l.text)}</dd>`).join("");
-  parts.push(`<dl class="qf-summary">${items}</dl>`);
-  parts.push(`<p class="qf-fallback-note"><small>Static figure: the controls appear where scripts run (a trusted notebook or a browser page).</small></p>`);
-  parts.push(`</div>`);
-  parts.push(`<script type="application/json" class="${ENTANGLED_STATE_CLASS}">${jsonTextForScript(entangledStateText(state))}</script>`);
-  parts.push(`</div>`);
-  if (options.includeRuntime) parts.push(`<script>${runtimeSource()}</script>`);
+  const out: string[] = [];
+  out.push(`<div class="${ENTANGLED_CLASS}" ${VERSION_ATTRIBUTE}="${escapeHtml(QUIETFRAME_VERSION)}"${numbers}>`);
+  out.push(`<style>${FALLBACK_STYLE}</style>`);
+  out.push(`<div class="qf-fallback">`);
+  if (parts.svg !== undefined) out.push(plainSvg(parts.svg));
+  if (parts.png !== undefined) out.push(fallbackPng(parts.png, `Entangled light: ${state.title}`));
+  out.push(`<p class="qf-fallback-title"><strong>${escapeHtml(state.title)}</strong></p>`);
+  out.push(summaryListHtml(entangledSummary(state, computation)));
+  out.push(fallbackNote("Static figure: the controls appear where scripts run (a trusted notebook or a browser page)."));
+  out.push(`</div>`);
+  out.push(`<script type="application/json" class="${ENTANGLED_STATE_CLASS}">${jsonTextForScript(entangledStateText(state))}</script>`);
+  out.push(`</div>`);
+  if (parts.runtime !== undefined) out.push(runtimeScriptTag(parts.runtime));
   // The shared bootstrap: it also says, after a while, when the page never got the runtime.
-  parts.push(bootstrapScriptTag());
-  return parts.join("\n");
+  out.push(bootstrapScriptTag());
+  return out.join("\n");
 }
 
-export { STATUS_ATTRIBUTE };
+/** A standalone page holding one live panel; it needs no network. */
+export function entangledPageDocument(state: EntangledState, parts: PageParts, computation: EntangledComputation = computeEntangled(state)): string {
+  return standaloneShell(state.title, [entangledFragment(state, { svg: parts.svg, png: parts.png }, computation)], parts.runtime);
+}

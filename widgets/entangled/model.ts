@@ -13,7 +13,7 @@ import {
 } from "../../src/engine/entanglement";
 import { cos, log10, pow, sin } from "../../src/numeric/portable-math";
 import { QUIETFRAME_VERSION } from "../../src/version";
-import { parseUntrustedJson } from "../explorer/document";
+import { parseUntrustedJson } from "../core/state/state-text";
 
 /**
  * The entangled-light panel's model: a two-mode squeezed source with per-arm losses and an

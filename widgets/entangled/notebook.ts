@@ -11,10 +11,10 @@ import {
   type EntangledState,
 } from "./model";
 import { panelSpec } from "./specs";
-import { entangledHtml } from "./fragment";
+import { entangledHtml } from "./html";
 import { renderPng, renderSvg, type RenderPngOptions } from "../core/render/static";
-import { displayBundle, type MimeBundle } from "../core/notebook/display";
-import { markRuntimeShown, runtimeShown } from "../core/notebook/session";
+import type { MimeBundle } from "../core/notebook/display";
+import { showWidgetOutput } from "../core/notebook/show-output";
 
 export interface EntangledShowOptions {
   /** Carry the browser runtime in this output (default: only if no widget carried it yet in this kernel). */
@@ -130,9 +130,7 @@ export class EntangledPanel {
 
   /** Displays the panel; write `await p.show()` (the fallback image is drawn asynchronously). */
   async show(options: EntangledShowOptions = {}): Promise<void> {
-    const includeRuntime = options.includeRuntime ?? !runtimeShown();
-    const result = displayBundle(await this.bundle({ ...options, includeRuntime }));
-    if (includeRuntime && result.via !== "none") markRuntimeShown();
+    await showWidgetOutput(options.includeRuntime, (includeRuntime) => this.bundle({ ...options, includeRuntime }));
   }
 
   toString(): string {

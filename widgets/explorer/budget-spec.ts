@@ -1,4 +1,6 @@
 import type { BudgetTable } from "../../src/engine/tabulate";
+import type { ExplorerState } from "./format";
+import type { ExplorerComputation } from "./model";
 
 /**
  * Vega-Lite (v5) chart of a noise budget: log–log lines of the total, each budget term and
@@ -96,4 +98,9 @@ export function budgetSpec(table: BudgetTable, quantity: string, options: Budget
     },
     config: { font: "sans-serif", view: { stroke: "#cccccc" }, line: { strokeCap: "round" } },
   };
+}
+
+/** The Vega-Lite spec of an explorer's chart; the title is the state's, or the set-up's name. */
+export function explorerFigureSpec(computation: ExplorerComputation, state: Pick<ExplorerState, "settings">): Record<string, unknown> {
+  return budgetSpec(computation.table, computation.evaluation.budget.quantity.name, { title: state.settings.title ?? computation.setup.name });
 }

@@ -1,18 +1,10 @@
 import { QuietframeError } from "../../src/errors";
 import { loadSetup } from "../../src/pipeline";
-import { parseJsonText } from "../../src/setup/parse-json";
 import type { SetupDescription } from "../../src/setup/format";
 import { QUIETFRAME_VERSION } from "../../src/version";
 import { computeExplorer, type ExplorerComputation } from "./model";
-import {
-  EXPLORER_MODEL_NAME,
-  EXPLORER_STATE_FORMAT,
-  EXPLORER_STATE_VERSION,
-  WIDGET_MODULE,
-  type ExplorerSettings,
-  type ExplorerState,
-  type JupyterWidgetStateDocument,
-} from "./format";
+import { EXPLORER_MODEL_NAME, EXPLORER_STATE_FORMAT, EXPLORER_STATE_VERSION, type ExplorerSettings, type ExplorerState } from "./format";
+import { WIDGET_MODULE, type JupyterWidgetStateDocument } from "../core/state/widget-state";
 import {
   copyJson,
   expectArray,
@@ -25,6 +17,7 @@ import {
   singleModelDocument,
   VERSION_PATTERN,
 } from "../core/state/strict-read";
+import { parseStateText } from "../core/state/state-text";
 import { checkControlSpec, checkControlValues, expectString, expectWord } from "../core/state/control-read";
 
 /**
@@ -32,12 +25,6 @@ import { checkControlSpec, checkControlValues, expectString, expectWord } from "
  * holding one explorer model. Reading is strict (unknown or mistyped fields are errors with
  * their path) and builds fresh objects, so nothing in the input can reach a prototype.
  */
-
-/** Key of the widget state in notebook metadata and the media type of state files. */
-export const WIDGET_STATE_MIME = "application/vnd.jupyter.widget-state+json";
-
-/** Largest state text accepted (UTF-8 bytes); real states are a few kilobytes. */
-export const MAX_STATE_TEXT_BYTES = 5 * 1024 * 1024;
 
 const STATE_KEYS = ["format", "version", "quietframe", "setup", "controls", "values", "settings", "fingerprint"] as const;
 const SETTINGS_KEYS = ["grid", "spectralDensity", "title"] as const;
@@ -86,7 +73,7 @@ export function loadExplorerState(input: string | unknown, source = "state"): Lo
 }
 
 function locateState(input: unknown, source: string): { state: ExplorerState; path: string } {
-  const value = typeof input === "string" ? parseText(input, source) : input;
+  const value = typeof input === "string" ? parseStateText(input, source) : input;
   const top = expectRecord(value, source, "a widget-state document or an explorer state (a JSON object)");
   if (hasOwn(top, "format")) return { state: checkState(top, source), path: source };
   if (!hasOwn(top, "version_major")) {
@@ -127,44 +114,6 @@ function locateState(input: unknown, source: string): { state: ExplorerState; pa
   }
   const statePath = `${modelPath}.state`;
   return { state: checkState(model.state, statePath), path: statePath };
-}
-
-/**
- * JSON text of any quietframe state read from a file or a page (tolerance maps, panels): the
- * same size limit as state documents, and a copy that holds only JSON data, refusing
- * `__proto__`, `constructor` and `prototype` keys anywhere with their path.
- */
-export function parseUntrustedJson(text: string, source = "state"): unknown {
-  return copyJson(parseText(text, source), source, -MAX_UNTRUSTED_EXTRA_DEPTH);
-}
-// Tolerance-map states nest a set-up inside a few levels of their own.
-const MAX_UNTRUSTED_EXTRA_DEPTH = 8;
-
-function parseText(text: string, source: string): unknown {
-  // Each UTF-16 unit is at least one UTF-8 byte, so long text is refused before counting.
-  const bytes = text.length > MAX_STATE_TEXT_BYTES ? text.length : utf8Length(text);
-  if (bytes > MAX_STATE_TEXT_BYTES) {
-    throw new QuietframeError({
-      path: source,
-      problem: `is ${text.length > MAX_STATE_TEXT_BYTES ? "at least " : ""}${bytes} bytes of text, more than the ${MAX_STATE_TEXT_BYTES}-byte limit`,
-      allowed: `a state document of at most ${MAX_STATE_TEXT_BYTES} bytes (5 MiB)`,
-    });
-  }
-  return parseJsonText(text, source);
-}
-
-function utf8Length(text: string): number {
-  let n = 0;
-  for (let i = 0; i < text.length; i++) {
-    const c = text.charCodeAt(i);
-    if (c < 0x80) n += 1;
-    else if (c < 0x800) n += 2;
-    else if (c >= 0xd800 && c <= 0xdbff && i + 1 < text.length && (text.charCodeAt(i + 1) & 0xfc00) === 0xdc00) {
-      n += 4;
-      i++;
-    } else n += 3;
-  }
-  return n;
 }
 
 /** Checks an explorer state field by field and returns a fresh copy of it. */

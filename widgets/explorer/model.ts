@@ -8,13 +8,8 @@ import type { SetupDescription } from "../../src/setup/format";
 import type { ResolvedSetup } from "../../src/setup/validate";
 import { QUIETFRAME_VERSION } from "../../src/version";
 import { budgetFingerprint } from "./fingerprint";
-import {
-  EXPLORER_STATE_FORMAT,
-  EXPLORER_STATE_VERSION,
-  type ControlSpec,
-  type ExplorerSettings,
-  type ExplorerState,
-} from "./format";
+import { EXPLORER_STATE_FORMAT, EXPLORER_STATE_VERSION, type ExplorerSettings, type ExplorerState } from "./format";
+import { type ControlSpec } from "../core/controls/control-spec";
 import { resolveControls, resolveStateControls, type ResolvedControl } from "../core/controls/setup-controls";
 
 /** Re-exported: widgets and notebooks write control values into set-ups with it. */

@@ -1,16 +1,12 @@
+/** The explorer's standalone page (one explorer and a panel to open another state). Pure: see html.ts for Node. */
 import { QUIETFRAME_VERSION } from "../../src/version";
 import type { ExplorerComputation } from "./model";
 import type { ExplorerState } from "./format";
 import { escapeHtml } from "../core/page/escape";
-import { chartTitle, explorerHtml, runtimeScriptTag } from "./fragment";
-import { LOADER_CLASS } from "../core/page/names";
-import { htmlDocument } from "../core/page/html-document";
-
-/** Static figures for the page's fallback (see ExplorerHtmlOptions). */
-export interface StandaloneFigures {
-  svg?: string;
-  png?: Uint8Array;
-}
+import { chartTitle, explorerFragment } from "./fragment";
+import { LOADER_CLASS } from "./names";
+import type { PageParts } from "../core/page/parts";
+import { standaloneShell } from "../core/page/standalone-shell";
 
 export const WIDGET_SLOT_ID = "quietframe-widget";
 
@@ -26,10 +22,10 @@ footer{margin-top:2rem;color:#666;font-size:.85rem}
  * file, rendered by the same runtime. It needs no network: runtime, state and figures are
  * all inline, and nothing refers to an outside URL.
  */
-export function standalonePage(state: ExplorerState, computation: ExplorerComputation, figures: StandaloneFigures = {}): string {
+export function explorerPage(state: ExplorerState, computation: ExplorerComputation, parts: PageParts): string {
   const title = chartTitle(state) || "noise budget";
-  const widget = explorerHtml(state, computation, { includeRuntime: false, svg: figures.svg, png: figures.png });
-  return htmlDocument(
+  const widget = explorerFragment(state, computation, { svg: parts.svg, png: parts.png });
+  return standaloneShell(
     title,
     [
       `<div id="${WIDGET_SLOT_ID}">`,
@@ -44,9 +40,9 @@ export function standalonePage(state: ExplorerState, computation: ExplorerComput
       `<div class="qf-loader-alert" role="alert" hidden></div>`,
       "</section>",
       `<footer>Made with quietframe ${escapeHtml(QUIETFRAME_VERSION)}. The numbers are recomputed in this page from the state; the fingerprint shows whether they match the stored ones bit for bit.</footer>`,
-      // The runtime boots every widget on the page, and the loader panel, as it installs.
-      runtimeScriptTag(),
     ],
+    // The runtime, last, boots every widget on the page, and the loader panel, as it installs.
+    parts.runtime,
     PAGE_STYLE,
   );
 }

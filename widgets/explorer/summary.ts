@@ -1,15 +1,9 @@
 import type { HeadlineFigures } from "../../src/engine/headline";
 import { formatQuantity } from "../../src/units";
 import type { ReachFigures } from "./reach";
+import type { SummaryLine } from "../core/page/summary-line";
 
-/**
- * The headline figures as short labelled lines of plain text. The static fallback and the
- * live readout both show these, so a reader without scripts sees the same numbers.
- */
-export interface SummaryLine {
-  readonly label: string;
-  readonly text: string;
-}
+/** The explorer's headline figures and reach gauge as summary lines (see core/page/summary-line.ts). */
 
 const hz = (f: number): string => formatQuantity(f, "frequency", 5);
 
@@ -34,9 +28,6 @@ export function headlineSummary(h: HeadlineFigures): SummaryLine[] {
   });
   return lines;
 }
-
-/** Heading of the safety box (live widget and static fallback) above the components' cautions. */
-export const CAUTION_HEADING = "Safety caution";
 
 /** The label of the reach line, e.g. "Inspiral reach (1.4 + 1.4 M☉, SNR 8)". */
 export function reachLabel(reach: ReachFigures): string {

@@ -1,61 +1,48 @@
-import { QUIETFRAME_VERSION } from "../../src/version";
-import { EXPLORER_CLASS, RUNTIME_READY_EVENT } from "../core/page/names";
-import { ExplorerWidget } from "../explorer/browser/explorer-view";
-import { bootNew } from "../core/browser/boot";
-import { bootLoaders } from "../explorer/browser/loader";
-import { bootEntangledPanels } from "../entangled/browser/entangled-view";
-import { injectStyles } from "../explorer/browser/styles";
-import { bootTolerance, type ToleranceWidget } from "../tolerance/browser/tolerance-view";
-import { bootTrajectoryWidgets } from "../trajectory/browser/trajectory-view";
-
 /**
- * The browser runtime: boots every explorer element on the page that has not booted yet.
- * Notebooks call `boot()` again from each later output's bootstrap, so one copy of the
- * runtime serves every widget on the page.
+ * The browser runtime (bundled by scripts/build-runtime.js into dist/widgets/runtime.js): boots
+ * the view of every kind in the registry on each widget element that has not booted yet.
+ * Notebooks call `boot()` again from each later output's bootstrap, so one copy of the runtime
+ * serves every widget on the page.
  */
+import { changeset, parse, View } from "vega";
+import { compile } from "vega-lite";
+import { QUIETFRAME_VERSION } from "../../src/index";
+import { provideVega } from "../core/browser/vega";
+import type { BootContext, LiveWidget } from "../core/kind";
+import { RUNTIME_READY_EVENT } from "../core/page/names";
+import { WIDGET_KINDS } from "../registry";
+
 export interface QuietframeRuntime {
   readonly version: string;
-  /** Boots new explorer elements (and loader panels) under root; returns the widgets started. */
-  boot(root?: ParentNode): ExplorerWidget[];
-  /** Live widgets, in boot order; widgets whose element left the page are dropped. */
-  readonly widgets: readonly ExplorerWidget[];
-  /** Live tolerance maps, in boot order. */
-  readonly toleranceMaps: readonly ToleranceWidget[];
+  /** Boots the new widgets of every kind under root; returns the widgets started. */
+  boot(root?: ParentNode): LiveWidget[];
+  /** The live widgets of one kind (by its name in the registry), in boot order. */
+  live(kind: string): readonly LiveWidget[];
+  /** Each kind's live widgets also appear under the name its view gives (e.g. `widgets` for explorers). */
+  readonly [list: string]: unknown;
 }
 
 function install(): QuietframeRuntime {
-  const live: ExplorerWidget[] = [];
-  const toleranceMaps: ToleranceWidget[] = [];
-  const prune = (): void => {
-    for (let i = live.length - 1; i >= 0; i--) {
-      if (!live[i].element.isConnected) live.splice(i, 1)[0].dispose();
-    }
+  const views = WIDGET_KINDS.map((k) => k.view);
+  const context: BootContext = {
+    boot: (root) => void boot(root),
+    release: (slot) => {
+      for (const view of views) view.release(slot);
+    },
   };
-  const release = (slot: Element): void => {
-    for (let i = live.length - 1; i >= 0; i--) {
-      if (slot.contains(live[i].element)) live.splice(i, 1)[0].dispose();
-    }
-  };
-  const boot = (root: ParentNode = document): ExplorerWidget[] => {
-    injectStyles(document);
-    const started = bootNew(root, EXPLORER_CLASS, live, (element) => new ExplorerWidget(element));
-    bootLoaders(root, boot, release);
-    bootTolerance(root, boot, toleranceMaps);
-    bootEntangledPanels(root);
-    bootTrajectoryWidgets(root);
-    return started;
-  };
-  return {
+  const boot = (root: ParentNode = document): LiveWidget[] => views.flatMap((view) => [...view.boot(root, context)]);
+  const runtime: Record<string, unknown> = {
     version: QUIETFRAME_VERSION,
     boot,
-    get widgets() {
-      prune();
-      return [...live];
-    },
-    get toleranceMaps() {
-      return [...toleranceMaps];
-    },
+    live: (name: string) => [...(WIDGET_KINDS.find((k) => k.name === name)?.view.live() ?? [])],
   };
+  for (const view of views) {
+    const exposed = view.exposeAs;
+    if (exposed?.runtime) Object.defineProperty(runtime, exposed.runtime, { get: () => [...view.live()], enumerable: true });
+    // A second runtime copy on the page never installs; the first copy's lists stay the ones to read.
+    if (exposed?.window) (window as unknown as Record<string, unknown>)[exposed.window] ??= () => [...view.live()];
+  }
+  return runtime as QuietframeRuntime;
 }
 
 declare global {
@@ -63,6 +50,9 @@ declare global {
     quietframeRuntime?: QuietframeRuntime;
   }
 }
+
+// The views draw with this bundle's Vega (the trimmed one of core/browser/vega-slim.ts).
+provideVega({ parse, View, changeset, compile });
 
 // A notebook may carry the runtime more than once (a re-run cell); the first copy stays in charge.
 const runtime = window.quietframeRuntime ?? install();

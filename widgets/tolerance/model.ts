@@ -7,8 +7,9 @@ import type { AxisScale, FigureInfo, ToleranceMapSpec } from "../../src/toleranc
 import { parseQuantity, type QuantityKind } from "../../src/units";
 import { QUIETFRAME_VERSION } from "../../src/version";
 import { createExplorerState } from "../explorer/model";
-import type { ControlSpec, ExplorerState } from "../explorer/format";
-import { parseUntrustedJson } from "../explorer/document";
+import type { ExplorerState } from "../explorer/format";
+import type { ControlSpec } from "../core/controls/control-spec";
+import { parseUntrustedJson } from "../core/state/state-text";
 
 /**
  * The tolerance-map widget's model: a finished map as plain JSON (it travels inside the

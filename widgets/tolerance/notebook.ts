@@ -6,13 +6,13 @@ import { toleranceMap } from "../../src/tolerance/map";
 import type { ToleranceMap, ToleranceMapOptions } from "../../src/tolerance/run";
 import { resolveToleranceSpec, type ToleranceMapSpec } from "../../src/tolerance/spec";
 import { computeExplorer } from "../explorer/model";
-import { toleranceHtml } from "./fragment";
+import { toleranceHtml } from "./html";
 import { renderPng, renderSvg, type RenderPngOptions } from "../core/render/static";
 import { toleranceHeatmapSpec } from "./heatmap-spec";
 import { cellExplorerState, toleranceSummary, toleranceSummaryText, toleranceWidgetState, type ToleranceSettings, type ToleranceSummary, type ToleranceWidgetState } from "./model";
-import { displayBundle, type MimeBundle } from "../core/notebook/display";
+import type { MimeBundle } from "../core/notebook/display";
 import { NotebookExplorer } from "../explorer/notebook/explorer";
-import { markRuntimeShown, runtimeShown } from "../core/notebook/session";
+import { showWidgetOutput } from "../core/notebook/show-output";
 
 export interface ToleranceWidgetOptions extends ToleranceMapOptions, ToleranceSettings {}
 
@@ -75,9 +75,7 @@ export class NotebookTolerance {
 
   /** Displays the map; write `await w.show()`. */
   async show(options: ToleranceShowOptions = {}): Promise<void> {
-    const includeRuntime = options.includeRuntime ?? !runtimeShown();
-    const result = displayBundle(await this.bundle({ ...options, includeRuntime }));
-    if (includeRuntime && result.via !== "none") markRuntimeShown();
+    await showWidgetOutput(options.includeRuntime, (includeRuntime) => this.bundle({ ...options, includeRuntime }));
   }
 
   toString(): string {

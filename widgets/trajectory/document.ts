@@ -2,8 +2,8 @@ import { QuietframeError } from "../../src/errors";
 import { parseJsonText } from "../../src/setup/parse-json";
 import type { SetupDescription } from "../../src/setup/format";
 import { QUIETFRAME_VERSION } from "../../src/version";
-import { MAX_STATE_TEXT_BYTES } from "../explorer/document";
-import { WIDGET_MODULE, type JupyterWidgetStateDocument } from "../explorer/format";
+import { MAX_STATE_TEXT_BYTES } from "../core/state/state-text";
+import { WIDGET_MODULE, type JupyterWidgetStateDocument } from "../core/state/widget-state";
 import {
   copyJson,
   expectArray,

@@ -11,7 +11,7 @@ import type { JointVariable, TrajectoryRequest, TrajectoryResult, TrajectoryRun 
 import { QUIETFRAME_VERSION } from "../../src/version";
 import { resolveStateControls, type ResolvedControl } from "../core/controls/setup-controls";
 import { setupValues } from "../explorer/model";
-import type { ControlSpec } from "../explorer/format";
+import type { ControlSpec } from "../core/controls/control-spec";
 import { trajectoryFingerprint } from "./fingerprint";
 import { TRAJECTORY_STATE_FORMAT, TRAJECTORY_STATE_VERSION, type SimulationSpec, type TrajectoryState } from "./format";
 import { checkJoint, checkPair } from "./joint";

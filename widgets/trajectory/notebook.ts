@@ -3,15 +3,15 @@ import { QuietframeError } from "../../src/errors";
 import type { SetupDescription } from "../../src/setup/format";
 import { parseJsonText } from "../../src/setup/parse-json";
 import type { JointVariable } from "../../src/timedomain/types";
-import { trajectoryHtml } from "./fragment";
+import { trajectoryHtml } from "./html";
 import type { RenderPngOptions } from "../core/render/static";
 import { isTrajectoryInput, loadTrajectoryState, rebased, trajectoryDocumentText } from "./document";
 import { trajectoryFigures } from "./figures";
 import type { SimulationSpec, TrajectoryState } from "./format";
 import { computeTrajectory, newTrajectory, trajectoryTitle, withComputation, type ComputeOptions, type TrajectoryComputation, type TrajectoryOptions } from "./model";
 import { trajectorySummary } from "./summary";
-import { displayBundle, type MimeBundle } from "../core/notebook/display";
-import { markRuntimeShown, runtimeShown } from "../core/notebook/session";
+import type { MimeBundle } from "../core/notebook/display";
+import { showWidgetOutput } from "../core/notebook/show-output";
 
 export interface TrajectoryShowOptions {
   /** Carry the browser runtime in this output (default: only if no widget carried it yet in this kernel). */
@@ -157,9 +157,7 @@ export class NotebookTrajectory {
 
   /** Displays the widget; write `await w.show()` (the fallback image is drawn asynchronously). */
   async show(options: TrajectoryShowOptions = {}): Promise<void> {
-    const includeRuntime = options.includeRuntime ?? !runtimeShown();
-    const result = displayBundle(await this.bundle({ ...options, includeRuntime }));
-    if (includeRuntime && result.via !== "none") markRuntimeShown();
+    await showWidgetOutput(options.includeRuntime, (includeRuntime) => this.bundle({ ...options, includeRuntime }));
   }
 
   toString(): string {

@@ -1,7 +1,7 @@
 import { describe, expect, it } from "vitest";
 import { computeEntangled, createEntangledState, loadEntangledState } from "../../../widgets/entangled/model";
 import { ENTANGLED_CLASS, ENTANGLED_STATE_CLASS } from "../../../widgets/entangled/names";
-import { entangledHtml } from "../../../widgets/entangled/fragment";
+import { entangledHtml } from "../../../widgets/entangled/html";
 import { escapeHtml } from "../../../widgets/core/page/escape";
 import { entangledPanel } from "../../../widgets/entangled/notebook";
 

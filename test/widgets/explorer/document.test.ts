@@ -3,15 +3,10 @@ import fc from "fast-check";
 import { describe, expect, test } from "vitest";
 import { QuietframeError, QuietframeErrors } from "../../../src/errors";
 import { QUIETFRAME_VERSION } from "../../../src/version";
-import {
-  explorerModelId,
-  loadExplorerState,
-  MAX_STATE_TEXT_BYTES,
-  parseExplorerState,
-  stateDocumentText,
-  toWidgetStateDocument,
-} from "../../../widgets/explorer/document";
-import { EXPLORER_MODEL_NAME, WIDGET_MODULE, type ExplorerState } from "../../../widgets/explorer/format";
+import { explorerModelId, loadExplorerState, parseExplorerState, stateDocumentText, toWidgetStateDocument } from "../../../widgets/explorer/document";
+import { MAX_STATE_TEXT_BYTES } from "../../../widgets/core/state/state-text";
+import { EXPLORER_MODEL_NAME, type ExplorerState } from "../../../widgets/explorer/format";
+import { WIDGET_MODULE } from "../../../widgets/core/state/widget-state";
 import { exampleFiles, exampleState } from "./examples";
 
 // Outside reference: Jupyter widget state schema v2 from @jupyter-widgets/schema (draft-07), validated with ajv.

@@ -2,7 +2,8 @@ import { readdirSync, readFileSync } from "node:fs";
 import { join } from "node:path";
 import type { SetupDescription } from "../../../src/setup/format";
 import { createExplorerState } from "../../../widgets/explorer/model";
-import type { ControlSpec, ExplorerState } from "../../../widgets/explorer/format";
+import type { ExplorerState } from "../../../widgets/explorer/format";
+import type { ControlSpec } from "../../../widgets/core/controls/control-spec";
 
 /** The shipped examples, each with a control or two as a user would add them. */
 export const EXAMPLES_DIR = join(__dirname, "..", "..", "..", "examples");

@@ -4,11 +4,11 @@ import { beforeAll, describe, expect, it } from "vitest";
 import type { SetupDescription } from "../../../src/setup/format";
 import { computeExplorer, createExplorerState, type ExplorerComputation } from "../../../widgets/explorer/model";
 import { base64, escapeHtml, jsonForScript } from "../../../widgets/core/page/escape";
-import { explorerHtml } from "../../../widgets/explorer/fragment";
+import { explorerHtml } from "../../../widgets/explorer/html";
 import { runtimeSource } from "../../../widgets/core/page/runtime-source";
-import { standalonePage } from "../../../widgets/explorer/standalone";
+import { standalonePage } from "../../../widgets/explorer/html";
 import { headlineSummary } from "../../../widgets/explorer/summary";
-import { explorerFigures } from "../../../widgets/core/render/static";
+import { explorerFigures } from "../../../widgets/explorer/figures";
 import { parseExplorerState } from "../../../widgets/explorer/document";
 import type { ExplorerState } from "../../../widgets/explorer/format";
 

@@ -1,3 +1,4 @@
+/** Booting the widgets of a page: each new element once, dropping widgets whose element left, failure text. */
 import { QuietframeError, QuietframeErrors } from "../../../src/errors";
 
 /** Marks an element whose widget has started, so a later boot() leaves it alone. */
@@ -13,7 +14,7 @@ export function bootNew<W extends { readonly element: HTMLElement; dispose(): vo
   live: W[],
   start: (element: HTMLElement) => W,
 ): W[] {
-  for (let i = live.length - 1; i >= 0; i--) if (!live[i].element.isConnected) live.splice(i, 1)[0].dispose();
+  pruneDisconnected(live);
   const started: W[] = [];
   for (const element of root.querySelectorAll<HTMLElement>(`.${className}:not([${BOOTED}])`)) {
     element.setAttribute(BOOTED, "");
@@ -22,6 +23,16 @@ export function bootNew<W extends { readonly element: HTMLElement; dispose(): vo
     started.push(widget);
   }
   return started;
+}
+
+/** Disposes (and drops from `live`) the widgets whose element is inside slot. */
+export function releaseWithin<W extends { readonly element: HTMLElement; dispose(): void }>(live: W[], slot: Element): void {
+  for (let i = live.length - 1; i >= 0; i--) if (slot.contains(live[i].element)) live.splice(i, 1)[0].dispose();
+}
+
+/** Disposes (and drops from `live`) the widgets whose element left the page. */
+export function pruneDisconnected<W extends { readonly element: HTMLElement; dispose(): void }>(live: W[]): void {
+  for (let i = live.length - 1; i >= 0; i--) if (!live[i].element.isConnected) live.splice(i, 1)[0].dispose();
 }
 
 /** The text a widget shows for a failure: the user's problem as stated, anything else as internal. */

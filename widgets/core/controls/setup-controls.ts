@@ -3,7 +3,7 @@ import { componentKind } from "../../../src/components/registry";
 import type { ParamSpec } from "../../../src/components/types";
 import type { SetupDescription } from "../../../src/setup/format";
 import { formatQuantity, parseQuantity, type QuantityKind } from "../../../src/units";
-import type { ControlSpec, ControlType, SliderScale } from "../../explorer/format";
+import type { ControlSpec, ControlType, SliderScale } from "./control-spec";
 import { log, pow } from "../../../src/numeric/portable-math";
 
 export const DEFAULT_SLIDER_STEPS = 200;

@@ -2,10 +2,6 @@ import type * as Vega from "vega";
 import type * as VegaLite from "vega-lite";
 import type * as ResvgModule from "@resvg/resvg-js";
 import { QuietframeError } from "../../../src/errors";
-import { tableToCsv } from "../../../src/engine/tabulate";
-import { budgetSpec } from "../../explorer/budget-spec";
-import type { ExplorerComputation } from "../../explorer/model";
-import type { ExplorerState } from "../../explorer/format";
 
 /**
  * Figures for papers, rendered in Node from the very Vega-Lite spec the browser shows, so a
@@ -118,14 +114,10 @@ export interface StaticFigures {
   readonly csv: string;
 }
 
-export type ExplorerFigures = StaticFigures;
-
-/** Spec, SVG, PNG and CSV of an explorer's figure; the title is the state's, or the set-up's name. */
-export async function explorerFigures(computation: ExplorerComputation, state: ExplorerState, options: RenderPngOptions & RenderSvgOptions = {}): Promise<ExplorerFigures> {
-  const title = state.settings.title ?? computation.setup.name;
-  const spec = budgetSpec(computation.table, computation.evaluation.budget.quantity.name, { title });
+/** Spec, SVG, PNG and CSV of a figure: the SVG rendered from the spec, the PNG from the SVG. */
+export async function renderFigures(spec: Record<string, unknown>, csv: string, options: RenderPngOptions & RenderSvgOptions = {}): Promise<StaticFigures> {
   const svg = await renderSvg(spec, options);
-  return { spec, svg, png: renderPng(svg, options), csv: tableToCsv(computation.table) };
+  return { spec, svg, png: renderPng(svg, options), csv };
 }
 
 /** Vega escapes all text and attributes; this keeps out elements a spec may ask for (images, links). */

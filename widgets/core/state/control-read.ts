@@ -1,5 +1,5 @@
 import { QuietframeError } from "../../../src/errors";
-import { CONTROL_TYPES, SLIDER_SCALES, type ControlSpec } from "../../explorer/format";
+import { CONTROL_TYPES, SLIDER_SCALES, type ControlSpec } from "../controls/control-spec";
 import { define, expectArray, expectRecord, RESERVED_KEYS, rejectUnknownKeys } from "./strict-read";
 
 /**

@@ -1,6 +1,6 @@
 import { QuietframeError, QuietframeErrors } from "../../../src/errors";
 import { QUIETFRAME_VERSION } from "../../../src/version";
-import { WIDGET_MODULE, type JupyterWidgetStateDocument } from "../../explorer/format";
+import { WIDGET_MODULE, type JupyterWidgetStateDocument } from "./widget-state";
 
 /**
  * Checks shared by the strict readers of quietframe state files: every failure names its path,

@@ -1,5 +1,5 @@
-import { parse, View } from "vega";
-import { compile } from "vega-lite";
+import type { View } from "vega";
+import { vega } from "../../core/browser/vega";
 import {
   computeEntangled,
   entangledStateText,
@@ -15,7 +15,7 @@ import { ENTANGLED_CLASS, ENTANGLED_NUMBER_ATTRIBUTES, ENTANGLED_STATE_CLASS } f
 import { ellipseSpec, eprSpec, spectrumSpec } from "../specs";
 import { STATUS_ATTRIBUTE } from "../../core/page/names";
 import { downloadText } from "../../core/browser/actions";
-import { bootNew, messageOf } from "../../core/browser/boot";
+import { messageOf } from "../../core/browser/boot";
 import { el, injectStyleOnce } from "../../core/browser/dom";
 
 const STYLE_ID = "quietframe-entangled-style";
@@ -35,6 +35,11 @@ ${P} .qf-readout dd{margin:0;font-variant-numeric:tabular-nums}
 ${P} .qf-actions{display:flex;flex-wrap:wrap;gap:.4em}
 ${P} .qf-actions button{font:inherit;font-size:13px;padding:.2em .7em;cursor:pointer}
 `;
+
+/** The panel's styles, added to the page once. */
+export function injectEntangledStyles(doc: Document = document): void {
+  injectStyleOnce(STYLE_ID, CSS, doc);
+}
 
 let panelCount = 0;
 
@@ -156,6 +161,7 @@ export class EntangledPanelView {
   private async draw(c: EntangledComputation, state: EntangledState): Promise<void> {
     const specs = [spectrumSpec(c, state.bandwidth === null), eprSpec(c), ellipseSpec(c)];
     const hosts = specs.map(() => el("div", { class: "qf-canvas" }));
+    const { View, parse, compile } = vega();
     const views = specs.map((spec) => new View(parse(compile(spec as unknown as Parameters<typeof compile>[0]).spec), { renderer: "canvas", hover: false }));
     await Promise.all(views.map((v, i) => v.initialize(hosts[i]).runAsync()));
     for (const v of this.views) v.finalize();
@@ -181,21 +187,3 @@ function formatValue(kind: "dB" | "r" | "efficiency", v: number): string {
   if (kind === "dB") return `${v.toFixed(1)} dB`;
   return v.toFixed(2);
 }
-
-const live: EntangledPanelView[] = [];
-
-/** Boots the entangled panels under root that have not booted yet; returns the live panels. */
-export function bootEntangledPanels(root: ParentNode = document): EntangledPanelView[] {
-  injectStyleOnce(STYLE_ID, CSS);
-  bootNew(root, ENTANGLED_CLASS, live, (element) => new EntangledPanelView(element));
-  return [...live];
-}
-
-declare global {
-  interface Window {
-    quietframeEntangledPanels?: () => EntangledPanelView[];
-  }
-}
-
-// A second runtime copy on the page never boots panels; the first copy's list stays the one to read.
-window.quietframeEntangledPanels ??= () => [...live];

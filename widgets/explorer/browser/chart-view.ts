@@ -1,5 +1,5 @@
-import { changeset, parse, View, type Changeset } from "vega";
-import { compile } from "vega-lite";
+import type { Changeset, View } from "vega";
+import { vega } from "../../core/browser/vega";
 import type { BudgetTable } from "../../../src/engine/tabulate";
 import { budgetSpec, curveRows, CURVES_DATASET, type CurveRow } from "../budget-spec";
 import { el } from "../../core/browser/dom";
@@ -52,11 +52,12 @@ export class ChartView {
         }
         if (first >= 0) await this.view.change(CURVES_DATASET, reflowing().modify(current[first], "value", current[first].value)).runAsync();
       } else {
-        await this.view.change(CURVES_DATASET, changeset().remove(() => true).insert(rows)).runAsync();
+        await this.view.change(CURVES_DATASET, vega().changeset().remove(() => true).insert(rows)).runAsync();
         this.plotted = rows;
       }
     } else {
       const spec = liveSpec(budgetSpec(input.table, input.quantity, { title: input.title }));
+      const { View, parse, compile } = vega();
       const vgSpec = compile(spec as unknown as Parameters<typeof compile>[0]).spec;
       const view = new View(parse(vgSpec), { renderer: "canvas", hover: false });
       // Vega's own tooltip would show the first point of a hovered line; the pointer panel reads every curve at the cursor instead.
@@ -133,7 +134,7 @@ export class ChartView {
 
 /** A changeset that passes every row of the dataset on as modified (Vega's `reflow`, missing from its type declarations). */
 function reflowing(): Changeset {
-  return (changeset() as Changeset & { reflow(): Changeset }).reflow();
+  return (vega().changeset() as Changeset & { reflow(): Changeset }).reflow();
 }
 
 function sameCurvePoints(current: readonly CurveRow[], next: readonly CurveRow[]): boolean {

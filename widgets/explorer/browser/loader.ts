@@ -1,5 +1,5 @@
 import { QuietframeError, QuietframeErrors } from "../../../src/errors";
-import { EXPLORER_CLASS, LOADER_CLASS, STATE_SCRIPT_CLASS } from "../../core/page/names";
+import { EXPLORER_CLASS, LOADER_CLASS, STATE_SCRIPT_CLASS } from "../names";
 import { loadExplorerState, stateDocumentText } from "../document";
 import { el } from "../../core/browser/dom";
 

@@ -1,8 +1,8 @@
 import { injectStyleOnce } from "../../core/browser/dom";
-import { EXPLORER_CLASS } from "../../core/page/names";
+import { EXPLORER_CLASS } from "../names";
 
-/** Runtime styles, added to the page once however many widgets and runtime copies it holds. */
-const STYLE_ID = "quietframe-runtime-style";
+/** The explorer's styles, added to the page once however many widgets and runtime copies it holds. */
+const STYLE_ID = "quietframe-explorer-style";
 
 const W = `.${EXPLORER_CLASS}`;
 const CSS = `
@@ -40,13 +40,6 @@ ${W} .qf-notes{margin:0;padding-left:1.2em;color:#4a4a4a;font-size:13px}
 ${W} .qf-actions{display:flex;flex-wrap:wrap;gap:.4em}
 ${W} .qf-actions button{font:inherit;font-size:13px;padding:.2em .7em;cursor:pointer}
 ${W} .qf-copy-fallback{width:100%;min-height:6em;font-family:ui-monospace,monospace;font-size:12px}
-.quietframe-tolerance{font-family:system-ui,sans-serif;font-size:14px;color:#1d1d1d;max-width:100%;margin:.5em 0}
-.quietframe-tolerance .qf-live{display:flex;flex-direction:column;gap:.5em}
-.quietframe-tolerance .qf-heatmap{overflow-x:auto;cursor:pointer;align-self:flex-start}
-.quietframe-tolerance .qf-heatmap:focus-visible{outline:2px solid #1b4f72;outline-offset:2px}
-.quietframe-tolerance .qf-cell-cursor{font-size:13px;color:#333;font-variant-numeric:tabular-nums}
-.quietframe-tolerance>.qf-alert,.quietframe-tolerance .qf-cell-note{border-left:4px solid #a06a00;background:#fdf5e4;color:#4a3300;padding:.45em .7em;white-space:pre-wrap}
-.quietframe-tolerance .qf-cell-explorer .quietframe-explorer{border-top:1px solid #ddd;padding-top:.5em}
 `;
 
 export function injectStyles(doc: Document): void {

@@ -1,7 +1,7 @@
 import { DOMWidgetView } from "@jupyter-widgets/base";
 import { ChartView } from "../browser/chart-view";
 import { el } from "../../core/browser/dom";
-import { CAUTION_HEADING, type SummaryLine } from "../summary";
+import { CAUTION_HEADING, type SummaryLine } from "../../core/page/summary-line";
 import { curvesFromWire, type BinaryLike } from "../live/chart-wire";
 import { CHART_VIEW_CLASS } from "../live/names";
 import { injectLiveStyles } from "./styles";

@@ -1,6 +1,6 @@
 import { QuietframeError } from "../../../src/errors";
 import { parseJsonText } from "../../../src/setup/parse-json";
-import { WIDGET_STATE_MIME } from "../document";
+import { WIDGET_STATE_MIME } from "../../core/state/widget-state";
 import { CHART_MODEL_NAME, LIVE_MODULE } from "./names";
 
 /**

@@ -3,13 +3,14 @@ import { QuietframeError } from "../../../src/errors";
 import type { SetupDescription } from "../../../src/setup/format";
 import { parseJsonText } from "../../../src/setup/parse-json";
 import { computeExplorer, createExplorerState, type ExplorerComputation, type ExplorerOptions } from "../model";
-import { explorerHtml } from "../fragment";
-import { explorerFigures, type RenderPngOptions } from "../../core/render/static";
+import { explorerHtml } from "../html";
+import { type RenderPngOptions } from "../../core/render/static";
+import { explorerFigures } from "../figures";
 import { loadExplorerState, stateDocumentText } from "../document";
 import { EXPLORER_STATE_FORMAT, type ExplorerState } from "../format";
-import { displayBundle, type MimeBundle } from "../../core/notebook/display";
+import type { MimeBundle } from "../../core/notebook/display";
 import { notebookFigures, summaryText, type NotebookFigures } from "./figures";
-import { markRuntimeShown, runtimeShown } from "../../core/notebook/session";
+import { showWidgetOutput } from "../../core/notebook/show-output";
 import { ChangeListeners } from "../../core/notebook/change-listeners";
 import { kernelWidgetHost } from "../live/kernel-host";
 import { LiveExplorer, type ControlValues, type LiveChange } from "../live/live-explorer";
@@ -160,9 +161,7 @@ export class NotebookExplorer {
       if (carry) markLiveRuntimeCarried();
       return;
     }
-    const includeRuntime = options.includeRuntime ?? !runtimeShown();
-    const result = displayBundle(await this.bundle({ ...options, includeRuntime }));
-    if (includeRuntime && result.via !== "none") markRuntimeShown();
+    await showWidgetOutput(options.includeRuntime, (includeRuntime) => this.bundle({ ...options, includeRuntime }));
   }
 
   toString(): string {

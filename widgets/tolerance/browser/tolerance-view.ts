@@ -1,13 +1,14 @@
-import { parse, View } from "vega";
-import { compile } from "vega-lite";
+import type { View } from "vega";
+import { vega } from "../../core/browser/vega";
 import { CellStatus } from "../../../src/tolerance/evaluate";
-import { EXPLORER_CLASS, STATE_SCRIPT_CLASS, STATUS_ATTRIBUTE } from "../../core/page/names";
+import { STATUS_ATTRIBUTE } from "../../core/page/names";
+import { EXPLORER_CLASS, STATE_SCRIPT_CLASS } from "../../explorer/names";
 import { stateDocumentText } from "../../explorer/document";
 import type { ExplorerState } from "../../explorer/format";
 import { toleranceHeatmapSpec } from "../heatmap-spec";
 import { cellExplorerState, heatmapCells, loadToleranceState, type HeatmapCell, type ToleranceWidgetState } from "../model";
 import { SELECTED_CELL_ATTRIBUTE, TOLERANCE_CLASS, TOLERANCE_STATE_CLASS } from "../names";
-import { bootNew, messageOf } from "../../core/browser/boot";
+import { messageOf } from "../../core/browser/boot";
 import { el } from "../../core/browser/dom";
 
 // The cell set-ups come from src/tolerance/run.ts, whose in-process runner yields with
@@ -118,6 +119,7 @@ export class ToleranceWidget {
       this.state = state;
       this.cells = heatmapCells(state);
       const spec = toleranceHeatmapSpec(state);
+      const { View, parse, compile } = vega();
       const vgSpec = compile(spec as unknown as Parameters<typeof compile>[0]).spec;
       const view = new View(parse(vgSpec), { renderer: "canvas", hover: false });
       view.addEventListener("click", (_event, item) => {
@@ -194,9 +196,4 @@ export class ToleranceWidget {
     if (!this.view) throw new Error("the heat map is not drawn yet");
     return this.view;
   }
-}
-
-/** Boots the tolerance maps under root that have not booted yet; keeps the live ones in `live`. */
-export function bootTolerance(root: ParentNode, boot: BootFunction, live: ToleranceWidget[]): ToleranceWidget[] {
-  return bootNew(root, TOLERANCE_CLASS, live, (element) => new ToleranceWidget(element, boot));
 }

@@ -1,8 +1,8 @@
-import { parse, View } from "vega";
-import { compile } from "vega-lite";
+import type { View } from "vega";
+import { vega } from "../../core/browser/vega";
 import { QuietframeError } from "../../../src/errors";
 import { resolveControls } from "../../core/controls/setup-controls";
-import { CAUTION_HEADING } from "../../explorer/summary";
+import { CAUTION_HEADING } from "../../core/page/summary-line";
 import { FINGERPRINT_ATTRIBUTE, STATUS_ATTRIBUTE } from "../../core/page/names";
 import { trajectoryCsv } from "../csv";
 import { parseTrajectoryState, trajectoryDocumentText } from "../document";
@@ -14,7 +14,7 @@ import { resolveSimulation, writeTime } from "../simulation";
 import { trajectoryPanelSpec, trajectorySpecs } from "../specs";
 import { trajectorySummary } from "../summary";
 import { actionButton, copyText, downloadText, downloadUrl, fileStem } from "../../core/browser/actions";
-import { bootNew, messageOf } from "../../core/browser/boot";
+import { messageOf } from "../../core/browser/boot";
 import { ControlsView } from "../../core/browser/controls-view";
 import { el, flashText, injectStyleOnce } from "../../core/browser/dom";
 
@@ -51,6 +51,11 @@ ${T} .qf-copy-fallback{width:100%;min-height:6em;font-family:ui-monospace,monosp
 /** Wall-clock budget of one slice of steps: short enough that the page keeps answering input. */
 const SLICE_MS = 12;
 const FIRST_SLICE_STEPS = 200;
+
+/** The widget's styles, added to the page once. */
+export function injectTrajectoryStyles(doc: Document = document): void {
+  injectStyleOnce(STYLE_ID, CSS, doc);
+}
 
 let widgetCount = 0;
 
@@ -389,6 +394,7 @@ export class TrajectoryWidget {
   private async draw(c: TrajectoryComputation, state: Omit<TrajectoryState, "fingerprint">): Promise<void> {
     const specs = trajectorySpecs(trajectoryRows(c.result, Infinity, state.joint), state.joint.map((j) => j.label), state.pair);
     const hosts = specs.map(() => el("div", { class: "qf-canvas" }));
+    const { View, parse, compile } = vega();
     const views = specs.map((spec) => new View(parse(compile(spec as unknown as Parameters<typeof compile>[0]).spec), { renderer: "canvas", hover: false }));
     await Promise.all(views.map((v, i) => v.initialize(hosts[i]).runAsync()));
     for (const v of this.views) v.finalize();
@@ -408,6 +414,7 @@ export class TrajectoryWidget {
     const state = this.requireState();
     const c = this.requireComputation();
     const spec = trajectoryPanelSpec(trajectoryRows(c.result, STATIC_POINTS, state.joint), state.joint.map((j) => j.label), state.pair, trajectoryTitle(state));
+    const { View, parse, compile } = vega();
     const view = new View(parse(compile(spec as unknown as Parameters<typeof compile>[0]).spec), { renderer: "none" });
     await view.runAsync();
     return view;
@@ -487,21 +494,3 @@ function withSamples(state: Omit<TrajectoryState, "fingerprint">): Omit<Trajecto
 function nextTask(): Promise<void> {
   return new Promise((resolve) => setTimeout(resolve, 0));
 }
-
-const live: TrajectoryWidget[] = [];
-
-/** Boots the trajectory widgets under root that have not booted yet; returns the live widgets. */
-export function bootTrajectoryWidgets(root: ParentNode = document): TrajectoryWidget[] {
-  injectStyleOnce(STYLE_ID, CSS);
-  bootNew(root, TRAJECTORY_CLASS, live, (element) => new TrajectoryWidget(element));
-  return [...live];
-}
-
-declare global {
-  interface Window {
-    quietframeTrajectoryWidgets?: () => TrajectoryWidget[];
-  }
-}
-
-// A second runtime copy on the page never boots widgets; the first copy's list stays the one to read.
-window.quietframeTrajectoryWidgets ??= () => [...live];

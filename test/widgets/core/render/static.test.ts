@@ -3,7 +3,8 @@ import { QuietframeError } from "../../../../src/errors";
 import { tableToCsv, type BudgetTable } from "../../../../src/engine/tabulate";
 import { budgetSpec } from "../../../../widgets/explorer/budget-spec";
 import { computeExplorer, createExplorerState } from "../../../../widgets/explorer/model";
-import { explorerFigures, renderPng, renderSvg, type ExplorerFigures } from "../../../../widgets/core/render/static";
+import { renderPng, renderSvg } from "../../../../widgets/core/render/static";
+import { explorerFigures, type ExplorerFigures } from "../../../../widgets/explorer/figures";
 import type { ExplorerState } from "../../../../widgets/explorer/format";
 import { exampleFiles, exampleSetup, exampleState } from "../../explorer/examples";
 
