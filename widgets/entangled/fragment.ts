@@ -1,5 +1,5 @@
 /** The entangled-light panel's page fragment and standalone page. Pure: the runtime's text is passed in (html.ts reads it in Node). */
-import { QUIETFRAME_VERSION } from "../../src/version";
+import { QUIETFRAME_VERSION } from "../../src/index";
 import { computeEntangled, entangledStateText, entangledSummary, type EntangledComputation, type EntangledState } from "./model";
 import { ENTANGLED_CLASS, ENTANGLED_NUMBER_ATTRIBUTES, ENTANGLED_STATE_CLASS } from "./names";
 import { escapeHtml, jsonTextForScript } from "../core/page/escape";

@@ -1,18 +1,4 @@
-import { QuietframeError } from "../../src/errors";
-import { squeezeFactorFromDb } from "../../src/components/light-sources";
-import type { TwoModeSqueezing } from "../../src/components/two-mode-squeezing";
-import {
-  AMPLITUDE_CORRELATED,
-  conditionalVariance,
-  duanBound,
-  duanSum,
-  entangledSourceCovariance,
-  entangledSourceSpectrum,
-  eprVariances,
-  logarithmicNegativity,
-} from "../../src/engine/entanglement";
-import { cos, log10, pow, sin } from "../../src/numeric/portable-math";
-import { QUIETFRAME_VERSION } from "../../src/version";
+import { QuietframeError, squeezeFactorFromDb, AMPLITUDE_CORRELATED, conditionalVariance, duanBound, duanSum, entangledSourceCovariance, entangledSourceSpectrum, eprVariances, logarithmicNegativity, cos, log10, pow, sin, QUIETFRAME_VERSION, type TwoModeSqueezing } from "../../src/index";
 import { parseUntrustedJson } from "../core/state/state-text";
 
 /**

@@ -1,5 +1,5 @@
 import { inspect } from "node:util";
-import { QuietframeError } from "../../src/errors";
+import { QuietframeError } from "../../src/index";
 import {
   computeEntangled,
   createEntangledState,

@@ -1,4 +1,4 @@
-import type { BudgetTable } from "../../src/engine/tabulate";
+import type { BudgetTable } from "../../src/index";
 import type { ExplorerState } from "./format";
 import type { ExplorerComputation } from "./model";
 

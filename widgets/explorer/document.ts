@@ -1,7 +1,4 @@
-import { QuietframeError } from "../../src/errors";
-import { loadSetup } from "../../src/pipeline";
-import type { SetupDescription } from "../../src/setup/format";
-import { QUIETFRAME_VERSION } from "../../src/version";
+import { QuietframeError, loadSetup, QUIETFRAME_VERSION, type SetupDescription } from "../../src/index";
 import { computeExplorer, type ExplorerComputation } from "./model";
 import { EXPLORER_MODEL_NAME, EXPLORER_STATE_FORMAT, EXPLORER_STATE_VERSION, type ExplorerSettings, type ExplorerState } from "./format";
 import { WIDGET_MODULE, type JupyterWidgetStateDocument } from "../core/state/widget-state";

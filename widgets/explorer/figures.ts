@@ -1,5 +1,5 @@
 /** The explorer's static figure (Vega-Lite spec, SVG, PNG, CSV), rendered in Node from the spec the browser shows. */
-import { tableToCsv } from "../../src/engine/tabulate";
+import { tableToCsv } from "../../src/index";
 import { renderFigures, type RenderPngOptions, type RenderSvgOptions, type StaticFigures } from "../core/render/static";
 import { explorerFigureSpec } from "./budget-spec";
 import type { ExplorerState } from "./format";

@@ -1,4 +1,4 @@
-import type { NoiseBudget } from "../../src/engine/budget";
+import type { NoiseBudget } from "../../src/index";
 import { seriesFingerprint } from "../core/state/series-fingerprint";
 
 /**

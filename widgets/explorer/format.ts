@@ -1,4 +1,4 @@
-import type { SetupDescription } from "../../src/setup/format";
+import type { SetupDescription } from "../../src/index";
 import type { ControlSpec } from "../core/controls/control-spec";
 
 /**

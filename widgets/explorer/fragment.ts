@@ -1,5 +1,5 @@
 /** The explorer's page fragment. Pure: the runtime's text is passed in (html.ts reads it in Node). */
-import { QUIETFRAME_VERSION } from "../../src/version";
+import { QUIETFRAME_VERSION } from "../../src/index";
 import type { ExplorerComputation } from "./model";
 import { explorerReach } from "./reach";
 import type { ExplorerState } from "./format";

@@ -1,5 +1,5 @@
 /** The noise-budget explorer as a widget kind (see core/kind.ts): the registry's entry for it. */
-import { tableToCsv } from "../../src/engine/tabulate";
+import { tableToCsv } from "../../src/index";
 import type { LoadedWidget, WidgetKind } from "../core/kind";
 import { isRecord } from "../core/state/strict-read";
 import { WIDGET_MODULE } from "../core/state/widget-state";

@@ -1,12 +1,4 @@
-import { QuietframeError } from "../../src/errors";
-import { headlineFigures, type HeadlineFigures } from "../../src/engine/headline";
-import { parseGrid } from "../../src/engine/grid";
-import { tabulateBudget, type BudgetTable } from "../../src/engine/tabulate";
-import { evaluateSetup, loadSetup, type Evaluation } from "../../src/pipeline";
-import { applyValues } from "../../src/setup/apply-values";
-import type { SetupDescription } from "../../src/setup/format";
-import type { ResolvedSetup } from "../../src/setup/validate";
-import { QUIETFRAME_VERSION } from "../../src/version";
+import { QuietframeError, headlineFigures, parseGrid, tabulateBudget, evaluateSetup, loadSetup, applyValues, QUIETFRAME_VERSION, type HeadlineFigures, type BudgetTable, type Evaluation, type SetupDescription, type ResolvedSetup } from "../../src/index";
 import { budgetFingerprint } from "./fingerprint";
 import { EXPLORER_STATE_FORMAT, EXPLORER_STATE_VERSION, type ExplorerSettings, type ExplorerState } from "./format";
 import { type ControlSpec } from "../core/controls/control-spec";

@@ -1,5 +1,4 @@
-import { QuietframeError, QuietframeErrors } from "../../src/errors";
-import { inspiralHorizon, inspiralRange, strainCurve, type InspiralDistance } from "../../src/reach";
+import { QuietframeError, QuietframeErrors, inspiralHorizon, inspiralRange, strainCurve, type InspiralDistance } from "../../src/index";
 import type { ExplorerState } from "./format";
 import { computeExplorer, initialValues, type ExplorerComputation } from "./model";
 

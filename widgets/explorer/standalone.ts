@@ -1,5 +1,5 @@
 /** The explorer's standalone page (one explorer and a panel to open another state). Pure: see html.ts for Node. */
-import { QUIETFRAME_VERSION } from "../../src/version";
+import { QUIETFRAME_VERSION } from "../../src/index";
 import type { ExplorerComputation } from "./model";
 import type { ExplorerState } from "./format";
 import { escapeHtml } from "../core/page/escape";

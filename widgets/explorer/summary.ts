@@ -1,5 +1,4 @@
-import type { HeadlineFigures } from "../../src/engine/headline";
-import { formatQuantity } from "../../src/units";
+import { formatQuantity, type HeadlineFigures } from "../../src/index";
 import type { ReachFigures } from "./reach";
 import type { SummaryLine } from "../core/page/summary-line";
 

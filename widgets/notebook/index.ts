@@ -1,4 +1,5 @@
-import { loadSetupFile as readSetupFile, type SetupDescription } from "../../src/node";
+import type { SetupDescription } from "../../src/index";
+import { loadSetupFile as readSetupFile } from "../../src/node";
 
 /**
  * The notebook API (kernel side, for tslab TypeScript notebooks):

@@ -1,5 +1,5 @@
 /** The tolerance map's page fragment and standalone page. Pure: the runtime's text is passed in (html.ts reads it in Node). */
-import { QUIETFRAME_VERSION } from "../../src/version";
+import { QUIETFRAME_VERSION } from "../../src/index";
 import { TOLERANCE_CLASS, TOLERANCE_STATE_CLASS } from "./names";
 import { toleranceSummaryText, type ToleranceWidgetState } from "./model";
 import { escapeHtml, jsonForScript } from "../core/page/escape";

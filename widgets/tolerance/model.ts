@@ -1,11 +1,4 @@
-import { componentKind } from "../../src/components/registry";
-import { QuietframeError } from "../../src/errors";
-import type { SetupDescription } from "../../src/setup/format";
-import { CellStatus, type CellMessage } from "../../src/tolerance/evaluate";
-import { toleranceCellSetup, type ToleranceMap } from "../../src/tolerance/run";
-import type { AxisScale, FigureInfo, ToleranceMapSpec } from "../../src/tolerance/spec";
-import { parseQuantity, type QuantityKind } from "../../src/units";
-import { QUIETFRAME_VERSION } from "../../src/version";
+import { componentKind, QuietframeError, CellStatus, toleranceCellSetup, parseQuantity, QUIETFRAME_VERSION, type SetupDescription, type CellMessage, type ToleranceMap, type AxisScale, type FigureInfo, type ToleranceMapSpec, type QuantityKind } from "../../src/index";
 import { createExplorerState } from "../explorer/model";
 import type { ExplorerState } from "../explorer/format";
 import type { ControlSpec } from "../core/controls/control-spec";

@@ -1,10 +1,6 @@
 import { inspect } from "node:util";
-import { logGrid } from "../../src/engine/grid";
-import type { SetupDescription } from "../../src/setup/format";
-import { CellStatus, evaluateCell, type CellMessage } from "../../src/tolerance/evaluate";
-import { toleranceMap } from "../../src/tolerance/map";
-import type { ToleranceMap, ToleranceMapOptions } from "../../src/tolerance/run";
-import { resolveToleranceSpec, type ToleranceMapSpec } from "../../src/tolerance/spec";
+import { logGrid, CellStatus, evaluateCell, resolveToleranceSpec, type SetupDescription, type CellMessage, type ToleranceMap, type ToleranceMapOptions, type ToleranceMapSpec } from "../../src/index";
+import { toleranceMap } from "../../src/node";
 import { computeExplorer } from "../explorer/model";
 import { toleranceHtml } from "./html";
 import { renderPng, renderSvg, type RenderPngOptions } from "../core/render/static";

@@ -1,4 +1,4 @@
-import type { JointVariable, TrajectoryResult } from "../../src/timedomain/types";
+import type { JointVariable, TrajectoryResult } from "../../src/index";
 import { engineDuanLabel, jointDuanSum } from "./duan";
 import { partCurve } from "./series";
 

@@ -1,7 +1,4 @@
-import { QuietframeError } from "../../src/errors";
-import { parseJsonText } from "../../src/setup/parse-json";
-import type { SetupDescription } from "../../src/setup/format";
-import { QUIETFRAME_VERSION } from "../../src/version";
+import { QuietframeError, parseJsonText, QUIETFRAME_VERSION, type SetupDescription } from "../../src/index";
 import { MAX_STATE_TEXT_BYTES } from "../core/state/state-text";
 import { WIDGET_MODULE, type JupyterWidgetStateDocument } from "../core/state/widget-state";
 import {

@@ -1,4 +1,4 @@
-import type { JointVariable, TrajectoryResult } from "../../src/timedomain/types";
+import type { JointVariable, TrajectoryResult } from "../../src/index";
 
 /**
  * The Duan sum in the other sign convention, from two followed joint variables. The engine

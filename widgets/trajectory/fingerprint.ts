@@ -1,4 +1,4 @@
-import type { TrajectoryResult } from "../../src/timedomain/types";
+import type { TrajectoryResult } from "../../src/index";
 import { seriesFingerprint } from "../core/state/series-fingerprint";
 
 /**

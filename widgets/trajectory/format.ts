@@ -1,5 +1,4 @@
-import type { SetupDescription } from "../../src/setup/format";
-import type { InitialState, JointVariable } from "../../src/timedomain/types";
+import type { SetupDescription, InitialState, JointVariable } from "../../src/index";
 import type { ControlSpec } from "../core/controls/control-spec";
 
 /**

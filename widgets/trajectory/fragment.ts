@@ -1,5 +1,5 @@
 /** The trajectory widget's page fragment and standalone page. Pure: the runtime's text is passed in (html.ts reads it in Node). */
-import { QUIETFRAME_VERSION } from "../../src/version";
+import { QUIETFRAME_VERSION } from "../../src/index";
 import { trajectoryDocumentText } from "./document";
 import type { TrajectoryState } from "./format";
 import { trajectoryTitle, type TrajectoryComputation } from "./model";

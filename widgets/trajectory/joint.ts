@@ -1,5 +1,4 @@
-import { QuietframeError } from "../../src/errors";
-import type { JointVariable } from "../../src/timedomain/types";
+import { QuietframeError, type JointVariable } from "../../src/index";
 
 /**
  * Shape checks of the joint variables and the entangled pair a state asks for. Whether the

@@ -1,14 +1,4 @@
-import { QuietframeError } from "../../src/errors";
-import { analyzeStability, requireNoGrowingModes } from "../../src/engine/stability";
-import { assemble, type AssembledSetup } from "../../src/network/assemble";
-import type { StateSpaceModel } from "../../src/network/model";
-import { loadSetup } from "../../src/pipeline";
-import { applyValues } from "../../src/setup/apply-values";
-import type { SetupDescription } from "../../src/setup/format";
-import type { ResolvedSetup } from "../../src/setup/validate";
-import { startTrajectory } from "../../src/timedomain";
-import type { JointVariable, TrajectoryRequest, TrajectoryResult, TrajectoryRun } from "../../src/timedomain/types";
-import { QUIETFRAME_VERSION } from "../../src/version";
+import { QuietframeError, analyzeStability, requireNoGrowingModes, assemble, loadSetup, applyValues, startTrajectory, QUIETFRAME_VERSION, type AssembledSetup, type StateSpaceModel, type SetupDescription, type ResolvedSetup, type JointVariable, type TrajectoryRequest, type TrajectoryResult, type TrajectoryRun } from "../../src/index";
 import { resolveStateControls, type ResolvedControl } from "../core/controls/setup-controls";
 import { setupValues } from "../explorer/model";
 import type { ControlSpec } from "../core/controls/control-spec";

@@ -1,8 +1,5 @@
 import { inspect } from "node:util";
-import { QuietframeError } from "../../src/errors";
-import type { SetupDescription } from "../../src/setup/format";
-import { parseJsonText } from "../../src/setup/parse-json";
-import type { JointVariable } from "../../src/timedomain/types";
+import { QuietframeError, parseJsonText, type SetupDescription, type JointVariable } from "../../src/index";
 import { trajectoryHtml } from "./html";
 import type { RenderPngOptions } from "../core/render/static";
 import { isTrajectoryInput, loadTrajectoryState, rebased, trajectoryDocumentText } from "./document";

@@ -1,4 +1,4 @@
-import type { JointVariable } from "../../src/timedomain/types";
+import type { JointVariable } from "../../src/index";
 import { engineDuanLabel, jointDuanSum } from "./duan";
 import { simulationText, type TrajectoryComputation } from "./model";
 import { writeTime } from "./simulation";

@@ -1,5 +1,5 @@
 /** Booting the widgets of a page: each new element once, dropping widgets whose element left, failure text. */
-import { QuietframeError, QuietframeErrors } from "../../../src/errors";
+import { QuietframeError, QuietframeErrors } from "../../../src/index";
 
 /** Marks an element whose widget has started, so a later boot() leaves it alone. */
 export const BOOTED = "data-quietframe-booted";

@@ -1,4 +1,4 @@
-import { parseQuantity, type QuantityKind } from "../../../src/units";
+import { parseQuantity, type QuantityKind } from "../../../src/index";
 import { sliderPosition, sliderValue, writeValue, type ResolvedControl } from "../controls/setup-controls";
 import { el } from "./dom";
 

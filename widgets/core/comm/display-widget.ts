@@ -1,4 +1,4 @@
-import { QuietframeError } from "../../../src/errors";
+import { QuietframeError } from "../../../src/index";
 import { displayBundle, type DisplayResult, type MimeBundle } from "../notebook/display";
 import type { WidgetModel } from "./widget-model";
 

@@ -1,4 +1,4 @@
-import { QuietframeError, showValue } from "../../../src/errors";
+import { QuietframeError, showValue } from "../../../src/index";
 import { checkBufferPaths, putBuffers, removeBuffers, type BufferPath } from "./buffers";
 import type { Comm, CommMessage } from "./comm";
 import type { CommManager } from "./comm-manager";

@@ -1,10 +1,5 @@
-import { QuietframeError } from "../../../src/errors";
-import { componentKind } from "../../../src/components/registry";
-import type { ParamSpec } from "../../../src/components/types";
-import type { SetupDescription } from "../../../src/setup/format";
-import { formatQuantity, parseQuantity, type QuantityKind } from "../../../src/units";
+import { QuietframeError, componentKind, formatQuantity, parseQuantity, log, pow, type ParamSpec, type SetupDescription, type QuantityKind } from "../../../src/index";
 import type { ControlSpec, ControlType, SliderScale } from "./control-spec";
-import { log, pow } from "../../../src/numeric/portable-math";
 
 export const DEFAULT_SLIDER_STEPS = 200;
 const MAX_SLIDER_STEPS = 100_000;

@@ -1,4 +1,4 @@
-import { QuietframeError } from "../../../src/errors";
+import { QuietframeError } from "../../../src/index";
 
 /** The onChange listeners of one widget, called in the order they were added. */
 export class ChangeListeners<C> {

@@ -1,5 +1,5 @@
 import { inspect } from "node:util";
-import { QuietframeError } from "../../../src/errors";
+import { QuietframeError } from "../../../src/index";
 
 /**
  * Sends Jupyter display_data from a tslab kernel. tslab's public `display.raw` sends one

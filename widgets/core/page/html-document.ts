@@ -1,4 +1,4 @@
-import { QUIETFRAME_VERSION } from "../../../src/version";
+import { QUIETFRAME_VERSION } from "../../../src/index";
 import { escapeHtml } from "./escape";
 
 /** The page look shared by every standalone quietframe document. */

@@ -2,7 +2,7 @@
  * A loaded state of any kind as a file, in Node: the standalone page (html), the static figure
  * (svg, png at a scale) or the plotted numbers (csv). `quietframe render` writes these.
  */
-import { QuietframeError } from "../../../src/errors";
+import { QuietframeError } from "../../../src/index";
 import type { LoadedWidget, WidgetKind } from "../kind";
 import { runtimeSource } from "../page/runtime-source";
 import { renderPng, renderSvg } from "./static";

@@ -1,7 +1,7 @@
 import type * as Vega from "vega";
 import type * as VegaLite from "vega-lite";
 import type * as ResvgModule from "@resvg/resvg-js";
-import { QuietframeError } from "../../../src/errors";
+import { QuietframeError } from "../../../src/index";
 
 /**
  * Figures for papers, rendered in Node from the very Vega-Lite spec the browser shows, so a

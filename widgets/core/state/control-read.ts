@@ -1,4 +1,4 @@
-import { QuietframeError } from "../../../src/errors";
+import { QuietframeError } from "../../../src/index";
 import { CONTROL_TYPES, SLIDER_SCALES, type ControlSpec } from "../controls/control-spec";
 import { define, expectArray, expectRecord, RESERVED_KEYS, rejectUnknownKeys } from "./strict-read";
 

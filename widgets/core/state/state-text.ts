@@ -1,5 +1,4 @@
-import { QuietframeError } from "../../../src/errors";
-import { parseJsonText } from "../../../src/setup/parse-json";
+import { QuietframeError, parseJsonText } from "../../../src/index";
 import { copyJson } from "./strict-read";
 
 /**

@@ -1,5 +1,4 @@
-import { QuietframeError, QuietframeErrors } from "../../../src/errors";
-import { QUIETFRAME_VERSION } from "../../../src/version";
+import { QuietframeError, QuietframeErrors, QUIETFRAME_VERSION } from "../../../src/index";
 import { WIDGET_MODULE, type JupyterWidgetStateDocument } from "./widget-state";
 
 /**

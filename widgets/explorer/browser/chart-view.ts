@@ -1,9 +1,8 @@
 import type { Changeset, View } from "vega";
 import { vega } from "../../core/browser/vega";
-import type { BudgetTable } from "../../../src/engine/tabulate";
+import { log, type BudgetTable } from "../../../src/index";
 import { budgetSpec, curveRows, CURVES_DATASET, type CurveRow } from "../budget-spec";
 import { el } from "../../core/browser/dom";
-import { log } from "../../../src/numeric/portable-math";
 
 /** What the chart needs from a computation. */
 export interface ChartInput {

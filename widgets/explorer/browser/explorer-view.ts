@@ -1,4 +1,4 @@
-import { tableToCsv } from "../../../src/engine/tabulate";
+import { tableToCsv } from "../../../src/index";
 import type { CurveRow } from "../budget-spec";
 import { computeExplorer, type ExplorerComputation } from "../model";
 import { DEFAULT_REACH_SOURCE, explorerReach, type ReachFigures } from "../reach";

@@ -1,4 +1,4 @@
-import { QuietframeError, QuietframeErrors } from "../../../src/errors";
+import { QuietframeError, QuietframeErrors } from "../../../src/index";
 import { EXPLORER_CLASS, LOADER_CLASS, STATE_SCRIPT_CLASS } from "../names";
 import { loadExplorerState, stateDocumentText } from "../document";
 import { el } from "../../core/browser/dom";

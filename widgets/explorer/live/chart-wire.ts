@@ -1,4 +1,4 @@
-import type { BudgetTable } from "../../../src/engine/tabulate";
+import type { BudgetTable } from "../../../src/index";
 
 /**
  * How the curves travel between kernel and front-end: each curve's values are the bytes of a

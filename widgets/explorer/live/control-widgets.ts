@@ -1,6 +1,4 @@
-import { QuietframeError } from "../../../src/errors";
-import { log10, pow } from "../../../src/numeric/portable-math";
-import { parseQuantity, type QuantityKind } from "../../../src/units";
+import { QuietframeError, log10, pow, parseQuantity, type QuantityKind } from "../../../src/index";
 import { checkValue, sliderPosition, sliderValue, writeValue, type ResolvedControl } from "../../core/controls/setup-controls";
 import type { StandardControl } from "./host";
 

@@ -1,4 +1,4 @@
-import { QuietframeError, QuietframeErrors } from "../../../src/errors";
+import { QuietframeError, QuietframeErrors } from "../../../src/index";
 import { checkValue, resolveControls } from "../../core/controls/setup-controls";
 import { computeExplorer, type ExplorerComputation } from "../model";
 import type { MimeBundle } from "../../core/notebook/display";

@@ -1,4 +1,4 @@
-import { QUIETFRAME_VERSION } from "../../../src/version";
+import { QUIETFRAME_VERSION } from "../../../src/index";
 
 /**
  * Names of quietframe's own widget model and view on the Jupyter widget protocol. Saved

@@ -1,5 +1,4 @@
-import { QuietframeError } from "../../../src/errors";
-import { parseJsonText } from "../../../src/setup/parse-json";
+import { QuietframeError, parseJsonText } from "../../../src/index";
 import { WIDGET_STATE_MIME } from "../../core/state/widget-state";
 import { CHART_MODEL_NAME, LIVE_MODULE } from "./names";
 

@@ -1,7 +1,4 @@
-import { componentKind } from "../../../src/components/registry";
-import { QuietframeError } from "../../../src/errors";
-import type { SetupDescription } from "../../../src/setup/format";
-import { QUIETFRAME_VERSION } from "../../../src/version";
+import { componentKind, QuietframeError, QUIETFRAME_VERSION, type SetupDescription } from "../../../src/index";
 import { applyValues, type ExplorerComputation } from "../model";
 import type { ExplorerState } from "../format";
 import { CITATIONS, type CitationKey } from "./citations";

@@ -1,7 +1,5 @@
 import { inspect } from "node:util";
-import { QuietframeError } from "../../../src/errors";
-import type { SetupDescription } from "../../../src/setup/format";
-import { parseJsonText } from "../../../src/setup/parse-json";
+import { QuietframeError, parseJsonText, type SetupDescription } from "../../../src/index";
 import { computeExplorer, createExplorerState, type ExplorerComputation, type ExplorerOptions } from "../model";
 import { explorerHtml } from "../html";
 import { type RenderPngOptions } from "../../core/render/static";

@@ -1,4 +1,4 @@
-import { describeHeadline, type HeadlineFigures } from "../../../src/engine/headline";
+import { describeHeadline, type HeadlineFigures } from "../../../src/index";
 import type { ExplorerComputation } from "../model";
 import { explorerReach, type ReachFigures } from "../reach";
 import { reachSummary } from "../summary";

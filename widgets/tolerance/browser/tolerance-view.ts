@@ -1,6 +1,6 @@
 import type { View } from "vega";
 import { vega } from "../../core/browser/vega";
-import { CellStatus } from "../../../src/tolerance/evaluate";
+import { CellStatus } from "../../../src/index";
 import { STATUS_ATTRIBUTE } from "../../core/page/names";
 import { EXPLORER_CLASS, STATE_SCRIPT_CLASS } from "../../explorer/names";
 import { stateDocumentText } from "../../explorer/document";
@@ -10,13 +10,6 @@ import { cellExplorerState, heatmapCells, loadToleranceState, type HeatmapCell, 
 import { SELECTED_CELL_ATTRIBUTE, TOLERANCE_CLASS, TOLERANCE_STATE_CLASS } from "../names";
 import { messageOf } from "../../core/browser/boot";
 import { el } from "../../core/browser/dom";
-
-// The cell set-ups come from src/tolerance/run.ts, whose in-process runner yields with
-// setImmediate where the platform has it (it checks with typeof first); browsers type-check
-// that module without Node's types, so the name is declared here.
-declare global {
-  function setImmediate(callback: () => void): unknown;
-}
 
 export type BootFunction = (root: ParentNode) => unknown;
 

@@ -1,6 +1,6 @@
 import type { View } from "vega";
 import { vega } from "../../core/browser/vega";
-import { QuietframeError } from "../../../src/errors";
+import { QuietframeError } from "../../../src/index";
 import { resolveControls } from "../../core/controls/setup-controls";
 import { CAUTION_HEADING } from "../../core/page/summary-line";
 import { FINGERPRINT_ATTRIBUTE, STATUS_ATTRIBUTE } from "../../core/page/names";

@@ -1,5 +1,4 @@
-import { QuietframeError } from "../../../../src/errors";
-import { pow } from "../../../../src/numeric/portable-math";
+import { QuietframeError, pow } from "../../../../src/index";
 import { WidgetModel, type Validator, type WidgetModelOptions } from "../widget-model";
 import type { CommManager } from "../comm-manager";
 import { CONTROL_SPECS } from "./spec-states";

@@ -1,4 +1,4 @@
-import { QuietframeError } from "../../../../src/errors";
+import { QuietframeError } from "../../../../src/index";
 import type { Validator } from "../widget-model";
 import type { ControlSpec } from "./control-spec-types";
 
