@@ -1,3 +1,4 @@
+/** The entangled-light panel's state and model (two-mode squeezed source, losses, bandwidth). */
 import { QuietframeError, squeezeFactorFromDb, AMPLITUDE_CORRELATED, conditionalVariance, duanBound, duanSum, entangledSourceCovariance, entangledSourceSpectrum, eprVariances, logarithmicNegativity, cos, log10, pow, sin, QUIETFRAME_VERSION, type TwoModeSqueezing } from "../../src/index";
 import { parseUntrustedJson } from "../core/state/state-text";
 

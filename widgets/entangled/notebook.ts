@@ -1,3 +1,4 @@
+/** The entangled-light panel's notebook API: entangledPanel(...), show(), figures, saved state. */
 import { inspect } from "node:util";
 import { QuietframeError } from "../../src/index";
 import {

@@ -1,3 +1,4 @@
+/** Vega-Lite spec of a noise budget (the explorer's chart, live and static). */
 import type { BudgetTable } from "../../src/index";
 import type { ExplorerState } from "./format";
 import type { ExplorerComputation } from "./model";

@@ -1,3 +1,4 @@
+/** The explorer's state file: strict reading, widget-state document, recomputation. */
 import { QuietframeError, loadSetup, QUIETFRAME_VERSION, type SetupDescription } from "../../src/index";
 import { computeExplorer, type ExplorerComputation } from "./model";
 import { EXPLORER_MODEL_NAME, EXPLORER_STATE_FORMAT, EXPLORER_STATE_VERSION, type ExplorerSettings, type ExplorerState } from "./format";

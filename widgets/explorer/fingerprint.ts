@@ -1,3 +1,4 @@
+/** The explorer's fingerprint: SHA-256 over every plotted number of a budget. */
 import type { NoiseBudget } from "../../src/index";
 import { seriesFingerprint } from "../core/state/series-fingerprint";
 

@@ -1,3 +1,4 @@
+/** The explorer's state format. */
 import type { SetupDescription } from "../../src/index";
 import type { ControlSpec } from "../core/controls/control-spec";
 

@@ -1,3 +1,4 @@
+/** The inspiral reach gauge of a strain budget, against the initial set-up. */
 import { QuietframeError, QuietframeErrors, inspiralHorizon, inspiralRange, strainCurve, type InspiralDistance } from "../../src/index";
 import type { ExplorerState } from "./format";
 import { computeExplorer, initialValues, type ExplorerComputation } from "./model";

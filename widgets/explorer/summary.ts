@@ -1,3 +1,4 @@
+/** The explorer's headline figures and reach as summary lines. */
 import { formatQuantity, type HeadlineFigures } from "../../src/index";
 import type { ReachFigures } from "./reach";
 import type { SummaryLine } from "../core/page/summary-line";

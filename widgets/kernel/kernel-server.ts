@@ -1,3 +1,4 @@
+/** The quietframe kernel's server: tslab's, with comms served here. */
 import { AsyncLocalStorage } from "node:async_hooks";
 import { randomUUID } from "node:crypto";
 import { JupyterHandlerImpl, ZmqServer } from "tslab/dist/jupyter";

@@ -1,3 +1,4 @@
+/** The quietframe kernel's spec (kernel.json) and its installation. */
 import { spawnSync } from "node:child_process";
 import { existsSync } from "node:fs";
 import { join, resolve } from "node:path";

@@ -1,4 +1,5 @@
 #!/usr/bin/env node
+/** The entry Jupyter starts for the quietframe kernel. */
 import { writeSync } from "node:fs";
 import { createConverter } from "tslab/dist/converter";
 import { createExecutor, type ConverterSet } from "tslab/dist/executor";

@@ -1,3 +1,4 @@
+/** "quietframe/notebook": the notebook API, each kind's from its own folder. */
 import type { SetupDescription } from "../../src/index";
 import { loadSetupFile as readSetupFile } from "../../src/node";
 

@@ -1,3 +1,4 @@
+/** Every stored number of a trajectory run as CSV. */
 import type { JointVariable, TrajectoryResult } from "../../src/index";
 import { engineDuanLabel, jointDuanSum } from "./duan";
 import { partCurve } from "./series";

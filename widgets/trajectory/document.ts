@@ -1,3 +1,4 @@
+/** The trajectory widget's state file: strict reading, widget-state document, rerun. */
 import { QuietframeError, parseJsonText, QUIETFRAME_VERSION, type SetupDescription } from "../../src/index";
 import { MAX_STATE_TEXT_BYTES } from "../core/state/state-text";
 import { WIDGET_MODULE, type JupyterWidgetStateDocument } from "../core/state/widget-state";

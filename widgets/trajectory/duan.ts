@@ -1,3 +1,4 @@
+/** Duan sums of the joint variables a trajectory state follows. */
 import type { JointVariable, TrajectoryResult } from "../../src/index";
 
 /**

@@ -1,3 +1,4 @@
+/** The trajectory widget's fingerprint: SHA-256 over every stored series of a run. */
 import type { TrajectoryResult } from "../../src/index";
 import { seriesFingerprint } from "../core/state/series-fingerprint";
 

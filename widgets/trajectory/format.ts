@@ -1,3 +1,4 @@
+/** The trajectory widget's state format. */
 import type { SetupDescription, InitialState, JointVariable } from "../../src/index";
 import type { ControlSpec } from "../core/controls/control-spec";
 

@@ -1,3 +1,4 @@
+/** Strict readers of a trajectory state's joint variables and entangled pair. */
 import { QuietframeError, type JointVariable } from "../../src/index";
 
 /**

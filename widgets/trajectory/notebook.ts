@@ -1,3 +1,4 @@
+/** The trajectory widget's notebook API: trajectoryWidget(...), show(), set(), figures. */
 import { inspect } from "node:util";
 import { QuietframeError, parseJsonText, type SetupDescription, type JointVariable } from "../../src/index";
 import { trajectoryHtml } from "./html";

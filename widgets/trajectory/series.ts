@@ -1,3 +1,4 @@
+/** Chart rows of a trajectory run (thinned for static figures). */
 import type { JointVariable, TrajectoryResult } from "../../src/index";
 import { engineDuanLabel, jointDuanSum } from "./duan";
 

@@ -1,3 +1,4 @@
+/** A trajectory state's simulation settings, checked and resolved. */
 import { QuietframeError, checkSettings, MAX_STEPS, formatQuantity, parseQuantity, type SimulationSettings } from "../../src/index";
 import { INITIAL_STATES, type SimulationSpec } from "./format";
 

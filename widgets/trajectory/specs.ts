@@ -1,3 +1,4 @@
+/** Vega-Lite specs of the trajectory widget's charts. */
 import type { TrajectoryState } from "./format";
 import { trajectoryTitle, type TrajectoryComputation } from "./model";
 import { CURVES, MEASURES, STATIC_POINTS, trajectoryRows, type TrajectoryRows } from "./series";

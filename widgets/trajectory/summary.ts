@@ -1,3 +1,4 @@
+/** The trajectory widget's summary lines. */
 import type { JointVariable } from "../../src/index";
 import { engineDuanLabel, jointDuanSum } from "./duan";
 import { simulationText, type TrajectoryComputation } from "./model";

@@ -1,3 +1,7 @@
+/**
+ * Toolbar actions of the browser views: downloads, copying to the clipboard, file names, buttons
+ * that report failures.
+ */
 import { messageOf } from "./boot";
 import { el } from "./dom";
 

@@ -1,3 +1,7 @@
+/**
+ * The controls (sliders, number fields, dropdowns) of a widget state in the page, as explorers
+ * and trajectory widgets show them.
+ */
 import { parseQuantity, type QuantityKind } from "../../../src/index";
 import { sliderPosition, sliderValue, writeValue, type ResolvedControl } from "../controls/setup-controls";
 import { el } from "./dom";

@@ -1,3 +1,6 @@
+/**
+ * The kernel's comms by id and the targets that open them (Jupyter messaging, "Custom Messages").
+ */
 import { randomUUID } from "node:crypto";
 import { Comm, type CommMessage, type CommSender } from "./comm";
 

@@ -1,3 +1,7 @@
+/**
+ * Displays a widget model in a notebook: the widget-view bundle with a kernel-free fallback
+ * beside it.
+ */
 import { QuietframeError } from "../../../src/index";
 import { displayBundle, type DisplayResult, type MimeBundle } from "../notebook/display";
 import type { WidgetModel } from "./widget-model";

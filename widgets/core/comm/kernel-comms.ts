@@ -1,3 +1,7 @@
+/**
+ * The comm manager of the running quietframe kernel, found on globalThis (undefined in any other
+ * process).
+ */
 import type { CommManager } from "./comm-manager";
 
 /**

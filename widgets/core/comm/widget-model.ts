@@ -1,3 +1,4 @@
+/** A widget model on the Jupyter widget message protocol 2.1, kept in step with every front-end. */
 import { QuietframeError, showValue } from "../../../src/index";
 import { checkBufferPaths, putBuffers, removeBuffers, type BufferPath } from "./buffers";
 import type { Comm, CommMessage } from "./comm";

@@ -1,3 +1,4 @@
+/** The widget models of the kernel, by id, and their state with binary buffers. */
 import type { SplitState } from "./buffers";
 
 /**

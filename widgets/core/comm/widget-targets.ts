@@ -1,3 +1,4 @@
+/** The comm targets the kernel serves for widgets ("jupyter.widget", "jupyter.widget.control"). */
 import type { Comm, CommMessage } from "./comm";
 import type { CommManager } from "./comm-manager";
 import { WIDGET_TARGET } from "./widget-model";

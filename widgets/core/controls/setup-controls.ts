@@ -1,3 +1,7 @@
+/**
+ * Controls resolved against a set-up: parameter, unit, bounds, slider positions and the checks of
+ * a value.
+ */
 import { QuietframeError, componentKind, formatQuantity, parseQuantity, log, pow, type ParamSpec, type SetupDescription, type QuantityKind } from "../../../src/index";
 import type { ControlSpec, ControlType, SliderScale } from "./control-spec";
 

@@ -1,3 +1,7 @@
+/**
+ * The onChange listeners of a notebook widget, called in order; one that throws does not stop the
+ * rest.
+ */
 import { QuietframeError } from "../../../src/index";
 
 /** The onChange listeners of one widget, called in the order they were added. */

@@ -1,3 +1,4 @@
+/** Mime bundles and their display from a tslab kernel (several media types in one output). */
 import { inspect } from "node:util";
 import { QuietframeError } from "../../../src/index";
 

@@ -1,3 +1,4 @@
+/** The runtime and bootstrap script elements that end every widget fragment. */
 import { RUNTIME_READY_EVENT, STATUS_ATTRIBUTE, VERSION_ATTRIBUTE } from "./names";
 
 /**

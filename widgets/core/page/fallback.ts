@@ -1,3 +1,4 @@
+/** The static fallback of every kind's fragment: figure, cautions, summary lines. */
 import { base64, escapeHtml } from "./escape";
 import { CAUTION_HEADING, type SummaryLine } from "./summary-line";
 

@@ -1,3 +1,4 @@
+/** The complete HTML document every standalone page uses (title, base style). */
 import { QUIETFRAME_VERSION } from "../../../src/index";
 import { escapeHtml } from "./escape";
 

@@ -1,3 +1,4 @@
+/** Node only: the browser runtime bundle's text, read from the build. */
 import { existsSync, readFileSync } from "node:fs";
 import { dirname, join } from "node:path";
 

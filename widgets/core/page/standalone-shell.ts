@@ -1,3 +1,4 @@
+/** The shell of every kind's standalone page. */
 import { runtimeScriptTag } from "./bootstrap";
 import { htmlDocument } from "./html-document";
 

@@ -1,3 +1,4 @@
+/** Node only: SVG (Vega, no browser) and PNG (resvg) of a Vega-Lite spec. */
 import type * as Vega from "vega";
 import type * as VegaLite from "vega-lite";
 import type * as ResvgModule from "@resvg/resvg-js";

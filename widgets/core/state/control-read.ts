@@ -1,3 +1,4 @@
+/** Strict readers of the controls and values every widget state holds. */
 import { QuietframeError } from "../../../src/index";
 import { CONTROL_TYPES, SLIDER_SCALES, type ControlSpec } from "../controls/control-spec";
 import { define, expectArray, expectRecord, RESERVED_KEYS, rejectUnknownKeys } from "./strict-read";

@@ -1,3 +1,4 @@
+/** SHA-256 over labelled series of doubles: the fingerprint of a widget's numbers. */
 import { sha256Hex, utf8 } from "./sha256";
 
 /** What a fingerprint is written from: labels (one line of text each) and series of doubles. */

@@ -1,3 +1,4 @@
+/** State text from files, pages and notebooks: size limit, then plain JSON data. */
 import { QuietframeError, parseJsonText } from "../../../src/index";
 import { copyJson } from "./strict-read";
 

@@ -1,3 +1,7 @@
+/**
+ * Checks shared by every kind's strict state reader: paths in errors, JSON-only copies,
+ * single-model documents.
+ */
 import { QuietframeError, QuietframeErrors, QUIETFRAME_VERSION } from "../../../src/index";
 import { WIDGET_MODULE, type JupyterWidgetStateDocument } from "./widget-state";
 

@@ -1,3 +1,5 @@
+/** The entangled-light panel in the page: controls, three charts, numbers, download. */
+import { widgetBaseCss } from "../../core/browser/styles";
 import type { View } from "vega";
 import { vega } from "../../core/browser/vega";
 import {
@@ -20,19 +22,10 @@ import { el, injectStyleOnce } from "../../core/browser/dom";
 
 const STYLE_ID = "quietframe-entangled-style";
 const P = `.${ENTANGLED_CLASS}`;
-const CSS = `
-${P}{font-family:system-ui,sans-serif;font-size:14px;color:#1d1d1d;max-width:100%;margin:.5em 0}
-${P} .qf-live{display:flex;flex-direction:column;gap:.6em}
-${P} .qf-controls{display:grid;grid-template-columns:minmax(8em,max-content) minmax(10em,22em) auto;gap:.35em .8em;align-items:center}
-${P} .qf-controls input[type=range]{width:100%}
-${P} .qf-controls input[type=text]{width:100%;box-sizing:border-box;font:inherit}
+const CSS = `${widgetBaseCss(P)}
 ${P} .qf-controls output{font-variant-numeric:tabular-nums;color:#333}
-${P} .qf-alert{border-left:4px solid #b3261e;background:#fbeceb;color:#5c1410;padding:.45em .7em;white-space:pre-wrap}
 ${P} .qf-charts{display:flex;flex-wrap:wrap;gap:1em;align-items:flex-start}
-${P} .qf-readout{display:grid;grid-template-columns:max-content 1fr;gap:.15em .8em;margin:0}
-${P} .qf-readout dt{font-weight:500}
 ${P} .qf-readout dd{margin:0;font-variant-numeric:tabular-nums}
-${P} .qf-actions{display:flex;flex-wrap:wrap;gap:.4em}
 ${P} .qf-actions button{font:inherit;font-size:13px;padding:.2em .7em;cursor:pointer}
 `;
 

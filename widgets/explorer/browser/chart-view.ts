@@ -1,3 +1,7 @@
+/**
+ * The live Vega view of a budget chart, shared by the explorer's page view and the live chart
+ * front-end.
+ */
 import type { Changeset, View } from "vega";
 import { vega } from "../../core/browser/vega";
 import { log, type BudgetTable } from "../../../src/index";

@@ -1,3 +1,4 @@
+/** The explorer in the page: controls, chart, figures, toolbar; recomputes in the browser. */
 import { tableToCsv } from "../../../src/index";
 import type { CurveRow } from "../budget-spec";
 import { computeExplorer, type ExplorerComputation } from "../model";

@@ -1,3 +1,4 @@
+/** The standalone page's panel that opens another explorer state. */
 import { QuietframeError, QuietframeErrors } from "../../../src/index";
 import { EXPLORER_CLASS, LOADER_CLASS, STATE_SCRIPT_CLASS } from "../names";
 import { loadExplorerState, stateDocumentText } from "../document";

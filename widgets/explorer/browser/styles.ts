@@ -1,3 +1,5 @@
+/** The explorer's styles in the page. */
+import { widgetBaseCss } from "../../core/browser/styles";
 import { injectStyleOnce } from "../../core/browser/dom";
 import { EXPLORER_CLASS } from "../names";
 
@@ -5,16 +7,10 @@ import { EXPLORER_CLASS } from "../names";
 const STYLE_ID = "quietframe-explorer-style";
 
 const W = `.${EXPLORER_CLASS}`;
-const CSS = `
-${W}{font-family:system-ui,sans-serif;font-size:14px;color:#1d1d1d;max-width:100%;margin:.5em 0}
-${W} .qf-live{display:flex;flex-direction:column;gap:.6em}
-${W} .qf-controls{display:grid;grid-template-columns:minmax(8em,max-content) minmax(10em,22em) auto;gap:.35em .8em;align-items:center}
+const CSS = `${widgetBaseCss(W)}
 ${W} .qf-controls label{font-weight:500}
-${W} .qf-controls input[type=range]{width:100%}
-${W} .qf-controls input[type=text]{width:100%;box-sizing:border-box;font:inherit}
 ${W} .qf-controls output,.qf-unit{font-variant-numeric:tabular-nums;color:#333}
 ${W} [aria-invalid=true]{outline:2px solid #b3261e;outline-offset:1px}
-${W} .qf-alert{border-left:4px solid #b3261e;background:#fbeceb;color:#5c1410;padding:.45em .7em;white-space:pre-wrap}
 ${W} .qf-notice{border-left:4px solid #a06a00;background:#fdf5e4;color:#4a3300;padding:.45em .7em;white-space:pre-wrap}
 ${W} .qf-caution{border:2px solid #c77700;background:#fff6de;color:#3d2600;padding:.45em .7em}
 ${W} .qf-caution strong::before{content:"\\26A0\\FE0E  "}
@@ -26,8 +22,6 @@ ${W} .qf-pointer{position:absolute;pointer-events:none;background:rgba(255,255,2
 ${W} .qf-pointer table{border-collapse:collapse}
 ${W} .qf-pointer td{padding:0 .4em 0 0}
 ${W} .qf-pointer td:last-child{text-align:right;font-variant-numeric:tabular-nums}
-${W} .qf-readout{display:grid;grid-template-columns:max-content 1fr;gap:.15em .8em;margin:0}
-${W} .qf-readout dt{font-weight:500}
 ${W} .qf-readout dd{margin:0}
 ${W} .qf-reach-gauge{display:grid;grid-template-columns:max-content minmax(8em,24em) max-content;gap:.2em .8em;align-items:center;font-size:13px}
 ${W} .qf-reach-gauge[hidden]{display:none}
@@ -37,7 +31,6 @@ ${W} .qf-gauge-bar{display:block;height:100%;background:#3a6ea5}
 ${W} .qf-gauge-initial .qf-gauge-bar{background:#9a9a9a}
 ${W} .qf-gauge-value{font-variant-numeric:tabular-nums}
 ${W} .qf-notes{margin:0;padding-left:1.2em;color:#4a4a4a;font-size:13px}
-${W} .qf-actions{display:flex;flex-wrap:wrap;gap:.4em}
 ${W} .qf-actions button{font:inherit;font-size:13px;padding:.2em .7em;cursor:pointer}
 ${W} .qf-copy-fallback{width:100%;min-height:6em;font-family:ui-monospace,monospace;font-size:12px}
 `;

@@ -1,3 +1,4 @@
+/** Front-end module "quietframe-live": the chart model. */
 import { DOMWidgetModel, type ISerializers } from "@jupyter-widgets/base";
 import { chartModelIdentity } from "../live/names";
 

@@ -1,3 +1,4 @@
+/** Front-end module "quietframe-live": the chart view. */
 import { DOMWidgetView } from "@jupyter-widgets/base";
 import { ChartView } from "../browser/chart-view";
 import { el } from "../../core/browser/dom";

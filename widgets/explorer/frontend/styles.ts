@@ -1,3 +1,4 @@
+/** Front-end module "quietframe-live": the chart view's styles. */
 import { injectStyleOnce } from "../../core/browser/dom";
 import { CHART_VIEW_CLASS } from "../live/names";
 

@@ -1,3 +1,4 @@
+/** The live chart model's state, from an explorer computation. */
 import { budgetSpec, CURVES_DATASET } from "../budget-spec";
 import type { ExplorerComputation } from "../model";
 import { explorerReach } from "../reach";

@@ -1,3 +1,4 @@
+/** Curves as float64 bytes on the widget protocol, and back. */
 import type { BudgetTable } from "../../../src/index";
 
 /**

@@ -1,3 +1,4 @@
+/** Explorer controls as standard Jupyter controls, and the values between them. */
 import { QuietframeError, log10, pow, parseQuantity, type QuantityKind } from "../../../src/index";
 import { checkValue, sliderPosition, sliderValue, writeValue, type ResolvedControl } from "../../core/controls/setup-controls";
 import type { StandardControl } from "./host";

@@ -1,3 +1,4 @@
+/** What the live explorer needs from the kernel's widget layer (tests give an in-memory one). */
 import type { MimeBundle } from "../../core/notebook/display";
 
 /**

@@ -1,3 +1,4 @@
+/** The live explorer's widget host in the running quietframe kernel. */
 import { createControl, dropdown, floatLogSlider, floatSlider, text, vbox } from "../../core/comm/controls/controls";
 import { displayWidget } from "../../core/comm/display-widget";
 import { kernelComms } from "../../core/comm/kernel-comms";

@@ -1,3 +1,7 @@
+/**
+ * The explorer live in the kernel: standard controls and the chart model, recomputed on every
+ * change.
+ */
 import { QuietframeError, QuietframeErrors } from "../../../src/index";
 import { checkValue, resolveControls } from "../../core/controls/setup-controls";
 import { computeExplorer, type ExplorerComputation } from "../model";

@@ -1,3 +1,4 @@
+/** Names of the live chart model and view on the widget protocol (module "quietframe-live"). */
 import { QUIETFRAME_VERSION } from "../../../src/index";
 
 /**

@@ -1,3 +1,4 @@
+/** Explorer states that live charts left in a saved notebook's widget state. */
 import { QuietframeError, parseJsonText } from "../../../src/index";
 import { WIDGET_STATE_MIME } from "../../core/state/widget-state";
 import { CHART_MODEL_NAME, LIVE_MODULE } from "./names";

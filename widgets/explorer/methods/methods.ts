@@ -1,3 +1,4 @@
+/** The "methods" paragraph of an explorer state (Markdown or LaTeX) with its references. */
 import { componentKind, QuietframeError, QUIETFRAME_VERSION, type SetupDescription } from "../../../src/index";
 import { applyValues, type ExplorerComputation } from "../model";
 import type { ExplorerState } from "../format";

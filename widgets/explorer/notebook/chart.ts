@@ -1,3 +1,4 @@
+/** A static budget chart in a notebook (Vega-Lite, SVG, text). */
 import { budgetSpec } from "../budget-spec";
 import type { ExplorerOptions } from "../model";
 import { renderSvg } from "../../core/render/static";

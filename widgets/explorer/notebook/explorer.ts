@@ -1,3 +1,4 @@
+/** The explorer's notebook API: explorer(...), show() (live or kernel-free), set(), onChange. */
 import { inspect } from "node:util";
 import { QuietframeError, parseJsonText, type SetupDescription } from "../../../src/index";
 import { computeExplorer, createExplorerState, type ExplorerComputation, type ExplorerOptions } from "../model";

@@ -1,3 +1,4 @@
+/** An explorer's figures as plain numbers and its text summary, for notebook cells. */
 import { describeHeadline, type HeadlineFigures } from "../../../src/index";
 import type { ExplorerComputation } from "../model";
 import { explorerReach, type ReachFigures } from "../reach";

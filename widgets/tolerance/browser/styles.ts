@@ -1,3 +1,4 @@
+/** The tolerance map's styles in the page. */
 import { injectStyleOnce } from "../../core/browser/dom";
 import { TOLERANCE_CLASS } from "../names";
 

@@ -1,3 +1,4 @@
+/** The tolerance map in the page: heat map, keyboard cursor, a cell's explorer below. */
 import type { View } from "vega";
 import { vega } from "../../core/browser/vega";
 import { CellStatus } from "../../../src/index";

@@ -1,3 +1,5 @@
+/** The trajectory widget in the page: controls, runs in slices with progress and Stop, charts. */
+import { widgetBaseCss } from "../../core/browser/styles";
 import type { View } from "vega";
 import { vega } from "../../core/browser/vega";
 import { QuietframeError } from "../../../src/index";
@@ -22,16 +24,10 @@ export type TrajectoryStatus = "booting" | "running" | "ready" | "error";
 
 const STYLE_ID = "quietframe-trajectory-style";
 const T = `.${TRAJECTORY_CLASS}`;
-const CSS = `
-${T}{font-family:system-ui,sans-serif;font-size:14px;color:#1d1d1d;max-width:100%;margin:.5em 0}
-${T} .qf-live{display:flex;flex-direction:column;gap:.6em}
-${T} .qf-controls{display:grid;grid-template-columns:minmax(8em,max-content) minmax(10em,22em) auto;gap:.35em .8em;align-items:center}
+const CSS = `${widgetBaseCss(T)}
 ${T} .qf-controls label{font-weight:500}
-${T} .qf-controls input[type=range]{width:100%}
-${T} .qf-controls input[type=text]{width:100%;box-sizing:border-box;font:inherit}
 ${T} .qf-controls output,${T} .qf-unit{font-variant-numeric:tabular-nums;color:#333}
 ${T} [aria-invalid=true]{outline:2px solid #b3261e;outline-offset:1px}
-${T} .qf-alert{border-left:4px solid #b3261e;background:#fbeceb;color:#5c1410;padding:.45em .7em;white-space:pre-wrap}
 ${T} .qf-notice{border-left:4px solid #a06a00;background:#fdf5e4;color:#4a3300;padding:.45em .7em;white-space:pre-wrap}
 ${T} .qf-caution{border:2px solid #c77700;background:#fff6de;color:#3d2600;padding:.45em .7em}
 ${T} .qf-caution ul{margin:.2em 0 0;padding-left:1.2em}
@@ -39,10 +35,7 @@ ${T} .qf-run{display:flex;gap:.6em;align-items:center;flex-wrap:wrap}
 ${T} .qf-run progress{width:18em}
 ${T} .qf-run-text{font-variant-numeric:tabular-nums;color:#333;font-size:13px}
 ${T} .qf-charts{display:flex;flex-wrap:wrap;gap:1em;align-items:flex-start}
-${T} .qf-readout{display:grid;grid-template-columns:max-content 1fr;gap:.15em .8em;margin:0}
-${T} .qf-readout dt{font-weight:500}
 ${T} .qf-readout dd{margin:0;font-variant-numeric:tabular-nums}
-${T} .qf-actions{display:flex;flex-wrap:wrap;gap:.4em}
 ${T} .qf-actions button,${T} .qf-run button{font:inherit;font-size:13px;padding:.2em .7em;cursor:pointer}
 ${T} .qf-flash{color:#2f5f2f;padding:.2em .7em}
 ${T} .qf-copy-fallback{width:100%;min-height:6em;font-family:ui-monospace,monospace;font-size:12px}

@@ -1,3 +1,7 @@
+/**
+ * The standard controls of @jupyter-widgets/controls (sliders, dropdown, text, boxes) as
+ * kernel-side widget models.
+ */
 import { QuietframeError, pow } from "../../../../src/index";
 import { WidgetModel, type Validator, type WidgetModelOptions } from "../widget-model";
 import type { CommManager } from "../comm-manager";
