@@ -1,7 +1,7 @@
 import { QuietframeError, headlineFigures, parseGrid, tabulateBudget, evaluateSetup, loadSetup, applyValues, QUIETFRAME_VERSION, type HeadlineFigures, type BudgetTable, type Evaluation, type SetupDescription, type ResolvedSetup } from "../../src/index";
 import { budgetFingerprint } from "./fingerprint";
 import { EXPLORER_STATE_FORMAT, EXPLORER_STATE_VERSION, type ExplorerSettings, type ExplorerState } from "./format";
-import { type ControlSpec } from "../core/controls/control-spec";
+import type { ControlSpec } from "../core/controls/control-spec";
 import { resolveControls, resolveStateControls, type ResolvedControl } from "../core/controls/setup-controls";
 
 /** Re-exported: widgets and notebooks write control values into set-ups with it. */

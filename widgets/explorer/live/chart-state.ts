@@ -4,7 +4,7 @@ import type { ExplorerComputation } from "../model";
 import { explorerReach } from "../reach";
 import { chartTitle } from "../fragment";
 import { headlineSummary, reachSummary } from "../summary";
-import { type SummaryLine } from "../../core/page/summary-line";
+import type { SummaryLine } from "../../core/page/summary-line";
 import type { ExplorerState } from "../format";
 import { curvesToWire, type WireCurves } from "./chart-wire";
 import { chartModelIdentity } from "./names";

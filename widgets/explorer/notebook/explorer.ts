@@ -3,7 +3,7 @@ import { inspect } from "node:util";
 import { QuietframeError, parseJsonText, type SetupDescription } from "../../../src/index";
 import { computeExplorer, createExplorerState, type ExplorerComputation, type ExplorerOptions } from "../model";
 import { explorerHtml } from "../html";
-import { type RenderPngOptions } from "../../core/render/static";
+import type { RenderPngOptions } from "../../core/render/static";
 import { explorerFigures } from "../figures";
 import { loadExplorerState, stateDocumentText } from "../document";
 import { EXPLORER_STATE_FORMAT, type ExplorerState } from "../format";
