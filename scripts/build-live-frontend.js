@@ -1,6 +1,6 @@
 #!/usr/bin/env node
 /**
- * Bundles quietframe's widget module for Jupyter front-ends (widgets/live-frontend: the chart
+ * Bundles quietframe's widget module for Jupyter front-ends (widgets/explorer/frontend: the chart
  * model and view, Vega and Vega-Lite) in the two forms widget managers load:
  *
  *   dist/live-frontend/esm/index.js   an ES module (JupyterLab-style managers, pages with import maps)
@@ -21,16 +21,16 @@ const out = join(root, "dist", "live-frontend");
 const BASE = "@jupyter-widgets/base";
 
 const common = {
-  entryPoints: [join(root, "widgets", "live-frontend", "index.ts")],
+  entryPoints: [join(root, "widgets", "explorer", "frontend", "index.ts")],
   bundle: true,
   minify: true,
   target: "es2020",
   platform: "browser",
   external: [BASE],
   legalComments: "none",
-  // The same trimmed Vega as the kernel-free runtime (see widgets/browser/vega-slim.ts).
-  alias: { vega: join(root, "widgets", "browser", "vega-slim.ts") },
-  tsconfig: join(root, "widgets", "live-frontend", "tsconfig.json"),
+  // The same trimmed Vega as the kernel-free runtime (see widgets/core/browser/vega-slim.ts).
+  alias: { vega: join(root, "widgets", "core", "browser", "vega-slim.ts") },
+  tsconfig: join(root, "widgets", "explorer", "frontend", "tsconfig.json"),
   logLevel: "warning",
   define: { "process.env.NODE_ENV": '"production"' },
   write: false,

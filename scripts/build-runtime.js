@@ -1,6 +1,6 @@
 #!/usr/bin/env node
 /**
- * Bundles the browser runtime (widgets/browser/runtime.ts: the explorer model, the engine,
+ * Bundles the browser runtime (widgets/runtime/runtime.ts: the explorer model, the engine,
  * Vega and Vega-Lite) into one minified script, dist/widgets/runtime.js. HTML outputs inline
  * it, so it must work without any network and must not contain text that ends a <script>.
  */
@@ -27,7 +27,7 @@ const versionOnlyManifest = {
 
 async function main() {
   await build({
-    entryPoints: [join(root, "widgets", "browser", "runtime.ts")],
+    entryPoints: [join(root, "widgets", "runtime", "runtime.ts")],
     outfile,
     bundle: true,
     minify: true,
@@ -38,9 +38,9 @@ async function main() {
     // on a page (a re-run notebook cell) leaves the first in charge.
     legalComments: "none",
     // Only the Vega transforms a budget chart uses (about 120 kB less).
-    alias: { vega: join(root, "widgets", "browser", "vega-slim.ts") },
+    alias: { vega: join(root, "widgets", "core", "browser", "vega-slim.ts") },
     plugins: [versionOnlyManifest],
-    tsconfig: join(root, "widgets", "browser", "tsconfig.json"),
+    tsconfig: join(root, "widgets", "runtime", "tsconfig.json"),
     logLevel: "warning",
     define: { "process.env.NODE_ENV": '"production"' },
   });

@@ -40,3 +40,18 @@ export type { ComponentKind } from "./components/types";
 export * from "./reach";
 export * from "./tolerance";
 export * from "./timedomain";
+
+// What the widgets (widgets/) use of the engine besides the exports above: they reach the
+// engine only through this entry (and, in Node, through src/node.ts).
+export { showValue } from "./errors";
+export { parseJsonText } from "./setup/parse-json";
+export { componentKind } from "./components/registry";
+export type { ParamSpec } from "./components/types";
+export { squeezeFactorFromDb } from "./components/light-sources";
+export type { TwoModeSqueezing } from "./physics/two-mode-squeezing";
+export { requireNoGrowingModes } from "./engine/stability";
+export { checkSettings } from "./timedomain/settings";
+export { evaluateCell } from "./tolerance/evaluate";
+export { resolveToleranceSpec } from "./tolerance/spec";
+/** Elementary functions that give the same bits in every JavaScript engine (see src/numeric/portable-math.ts). */
+export { cos, log, log10, pow, sin } from "./numeric/portable-math";

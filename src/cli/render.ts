@@ -3,33 +3,30 @@ import { readFileSync, renameSync, rmSync, writeFileSync } from "node:fs";
 import { basename, extname } from "node:path";
 import { parseArgs } from "node:util";
 import { describeHeadline } from "../engine/headline";
-import { spectralDensityUnit, tableToCsv } from "../engine/tabulate";
+import { spectralDensityUnit } from "../engine/tabulate";
 import { QuietframeError } from "../errors";
 import { loadSetup } from "../pipeline";
-import type { ControlSpec, ExplorerState } from "../../widgets/state/format";
-import { SLIDER_SCALES, type SliderScale } from "../../widgets/state/format";
-import { computeExplorer, createExplorerState, type ExplorerComputation } from "../../widgets/explorer/model";
-import { loadExplorerState } from "../../widgets/state/document";
-import { liveStateSource } from "../../widgets/live/saved-state";
-import { explorerFigures } from "../../widgets/render/static";
-import { standalonePage } from "../../widgets/html/standalone";
+import { SLIDER_SCALES, type ControlSpec, type SliderScale } from "../../widgets/core/controls/control-spec";
+import { kindOutput, OUTPUT_FORMATS, type OutputFormat } from "../../widgets/core/render/kind-output";
+import { explorerKind } from "../../widgets/explorer/kind";
+import { computeExplorer, createExplorerState } from "../../widgets/explorer/model";
+import { loadWidgetState } from "../../widgets/registry";
 import type { CliIo } from "./run";
-import { isTrajectoryInput } from "../../widgets/trajectory/document";
-import { renderTrajectory } from "./render-trajectory";
 
 /**
- * `render` and `report`: files from explorer states and set-ups. The application layer: it
- * reads and writes files and calls the widgets' pure code (state, model, figures, HTML).
+ * `render` and `report`: files from saved widget states and set-ups. The application layer: it
+ * reads and writes files; the widget registry finds a state's kind, and the kind reads,
+ * recomputes and draws it.
  */
 
-export const OUTPUT_FORMATS = ["html", "svg", "png", "csv"] as const;
-export type OutputFormat = (typeof OUTPUT_FORMATS)[number];
+export { OUTPUT_FORMATS, type OutputFormat };
 
 export const RENDER_USAGE = `  quietframe render <state.json> -o <out.html|out.svg|out.png|out.csv> [--format F] [--strict] [--scale S]
-      Recomputes a saved widget state (an explorer, or a trajectory widget whose simulation
-      runs again from its seed) and writes its figure: a standalone interactive page
-      (html), the chart (svg, png at --scale, default 2) or the plotted numbers (csv). Warns
-      when the recomputed curves differ from the stored fingerprint; --strict makes that an error.
+      Recomputes a saved widget state (an explorer, a trajectory widget whose simulation
+      runs again from its seed, a tolerance map or an entangled-light panel) and writes its
+      figure: a standalone interactive page (html), the chart (svg, png at --scale, default 2)
+      or the plotted numbers (csv; explorers and trajectories). Warns when the recomputed
+      curves differ from the stored fingerprint; --strict makes that an error.
       A saved notebook (.ipynb) works too: the state of its live chart (--widget N if several).
   quietframe report <setup.json> -o <report.html> [--control target[=min:max[:log|linear]]]... [--title T]
       An interactive HTML report of a set-up with sliders for the given parameters, e.g.
@@ -57,27 +54,22 @@ export async function renderCommand(args: string[], io: CliIo): Promise<number> 
   const format = outputFormat(values.format, output);
   const scale = pngScale(values.scale);
   const text = readText(input);
-  if (isTrajectoryInput(text)) {
-    const done = await renderTrajectory(text, input, format, { strict: values.strict, scale, source: basename(input) }, io);
-    writeAtomically(output, done.bytes);
-    io.out(`wrote ${output} (${format}, ${done.bytes.length} bytes, ${done.fingerprint})\n`);
-    return 0;
-  }
-  const saved = liveStateSource(text, basename(input), widgetNumber(values.widget));
-  const { state, computation, fingerprintMatches } = loadExplorerState(saved.value, saved.source);
-  if (!fingerprintMatches) {
+  // The registry finds the state's kind (an explorer, a trajectory whose simulation runs again, …).
+  const { kind, loaded } = loadWidgetState(text, basename(input), { widget: widgetNumber(values.widget) });
+  const fingerprint = loaded.fingerprint;
+  if (fingerprint && fingerprint.recomputed !== fingerprint.stored) {
     const message =
       `the recomputed curves differ from the ones stored in ${input} ` +
-      `(stored ${state.fingerprint}, written by quietframe ${state.quietframe}; recomputed ${computation.fingerprint})`;
-    if (values.strict) throw new QuietframeError({ path: `${input}.fingerprint`, value: state.fingerprint, problem: message, allowed: "a state whose numbers this quietframe reproduces bit for bit (drop --strict to render anyway)" });
+      `(stored ${fingerprint.stored}, written by quietframe ${fingerprint.writtenBy}; recomputed ${fingerprint.recomputed})`;
+    if (values.strict) throw new QuietframeError({ path: `${input}.fingerprint`, value: fingerprint.stored, problem: message, allowed: "a state whose numbers this quietframe reproduces bit for bit (drop --strict to render anyway)" });
     io.err(`warning: ${message}\n`);
   }
-  for (const w of computation.evaluation.warnings) io.err(`warning: ${w}\n`);
-  for (const c of computation.evaluation.cautions) io.err(`caution: ${c}\n`);
+  for (const w of loaded.warnings) io.err(`warning: ${w}\n`);
+  for (const c of loaded.cautions) io.err(`caution: ${c}\n`);
   // The page keeps the stored fingerprint, so it too can tell its reader about a mismatch.
-  const bytes = await renderOutput(state, computation, format, scale);
+  const bytes = await kindOutput(kind, loaded, format, scale);
   writeAtomically(output, bytes);
-  io.out(`wrote ${output} (${format}, ${bytes.length} bytes, ${computation.fingerprint})\n`);
+  io.out(`wrote ${output} (${format}, ${bytes.length} bytes${fingerprint ? `, ${fingerprint.recomputed}` : ""})\n`);
   return 0;
 }
 
@@ -103,7 +95,7 @@ export async function reportCommand(args: string[], io: CliIo): Promise<number> 
   const computation = computeExplorer(state);
   for (const w of computation.evaluation.warnings) io.err(`warning: ${w}\n`);
   for (const c of computation.evaluation.cautions) io.err(`caution: ${c}\n`);
-  const bytes = await renderOutput(state, computation, "html", 2);
+  const bytes = await kindOutput(explorerKind, { state, computation, warnings: computation.evaluation.warnings, cautions: computation.evaluation.cautions }, "html", 2);
   writeAtomically(output, bytes);
   const grid = computation.evaluation.budget.frequencies;
   io.out(
@@ -113,14 +105,6 @@ export async function reportCommand(args: string[], io: CliIo): Promise<number> 
       `\nwrote ${output} (interactive report, ${bytes.length} bytes; controls: ${state.controls.map((c) => c.target).join(", ") || "none"})\n`,
   );
   return 0;
-}
-
-async function renderOutput(state: ExplorerState, computation: ExplorerComputation, format: OutputFormat, scale: number): Promise<Uint8Array> {
-  if (format === "csv") return utf8(tableToCsv(computation.table));
-  const figures = await explorerFigures(computation, state, { scale });
-  if (format === "svg") return utf8(figures.svg);
-  if (format === "png") return figures.png;
-  return utf8(standalonePage(state, computation, { svg: figures.svg, png: figures.png }));
 }
 
 /** Control problems are named after the --control option the user typed, not the state field. */
@@ -198,8 +182,4 @@ function writeAtomically(path: string, bytes: Uint8Array): void {
     rmSync(temporary, { force: true });
     throw new QuietframeError({ path, problem: `cannot be written (${(e as NodeJS.ErrnoException).code ?? "error"})`, allowed: "a writable path" });
   }
-}
-
-function utf8(text: string): Uint8Array {
-  return new TextEncoder().encode(text);
 }

@@ -196,9 +196,9 @@ async function inPageLatency({ moves, target, widgetSelector, seed }) {
 async function runBrowserBench(log = () => undefined) {
   if (!existsSync(CHROMIUM)) throw new Error(`Chromium not found at ${CHROMIUM} (Debian package "chromium"; QUIETFRAME_CHROMIUM overrides the path)`);
   const { chromium } = require("playwright-core");
-  const { standalonePage } = dist("widgets/html/standalone");
-  const { explorerFigures } = dist("widgets/render/static");
-  const { resolveControls, sliderValue, writeValue } = dist("widgets/explorer/controls");
+  const { standalonePage } = dist("widgets/explorer/html");
+  const { explorerFigures } = dist("widgets/explorer/figures");
+  const { resolveControls, sliderValue, writeValue } = dist("widgets/core/controls/setup-controls");
   const { computeExplorer } = dist("widgets/explorer/model");
 
   log("browser: building the page");

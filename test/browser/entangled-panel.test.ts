@@ -5,8 +5,8 @@ import { pathToFileURL } from "node:url";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { computeEntangled, createEntangledState, sliderValue, type EntangledState } from "../../widgets/entangled/model";
 import { ENTANGLED_NUMBER_ATTRIBUTES } from "../../widgets/entangled/names";
-import { entangledHtml } from "../../widgets/html/entangled-html";
-import { STATUS_ATTRIBUTE } from "../../widgets/html/names";
+import { entangledHtml } from "../../widgets/entangled/html";
+import { STATUS_ATTRIBUTE } from "../../widgets/core/page/names";
 import { LOCAL_ONLY, openBrowser, type BrowserSession } from "./helpers/chromium";
 
 /**

@@ -4,7 +4,7 @@ import { join } from "node:path";
 import { pathToFileURL } from "node:url";
 import type { Page } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { RUNTIME_FILE } from "../../widgets/html/runtime-source";
+import { RUNTIME_FILE } from "../../widgets/core/page/runtime-source";
 import { createJupyterEnv, REPO_ROOT, SYSTEM_PYTHON, type JupyterEnv } from "../jupyter/env";
 import { executeNotebook, outputsOf, run, type Notebook, type NotebookOutput } from "../jupyter/notebook-file";
 import { LOCAL_ONLY, openBrowser, type BrowserSession } from "./helpers/chromium";

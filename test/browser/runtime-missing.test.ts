@@ -6,10 +6,11 @@ import type { Page } from "playwright-core";
 import { afterAll, afterEach, beforeAll, describe, expect, it } from "vitest";
 import type { SetupDescription } from "../../src/setup/format";
 import { computeExplorer, createExplorerState } from "../../widgets/explorer/model";
-import { explorerHtml, RUNTIME_MISSING_TEXT } from "../../widgets/html/explorer-html";
-import { STATUS_ATTRIBUTE } from "../../widgets/html/names";
-import { runtimeSource } from "../../widgets/html/runtime-source";
-import { explorerFigures } from "../../widgets/render/static";
+import { RUNTIME_MISSING_TEXT } from "../../widgets/core/page/bootstrap";
+import { explorerHtml } from "../../widgets/explorer/html";
+import { STATUS_ATTRIBUTE } from "../../widgets/core/page/names";
+import { runtimeSource } from "../../widgets/core/page/runtime-source";
+import { explorerFigures } from "../../widgets/explorer/figures";
 import { LOCAL_ONLY, openBrowser, type BrowserSession } from "./helpers/chromium";
 import { expectPageMatchesEngine, waitAllReady, WIDGET } from "./helpers/widgets";
 

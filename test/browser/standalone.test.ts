@@ -6,12 +6,12 @@ import { chromium, type BrowserContext, type Page } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { runCliAsync } from "../../src/cli/run";
 import type { SetupDescription } from "../../src/setup/format";
-import { curveRows, type CurveRow } from "../../widgets/chart/budget-spec";
-import { resolveControls, sliderValue, writeValue } from "../../widgets/explorer/controls";
+import { curveRows, type CurveRow } from "../../widgets/explorer/budget-spec";
+import { resolveControls, sliderValue, writeValue } from "../../widgets/core/controls/setup-controls";
 import { computeExplorer, createExplorerState } from "../../widgets/explorer/model";
-import { headlineSummary } from "../../widgets/html/summary";
-import { stateDocumentText } from "../../widgets/state/document";
-import type { ExplorerState } from "../../widgets/state/format";
+import { headlineSummary } from "../../widgets/explorer/summary";
+import { stateDocumentText } from "../../widgets/explorer/document";
+import type { ExplorerState } from "../../widgets/explorer/format";
 
 /**
  * A standalone page rendered by the CLI, opened from file:// in Debian's Chromium: the live

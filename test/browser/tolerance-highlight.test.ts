@@ -5,7 +5,7 @@ import { pathToFileURL } from "node:url";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import type { SetupDescription } from "../../src/setup/format";
 import { toleranceMapInProcess, type ToleranceMapSpec } from "../../src/tolerance";
-import { tolerancePage } from "../../widgets/html/tolerance-html";
+import { tolerancePage } from "../../widgets/tolerance/html";
 import { toleranceWidgetState } from "../../widgets/tolerance/model";
 import { SELECTED_CELL_ATTRIBUTE, TOLERANCE_CLASS } from "../../widgets/tolerance/names";
 import { LOCAL_ONLY, openBrowser, type BrowserSession } from "./helpers/chromium";

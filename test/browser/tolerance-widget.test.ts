@@ -6,7 +6,7 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import type { SetupDescription } from "../../src/setup/format";
 import { toleranceCellSetup, toleranceMapInProcess, type ToleranceMap, type ToleranceMapSpec } from "../../src/tolerance";
 import { computeExplorer, createExplorerState } from "../../widgets/explorer/model";
-import { tolerancePage } from "../../widgets/html/tolerance-html";
+import { tolerancePage } from "../../widgets/tolerance/html";
 import { cellControls, cellGrid, toleranceWidgetState, type ToleranceWidgetState } from "../../widgets/tolerance/model";
 import { SELECTED_CELL_ATTRIBUTE, TOLERANCE_CLASS } from "../../widgets/tolerance/names";
 import { LOCAL_ONLY, openBrowser, type BrowserSession } from "./helpers/chromium";

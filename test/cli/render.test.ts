@@ -7,8 +7,8 @@ import { runCliAsync } from "../../src/cli/run";
 import { tableToCsv } from "../../src/engine/tabulate";
 import type { SetupDescription } from "../../src/setup/format";
 import { computeExplorer, createExplorerState } from "../../widgets/explorer/model";
-import { loadExplorerState, stateDocumentText } from "../../widgets/state/document";
-import type { ExplorerState } from "../../widgets/state/format";
+import { loadExplorerState, stateDocumentText } from "../../widgets/explorer/document";
+import type { ExplorerState } from "../../widgets/explorer/format";
 
 const ROOT = join(__dirname, "..", "..");
 const EXAMPLE = join(ROOT, "examples", "cryogenic-membrane-squeezed.json");

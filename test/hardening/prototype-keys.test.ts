@@ -7,8 +7,9 @@ import type { SetupDescription } from "../../src/setup/format";
 import { toleranceMapInProcess } from "../../src/tolerance";
 import { createEntangledState, entangledStateText, loadEntangledState } from "../../widgets/entangled/model";
 import { computeExplorer, createExplorerState } from "../../widgets/explorer/model";
-import { standalonePage } from "../../widgets/html/standalone";
-import { MAX_STATE_TEXT_BYTES, parseExplorerState, stateDocumentText } from "../../widgets/state/document";
+import { standalonePage } from "../../widgets/explorer/html";
+import { parseExplorerState, stateDocumentText } from "../../widgets/explorer/document";
+import { MAX_STATE_TEXT_BYTES } from "../../widgets/core/state/state-text";
 import { loadToleranceState, toleranceWidgetState } from "../../widgets/tolerance/model";
 import { errorDefect, jsonPaths, mutatedText, prototypesAreClean } from "./support";
 

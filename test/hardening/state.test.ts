@@ -2,8 +2,9 @@ import fc from "fast-check";
 import { describe, expect, it } from "vitest";
 import { QuietframeError } from "../../src/errors";
 import { createExplorerState } from "../../widgets/explorer/model";
-import { MAX_STATE_TEXT_BYTES, parseExplorerState, stateDocumentText } from "../../widgets/state/document";
-import { EXPLORER_STATE_FORMAT } from "../../widgets/state/format";
+import { parseExplorerState, stateDocumentText } from "../../widgets/explorer/document";
+import { MAX_STATE_TEXT_BYTES } from "../../widgets/core/state/state-text";
+import { EXPLORER_STATE_FORMAT } from "../../widgets/explorer/format";
 import { EXAMPLE_TEXTS, errorDefect, exampleObject, inputMentionsForbidden, mutatedText, mutationArb, prototypesAreClean } from "./support";
 
 const RUNS = 10_000;

@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { checkBufferPaths, putBuffers, removeBuffers } from "../../widgets/kernel/buffers";
+import { checkBufferPaths, putBuffers, removeBuffers } from "../../widgets/core/comm/buffers";
 
 // messages.md (@jupyter-widgets/schema), "Instantiating a widget object": buffer_paths
 // [['x'], ['y', 'z', 0]] put the first buffer at state['x'] and the second at

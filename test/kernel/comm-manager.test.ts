@@ -1,5 +1,5 @@
 import { describe, expect, it, vi } from "vitest";
-import { installKernelComms, kernelComms } from "../../widgets/kernel/kernel-comms";
+import { installKernelComms, kernelComms } from "../../widgets/core/comm/kernel-comms";
 import { frontEnd, recordingComms } from "./fake-transport";
 
 // Jupyter messaging protocol, "Custom Messages": comm_open carries comm_id, target_name and
@@ -117,7 +117,7 @@ describe("kernelComms", () => {
     installKernelComms(comms);
     try {
       vi.resetModules();
-      const copy = (await import("../../widgets/kernel/kernel-comms.js")) as typeof import("../../widgets/kernel/kernel-comms.js");
+      const copy = (await import("../../widgets/core/comm/kernel-comms.js")) as typeof import("../../widgets/core/comm/kernel-comms.js");
       expect(copy.kernelComms).not.toBe(kernelComms); // really another module instance
       expect(copy.kernelComms()).toBe(comms);
     } finally {

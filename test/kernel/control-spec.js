@@ -1,7 +1,7 @@
 // Extracts the default states of the standard controls quietframe creates from the model
 // specification shipped in @jupyter-widgets/schema (jupyterwidgetmodels.latest.json: the
 // attributes, types and defaults of @jupyter-widgets/controls and base 2.0.0).
-// `node test/kernel/control-spec.js` rewrites widgets/kernel/controls/spec-states.ts;
+// `node test/kernel/control-spec.js` rewrites widgets/core/comm/controls/spec-states.ts;
 // test/kernel/control-spec.test.ts fails when that file and the package disagree.
 "use strict";
 const { writeFileSync } = require("node:fs");
@@ -59,5 +59,5 @@ function specStatesSource() {
 module.exports = { extractControlSpec, specStatesSource, MODELS };
 
 if (require.main === module) {
-  writeFileSync(join(__dirname, "..", "..", "widgets", "kernel", "controls", "spec-states.ts"), specStatesSource());
+  writeFileSync(join(__dirname, "..", "..", "widgets", "core", "comm", "controls", "spec-states.ts"), specStatesSource());
 }

@@ -3,7 +3,7 @@ import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { build } from "esbuild";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { CONTROL_SPECS } from "../../widgets/kernel/controls/spec-states";
+import { CONTROL_SPECS } from "../../widgets/core/comm/controls/spec-states";
 import { REPO_ROOT } from "../jupyter/env";
 
 // The default states quietframe sends come from the widget model specification that
@@ -18,7 +18,7 @@ const { specStatesSource, MODELS } = require("./control-spec.js") as { specState
 
 describe("the embedded control specification", () => {
   it("is exactly what the package's specification gives (regenerate: node test/kernel/control-spec.js)", () => {
-    const file = readFileSync(join(REPO_ROOT, "widgets", "kernel", "controls", "spec-states.ts"), "utf8");
+    const file = readFileSync(join(REPO_ROOT, "widgets", "core", "comm", "controls", "spec-states.ts"), "utf8");
     expect(file).toBe(specStatesSource());
   });
 

@@ -1,7 +1,7 @@
 import { describe, expect, it } from "vitest";
 import { QuietframeError } from "../../src/errors";
-import { dropdown, dropdownLabel, floatLogSlider, floatSlider, hbox, html, text, vbox } from "../../widgets/kernel/controls/controls";
-import { CONTROL_SPECS } from "../../widgets/kernel/controls/spec-states";
+import { dropdown, dropdownLabel, floatLogSlider, floatSlider, hbox, html, text, vbox } from "../../widgets/core/comm/controls/controls";
+import { CONTROL_SPECS } from "../../widgets/core/comm/controls/spec-states";
 import { frontEnd, recordingComms } from "./fake-transport";
 
 // Standard controls of @jupyter-widgets/controls 2.0.0: each opens its LayoutModel and

@@ -1,4 +1,4 @@
-import { CommManager, type CommTransport } from "../../widgets/kernel/comm-manager";
+import { CommManager, type CommTransport } from "../../widgets/core/comm/comm-manager";
 
 /** A CommManager whose messages to the front-end are recorded instead of sent. */
 export interface Published {

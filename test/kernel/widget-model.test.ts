@@ -1,8 +1,8 @@
 import { describe, expect, it } from "vitest";
 import { QuietframeError } from "../../src/errors";
-import { widgetViewBundle } from "../../widgets/kernel/display-widget";
-import { WidgetModel } from "../../widgets/kernel/widget-model";
-import { widgetRegistry } from "../../widgets/kernel/widget-registry";
+import { widgetViewBundle } from "../../widgets/core/comm/display-widget";
+import { WidgetModel } from "../../widgets/core/comm/widget-model";
+import { widgetRegistry } from "../../widgets/core/comm/widget-registry";
 import { frontEnd, recordingComms } from "./fake-transport";
 
 // Widget message protocol 2.1: @jupyter-widgets/schema, messages.md, "Widget messaging

@@ -1,5 +1,5 @@
-import type { MimeBundle } from "../../widgets/notebook/display";
-import type { LiveModel, StandardControl, WidgetHost } from "../../widgets/live/host";
+import type { MimeBundle } from "../../widgets/core/notebook/display";
+import type { LiveModel, StandardControl, WidgetHost } from "../../widgets/explorer/live/host";
 
 /**
  * An in-memory widget host: models hold their state and fire "change:<key>" and "change"

@@ -4,12 +4,12 @@ import { afterEach, describe, expect, test } from "vitest";
 import { QuietframeError } from "../../src/errors";
 import type { SetupDescription } from "../../src/setup/format";
 import { computeExplorer } from "../../widgets/explorer/model";
-import { installKernelComms } from "../../widgets/kernel/kernel-comms";
-import { CHART_MODEL_NAME, LIVE_MODULE } from "../../widgets/live/names";
-import type { LiveChange } from "../../widgets/live/live-explorer";
-import { explorer } from "../../widgets/notebook/explorer";
-import { liveRuntimeCarried, resetLiveSession } from "../../widgets/live/live-session";
-import { resetDisplaySession, runtimeShown } from "../../widgets/notebook/session";
+import { installKernelComms } from "../../widgets/core/comm/kernel-comms";
+import { CHART_MODEL_NAME, LIVE_MODULE } from "../../widgets/explorer/live/names";
+import type { LiveChange } from "../../widgets/explorer/live/live-explorer";
+import { explorer } from "../../widgets/explorer/notebook/explorer";
+import { liveRuntimeCarried, resetLiveSession } from "../../widgets/explorer/live/live-session";
+import { resetDisplaySession, runtimeShown } from "../../widgets/core/notebook/session";
 import { frontEnd, recordingComms, type Published } from "../kernel/fake-transport";
 
 /**

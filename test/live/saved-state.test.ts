@@ -7,10 +7,11 @@ import { runCliAsync } from "../../src/cli/run";
 import { QuietframeError } from "../../src/errors";
 import type { SetupDescription } from "../../src/setup/format";
 import { computeExplorer, createExplorerState } from "../../widgets/explorer/model";
-import { initialChartState } from "../../widgets/live/chart-state";
-import { liveStateSource } from "../../widgets/live/saved-state";
-import { loadExplorerState, stateDocumentText, WIDGET_STATE_MIME } from "../../widgets/state/document";
-import type { ExplorerState } from "../../widgets/state/format";
+import { initialChartState } from "../../widgets/explorer/live/chart-state";
+import { liveStateSource } from "../../widgets/explorer/live/saved-state";
+import { loadExplorerState, stateDocumentText } from "../../widgets/explorer/document";
+import { WIDGET_STATE_MIME } from "../../widgets/core/state/widget-state";
+import type { ExplorerState } from "../../widgets/explorer/format";
 
 // Outside reference: the Jupyter widget state schema v2 shipped in @jupyter-widgets/schema.
 const widgetSchemas = require("@jupyter-widgets/schema") as { v2: { state: object } };

@@ -7,8 +7,8 @@ import { afterEach, beforeEach, describe, expect, it } from "vitest";
 import { QuietframeError } from "../../src/errors";
 import { headlineFigures } from "../../src/engine/headline";
 import { evaluateSetup, loadSetup } from "../../src/pipeline";
-import { EXPLORER_CLASS } from "../../widgets/html/names";
-import { runtimeSource } from "../../widgets/html/runtime-source";
+import { EXPLORER_CLASS } from "../../widgets/explorer/names";
+import { runtimeSource } from "../../widgets/core/page/runtime-source";
 import {
   applyValues,
   chartBundle,

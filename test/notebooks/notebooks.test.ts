@@ -2,12 +2,12 @@ import { mkdtempSync, readdirSync, readFileSync, rmSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { EXPLORER_CLASS } from "../../widgets/html/names";
-import { RUNTIME_FILE } from "../../widgets/html/runtime-source";
-import { loadExplorerState } from "../../widgets/state/document";
+import { EXPLORER_CLASS } from "../../widgets/explorer/names";
+import { RUNTIME_FILE } from "../../widgets/core/page/runtime-source";
+import { loadExplorerState } from "../../widgets/explorer/document";
 import { isTrajectoryInput, loadTrajectoryState } from "../../widgets/trajectory/document";
 import { TRAJECTORY_CLASS } from "../../widgets/trajectory/names";
-import { VEGA_LITE_MIME } from "../../widgets/notebook/chart";
+import { VEGA_LITE_MIME } from "../../widgets/explorer/notebook/chart";
 import { createJupyterEnv, REPO_ROOT, type JupyterEnv } from "../jupyter/env";
 import { executeNotebook, joined, outputsOf, validateWithNbformat, type ExecutedNotebook, type Notebook, type NotebookOutput } from "../jupyter/notebook-file";
 

@@ -6,7 +6,7 @@ import { parseQuantity } from "../../src/units";
 import { evaluateSetup, loadSetup } from "../../src/pipeline";
 import { strainCurve, volumeGain, inspiralRange } from "../../src/reach";
 import { CellStatus, toleranceCellSetup, toleranceMap, toleranceMapInProcess, type ToleranceMapSpec } from "../../src/node";
-import { resolveControls, sliderValue, writeValue } from "../../widgets/explorer/controls";
+import { resolveControls, sliderValue, writeValue } from "../../widgets/core/controls/setup-controls";
 import { applyValues } from "../../widgets/explorer/model";
 import { example, firstDifference } from "./helpers";
 

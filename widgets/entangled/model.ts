@@ -1,19 +1,6 @@
-import { QuietframeError } from "../../src/errors";
-import { squeezeFactorFromDb } from "../../src/components/light-sources";
-import type { TwoModeSqueezing } from "../../src/physics/two-mode-squeezing";
-import {
-  AMPLITUDE_CORRELATED,
-  conditionalVariance,
-  duanBound,
-  duanSum,
-  entangledSourceCovariance,
-  entangledSourceSpectrum,
-  eprVariances,
-  logarithmicNegativity,
-} from "../../src/engine/entanglement";
-import { cos, log10, pow, sin } from "../../src/numeric/portable-math";
-import { QUIETFRAME_VERSION } from "../../src/version";
-import { parseUntrustedJson } from "../state/document";
+/** The entangled-light panel's state and model (two-mode squeezed source, losses, bandwidth). */
+import { QuietframeError, squeezeFactorFromDb, AMPLITUDE_CORRELATED, conditionalVariance, duanBound, duanSum, entangledSourceCovariance, entangledSourceSpectrum, eprVariances, logarithmicNegativity, cos, log10, pow, sin, QUIETFRAME_VERSION, type TwoModeSqueezing } from "../../src/index";
+import { parseUntrustedJson } from "../core/state/state-text";
 
 /**
  * The entangled-light panel's model: a two-mode squeezed source with per-arm losses and an

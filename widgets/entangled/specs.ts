@@ -1,3 +1,4 @@
+/** Vega-Lite specs of the entangled-light panel (spectrum, EPR variances, quadrature ellipses). */
 import { ELLIPSE_SERIES, EPR_LABELS, SPECTRUM_SERIES, type EntangledComputation } from "./model";
 
 /**

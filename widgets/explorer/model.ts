@@ -1,21 +1,8 @@
-import { QuietframeError } from "../../src/errors";
-import { headlineFigures, type HeadlineFigures } from "../../src/engine/headline";
-import { parseGrid } from "../../src/setup/grid";
-import { tabulateBudget, type BudgetTable } from "../../src/engine/tabulate";
-import { evaluate, loadSetup, prepare, type Evaluation } from "../../src/pipeline";
-import { applyValues } from "../../src/setup/apply-values";
-import type { SetupDescription } from "../../src/setup/format";
-import type { ResolvedSetup } from "../../src/setup/validate";
-import { QUIETFRAME_VERSION } from "../../src/version";
-import { budgetFingerprint } from "../state/fingerprint";
-import {
-  EXPLORER_STATE_FORMAT,
-  EXPLORER_STATE_VERSION,
-  type ControlSpec,
-  type ExplorerSettings,
-  type ExplorerState,
-} from "../state/format";
-import { resolveControls, resolveStateControls, type ResolvedControl } from "./controls";
+import { QuietframeError, headlineFigures, parseGrid, tabulateBudget, evaluate, prepare, loadSetup, applyValues, QUIETFRAME_VERSION, type HeadlineFigures, type BudgetTable, type Evaluation, type SetupDescription, type ResolvedSetup } from "../../src/index";
+import { budgetFingerprint } from "./fingerprint";
+import { EXPLORER_STATE_FORMAT, EXPLORER_STATE_VERSION, type ExplorerSettings, type ExplorerState } from "./format";
+import type { ControlSpec } from "../core/controls/control-spec";
+import { resolveControls, resolveStateControls, type ResolvedControl } from "../core/controls/setup-controls";
 
 /** Re-exported: widgets and notebooks write control values into set-ups with it. */
 export { applyValues };

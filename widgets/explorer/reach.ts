@@ -1,6 +1,6 @@
-import { QuietframeError, QuietframeErrors } from "../../src/errors";
-import { inspiralHorizon, inspiralRange, strainCurve, type InspiralDistance } from "../../src/reach";
-import type { ExplorerState } from "../state/format";
+/** The inspiral reach gauge of a strain budget, against the initial set-up. */
+import { QuietframeError, QuietframeErrors, inspiralHorizon, inspiralRange, strainCurve, type InspiralDistance } from "../../src/index";
+import type { ExplorerState } from "./format";
 import { computeExplorer, initialValues, type ExplorerComputation } from "./model";
 
 /**

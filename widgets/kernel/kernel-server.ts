@@ -1,8 +1,9 @@
+/** The quietframe kernel's server: tslab's, with comms served here. */
 import { AsyncLocalStorage } from "node:async_hooks";
 import { randomUUID } from "node:crypto";
 import { JupyterHandlerImpl, ZmqServer } from "tslab/dist/jupyter";
-import { QUIETFRAME_VERSION } from "../../src/version";
-import { CommManager, isFrontEndCommType } from "./comm-manager";
+import { QUIETFRAME_VERSION } from "../../src/index";
+import { CommManager, isFrontEndCommType } from "../core/comm/comm-manager";
 import { decodeMessage, encodeMessage, type MessageHeader, type OutgoingMessage, type SigningKey, type WireMessage } from "./wire";
 
 /**

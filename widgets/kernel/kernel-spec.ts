@@ -1,7 +1,8 @@
+/** The quietframe kernel's spec (kernel.json) and its installation. */
 import { spawnSync } from "node:child_process";
 import { existsSync } from "node:fs";
 import { join, resolve } from "node:path";
-import { QuietframeError } from "../../src/errors";
+import { QuietframeError } from "../../src/index";
 
 /**
  * The quietframe kernel's Jupyter kernel spec, installed through the chosen Python's

@@ -1,10 +1,11 @@
 #!/usr/bin/env node
+/** The entry Jupyter starts for the quietframe kernel. */
 import { writeSync } from "node:fs";
 import { createConverter } from "tslab/dist/converter";
 import { createExecutor, type ConverterSet } from "tslab/dist/executor";
-import { installKernelComms } from "./kernel-comms";
+import { installKernelComms } from "../core/comm/kernel-comms";
 import { CommKernelServer, QuietframeHandler } from "./kernel-server";
-import { registerWidgetTargets } from "./widget-targets";
+import { registerWidgetTargets } from "../core/comm/widget-targets";
 
 /**
  * The quietframe kernel: tslab's TypeScript executor and message handling, served by

@@ -1,3 +1,4 @@
+/** The Jupyter wire format: frames and their HMAC signature. */
 import { createHmac, randomUUID, timingSafeEqual } from "node:crypto";
 
 /**

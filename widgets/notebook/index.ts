@@ -1,5 +1,6 @@
-import type { SetupDescription } from "../../src/setup/format";
-import { loadSetupFile as readSetupFile } from "../../src/setup/load-file";
+/** "quietframe/notebook": the notebook API, each kind's from its own folder. */
+import type { SetupDescription } from "../../src/index";
+import { loadSetupFile as readSetupFile } from "../../src/node";
 
 /**
  * The notebook API (kernel side, for tslab TypeScript notebooks):
@@ -9,18 +10,23 @@ import { loadSetupFile as readSetupFile } from "../../src/setup/load-file";
  *   w.state;             // plain, shareable state
  *   w.figures;           // headline figures and the plotted table
  */
-export { displayBundle, displayMarkdown, encodeBundle, kernelDisplayWriter, type DisplayOptions, type DisplayResult, type MimeBundle } from "./display";
-export { explorer, NotebookExplorer, type ExplorerInput, type ShowOptions } from "./explorer";
-export type { ControlValues, LiveChange } from "../live/live-explorer";
-export { entangledPanel, EntangledPanel, type EntangledFigures, type EntangledShowOptions } from "./entangled";
-export { trajectoryWidget, NotebookTrajectory, type TrajectoryChanges, type TrajectoryFiguresPlain, type TrajectoryShowOptions } from "./trajectory";
-export { chartBundle, showChart, VEGA_LITE_MIME } from "./chart";
-export { toleranceWidget, NotebookTolerance, type ToleranceWidgetOptions, type ToleranceShowOptions } from "./tolerance";
-export { notebookFigures, summaryText, type NotebookFigures } from "./figures";
-export { resetDisplaySession } from "./session";
+// Shared: displaying outputs, the per-kernel runtime flag, reading any saved widget state.
+export { displayBundle, displayMarkdown, encodeBundle, kernelDisplayWriter, type DisplayOptions, type DisplayResult, type MimeBundle } from "../core/notebook/display";
+export { resetDisplaySession } from "../core/notebook/session";
+export { loadWidgetState } from "../registry";
+export type { ControlSpec } from "../core/controls/control-spec";
+export type { SetupDescription } from "../../src/index";
+
+// Each kind's notebook API, from the kind's folder.
+export { explorer, NotebookExplorer, type ExplorerInput, type ShowOptions } from "../explorer/notebook/explorer";
+export { chartBundle, showChart, VEGA_LITE_MIME } from "../explorer/notebook/chart";
+export { notebookFigures, summaryText, type NotebookFigures } from "../explorer/notebook/figures";
+export type { ControlValues, LiveChange } from "../explorer/live/live-explorer";
 export { applyValues, type ExplorerOptions } from "../explorer/model";
-export type { ControlSpec, ExplorerSettings, ExplorerState } from "../state/format";
-export type { SetupDescription } from "../../src/setup/format";
+export type { ExplorerSettings, ExplorerState } from "../explorer/format";
+export { entangledPanel, EntangledPanel, type EntangledFigures, type EntangledShowOptions } from "../entangled/notebook";
+export { trajectoryWidget, NotebookTrajectory, type TrajectoryChanges, type TrajectoryFiguresPlain, type TrajectoryShowOptions } from "../trajectory/notebook";
+export { toleranceWidget, NotebookTolerance, type ToleranceWidgetOptions, type ToleranceShowOptions } from "../tolerance/notebook";
 
 /**
  * Reads a set-up file (relative paths from the kernel's working directory, which is the

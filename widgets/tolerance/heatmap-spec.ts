@@ -1,3 +1,4 @@
+/** Vega-Lite spec of a tolerance map's heat map. */
 import { axisTitle, heatmapCells, neutralValue, type HeatmapCell, type ToleranceWidgetState } from "./model";
 
 /**

@@ -1,14 +1,8 @@
-import { componentKind } from "../../src/components/registry";
-import { QuietframeError } from "../../src/errors";
-import type { SetupDescription } from "../../src/setup/format";
-import { CellStatus, type CellMessage } from "../../src/tolerance/evaluate";
-import { toleranceCellSetup, type ToleranceMap } from "../../src/tolerance/run";
-import type { AxisScale, FigureInfo, ToleranceMapSpec } from "../../src/tolerance/spec";
-import { parseQuantity, type QuantityKind } from "../../src/units";
-import { QUIETFRAME_VERSION } from "../../src/version";
+import { componentKind, QuietframeError, CellStatus, toleranceCellSetup, parseQuantity, QUIETFRAME_VERSION, type SetupDescription, type CellMessage, type ToleranceMap, type AxisScale, type FigureInfo, type ToleranceMapSpec, type QuantityKind } from "../../src/index";
 import { createExplorerState } from "../explorer/model";
-import type { ControlSpec, ExplorerState } from "../state/format";
-import { parseUntrustedJson } from "../state/document";
+import type { ExplorerState } from "../explorer/format";
+import type { ControlSpec } from "../core/controls/control-spec";
+import { parseUntrustedJson } from "../core/state/state-text";
 
 /**
  * The tolerance-map widget's model: a finished map as plain JSON (it travels inside the

@@ -1,4 +1,5 @@
-import type { JointVariable, TrajectoryResult } from "../../src/timedomain/types";
+/** Every stored number of a trajectory run as CSV. */
+import type { JointVariable, TrajectoryResult } from "../../src/index";
 import { engineDuanLabel, jointDuanSum } from "./duan";
 import { partCurve } from "./series";
 

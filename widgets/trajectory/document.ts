@@ -1,9 +1,7 @@
-import { QuietframeError } from "../../src/errors";
-import { parseJsonText } from "../../src/setup/parse-json";
-import type { SetupDescription } from "../../src/setup/format";
-import { QUIETFRAME_VERSION } from "../../src/version";
-import { MAX_STATE_TEXT_BYTES } from "../state/document";
-import { WIDGET_MODULE, type JupyterWidgetStateDocument } from "../state/format";
+/** The trajectory widget's state file: strict reading, widget-state document, rerun. */
+import { QuietframeError, parseJsonText, QUIETFRAME_VERSION, type SetupDescription } from "../../src/index";
+import { MAX_STATE_TEXT_BYTES } from "../core/state/state-text";
+import { WIDGET_MODULE, type JupyterWidgetStateDocument } from "../core/state/widget-state";
 import {
   copyJson,
   expectArray,
@@ -15,8 +13,8 @@ import {
   rejectUnknownKeys,
   singleModelDocument,
   VERSION_PATTERN,
-} from "../state/strict-read";
-import { checkControlSpec, checkControlValues, expectQuantity } from "../state/control-read";
+} from "../core/state/strict-read";
+import { checkControlSpec, checkControlValues, expectQuantity } from "../core/state/control-read";
 import { TRAJECTORY_MODEL_NAME, TRAJECTORY_STATE_FORMAT, TRAJECTORY_STATE_VERSION, type SimulationSpec, type TrajectoryState } from "./format";
 import { checkJoint, checkPair } from "./joint";
 import { computeTrajectory, type ComputeOptions, type TrajectoryComputation } from "./model";

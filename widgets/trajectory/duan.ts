@@ -1,4 +1,5 @@
-import type { JointVariable, TrajectoryResult } from "../../src/timedomain/types";
+/** Duan sums of the joint variables a trajectory state follows. */
+import type { JointVariable, TrajectoryResult } from "../../src/index";
 
 /**
  * The Duan sum in the other sign convention, from two followed joint variables. The engine

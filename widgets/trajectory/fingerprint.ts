@@ -1,5 +1,6 @@
-import type { TrajectoryResult } from "../../src/timedomain/types";
-import { seriesFingerprint } from "../state/series-fingerprint";
+/** The trajectory widget's fingerprint: SHA-256 over every stored series of a run. */
+import type { TrajectoryResult } from "../../src/index";
+import { seriesFingerprint } from "../core/state/series-fingerprint";
 
 /**
  * Fingerprint of a simulated run: SHA-256 over the exact IEEE-754 doubles (little-endian) of

@@ -1,6 +1,6 @@
-import type { SetupDescription } from "../../src/setup/format";
-import type { InitialState, JointVariable } from "../../src/timedomain/types";
-import type { ControlSpec } from "../state/format";
+/** The trajectory widget's state format. */
+import type { SetupDescription, InitialState, JointVariable } from "../../src/index";
+import type { ControlSpec } from "../core/controls/control-spec";
 
 /**
  * The state of a trajectory widget: everything needed to run the same simulation again and

@@ -1,5 +1,5 @@
-import { QuietframeError } from "../../src/errors";
-import type { JointVariable } from "../../src/timedomain/types";
+/** Strict readers of a trajectory state's joint variables and entangled pair. */
+import { QuietframeError, type JointVariable } from "../../src/index";
 
 /**
  * Shape checks of the joint variables and the entangled pair a state asks for. Whether the

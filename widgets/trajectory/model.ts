@@ -1,14 +1,7 @@
-import { QuietframeError } from "../../src/errors";
-import { assemble, type AssembledSetup } from "../../src/setup/assemble";
-import { loadSetup, prepare, startSimulation } from "../../src/pipeline";
-import { applyValues } from "../../src/setup/apply-values";
-import type { SetupDescription } from "../../src/setup/format";
-import type { ResolvedSetup } from "../../src/setup/validate";
-import type { JointVariable, TrajectoryRequest, TrajectoryResult, TrajectoryRun } from "../../src/timedomain/types";
-import { QUIETFRAME_VERSION } from "../../src/version";
-import { resolveStateControls, type ResolvedControl } from "../explorer/controls";
+import { QuietframeError, assemble, loadSetup, prepare, startSimulation, applyValues, QUIETFRAME_VERSION, type AssembledSetup, type SetupDescription, type ResolvedSetup, type JointVariable, type TrajectoryRequest, type TrajectoryResult, type TrajectoryRun } from "../../src/index";
+import { resolveStateControls, type ResolvedControl } from "../core/controls/setup-controls";
 import { setupValues } from "../explorer/model";
-import type { ControlSpec } from "../state/format";
+import type { ControlSpec } from "../core/controls/control-spec";
 import { trajectoryFingerprint } from "./fingerprint";
 import { TRAJECTORY_STATE_FORMAT, TRAJECTORY_STATE_VERSION, type SimulationSpec, type TrajectoryState } from "./format";
 import { checkJoint, checkPair } from "./joint";

@@ -1,4 +1,5 @@
-import type { JointVariable, TrajectoryResult } from "../../src/timedomain/types";
+/** Chart rows of a trajectory run (thinned for static figures). */
+import type { JointVariable, TrajectoryResult } from "../../src/index";
 import { engineDuanLabel, jointDuanSum } from "./duan";
 
 /**

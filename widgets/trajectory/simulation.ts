@@ -1,7 +1,5 @@
-import { QuietframeError } from "../../src/errors";
-import { checkSettings, MAX_STEPS } from "../../src/timedomain/settings";
-import type { SimulationSettings } from "../../src/timedomain/types";
-import { formatQuantity, parseQuantity } from "../../src/units";
+/** A trajectory state's simulation settings, checked and resolved. */
+import { QuietframeError, checkSettings, MAX_STEPS, formatQuantity, parseQuantity, type SimulationSettings } from "../../src/index";
 import { INITIAL_STATES, type SimulationSpec } from "./format";
 
 /**

@@ -1,4 +1,7 @@
-import { CURVES, MEASURES, type TrajectoryRows } from "./series";
+/** Vega-Lite specs of the trajectory widget's charts. */
+import type { TrajectoryState } from "./format";
+import { trajectoryTitle, type TrajectoryComputation } from "./model";
+import { CURVES, MEASURES, STATIC_POINTS, trajectoryRows, type TrajectoryRows } from "./series";
 
 /**
  * Vega-Lite specs of the trajectory widget. Each chart reads named datasets, so the page
@@ -150,4 +153,9 @@ export function trajectoryPanelSpec(rows: TrajectoryRows, labels: readonly strin
   const lines: Spec[] = [];
   for (let i = 0; i < charts.length; i += 2) lines.push({ hconcat: charts.slice(i, i + 2), resolve: { scale: { color: "independent", strokeDash: "independent" } } });
   return { $schema: SCHEMA, title: { text: title, font: FONT, fontSize: 15 }, vconcat: lines, resolve: { scale: { color: "independent", strokeDash: "independent" } }, config: { font: FONT } };
+}
+
+/** The Vega-Lite spec of the static figure: every chart of the run, each curve thinned to STATIC_POINTS. */
+export function trajectoryFigureSpec(c: TrajectoryComputation, state: TrajectoryState): Record<string, unknown> {
+  return trajectoryPanelSpec(trajectoryRows(c.result, STATIC_POINTS, state.joint), state.joint.map((j) => j.label), state.pair, trajectoryTitle(state));
 }

@@ -1,17 +1,15 @@
-import type { JointVariable } from "../../src/timedomain/types";
+/** The trajectory widget's summary lines. */
+import type { JointVariable } from "../../src/index";
 import { engineDuanLabel, jointDuanSum } from "./duan";
 import { simulationText, type TrajectoryComputation } from "./model";
 import { writeTime } from "./simulation";
+import type { SummaryLine } from "../core/page/summary-line";
 
 /**
  * The summary lines (label, text) every output shows: static fallback, live readout and
  * text/plain. Numbers at the end of the run; variances in units where one quadrature's
  * zero-point level is 1/2.
  */
-export interface SummaryLine {
-  readonly label: string;
-  readonly text: string;
-}
 
 const n = (y: number, d = 4): string => (Number.isFinite(y) ? String(Number(y.toPrecision(d))) : String(y));
 

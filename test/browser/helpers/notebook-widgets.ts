@@ -1,4 +1,4 @@
-import { EXPLORER_CLASS } from "../../../widgets/html/names";
+import { EXPLORER_CLASS } from "../../../widgets/explorer/names";
 import { joined, type NotebookOutput } from "../../jupyter/notebook-file";
 
 /** A widget output of an executed notebook: display data whose HTML holds an explorer element. */

@@ -1,10 +1,10 @@
 import type { Page } from "playwright-core";
 import { expect } from "vitest";
-import { curveRows, type CurveRow } from "../../../widgets/chart/budget-spec";
-import { resolveControls, sliderValue, writeValue } from "../../../widgets/explorer/controls";
+import { curveRows, type CurveRow } from "../../../widgets/explorer/budget-spec";
+import { resolveControls, sliderValue, writeValue } from "../../../widgets/core/controls/setup-controls";
 import { computeExplorer, type ExplorerComputation } from "../../../widgets/explorer/model";
-import { FINGERPRINT_ATTRIBUTE, STATUS_ATTRIBUTE } from "../../../widgets/html/names";
-import type { ExplorerState } from "../../../widgets/state/format";
+import { FINGERPRINT_ATTRIBUTE, STATUS_ATTRIBUTE } from "../../../widgets/core/page/names";
+import type { ExplorerState } from "../../../widgets/explorer/format";
 
 /**
  * Reading and driving the live widgets of a page through the runtime's test hooks

@@ -1,9 +1,9 @@
 import { describe, expect, it } from "vitest";
 import { computeEntangled, createEntangledState, loadEntangledState } from "../../../widgets/entangled/model";
 import { ENTANGLED_CLASS, ENTANGLED_STATE_CLASS } from "../../../widgets/entangled/names";
-import { entangledHtml } from "../../../widgets/html/entangled-html";
-import { escapeHtml } from "../../../widgets/html/escape";
-import { entangledPanel } from "../../../widgets/notebook/entangled";
+import { entangledHtml } from "../../../widgets/entangled/html";
+import { escapeHtml } from "../../../widgets/core/page/escape";
+import { entangledPanel } from "../../../widgets/entangled/notebook";
 
 const HOSTILE = `</script><script>alert("x")</script> "quoted" 'single' & <b>bold</b>`;
 

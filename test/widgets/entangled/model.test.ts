@@ -12,7 +12,7 @@ import {
   sliderValue,
   SPECTRUM_SERIES,
 } from "../../../widgets/entangled/model";
-import { entangledPanel } from "../../../widgets/notebook/entangled";
+import { entangledPanel } from "../../../widgets/entangled/notebook";
 
 /**
  * The entangled-light panel against closed forms. Lossy two-mode squeezed vacuum keeps the

@@ -5,9 +5,9 @@ import { QuietframeError } from "../../../src/errors";
 import { evaluateSetup, loadSetup } from "../../../src/pipeline";
 import type { SetupDescription } from "../../../src/setup/format";
 import { parseQuantity } from "../../../src/units";
-import { checkValue, resolveControls, sliderPosition, sliderValue, writeValue } from "../../../widgets/explorer/controls";
+import { checkValue, resolveControls, sliderPosition, sliderValue, writeValue } from "../../../widgets/core/controls/setup-controls";
 import { applyValues, computeExplorer, createExplorerState } from "../../../widgets/explorer/model";
-import { budgetFingerprint } from "../../../widgets/state/fingerprint";
+import { budgetFingerprint } from "../../../widgets/explorer/fingerprint";
 
 const membrane = JSON.parse(readFileSync(join(__dirname, "../../../examples/cryogenic-membrane.json"), "utf8")) as SetupDescription;
 

@@ -5,10 +5,10 @@ import { inspiralHorizon, inspiralRange, strainCurve, volumeGain } from "../../.
 import type { SetupDescription } from "../../../src/setup/format";
 import { computeExplorer, createExplorerState, initialValues } from "../../../widgets/explorer/model";
 import { DEFAULT_REACH_SOURCE, explorerReach, initialComputation, INITIAL_SETUP, reachFigures } from "../../../widgets/explorer/reach";
-import { distanceText, rangeRatioText, reachSummary, volumeGainText } from "../../../widgets/html/summary";
-import { notebookFigures, summaryText } from "../../../widgets/notebook/figures";
-import { parseExplorerState, stateDocumentText } from "../../../widgets/state/document";
-import type { ExplorerState } from "../../../widgets/state/format";
+import { distanceText, rangeRatioText, reachSummary, volumeGainText } from "../../../widgets/explorer/summary";
+import { notebookFigures, summaryText } from "../../../widgets/explorer/notebook/figures";
+import { parseExplorerState, stateDocumentText } from "../../../widgets/explorer/document";
+import type { ExplorerState } from "../../../widgets/explorer/format";
 
 /**
  * The explorer's reach gauge must be src/reach applied to the very curve the explorer

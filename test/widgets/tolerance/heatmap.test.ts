@@ -4,8 +4,8 @@ import { beforeAll, describe, expect, it } from "vitest";
 import type { SetupDescription } from "../../../src/setup/format";
 import { toleranceMapInProcess, toleranceCellSetup, type ToleranceMap, type ToleranceMapSpec } from "../../../src/tolerance";
 import { computeExplorer } from "../../../widgets/explorer/model";
-import { toleranceHtml } from "../../../widgets/html/tolerance-html";
-import { renderSvg } from "../../../widgets/render/static";
+import { toleranceHtml } from "../../../widgets/tolerance/html";
+import { renderSvg } from "../../../widgets/core/render/static";
 import { CELLS_DATASET, DIVERGING_RANGE, NO_VALUE_COLOURS, toleranceHeatmapSpec } from "../../../widgets/tolerance/heatmap-spec";
 import {
   axisEdges,

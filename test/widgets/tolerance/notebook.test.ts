@@ -4,8 +4,8 @@ import { afterEach, describe, expect, it } from "vitest";
 import type { SetupDescription } from "../../../src/setup/format";
 import { toleranceMapInProcess, type ToleranceMapSpec } from "../../../src/tolerance";
 import { computeExplorer } from "../../../widgets/explorer/model";
-import { resetDisplaySession } from "../../../widgets/notebook/session";
-import { toleranceWidget } from "../../../widgets/notebook/tolerance";
+import { resetDisplaySession } from "../../../widgets/core/notebook/session";
+import { toleranceWidget } from "../../../widgets/tolerance/notebook";
 import { loadToleranceState } from "../../../widgets/tolerance/model";
 import { TOLERANCE_STATE_CLASS } from "../../../widgets/tolerance/names";
 

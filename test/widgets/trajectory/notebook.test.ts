@@ -5,7 +5,7 @@ import { afterAll, describe, expect, it } from "vitest";
 import { runCliAsync } from "../../../src/cli/run";
 import { QuietframeError } from "../../../src/errors";
 import { trajectoryWidget } from "../../../widgets/notebook";
-import { progressReporter } from "../../../widgets/notebook/trajectory";
+import { progressReporter } from "../../../widgets/trajectory/notebook";
 import { loadTrajectoryState } from "../../../widgets/trajectory/document";
 import { TRAJECTORY_CLASS, TRAJECTORY_STATE_CLASS } from "../../../widgets/trajectory/names";
 import { hybrid, shortRun } from "./fixtures";

@@ -3,7 +3,7 @@ import { readFileSync } from "node:fs";
 import { join } from "node:path";
 import { describe, expect, it } from "vitest";
 import { createExplorerState } from "../../../widgets/explorer/model";
-import { stateDocumentText } from "../../../widgets/state/document";
+import { stateDocumentText } from "../../../widgets/explorer/document";
 import { isTrajectoryInput, loadTrajectoryState, parseTrajectoryState, toTrajectoryDocument, trajectoryDocumentText } from "../../../widgets/trajectory/document";
 import type { TrajectoryState } from "../../../widgets/trajectory/format";
 import { computeTrajectory, createTrajectoryState, finishTrajectory, prepareTrajectory, withComputation } from "../../../widgets/trajectory/model";

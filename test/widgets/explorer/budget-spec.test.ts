@@ -1,0 +1,54 @@
+import Ajv from "ajv";
+import { describe, expect, test } from "vitest";
+import type { BudgetTable } from "../../../src/engine/tabulate";
+import { budgetSpec, curveRows, CURVES_DATASET } from "../../../widgets/explorer/budget-spec";
+import { computeExplorer } from "../../../widgets/explorer/model";
+import { exampleFiles, exampleState } from "./examples";
+
+// Outside reference: the Vega-Lite v5 JSON schema shipped with vega-lite (draft-07), validated with ajv.
+const vegaLiteSchema = require("vega-lite/build/vega-lite-schema.json") as object;
+const validateVegaLite = new Ajv({ allErrors: true, strict: false }).compile(vegaLiteSchema);
+
+describe("budgetSpec", () => {
+  test.each(exampleFiles())("%s: a valid Vega-Lite v5 spec (ajv, vega-lite-schema.json)", (file) => {
+    const computation = computeExplorer(exampleState(file));
+    const spec = budgetSpec(computation.table, computation.evaluation.budget.quantity.name, { title: "t" });
+    expect(validateVegaLite(spec), JSON.stringify(validateVegaLite.errors?.slice(0, 3))).toBe(true);
+  });
+
+  test("the schema validator is live: it refuses an unknown mark", () => {
+    const computation = computeExplorer(exampleState("free-test-mass.json"));
+    const spec = { ...budgetSpec(computation.table, "displacement"), mark: { type: "squiggle" } };
+    expect(validateVegaLite(spec)).toBe(false);
+  });
+
+  test("one series per column, the named dataset holds every plottable point", () => {
+    const computation = computeExplorer(exampleState("cryogenic-membrane.json"));
+    const table = computation.table;
+    const spec = budgetSpec(table, "displacement") as { data: { name: string; values: unknown[] }; encoding: { color: { scale: { domain: string[] } } } };
+    expect(spec.data.name).toBe(CURVES_DATASET);
+    expect(spec.data.values.length).toBe(table.columns.length * table.frequencies.length);
+    expect(spec.encoding.color.scale.domain).toEqual(["total", ...table.columns.slice(1).map((c) => c.label)]);
+  });
+});
+
+describe("curveRows", () => {
+  const table: BudgetTable = {
+    spectralDensity: "power",
+    unit: "m²/Hz",
+    frequencies: Float64Array.from([1, 2, 3, 4]),
+    columns: [
+      { id: "total", label: "total", values: Float64Array.from([1, Infinity, 3, 4]) },
+      { id: "laser", label: "laser: shot noise", values: Float64Array.from([0, 2, Number.NaN, -1]) },
+      { id: "sql", label: "SQL", values: Float64Array.from([5, 5, 5, 5]) },
+    ],
+  };
+
+  test("points that a log axis cannot show are left out; kinds follow the column", () => {
+    const rows = curveRows(table);
+    expect(rows.filter((r) => r.series === "total").map((r) => r.f)).toEqual([1, 3, 4]);
+    expect(rows.filter((r) => r.series === "laser: shot noise")).toEqual([{ f: 2, value: 2, series: "laser: shot noise", kind: "term" }]);
+    expect(rows.filter((r) => r.kind === "reference").length).toBe(4);
+    expect(rows.every((r) => Number.isFinite(r.value) && r.value > 0)).toBe(true);
+  });
+});

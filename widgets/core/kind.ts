@@ -1,0 +1,79 @@
+/**
+ * What every widget kind provides. The registry (widgets/registry.ts) lists one object of this
+ * shape per kind, and the browser runtime, the state loader, the notebook API and
+ * `quietframe render` go through it instead of knowing the kinds. A kind's object is safe in
+ * both places it runs: its page writers are pure (Node reads the runtime and renders the
+ * figure: render/kind-output.ts) and its view touches the DOM only once booted.
+ */
+import type { FragmentParts, PageParts } from "./page/parts";
+
+/** Which of several widgets a document holds, where a kind's reader can choose (1-based). */
+export interface LoadOptions {
+  widget?: number;
+}
+
+/** A saved state, strictly read and (for kinds that compute) recomputed. */
+export interface LoadedWidget<S = unknown> {
+  readonly state: S;
+  /** For states that record the fingerprint of their numbers: the stored one, this quietframe's, and who wrote the state. */
+  readonly fingerprint?: { readonly stored: string; readonly recomputed: string; readonly writtenBy: string };
+  /** Warnings of the recomputation (not errors: the widget shows them with its figure). */
+  readonly warnings: readonly string[];
+  /** Safety cautions of the set-up at the state's values. */
+  readonly cautions: readonly string[];
+}
+
+/** The static figure of a loaded state: its Vega-Lite spec and, where the kind has one, the plotted numbers. */
+export interface FigureSource {
+  readonly spec: Record<string, unknown>;
+  /** Every plotted number in shortest round-trip form; absent for kinds without a table. */
+  readonly csv?: string;
+}
+
+/** A live widget in a page: its root element, and how to let go of it. */
+export interface LiveWidget {
+  readonly element: HTMLElement;
+  dispose(): void;
+}
+
+/** What the runtime offers a view while booting. */
+export interface BootContext {
+  /** Boots the new widgets of every kind under root (a view that opens others, e.g. a cell's explorer). */
+  boot(root: ParentNode): void;
+  /** Disposes the live widgets of every kind inside slot, before the slot's content is replaced. */
+  release(slot: Element): void;
+}
+
+/** A kind's browser side. */
+export interface WidgetView {
+  /** Class of the kind's root element in a page fragment. */
+  readonly className: string;
+  /** Starts a live widget for each new element under root; returns those started. */
+  boot(root: ParentNode, context: BootContext): readonly LiveWidget[];
+  /** The live widgets, in boot order. */
+  live(): readonly LiveWidget[];
+  /** Disposes the live widgets inside slot. */
+  release(slot: Element): void;
+  /**
+   * Where pages and tests read the live widgets: a property of window.quietframeRuntime
+   * and/or a function on window returning the list.
+   */
+  readonly exposeAs?: { readonly runtime?: string; readonly window?: string };
+}
+
+export interface WidgetKind<L extends LoadedWidget = LoadedWidget> {
+  /** Short name, e.g. "explorer". */
+  readonly name: string;
+  /** The `format` field of the kind's saved state, e.g. "quietframe.explorer". */
+  readonly stateFormat: string;
+  /** Whether parsed JSON is (or holds) a saved state of this kind; never throws. */
+  recognises(value: unknown): boolean;
+  /** Reads a saved state strictly (text or parsed) and recomputes it; errors name the field. */
+  load(input: unknown, source: string, options?: LoadOptions): L;
+  figure(loaded: L): FigureSource;
+  /** The fragment a notebook output or page embeds (static fallback, state, bootstrap). */
+  fragment(loaded: L, parts: FragmentParts): string;
+  /** A complete standalone page. */
+  page(loaded: L, parts: PageParts): string;
+  readonly view: WidgetView;
+}

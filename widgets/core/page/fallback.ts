@@ -1,0 +1,44 @@
+/** The static fallback of every kind's fragment: figure, cautions, summary lines. */
+import { base64, escapeHtml } from "./escape";
+import { CAUTION_HEADING, type SummaryLine } from "./summary-line";
+
+/**
+ * The static fallback every kind's fragment shows until the runtime boots (and keeps for
+ * viewers without scripts): the figure as SVG and PNG, safety cautions, summary lines.
+ */
+
+/**
+ * With both images present only the SVG shows; where a sanitizer strips the <svg>, the sibling
+ * rule no longer matches and the PNG appears instead. `caution` adds the safety box's look.
+ */
+export function fallbackStyle(className: string, options: { caution?: boolean; extra?: string } = {}): string {
+  const k = `.${className}`;
+  return (
+    `${k} .qf-fallback svg+img.qf-fallback-png{display:none}` +
+    `${k} .qf-fallback img,${k} .qf-fallback svg{max-width:100%;height:auto}` +
+    (options.caution ? `${k} .qf-fallback .qf-caution{border:2px solid #c77700;background:#fff6de;color:#3d2600;padding:.45em .7em;margin:.5em 0}${k} .qf-fallback .qf-caution ul{margin:.2em 0 0;padding-left:1.2em}` : "") +
+    (options.extra ?? "")
+  );
+}
+
+/** The PNG fallback as an inline image; `alt` is escaped here. */
+export function fallbackPng(png: Uint8Array, alt: string): string {
+  return `<img class="qf-fallback-png" alt="${escapeHtml(alt)}" src="data:image/png;base64,${base64(png)}">`;
+}
+
+/** The components' safety cautions as a box of their own (nothing when there are none). */
+export function cautionHtml(cautions: readonly string[]): string {
+  if (cautions.length === 0) return "";
+  const items = cautions.map((c) => `<li>${escapeHtml(c)}</li>`).join("");
+  return `<div class="qf-caution" role="note"><strong>${escapeHtml(CAUTION_HEADING)}</strong><ul>${items}</ul></div>`;
+}
+
+/** Summary lines as a definition list. */
+export function summaryListHtml(lines: readonly SummaryLine[]): string {
+  return `<dl class="qf-summary">${lines.map((l) => `<dt>${escapeHtml(l.label)}</dt><dd>${escapeHtml(l.text)}</dd>`).join("")}</dl>`;
+}
+
+/** The note under every static figure. */
+export function fallbackNote(text: string): string {
+  return `<p class="qf-fallback-note"><small>${escapeHtml(text)}</small></p>`;
+}
