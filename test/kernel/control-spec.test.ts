@@ -3,7 +3,7 @@ import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { build } from "esbuild";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { CONTROL_SPECS } from "../../widgets/core/comm/controls/spec-states";
+import { CONTROL_SPECS, type StandardModelName } from "../../widgets/core/comm/controls/control-specs.generated";
 import { REPO_ROOT } from "../jupyter/env";
 
 // The default states quietframe sends come from the widget model specification that
@@ -13,12 +13,11 @@ import { REPO_ROOT } from "../jupyter/env";
 // front-end's model classes define (their defaults()) is present in what we send, with the
 // same model and view names, modules and versions.
 
-// eslint-disable-next-line @typescript-eslint/no-require-imports
-const { specStatesSource, MODELS } = require("./control-spec.js") as { specStatesSource(): string; MODELS: string[] };
+const { specStatesSource, MODELS, GENERATED_FILE } = require("../../scripts/write-control-specs.js") as { specStatesSource(): string; MODELS: StandardModelName[]; GENERATED_FILE: string };
 
 describe("the embedded control specification", () => {
-  it("is exactly what the package's specification gives (regenerate: node test/kernel/control-spec.js)", () => {
-    const file = readFileSync(join(REPO_ROOT, "widgets", "core", "comm", "controls", "spec-states.ts"), "utf8");
+  it("is exactly what the package's specification gives (regenerate: npm run generate:controls)", () => {
+    const file = readFileSync(GENERATED_FILE, "utf8");
     expect(file).toBe(specStatesSource());
   });
 

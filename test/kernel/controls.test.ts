@@ -1,7 +1,7 @@
 import { describe, expect, it } from "vitest";
 import { QuietframeError } from "../../src/errors";
-import { dropdown, dropdownLabel, floatLogSlider, floatSlider, hbox, html, text, vbox } from "../../widgets/core/comm/controls/controls";
-import { CONTROL_SPECS } from "../../widgets/core/comm/controls/spec-states";
+import { createControl, dropdown, dropdownLabel, floatLogSlider, floatSlider, hbox, html, text, vbox } from "../../widgets/core/comm/controls/controls";
+import { CONTROL_SPECS } from "../../widgets/core/comm/controls/control-specs.generated";
 import { frontEnd, recordingComms } from "./fake-transport";
 
 // Standard controls of @jupyter-widgets/controls 2.0.0: each opens its LayoutModel and
@@ -111,5 +111,21 @@ describe("text, html and boxes", () => {
     s.close();
     expect([s.isClosed, s.parts.layout.isClosed, s.parts.style.isClosed]).toEqual([true, true, true]);
     expect(comms.commInfo()).toEqual({});
+  });
+});
+
+describe("createControl", () => {
+  it.each(["SliderModel", "toString", "__proto__"])("refuses %s, which is not a model of the control table, and opens nothing", (name) => {
+    const { comms, sent } = recordingComms();
+    let caught: unknown;
+    try {
+      createControl(name, {}, { comms });
+    } catch (e) {
+      caught = e;
+    }
+    expect(caught).toBeInstanceOf(QuietframeError);
+    expect((caught as QuietframeError).path).toBe("model");
+    expect((caught as QuietframeError).message).toContain("is not a standard control quietframe creates");
+    expect(sent).toEqual([]);
   });
 });

@@ -5,7 +5,7 @@
 import { QuietframeError, pow } from "../../../../src/index";
 import { WidgetModel, type Validator, type WidgetModelOptions } from "../widget-model";
 import type { CommManager } from "../comm-manager";
-import { CONTROL_SPECS } from "./spec-states";
+import { CONTROL_SPECS, type StandardModelName } from "./control-specs.generated";
 import { MODEL_REF, specValidators } from "./spec-validators";
 
 /**
@@ -44,7 +44,7 @@ export class ControlModel extends WidgetModel {
 
 /** Creates any model of the specification's subset, with its referenced models; `state` overrides defaults. */
 export function createControl(modelName: string, state: Record<string, unknown>, options: CommonControlOptions & { extra?: Record<string, Validator> } = {}): ControlModel {
-  const spec = CONTROL_SPECS[modelName];
+  const spec = isStandardModelName(modelName) ? CONTROL_SPECS[modelName] : undefined;
   if (!spec) throw new QuietframeError({ path: "model", value: modelName, problem: "is not a standard control quietframe creates", allowed: Object.keys(CONTROL_SPECS).join(", ") });
   const validators = specValidators(spec, { ...options.extra, ...options.validators });
   const full: Record<string, unknown> = { ...structuredClone(spec.state), ...state };
@@ -233,4 +233,9 @@ export function vbox(children: readonly WidgetModel[], options: BoxOptions = {})
 
 export function hbox(children: readonly WidgetModel[], options: BoxOptions = {}): ControlModel {
   return box("HBoxModel", children, options);
+}
+
+/** Whether a name is a model of the control table (an own key: never a prototype property). */
+function isStandardModelName(name: string): name is StandardModelName {
+  return Object.hasOwn(CONTROL_SPECS, name);
 }

@@ -1,4 +1,4 @@
-/** Checks of front-end updates to standard controls, from the control table (spec-states.ts). */
+/** Checks of front-end updates to standard controls, from the control table (control-specs.generated.ts). */
 import { QuietframeError } from "../../../../src/index";
 import type { Validator } from "../widget-model";
 import type { ControlSpec } from "./control-spec-types";
