@@ -1,3 +1,7 @@
+/**
+ * Pass 5 of the pipeline: the signal-referred noise budget of an assembled set-up on a frequency
+ * grid, split by independent input group, with the SQL, zero-point and thermal references.
+ */
 import { QuietframeError } from "../errors";
 import { complexLuFactor, complexLuSolve } from "../linalg/complex-lu";
 import { SingularMatrixError } from "../linalg/singular-error";

@@ -1,3 +1,7 @@
+/**
+ * The JSON Schema (draft 2020-12) of the set-up format, written from the component registry so
+ * that the schema, validation, `quietframe types` and the docs share one parameter list.
+ */
 import { COMPONENT_KINDS } from "../components/registry";
 import type { ComponentKind, ParamSpec, QuantityParam } from "../components/types";
 import { MAX_GRID_POINTS } from "./grid";

@@ -1,3 +1,7 @@
+/**
+ * Pass 2 of the pipeline: a parsed set-up description checked and resolved — units to SI,
+ * ports to links, ranges and cross-parameter rules — with errors that name every field at fault.
+ */
 import { QuietframeError, QuietframeErrors } from "../errors";
 import { componentKind, COMPONENT_KINDS } from "../components/registry";
 import type { ComponentKind, PortSpec, ResolvedComponent } from "../components/types";

@@ -1,3 +1,4 @@
+/** The tolerance map in a notebook (kernel side): computes the map on the worker pool and shows the heat map. */
 import { inspect } from "node:util";
 import { logGrid, CellStatus, evaluateCell, resolveToleranceSpec, type SetupDescription, type CellMessage, type ToleranceMap, type ToleranceMapOptions, type ToleranceMapSpec } from "../../src/index";
 import { toleranceMap } from "../../src/node";
