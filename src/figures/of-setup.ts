@@ -1,6 +1,7 @@
 import { UnstableSetupError } from "../engine/stability";
 import { QuietframeError, QuietframeErrors } from "../errors";
 import { evaluate } from "../evaluate";
+import { NonDecayingModeError } from "../linalg/non-decaying-mode";
 import { prepare } from "../prepare";
 import type { SetupDescription } from "../setup/format";
 import { CellStatus, type FigureOutcome } from "./outcome";
@@ -40,6 +41,10 @@ export function figureAndCurveOfSetup(
     return { value, status: CellStatus.ok, curve };
   } catch (e) {
     if (e instanceof UnstableSetupError) return { value: NaN, status: CellStatus.unstable, message: e.message };
+    // A mode that grows more slowly than the stability check resolves passes it, and then has no stationary state.
+    if (e instanceof NonDecayingModeError) {
+      return { value: NaN, status: CellStatus.unstable, message: `setup: a mode at the edge of stability does not decay (eigenvalue ${e.mode.re} ± ${Math.abs(e.mode.im)}i /s): no stationary state` };
+    }
     if (e instanceof QuietframeError || e instanceof QuietframeErrors) return { value: NaN, status: CellStatus.invalid, message: e.message };
     throw e;
   }
