@@ -39,4 +39,6 @@ export { COMPONENT_KINDS } from "./components/registry";
 export type { ComponentKind } from "./components/types";
 export * from "./reach";
 export * from "./tolerance";
+export * from "./design";
+export { ALL_FIGURE_KINDS, type AnyFigureKind, type FigureSpec, type NoiseAtSpec } from "./figures/spec";
 export * from "./timedomain";

@@ -1,4 +1,6 @@
+import { spectralDensityUnit } from "../engine/tabulate";
 import { QuietframeError } from "../errors";
+import { assemble } from "../setup/assemble";
 import { figureAndCurveOfSetup, figureOfSetup } from "../figures/of-setup";
 import { CellStatus, type FigureOutcome } from "../figures/outcome";
 import { ALL_FIGURE_KINDS, resolveFigure, type FigureInfo, type FigureSpec, type FigurePlan } from "../figures/spec";
@@ -34,6 +36,8 @@ export interface DesignProblem {
   readonly plan: FigurePlan;
   /** Frequencies (Hz) the figure is evaluated on. */
   readonly figureFrequencies: Float64Array;
+  /** Unit of the total noise (one-sided PSD), e.g. "m²/Hz". */
+  readonly noiseUnit: string;
   /** The grid of the set-up's curves (and of grid-based figures). */
   readonly grid: FrequencyGridSpec;
   /** The figure with the given parameters (SI values by target) written into the set-up. */
@@ -69,6 +73,7 @@ export function designProblem(setup: SetupDescription | string, figure: FigureSp
     figure: designFigure,
     plan: resolved.plan,
     figureFrequencies: resolved.frequencies,
+    noiseUnit: spectralDensityUnit(assemble(base).referredTo.unit, "power"),
     grid: g,
     evaluate(values, parameters) {
       evaluations++;

@@ -5,7 +5,8 @@ import type { SetupDescription } from "../setup/format";
 import { maximizeOnLine } from "./line-search";
 import { designParameter, numericParameters, shownValue, withinBounds, type DesignParameter, type ParameterBound } from "./parameters";
 import { designProblem, merit, valueOfLevel, type DesignFigure, type DesignGrid, type DesignProblem } from "./problem";
-import { riddersDerivative, type DifferenceKind } from "./ridders-derivative";
+import { parameterDerivative } from "./parameter-derivative";
+import type { DifferenceKind } from "./ridders-derivative";
 import { defaultRange, type RangeEnd } from "./search-range";
 
 /**
@@ -118,7 +119,7 @@ function sensitivity(problem: DesignProblem, p: DesignParameter, current: number
     return Number.isFinite(m) ? sign * m : NaN;
   };
   const scale = x0 !== 0 ? Math.abs(x0) : zeroScale * 1e-3;
-  const derivative = differentiate(levelAt, p, x0, relativeStep * scale, sign * m0);
+  const derivative = parameterDerivative(levelAt, p, x0, relativeStep * scale, sign * m0);
   const derivativeFailure = failure;
   const range = defaultRange(p, zeroScale);
   const line = maximizeOnLine(meritAt, range, scanPoints, { x: x0, merit: m0 });
@@ -165,23 +166,4 @@ function sensitivity(problem: DesignProblem, p: DesignParameter, current: number
     helps,
     bound: bound ? { ...bound, shown: shownValue(bound.value, p) } : undefined,
   };
-}
-
-/** Central differences when both sides have room, one-sided beside a bound; the other side when one fails. */
-function differentiate(levelAt: (x: number) => number, p: DesignParameter, x0: number, h: number, level0: number) {
-  const roomBelow = p.lower ? x0 - p.lower.value : Infinity;
-  const roomAbove = p.upper ? p.upper.value - x0 : Infinity;
-  const room = Math.min(roomBelow, roomAbove);
-  // Exclusive bounds are never reached: stay 1 % short of them.
-  const stepWithin = (r: number): number => Math.min(h, 0.99 * r);
-  const attempts: { kind: DifferenceKind; step: number }[] = [];
-  if (room >= h / 10) attempts.push({ kind: "central", step: stepWithin(room) });
-  if (roomAbove >= roomBelow) attempts.push({ kind: "forward", step: stepWithin(roomAbove) }, { kind: "backward", step: stepWithin(roomBelow) });
-  else attempts.push({ kind: "backward", step: stepWithin(roomBelow) }, { kind: "forward", step: stepWithin(roomAbove) });
-  for (const a of attempts) {
-    if (!(a.step > 0)) continue;
-    const d = riddersDerivative(levelAt, x0, a.step, a.kind, level0);
-    if (d) return d;
-  }
-  return undefined;
 }
