@@ -11,7 +11,10 @@ export type DifferenceKind = "central" | "forward" | "backward";
 export interface DerivativeEstimate {
   /** The extrapolated derivative. */
   readonly value: number;
-  /** Estimated absolute error of `value` (the smallest change between neighbouring tableau entries). */
+  /**
+   * Estimated absolute error of `value`: the smallest change between neighbouring tableau entries,
+   * and at least the rounding of a difference quotient, ROUNDING·|f(x)|/step at the step that gave it.
+   */
   readonly error: number;
   readonly kind: DifferenceKind;
   /** Evaluations of the function spent (not counting f(x) for one-sided differences, which the caller gives). */
@@ -25,11 +28,14 @@ export const STEP_RATIO = 1.4;
 export const MAX_ROWS = 8;
 /** The tableau stops when the latest diagonal entry moved by more than SAFE × the best error so far (rounding takes over). */
 const SAFE = 2;
+/** Relative rounding of one value of f (a few units in the last place of a result of many operations). */
+const ROUNDING = 1e-15;
 
 /**
  * d f/dx at x from a first step h > 0. `f` returns NaN where it cannot be evaluated; a row whose
  * difference is not finite ends the tableau (the estimate so far is kept). `fx` is f(x), needed
- * for one-sided differences. Undefined when not even the first difference is finite.
+ * for one-sided differences and for the rounding floor of the error. Undefined when not even the
+ * first difference is finite.
  */
 export function riddersDerivative(f: (x: number) => number, x: number, h: number, kind: DifferenceKind, fx: number): DerivativeEstimate | undefined {
   const ratioPower = kind === "central" ? STEP_RATIO * STEP_RATIO : STEP_RATIO;
@@ -45,6 +51,7 @@ export function riddersDerivative(f: (x: number) => number, x: number, h: number
   let previous: number[] = [difference(h)];
   if (!Number.isFinite(previous[0])) return undefined;
   let best = previous[0];
+  let bestStep = h;
   let error = Infinity;
   let step = h;
   for (let row = 1; row < MAX_ROWS; row++) {
@@ -60,11 +67,13 @@ export function riddersDerivative(f: (x: number) => number, x: number, h: number
       if (change <= error) {
         error = change;
         best = current[j];
+        bestStep = step;
       }
     }
     if (Math.abs(current[row] - previous[row - 1]) >= SAFE * error) break;
     previous = current;
   }
-  // A single finite row has no extrapolation to compare with: its error is unknown.
-  return { value: best, error, kind, evaluations, step: h };
+  // A single finite row has no extrapolation to compare with: its error is unknown (Infinity).
+  const rounding = Number.isFinite(fx) ? (ROUNDING * Math.abs(fx)) / bestStep : 0;
+  return { value: best, error: Math.max(error, rounding), kind, evaluations, step: h };
 }
