@@ -37,6 +37,8 @@ export interface RefinedHeadline {
 
 /** Peaks refined: the highest local maxima of the grid margin (a limit so that a ragged curve stays affordable). */
 export const MAX_REFINED_PEAKS = 50;
+/** A peak between grid points above the SQL by less than this (dB) touches it within rounding: no band of its own. */
+export const TOUCHING_DB = 1e-9;
 /** Width in log f at which a peak or an edge counts as found (relative frequency 1e-12). */
 const LOG_TOLERANCE = 1e-12;
 
@@ -79,7 +81,7 @@ export function refinedHeadline(prepared: PreparedSetup, budget: NoiseBudget): R
     const margin = -peak.fx;
     if (margin > best.margin) best = { margin, at: exp(peak.x) };
     // A peak above 0 dB whose grid point is not below the SQL: a band no grid point sees.
-    if (margin > 0 && !(grid[i] > 0)) {
+    if (margin > TOUCHING_DB && !(grid[i] > 0)) {
       const left = edge(marginAtLog, lo, peak.x, i > 0 ? grid[i - 1] : NaN, margin);
       const right = edge(marginAtLog, peak.x, hi, margin, i < n - 1 ? grid[i + 1] : NaN);
       if (left !== undefined && right !== undefined) extraBands.push({ from: exp(left), to: exp(right), fromKind: "crossing", toKind: "crossing", betweenGridPoints: true });
