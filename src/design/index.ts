@@ -10,7 +10,7 @@ export { optimizeDesign, type OptimizeParameter, type OptimizeOptions, type Opti
 export { spreadAnalysis, type SpreadOptions, type SpreadResult } from "./spread";
 export { resolveUncertainties, TRUNCATION_SPREADS, type UncertaintySpec, type ResolvedUncertainty, type SpreadDistribution } from "./uncertainty";
 export { refinedHeadline, MAX_REFINED_PEAKS, TOUCHING_DB, type RefinedHeadline, type RefinedBand } from "./refined-headline";
-export { designProblem, levelDb, merit, type DesignProblem, type DesignFigure, type DesignGrid } from "./problem";
+export { designProblem, levelDb, merit, shownFigure, type DesignProblem, type DesignFigure, type DesignGrid } from "./problem";
 export { numericParameters, designParameter, type DesignParameter, type ParameterBound } from "./parameters";
 export { SEARCH_FACTOR, type SearchRange, type RangeEnd } from "./search-range";
 export { riddersDerivative, type DerivativeEstimate, type DifferenceKind } from "./ridders-derivative";
