@@ -39,6 +39,8 @@ export { COMPONENT_KINDS } from "./components/registry";
 export type { ComponentKind } from "./components/types";
 export * from "./reach";
 export * from "./tolerance";
+export * from "./design";
+export { ALL_FIGURE_KINDS, type AnyFigureKind, type FigureSpec, type NoiseAtSpec } from "./figures/spec";
 export * from "./timedomain";
 
 // What the widgets (widgets/) use of the engine besides the exports above: they reach the

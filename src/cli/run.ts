@@ -10,6 +10,11 @@ import { parseQuantity } from "../units";
 import { QUIETFRAME_VERSION } from "../version";
 import { RENDER_USAGE, renderCommand, reportCommand } from "./render";
 import { KERNEL_USAGE, kernelCommand } from "./kernel-install";
+import { DESIGN_USAGE } from "./design-args";
+import { optimizeCommand } from "./optimize-command";
+import { rankCommand } from "./rank-command";
+import { solveCommand } from "./solve-command";
+import { spreadCommand } from "./spread-command";
 
 export interface CliIo {
   out: (s: string) => void;
@@ -30,7 +35,7 @@ usage:
       Validates a set-up and reports its size and stability.
   quietframe types [type]
       Lists component types, or one type's parameters and ports.
-${RENDER_USAGE}${KERNEL_USAGE}`;
+${DESIGN_USAGE}${RENDER_USAGE}${KERNEL_USAGE}`;
 
 /** Commands that render figures (Vega renders asynchronously); runCliAsync runs them. */
 const ASYNC_COMMANDS: Readonly<Record<string, (args: string[], io: CliIo) => Promise<number>>> = {
@@ -67,6 +72,14 @@ export function runCli(argv: string[], io: CliIo): number {
         return typesCommand(rest, io);
       case "kernel":
         return kernelCommand(rest, io);
+      case "rank":
+        return rankCommand(rest, io);
+      case "solve":
+        return solveCommand(rest, io);
+      case "optimize":
+        return optimizeCommand(rest, io);
+      case "spread":
+        return spreadCommand(rest, io);
       case undefined:
         io.err(USAGE);
         return 2;

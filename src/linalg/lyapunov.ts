@@ -8,7 +8,7 @@
  */
 import { realLuFactor, realLuSolve } from "./real-lu";
 import { SingularMatrixError } from "./singular-error";
-import { findNonDecayingMode } from "./non-decaying-mode";
+import { findNonDecayingMode, NonDecayingModeError } from "./non-decaying-mode";
 
 /** Index of V[i][j] (i ≤ j) in the packed upper triangle. */
 function packed(i: number, j: number, n: number): number {
@@ -35,9 +35,10 @@ export function solveLyapunov(a: Float64Array, q: Float64Array, n: number): Floa
   const bad = findNonDecayingMode(a, n);
   if (bad) {
     const sign = bad.im < 0 ? "-" : "+";
-    throw new Error(
+    throw new NonDecayingModeError(
       `solveLyapunov: A is not stable, eigenvalue ${bad.re} ${sign} ${Math.abs(bad.im)}i is a ${bad.kind} mode ` +
         `(real part must be negative); no stationary covariance exists`,
+      bad,
     );
   }
 

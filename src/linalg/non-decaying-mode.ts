@@ -7,6 +7,19 @@ import { irreducibleBlocks, principalSubmatrix } from "./block-triangular";
 import { realEigenvalues } from "./eigen";
 import { norm1 } from "./real-matrix";
 
+/**
+ * Thrown by the Lyapunov solver for a mode that does not decay. Its own class so that callers
+ * that grade set-ups can tell a set-up at the edge of stability from a bug.
+ */
+export class NonDecayingModeError extends Error {
+  readonly mode: NonDecayingMode;
+  constructor(message: string, mode: NonDecayingMode) {
+    super(message);
+    this.name = "NonDecayingModeError";
+    this.mode = mode;
+  }
+}
+
 export interface NonDecayingMode {
   re: number;
   im: number;

@@ -1,14 +1,8 @@
-import type { NoiseBudget } from "../engine/budget";
-import { headlineFigures } from "../engine/headline";
-import { UnstableSetupError } from "../engine/stability";
-import { QuietframeError, QuietframeErrors } from "../errors";
-import { evaluate } from "../evaluate";
-import { log10 } from "../numeric/portable-math";
-import { prepare } from "../prepare";
-import { inspiralRange } from "../reach";
+import { figureOfSetup } from "../figures/of-setup";
+import { CellStatus, type CellStatusCode, type FigureOutcome } from "../figures/outcome";
 import { applyValues } from "../setup/apply-values";
 import type { SetupDescription } from "../setup/format";
-import type { FigurePlan, TolerancePlan } from "./spec";
+import type { TolerancePlan } from "./spec";
 
 /**
  * One cell of a tolerance map: the set-up with the two axis values written in, through the
@@ -17,20 +11,9 @@ import type { FigurePlan, TolerancePlan } from "./spec";
  * Pure and platform-free: the in-process run, every worker and a browser run this code.
  */
 
-/** Cell status codes of `ToleranceMap.status`. */
-export const CellStatus = {
-  /** The figure was computed. */
-  ok: 0,
-  /** The set-up has a growing mode: its spectra mean nothing. */
-  unstable: 1,
-  /**
-   * The set-up is rejected (a value outside its range, a blind readout, …), its stationary
-   * state breaks the uncertainty relation (the model is outside its validity range), or the
-   * figure is undefined there.
-   */
-  invalid: 2,
-} as const;
-export type CellStatusCode = (typeof CellStatus)[keyof typeof CellStatus];
+// Cell status codes of `ToleranceMap.status` are the shared figure outcomes.
+export { CellStatus, type CellStatusCode } from "../figures/outcome";
+export { figureValue } from "../figures/value";
 
 /** Why a cell has no value. */
 export interface CellMessage {
@@ -62,22 +45,8 @@ export function cellSetup(plan: Pick<TolerancePlan, "setup" | "x" | "y">, i: num
 }
 
 /** Value and status of one cell; failures carry a message. */
-export function evaluateCell(plan: TolerancePlan, frequencies: Float64Array, i: number, j: number): { value: number; status: CellStatusCode; message?: string } {
-  try {
-    const prepared = prepare(cellSetup(plan, i, j));
-    // Elsewhere a warning beside the curves; a map cell has nowhere to show one, and its figure would mean nothing.
-    if (prepared.physicality && !prepared.physicality.physical) return { value: NaN, status: CellStatus.invalid, message: prepared.physicality.summary };
-    const budget = evaluate(prepared, frequencies).budget;
-    const value = figureValue(plan.figure, budget, frequencies);
-    if (Number.isNaN(value)) {
-      return { value: NaN, status: CellStatus.invalid, message: "the figure of merit is undefined here (the noise or its reference is 0/0 or ∞/∞)" };
-    }
-    return { value, status: CellStatus.ok };
-  } catch (e) {
-    if (e instanceof UnstableSetupError) return { value: NaN, status: CellStatus.unstable, message: e.message };
-    if (e instanceof QuietframeError || e instanceof QuietframeErrors) return { value: NaN, status: CellStatus.invalid, message: e.message };
-    throw e;
-  }
+export function evaluateCell(plan: TolerancePlan, frequencies: Float64Array, i: number, j: number): FigureOutcome {
+  return figureOfSetup(cellSetup(plan, i, j), plan.figure, frequencies);
 }
 
 /** Row j of the map (all x values at y value j). */
@@ -106,38 +75,4 @@ export function evaluateRow(plan: TolerancePlan, frequencies: Float64Array, j: n
     }
   }
   return { values, status, unstable, invalid, messages };
-}
-
-/** The figure of merit of one budget (see the figure specs in spec.ts for the definitions). */
-export function figureValue(figure: FigurePlan, budget: NoiseBudget, frequencies: Float64Array): number {
-  switch (figure.kind) {
-    case "margin-at": {
-      const sql = sqlOf(budget);
-      // The same expression as the headline margin.
-      return 10 * log10(sql[figure.index] / budget.total[figure.index]);
-    }
-    case "margin-band": {
-      const sql = sqlOf(budget);
-      let reference = 0;
-      let noise = 0;
-      for (let i = figure.first; i <= figure.last; i++) {
-        reference += sql[i];
-        noise += budget.total[i];
-      }
-      return 10 * log10(reference / noise);
-    }
-    case "best-margin":
-      return headlineFigures(budget).bestMarginDb;
-    case "range-gain": {
-      if (budget.quantity.name !== "strain") throw new Error(`internal: a range-gain cell is referred to ${budget.quantity.name}`);
-      const ratio = inspiralRange(frequencies, budget.total, figure.inspiral).metres / figure.referenceMetres;
-      return figure.measure === "range" ? ratio : ratio * ratio * ratio;
-    }
-  }
-}
-
-function sqlOf(budget: NoiseBudget): Float64Array {
-  const sql = budget.references.find((r) => r.id === "sql");
-  if (!sql) throw new Error("internal: a margin cell has no SQL reference");
-  return sql.psd;
 }
