@@ -1,13 +1,5 @@
 import { beforeAll, describe, expect, it } from "vitest";
-import {
-  BOHR_MAGNETON,
-  BOLTZMANN,
-  GRAVITATIONAL_CONSTANT,
-  HBAR,
-  PLANCK_H,
-  SOLAR_MASS,
-  SPEED_OF_LIGHT,
-} from "../src/constants";
+import { BOHR_MAGNETON, BOLTZMANN, GRAVITATIONAL_CONSTANT, HBAR, PLANCK_H, SOLAR_MASS, SPEED_OF_LIGHT } from "../src/constants";
 import { loadMathjs, type MathJs } from "./helpers/mathjs";
 
 function relErr(a: number, b: number): number {

@@ -28,7 +28,25 @@ export const INTEGRATION_FILES: Readonly<Record<string, string>> = {
 };
 
 /** Folders whose test files are unit suites, apart from the integration files above. */
-const UNIT_FOLDERS = ["cli", "design", "engine", "hardening", "kernel", "layout", "linalg", "live", "notebooks", "numeric", "reach", "reference", "setup", "timedomain", "tolerance", "units", "widgets"];
+const UNIT_FOLDERS = [
+  "cli",
+  "design",
+  "engine",
+  "hardening",
+  "kernel",
+  "layout",
+  "linalg",
+  "live",
+  "notebooks",
+  "numeric",
+  "reach",
+  "reference",
+  "setup",
+  "timedomain",
+  "tolerance",
+  "units",
+  "widgets",
+];
 
 export interface ProjectFiles {
   readonly include: readonly string[];

@@ -25,7 +25,17 @@ export { toleranceHeatmapSpec } from "./tolerance/heatmap-spec";
 
 // Entangled-light panels.
 export { entangledHtml, entangledPage, type EntangledHtmlOptions } from "./entangled/html";
-export { computeEntangled, createEntangledState, loadEntangledState, entangledStateText, ENTANGLED_STATE_FORMAT, ENTANGLED_STATE_VERSION, type EntangledComputation, type EntangledOptions, type EntangledState } from "./entangled/model";
+export {
+  computeEntangled,
+  createEntangledState,
+  loadEntangledState,
+  entangledStateText,
+  ENTANGLED_STATE_FORMAT,
+  ENTANGLED_STATE_VERSION,
+  type EntangledComputation,
+  type EntangledOptions,
+  type EntangledState,
+} from "./entangled/model";
 export { panelSpec as entangledPanelSpec } from "./entangled/specs";
 
 // Trajectory widgets.

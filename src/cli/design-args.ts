@@ -81,7 +81,8 @@ export function figureOption(text: string | undefined): FigureSpec {
       return { kind, from: parts[0].trim(), to: parts[1].trim() };
     }
     case "range-gain":
-      if (arg !== undefined && arg !== "volume" && arg !== "range") throw new QuietframeError({ path: "--figure", value: text, problem: "is not a measure of reach", allowed: "range-gain, range-gain=volume or range-gain=range" });
+      if (arg !== undefined && arg !== "volume" && arg !== "range")
+        throw new QuietframeError({ path: "--figure", value: text, problem: "is not a measure of reach", allowed: "range-gain, range-gain=volume or range-gain=range" });
       return arg === undefined ? { kind } : { kind, measure: arg };
     default:
       throw new QuietframeError({ path: "--figure", value: text, problem: "is not a figure of merit", allowed });
@@ -142,7 +143,10 @@ export function withOptionNames<T>(names: Readonly<Record<string, string>>, run:
     if (!(e instanceof QuietframeError)) throw e;
     for (const [field, option] of Object.entries(names)) {
       if (e.path === field || e.path.startsWith(`${field}.`) || e.path.startsWith(`${field}[`)) {
-        const rest = e.path.slice(field.length).replace(/^\[(\d+)\]\.?.*$/, "[$1]").replace(/^\..*$/, "");
+        const rest = e.path
+          .slice(field.length)
+          .replace(/^\[(\d+)\]\.?.*$/, "[$1]")
+          .replace(/^\..*$/, "");
         throw new QuietframeError({ path: `${option}${rest}`, value: e.value, problem: e.problem, allowed: e.allowed });
       }
     }

@@ -34,11 +34,19 @@ export function rankingText(r: Ranking): string {
   const notes = r.parameters.filter((p) => p.message).map((p) => `note: ${p.target}: ${p.message}\n`);
   return (
     `${r.figure.label}: ${shownFigure(r.figure, r.current)} now; gains in dB, positive = better${r.figure.better === "lower" ? " (lower noise)" : ""}\n\n` +
-    textTable(
-      ["#", "parameter", "value", "dB per +1 %", "error", "dB for 10 %", "helps", "bound that way", "best alone at", "gain dB", "where"],
-      rows,
-      [true, false, true, true, true, true, false, false, true, true, false],
-    ) +
+    textTable(["#", "parameter", "value", "dB per +1 %", "error", "dB for 10 %", "helps", "bound that way", "best alone at", "gain dB", "where"], rows, [
+      true,
+      false,
+      true,
+      true,
+      true,
+      true,
+      false,
+      false,
+      true,
+      true,
+      false,
+    ]) +
     notes.join("") +
     `(${r.evaluations} evaluations; "dB for 10 %": computed with the value moved 10 % the helping way, stopped at the bound)\n`
   );

@@ -59,9 +59,14 @@ export async function renderCommand(args: string[], io: CliIo): Promise<number> 
   const fingerprint = loaded.fingerprint;
   if (fingerprint && fingerprint.recomputed !== fingerprint.stored) {
     const message =
-      `the recomputed curves differ from the ones stored in ${input} ` +
-      `(stored ${fingerprint.stored}, written by quietframe ${fingerprint.writtenBy}; recomputed ${fingerprint.recomputed})`;
-    if (values.strict) throw new QuietframeError({ path: `${input}.fingerprint`, value: fingerprint.stored, problem: message, allowed: "a state whose numbers this quietframe reproduces bit for bit (drop --strict to render anyway)" });
+      `the recomputed curves differ from the ones stored in ${input} ` + `(stored ${fingerprint.stored}, written by quietframe ${fingerprint.writtenBy}; recomputed ${fingerprint.recomputed})`;
+    if (values.strict)
+      throw new QuietframeError({
+        path: `${input}.fingerprint`,
+        value: fingerprint.stored,
+        problem: message,
+        allowed: "a state whose numbers this quietframe reproduces bit for bit (drop --strict to render anyway)",
+      });
     io.err(`warning: ${message}\n`);
   }
   for (const w of loaded.warnings) io.err(`warning: ${w}\n`);
@@ -128,7 +133,10 @@ export function parseControlOption(text: string, index: number): ControlSpec {
     throw new QuietframeError({ path, value: text, problem: "does not name a parameter", allowed: '"component.parameter" or "component.parameter=min:max", e.g. "membrane.temperature=10 mK:300 K"' });
   }
   if (eq < 0) return { target };
-  const parts = text.slice(eq + 1).split(":").map((s) => s.trim());
+  const parts = text
+    .slice(eq + 1)
+    .split(":")
+    .map((s) => s.trim());
   let scale: SliderScale | undefined;
   if (parts.length === 3 && (SLIDER_SCALES as readonly string[]).includes(parts[2])) scale = parts.pop() as SliderScale;
   if (parts.length !== 2 || !parts[0] || !parts[1]) {

@@ -17,7 +17,8 @@ export function spreadCommand(args: string[], io: CliIo): number {
   if (!values.uncertain?.length) throw new QuietframeError({ path: "--uncertain", problem: "is missing", allowed: 'one or more, e.g. --uncertain "detector.efficiency=95 % ± 2 %"' });
   const uncertain: UncertaintySpec[] = values.uncertain.map((text, i) => {
     const [target, value] = splitAssignment(text);
-    if (value === undefined) throw new QuietframeError({ path: `--uncertain[${i}]`, value: text, problem: "is not TARGET=VALUE ± SPREAD", allowed: '"detector.efficiency=95 % ± 2 %" or "cell.field=± 3 µT uniform"' });
+    if (value === undefined)
+      throw new QuietframeError({ path: `--uncertain[${i}]`, value: text, problem: "is not TARGET=VALUE ± SPREAD", allowed: '"detector.efficiency=95 % ± 2 %" or "cell.field=± 3 µT uniform"' });
     return { target, value };
   });
   const target = values.target === undefined ? undefined : /^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/.test(values.target.trim()) ? Number(values.target) : values.target;

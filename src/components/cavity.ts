@@ -122,15 +122,13 @@ export const cavity: ComponentKind<CavityHandle> = {
   },
   cautions: (c) => {
     const p = maybeNum(c, "power");
-    return p !== undefined && p > 0.5
-      ? [`'${c.name}' is driven with ${p} W: hazardous laser power (Class 4 above 0.5 W). Follow your institution's laser-safety programme and local rules.`]
-      : [];
+    return p !== undefined && p > 0.5 ? [`'${c.name}' is driven with ${p} W: hazardous laser power (Class 4 above 0.5 W). Follow your institution's laser-safety programme and local rules.`] : [];
   },
 };
 
 /** Intracavity photon number from the drive: n = κ_in P / (ħ ω_L (κ²/4 + Δ²)). */
 export function intracavityPhotons(power: number, wavelength: number, kappa: number, delta: number, kIn: number): number {
-  return (kIn * power) / (HBAR * opticalAngularFrequency(wavelength) * (kappa * kappa / 4 + delta * delta));
+  return (kIn * power) / (HBAR * opticalAngularFrequency(wavelength) * ((kappa * kappa) / 4 + delta * delta));
 }
 
 function quadratureCoupling(c: ResolvedComponent, body: MechanicalBody, kappa: number, delta: number, kIn: number): number {
@@ -139,7 +137,7 @@ function quadratureCoupling(c: ResolvedComponent, body: MechanicalBody, kappa: n
     ? num(c, "photons")
     : c.given.has("power")
       ? intracavityPhotons(num(c, "power"), wavelength, kappa, delta, kIn)
-      : missing(c, "photons", "the drive: photons (e.g. 1e8) or power (e.g. \"10 mW\")");
+      : missing(c, "photons", 'the drive: photons (e.g. 1e8) or power (e.g. "10 mW")');
   let G: number; // dω_c/dx in rad/s per metre
   if (c.given.has("g0")) {
     if (body.omega <= 0) {
@@ -154,7 +152,7 @@ function quadratureCoupling(c: ResolvedComponent, body: MechanicalBody, kappa: n
   } else if (c.given.has("length")) {
     G = opticalAngularFrequency(wavelength) / num(c, "length");
   } else {
-    return missing(c, "g0", "the coupling: g0 (e.g. \"20 Hz\") or length (e.g. \"1 cm\")");
+    return missing(c, "g0", 'the coupling: g0 (e.g. "20 Hz") or length (e.g. "1 cm")');
   }
   // g = √2 G ā x_s (see optomechanics.ts)
   return Math.SQRT2 * G * Math.sqrt(photons) * body.xScale;

@@ -34,7 +34,7 @@ export const entangledSource: ComponentKind<EntangledHandle> = {
     {
       name: "squeezing",
       kind: "decibel",
-      doc: "Two-mode squeezing 10·log10 e^{−2r}: noise of X1 − X2 and of P1 + P2 relative to vacuum (at zero sideband frequency with a bandwidth), e.g. \"-10 dB\" (give this or r).",
+      doc: 'Two-mode squeezing 10·log10 e^{−2r}: noise of X1 − X2 and of P1 + P2 relative to vacuum (at zero sideband frequency with a bandwidth), e.g. "-10 dB" (give this or r).',
       optional: true,
       max: 0,
     },

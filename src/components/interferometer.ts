@@ -78,8 +78,8 @@ export const interferometer: ComponentKind<InterferometerHandle> = {
   type: "interferometer",
   summary: "Tuned Michelson with arm cavities (no signal recycling), dark-port light in and out, strain signal.",
   params: [
-    { name: "mass", kind: "mass", doc: "Mass m of each of the four test masses, e.g. \"40 kg\".", min: 0, minExclusive: true },
-    { name: "armLength", kind: "length", doc: "Arm length L, e.g. \"4 km\".", min: 0, minExclusive: true },
+    { name: "mass", kind: "mass", doc: 'Mass m of each of the four test masses, e.g. "40 kg".', min: 0, minExclusive: true },
+    { name: "armLength", kind: "length", doc: 'Arm length L, e.g. "4 km".', min: 0, minExclusive: true },
     {
       name: "armBandwidth",
       kind: "frequency",

@@ -81,7 +81,7 @@ export const squeezed: ComponentKind<SourceHandle> = {
     {
       name: "squeezing",
       kind: "decibel",
-      doc: "Noise of the squeezed quadrature relative to vacuum, e.g. \"-10 dB\" (give this or r).",
+      doc: 'Noise of the squeezed quadrature relative to vacuum, e.g. "-10 dB" (give this or r).',
       optional: true,
       min: STRONGEST_SQUEEZING_DB,
       max: 0,
@@ -123,6 +123,6 @@ function squeezingChoiceError(path: string, both: boolean): QuietframeError {
   return new QuietframeError({
     path: `${path}.squeezing`,
     problem: both ? "both squeezing and r are given" : "neither squeezing nor r is given",
-    allowed: "exactly one of squeezing (e.g. \"-10 dB\") or r (e.g. 1.15)",
+    allowed: 'exactly one of squeezing (e.g. "-10 dB") or r (e.g. 1.15)',
   });
 }

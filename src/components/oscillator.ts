@@ -14,8 +14,8 @@ export const oscillator: ComponentKind<OscillatorHandle> = {
   type: "oscillator",
   summary: "Damped mechanical oscillator (m, f_m, Q, T; either sign of mass).",
   params: [
-    { name: "mass", kind: "mass", doc: "Effective mass magnitude, e.g. \"2 ng\".", min: 0, minExclusive: true },
-    { name: "frequency", kind: "frequency", doc: "Resonance frequency f_m = Ω_m/2π, e.g. \"1.3 MHz\".", min: 0, minExclusive: true },
+    { name: "mass", kind: "mass", doc: 'Effective mass magnitude, e.g. "2 ng".', min: 0, minExclusive: true },
+    { name: "frequency", kind: "frequency", doc: 'Resonance frequency f_m = Ω_m/2π, e.g. "1.3 MHz".', min: 0, minExclusive: true },
     {
       name: "Q",
       kind: "number",
@@ -23,22 +23,23 @@ export const oscillator: ComponentKind<OscillatorHandle> = {
       min: 0,
       minExclusive: true,
       max: MAX_QUALITY_FACTOR,
-      rangeReason: "above Q = 1e12 the resonance is narrower than double precision resolves (on resonance Ω_m² − Ω² is rounded to about 2e-16·Ω_m², which the damping term γΩ_m = Ω_m²/Q no longer dominates)",
+      rangeReason:
+        "above Q = 1e12 the resonance is narrower than double precision resolves (on resonance Ω_m² − Ω² is rounded to about 2e-16·Ω_m², which the damping term γΩ_m = Ω_m²/Q no longer dominates)",
     },
-    { name: "temperature", kind: "temperature", doc: "Temperature of the intrinsic bath, e.g. \"6 K\".", min: 0 },
+    { name: "temperature", kind: "temperature", doc: 'Temperature of the intrinsic bath, e.g. "6 K".', min: 0 },
     {
       name: "massSign",
       kind: "choice",
       choices: ["positive", "negative"],
       default: "positive",
-      doc: "\"negative\" makes an inverted oscillator (effective negative mass): χ → −χ.",
+      doc: '"negative" makes an inverted oscillator (effective negative mass): χ → −χ.',
     },
     {
       name: "damping",
       kind: "choice",
       choices: ["viscous", "symmetric"],
       default: "viscous",
-      doc: "\"viscous\": Brownian motion, χ = 1/(m(Ω_m² − Ω² − iγΩ)), accurate for high Q; \"symmetric\": amplitude damping (Lindblad form), always a physical quantum state.",
+      doc: '"viscous": Brownian motion, χ = 1/(m(Ω_m² − Ω² − iγΩ)), accurate for high Q; "symmetric": amplitude damping (Lindblad form), always a physical quantum state.',
     },
   ],
   ports: [{ name: "body", kind: "mechanical-body", doc: "Where probes and baths act on the oscillator." }],

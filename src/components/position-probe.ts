@@ -34,7 +34,7 @@ export const positionProbe: ComponentKind<null> = {
       throw new QuietframeError({
         path: `${c.path}.power`,
         problem: c.given.has("power") ? "both power and measurementRate are given" : "neither power nor measurementRate is given",
-        allowed: "exactly one of power (e.g. \"1 W\") or measurementRate (e.g. \"3 kHz\")",
+        allowed: 'exactly one of power (e.g. "1 W") or measurementRate (e.g. "3 kHz")',
       });
     }
   },
@@ -51,9 +51,7 @@ export const positionProbe: ComponentKind<null> = {
   },
   cautions: (c) => {
     const p = maybeNum(c, "power");
-    return p !== undefined && p > 0.5
-      ? [`'${c.name}' uses ${p} W of probe light: hazardous laser power (Class 4 above 0.5 W). Follow your institution's laser-safety programme and local rules.`]
-      : [];
+    return p !== undefined && p > 0.5 ? [`'${c.name}' uses ${p} W of probe light: hazardous laser power (Class 4 above 0.5 W). Follow your institution's laser-safety programme and local rules.`] : [];
   },
 };
 

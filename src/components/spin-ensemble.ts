@@ -126,7 +126,7 @@ export const spinEnsemble: ComponentKind<SpinHandle> = {
       name: "orientation",
       kind: "choice",
       choices: ["positive-mass", "negative-mass"],
-      doc: "\"positive-mass\": spin in its energetically lowest state (χ as a mechanical oscillator); \"negative-mass\": highest state, χ → −χ.",
+      doc: '"positive-mass": spin in its energetically lowest state (χ as a mechanical oscillator); "negative-mass": highest state, χ → −χ.',
     },
   ],
   ports: [
@@ -142,7 +142,7 @@ export const spinEnsemble: ComponentKind<SpinHandle> = {
         allowed: `F = 0.5, 1, 1.5, … up to ${MAX_SPIN}`,
       });
     }
-    exactlyOne(c, ["polarization", "occupation"], 'polarization (e.g. 0.9) or occupation (e.g. 0.05)');
+    exactlyOne(c, ["polarization", "occupation"], "polarization (e.g. 0.9) or occupation (e.g. 0.05)");
     exactlyOne(c, ["linewidth", "t2"], 'linewidth (e.g. "200 Hz") or t2 (e.g. "1.5 ms")');
     const hasField = c.given.has("field");
     const hasRatio = c.given.has("gyromagneticRatio");
@@ -168,14 +168,7 @@ export const spinEnsemble: ComponentKind<SpinHandle> = {
     const mode = b.addMode(c.name, "spin", `${c.name} collective spin (X, P)`);
     const n = 2 * spinOccupation(c) + 1;
     const intrinsicColumn = b.addInputs(c.name, ["spin noise (X)", "spin noise (P)"], [n, 0, 0, n], "thermal", `${c.name}: spin decoherence noise`, true);
-    const probeColumn = b.addInputs(
-      c.name,
-      ["probe-induced spin noise (X)", "probe-induced spin noise (P)"],
-      [n, 0, 0, n],
-      "thermal",
-      `${c.name}: probe-induced decoherence noise`,
-      true,
-    );
+    const probeColumn = b.addInputs(c.name, ["probe-induced spin noise (X)", "probe-induced spin noise (P)"], [n, 0, 0, n], "thermal", `${c.name}: probe-induced decoherence noise`, true);
     return { mode, intrinsicColumn, probeColumn };
   },
   wire: ({ builder, component: c, handle, inputs }) => {

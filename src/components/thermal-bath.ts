@@ -10,7 +10,7 @@ export const thermalBath: ComponentKind<BathHandle> = {
   type: "thermal-bath",
   summary: "Extra viscous damping with its thermal force, linked to a mass or oscillator.",
   params: [
-    { name: "temperature", kind: "temperature", doc: "Bath temperature, e.g. \"300 K\".", min: 0 },
+    { name: "temperature", kind: "temperature", doc: 'Bath temperature, e.g. "300 K".', min: 0 },
     {
       name: "dampingRate",
       kind: "frequency",

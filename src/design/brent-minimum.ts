@@ -19,16 +19,7 @@ export interface MinimumResult {
  * Minimizes f on [a, b] starting at x0 (a ≤ x0 ≤ b) with f(x0) = fx0. Stops when the
  * bracket around the best point is narrower than about 2·(relTolerance·|x| + absTolerance).
  */
-export function brentMinimum(
-  f: (x: number) => number,
-  a: number,
-  b: number,
-  x0: number,
-  fx0: number,
-  relTolerance: number,
-  absTolerance: number,
-  maxEvaluations = 200,
-): MinimumResult {
+export function brentMinimum(f: (x: number) => number, a: number, b: number, x0: number, fx0: number, relTolerance: number, absTolerance: number, maxEvaluations = 200): MinimumResult {
   let x = x0;
   let w = x0;
   let v = x0;

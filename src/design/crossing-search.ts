@@ -34,7 +34,7 @@ export function crossingOnSide(g: (u: number) => number, u0: number, g0: number,
     const u = direction > 0 ? Math.min(1, u0 + step) : Math.max(0, u0 - step);
     const gu = g(u);
     evaluations++;
-    if ((gu >= 0) !== (gPrev >= 0)) {
+    if (gu >= 0 !== gPrev >= 0) {
       const root = brentRoot(g, uPrev, u, gPrev, gu, ROOT_TOLERANCE);
       evaluations += root.evaluations;
       return { u: root.x, g: root.fx, found: true, edge: !Number.isFinite(gu) || !Number.isFinite(root.fx), evaluations };

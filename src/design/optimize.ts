@@ -93,7 +93,8 @@ export function optimizeDesign(setup: SetupDescription | string, figure: FigureS
   const n = params.length;
   const maxEvaluations = integerOption(options.maxEvaluationsPerStart, 400 + 200 * n, 10, 1_000_000, "options.maxEvaluationsPerStart");
   const tolerance = options.tolerance ?? 1e-10;
-  if (!(tolerance > 0 && tolerance < 0.1)) throw new QuietframeError({ path: "options.tolerance", value: options.tolerance, problem: "is not a usable tolerance", allowed: "0 < tolerance < 0.1 (unit-box coordinates)" });
+  if (!(tolerance > 0 && tolerance < 0.1))
+    throw new QuietframeError({ path: "options.tolerance", value: options.tolerance, problem: "is not a usable tolerance", allowed: "0 < tolerance < 0.1 (unit-box coordinates)" });
 
   const valuesOf = (u: Float64Array): Record<string, number> => Object.fromEntries(params.map((p, k) => [p.target, fromUnit(ranges[k], u[k])]));
   const messages = new Map<string, string>();

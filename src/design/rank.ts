@@ -85,8 +85,7 @@ export function rankParameters(setup: SetupDescription | string, figure: FigureS
   if (!(relativeStep > 0 && relativeStep <= 0.5)) {
     throw new QuietframeError({ path: "options.relativeStep", value: options.relativeStep, problem: "is not a usable relative step", allowed: "0 < relativeStep ≤ 0.5" });
   }
-  const parameters =
-    options.parameters === undefined ? numericParameters(problem.base) : options.parameters.map((t, i) => designParameter(problem.base, t, `options.parameters[${i}]`));
+  const parameters = options.parameters === undefined ? numericParameters(problem.base) : options.parameters.map((t, i) => designParameter(problem.base, t, `options.parameters[${i}]`));
   const base = problem.evaluate({}, []);
   if (base.status !== CellStatus.ok) {
     throw new QuietframeError({ path: "setup", value: problem.base.name || "(set-up)", problem: `has no value for the figure as given: ${base.message}`, allowed: "a set-up that evaluates" });

@@ -142,7 +142,8 @@ export function solveForTarget(setup: SetupDescription | string, figure: FigureS
 
 function neverResult(L: Line, current: SolveResult["current"], scanned: ReturnType<typeof maximizeOnLine> | undefined, why: string | undefined): SolveResult {
   const { problem, p, range } = L;
-  const best = scanned && scanned.merit > -Infinity ? { ...L.setting(scanned.x), at: scanned.at === "low-end" ? range.loEnd : scanned.at === "high-end" ? range.hiEnd : ("inside" as const) } : undefined;
+  const best =
+    scanned && scanned.merit > -Infinity ? { ...L.setting(scanned.x), at: scanned.at === "low-end" ? range.loEnd : scanned.at === "high-end" ? range.hiEnd : ("inside" as const) } : undefined;
   const message =
     why ??
     `no value of ${p.target} in ${rangeText(L)} reaches ${figureText(problem.figure, L.target)}; the best is ${best ? `${figureText(problem.figure, best.figure)} at ${best.shown}` : "undefined"}`;
@@ -201,7 +202,8 @@ function endText(kind: WindowEnd["kind"]): string {
 }
 
 function figureText(figure: DesignFigure, value: number): string {
-  if (figure.unit === "dB") return `${value.toPrecision(4)} dB ${figure.kind === "margin-at" || figure.kind === "margin-band" || figure.kind === "best-margin" ? "margin below the SQL" : ""}`.trimEnd();
+  if (figure.unit === "dB")
+    return `${value.toPrecision(4)} dB ${figure.kind === "margin-at" || figure.kind === "margin-band" || figure.kind === "best-margin" ? "margin below the SQL" : ""}`.trimEnd();
   if (figure.kind === "noise-at") return `a noise of ${value.toPrecision(4)} ${figure.unit}`;
   return `a ratio of ${value.toPrecision(4)}`;
 }
@@ -221,4 +223,3 @@ function checkScanPoints(points: unknown): number {
   }
   return points;
 }
-

@@ -82,7 +82,12 @@ export function spreadAnalysis(setup: SetupDescription | string, figure: FigureS
   const centres = Object.fromEntries(list.map((u) => [u.parameter.target, u.centre]));
   const nominalOutcome = problem.evaluate(centres, params);
   if (nominalOutcome.status !== CellStatus.ok) {
-    throw new QuietframeError({ path: "uncertain", value: list.map((u) => u.shown), problem: `the centres give the figure no value: ${nominalOutcome.message}`, allowed: "centres at which the set-up evaluates" });
+    throw new QuietframeError({
+      path: "uncertain",
+      value: list.map((u) => u.shown),
+      problem: `the centres give the figure no value: ${nominalOutcome.message}`,
+      allowed: "centres at which the set-up evaluates",
+    });
   }
   const nominal = nominalOutcome.value;
   const frequencies = options.bands === false ? undefined : logGrid(problem.grid);
@@ -167,13 +172,12 @@ function linearPropagation(
     const derivative = d?.value ?? NaN;
     return { target: p.target, derivative, derivativeError: d?.error ?? NaN, deviation: u.deviation, share: 0 };
   });
-  const variance = terms.reduce((s, t) => s + (t.derivative * t.deviation) * (t.derivative * t.deviation), 0);
+  const variance = terms.reduce((s, t) => s + t.derivative * t.deviation * (t.derivative * t.deviation), 0);
   const deviation = Math.sqrt(variance);
-  const withShares = terms.map((t) => ({ ...t, share: variance > 0 ? (t.derivative * t.deviation) * (t.derivative * t.deviation) / variance : 0 }));
+  const withShares = terms.map((t) => ({ ...t, share: variance > 0 ? (t.derivative * t.deviation * (t.derivative * t.deviation)) / variance : 0 }));
   const seMean = mc.deviation / Math.sqrt(n);
   const seDeviation = mc.deviation / Math.sqrt(2 * (n - 1));
-  const holds =
-    Number.isFinite(deviation) && n > 1 && Math.abs(mc.mean - nominal) <= 3 * seMean + 0.1 * deviation && Math.abs(mc.deviation - deviation) <= 3 * seDeviation + 0.1 * deviation;
+  const holds = Number.isFinite(deviation) && n > 1 && Math.abs(mc.mean - nominal) <= 3 * seMean + 0.1 * deviation && Math.abs(mc.deviation - deviation) <= 3 * seDeviation + 0.1 * deviation;
   const truncated = list.some((u) => u.truncated);
   const note = !Number.isFinite(deviation)
     ? "no linear estimate: a derivative could not be taken at the centre"

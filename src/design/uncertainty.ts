@@ -60,7 +60,7 @@ export function resolveUncertainties(setup: ResolvedSetup, specs: readonly Uncer
 function resolveOne(p: DesignParameter, spec: UncertaintySpec): ResolvedUncertainty {
   const path = `uncertain.${p.target}`;
   if (typeof spec.value !== "string") {
-    throw new QuietframeError({ path, value: spec.value, problem: "must be text such as \"95 % ± 2 %\"", allowed: `a value ± a spread in the units of ${p.target}, e.g. "${example(p)}"` });
+    throw new QuietframeError({ path, value: spec.value, problem: 'must be text such as "95 % ± 2 %"', allowed: `a value ± a spread in the units of ${p.target}, e.g. "${example(p)}"` });
   }
   let text = spec.value.trim();
   let distribution: SpreadDistribution = "normal";
@@ -77,7 +77,12 @@ function resolveOne(p: DesignParameter, spec: UncertaintySpec): ResolvedUncertai
   }
   const parts = text.split(PLUS_MINUS);
   if (parts.length !== 2 || parts[1].trim() === "") {
-    throw new QuietframeError({ path, value: spec.value, problem: "is not a value ± a spread", allowed: `e.g. "${example(p)}" or "± ${shownValue(Math.abs(p.value) * 0.02 || 1, p)}", optionally ending in normal or uniform` });
+    throw new QuietframeError({
+      path,
+      value: spec.value,
+      problem: "is not a value ± a spread",
+      allowed: `e.g. "${example(p)}" or "± ${shownValue(Math.abs(p.value) * 0.02 || 1, p)}", optionally ending in normal or uniform`,
+    });
   }
   const centre = parts[0].trim() === "" ? p.value : parseParameterValue(p, parts[0].trim(), `${path}.value`);
   if (!withinBounds(p, centre)) {
@@ -86,7 +91,12 @@ function resolveOne(p: DesignParameter, spec: UncertaintySpec): ResolvedUncertai
   const spreadText = parts[1].trim();
   const spread = parseParameterValue(p, spreadText, `${path}.spread`);
   if (!(spread > 0)) {
-    throw new QuietframeError({ path: `${path}.spread`, value: spreadText, problem: "must be above zero", allowed: `a spread in the units of ${p.target}, e.g. "${shownValue(Math.abs(p.value) * 0.02 || 1, p)}"` });
+    throw new QuietframeError({
+      path: `${path}.spread`,
+      value: spreadText,
+      problem: "must be above zero",
+      allowed: `a spread in the units of ${p.target}, e.g. "${shownValue(Math.abs(p.value) * 0.02 || 1, p)}"`,
+    });
   }
   if (p.lower && p.upper && spread > p.upper.value - p.lower.value) {
     throw new QuietframeError({

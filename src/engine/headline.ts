@@ -63,11 +63,7 @@ export function describeHeadline(h: HeadlineFigures, unit: string): string {
         : `closest approach to the SQL: ${(-h.bestMarginDb).toFixed(2)} dB above it at ${hz(h.bestMarginAt)}`,
     );
   }
-  lines.push(
-    h.belowSqlBands.length
-      ? `below the SQL in ${h.belowSqlBands.map(([a, b]) => `${hz(a)} – ${hz(b)}`).join(", ")}`
-      : "never below the SQL on this grid",
-  );
+  lines.push(h.belowSqlBands.length ? `below the SQL in ${h.belowSqlBands.map(([a, b]) => `${hz(a)} – ${hz(b)}`).join(", ")}` : "never below the SQL on this grid");
   lines.push("largest term:");
   for (const d of h.dominant) lines.push(`  ${hz(d.from)} – ${hz(d.to)}: ${d.term}`);
   lines.push(`(noise referred to the signal, one-sided, in ${unit})`);

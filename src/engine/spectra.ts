@@ -57,13 +57,7 @@ export function inputTransfer(model: StateSpaceModel, rows: readonly number[], f
   return collect(model, rows, frequencies, rows.length * model.nInputs, (ev) => [ev.hRe, ev.hIm]);
 }
 
-function collect(
-  model: StateSpaceModel,
-  rows: readonly number[],
-  frequencies: Float64Array,
-  blockSize: number,
-  pick: (ev: TransferEvaluator) => [Float64Array, Float64Array],
-): ComplexSeries {
+function collect(model: StateSpaceModel, rows: readonly number[], frequencies: Float64Array, blockSize: number, pick: (ev: TransferEvaluator) => [Float64Array, Float64Array]): ComplexSeries {
   const ev = new TransferEvaluator(model, rows);
   const re = new Float64Array(frequencies.length * blockSize);
   const im = new Float64Array(frequencies.length * blockSize);

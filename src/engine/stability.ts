@@ -53,9 +53,7 @@ export function analyzeStability(assembled: AssembledSetup): StabilityReport {
     // eigenvalues resolve. When every mode has damping of its own, no exactly undamped normal
     // mode can form, so such a mode is weakly damped, not undamped: the stationary state exists.
     const slowest = undamped.reduce((a, b) => (b.frequency < a.frequency ? b : a));
-    const summary =
-      `stable: every mode decays (each has damping of its own; the slowest decay, near ${slowest.frequency.toPrecision(4)} Hz, ` +
-      `is below what the eigenvalues resolve)`;
+    const summary = `stable: every mode decays (each has damping of its own; the slowest decay, near ${slowest.frequency.toPrecision(4)} Hz, ` + `is below what the eigenvalues resolve)`;
     return { stable: true, growing, undamped: [], summary };
   }
   const stable = growing.length === 0 && undamped.length === 0;

@@ -144,8 +144,7 @@ export function resolveFigure(setup: SetupDescription, base: ResolvedSetup, raw:
     case "noise-at": {
       const f = expectObject(raw, "figure", ["kind", "frequency"]) as unknown as MarginAtSpec | NoiseAtSpec;
       const at = parseQuantity(f.frequency, "frequency", "figure.frequency");
-      const what = (fq: number): string =>
-        kind === "margin-at" ? `margin below the SQL at ${formatQuantity(fq, "frequency", 6)}` : `total noise at ${formatQuantity(fq, "frequency", 6)}`;
+      const what = (fq: number): string => (kind === "margin-at" ? `margin below the SQL at ${formatQuantity(fq, "frequency", 6)}` : `total noise at ${formatQuantity(fq, "frequency", 6)}`);
       const unit = kind === "margin-at" ? "dB" : spectralDensityUnit(assembled.referredTo.unit, "power");
       if (options.atFrequency === "exact") {
         if (!(at > 0)) throw new QuietframeError({ path: "figure.frequency", value: f.frequency, problem: "must be above 0 Hz", allowed: 'a frequency such as "1.16 MHz"' });
@@ -165,7 +164,12 @@ export function resolveFigure(setup: SetupDescription, base: ResolvedSetup, raw:
         throw new QuietframeError({ path: "figure.from", value: f.from, problem: "is outside the frequency grid", allowed: gridText });
       }
       if (!(to > from && to <= grid.to)) {
-        throw new QuietframeError({ path: "figure.to", value: f.to, problem: "must be above figure.from and inside the grid", allowed: `${formatQuantity(from, "frequency")} < to ≤ ${formatQuantity(grid.to, "frequency")}` });
+        throw new QuietframeError({
+          path: "figure.to",
+          value: f.to,
+          problem: "must be above figure.from and inside the grid",
+          allowed: `${formatQuantity(from, "frequency")} < to ≤ ${formatQuantity(grid.to, "frequency")}`,
+        });
       }
       let first = -1;
       let last = -1;

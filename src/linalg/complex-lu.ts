@@ -84,15 +84,7 @@ export function complexLuFactor(re: Float64Array, im: Float64Array, n: number, p
 }
 
 /** Solves A X = B in place (B is n×nrhs, row-major) from the factors of complexLuFactor. */
-export function complexLuSolve(
-  re: Float64Array,
-  im: Float64Array,
-  n: number,
-  piv: Int32Array,
-  bRe: Float64Array,
-  bIm: Float64Array,
-  nrhs: number,
-): void {
+export function complexLuSolve(re: Float64Array, im: Float64Array, n: number, piv: Int32Array, bRe: Float64Array, bIm: Float64Array, nrhs: number): void {
   checkSizes(n, re, im, piv);
   checkRhs(n, nrhs, bRe, bIm);
   // Apply P to B in the order the exchanges were made.
@@ -130,15 +122,7 @@ export function complexLuSolve(
  * Since P A = L U, Aᵀ = Uᵀ Lᵀ P, so: Uᵀ w = b (forward), Lᵀ z = w (backward), x = Pᵀ z.
  * Column-oriented updates keep the reads of U and L along their stored rows.
  */
-export function complexLuSolveTransposed(
-  re: Float64Array,
-  im: Float64Array,
-  n: number,
-  piv: Int32Array,
-  bRe: Float64Array,
-  bIm: Float64Array,
-  nrhs: number,
-): void {
+export function complexLuSolveTransposed(re: Float64Array, im: Float64Array, n: number, piv: Int32Array, bRe: Float64Array, bIm: Float64Array, nrhs: number): void {
   checkSizes(n, re, im, piv);
   checkRhs(n, nrhs, bRe, bIm);
   // Uᵀ w = b: row i of U is column i of Uᵀ.
@@ -185,15 +169,7 @@ function swapRows(bRe: Float64Array, bIm: Float64Array, a: number, b: number, nr
 }
 
 /** Row at `dst` += (fr + i·fi) · row at `src`. */
-function axpyRow(
-  bRe: Float64Array,
-  bIm: Float64Array,
-  dst: number,
-  src: number,
-  fr: number,
-  fi: number,
-  nrhs: number,
-): void {
+function axpyRow(bRe: Float64Array, bIm: Float64Array, dst: number, src: number, fr: number, fi: number, nrhs: number): void {
   for (let c = 0; c < nrhs; c++) {
     const xr = bRe[src + c];
     const xi = bIm[src + c];
@@ -203,14 +179,7 @@ function axpyRow(
 }
 
 /** Row at `off` /= (dr + i·di), with the same overflow-safe reciprocal as the factorisation. */
-function scaleRowByInverse(
-  bRe: Float64Array,
-  bIm: Float64Array,
-  off: number,
-  dr: number,
-  di: number,
-  nrhs: number,
-): void {
+function scaleRowByInverse(bRe: Float64Array, bIm: Float64Array, off: number, dr: number, di: number, nrhs: number): void {
   const s = 1 / (Math.abs(dr) + Math.abs(di));
   const pr = dr * s;
   const pi = di * s;

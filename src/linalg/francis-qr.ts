@@ -70,14 +70,7 @@ const pair = new Float64Array(4);
  * wr/wi starting at `offset`. Returns the number of QR sweeps used; throws if more than
  * `maxIterations` sweeps would be needed.
  */
-export function hessenbergEigenvalues(
-  h: Float64Array,
-  n: number,
-  wr: Float64Array,
-  wi: Float64Array,
-  offset: number,
-  maxIterations: number,
-): number {
+export function hessenbergEigenvalues(h: Float64Array, n: number, wr: Float64Array, wi: Float64Array, offset: number, maxIterations: number): number {
   let norm = 0;
   for (let i = 0; i < n; i++) {
     for (let j = Math.max(0, i - 1); j < n; j++) norm += Math.abs(h[i * n + j]);
@@ -116,10 +109,7 @@ export function hessenbergEigenvalues(
       continue;
     }
     if (total >= maxIterations) {
-      throw new Error(
-        `eigenvalue QR iteration did not converge: an unreduced ${hi - l + 1}×${hi - l + 1} block ` +
-          `remains after ${total} sweeps`,
-      );
+      throw new Error(`eigenvalue QR iteration did not converge: an unreduced ${hi - l + 1}×${hi - l + 1} block ` + `remains after ${total} sweeps`);
     }
     total++;
     sinceDeflation++;
@@ -131,9 +121,7 @@ export function hessenbergEigenvalues(
     let prod: number;
     if (sinceDeflation % 10 === 0) {
       const top = sinceDeflation % 20 === 10;
-      const s = top
-        ? Math.abs(h[(l + 1) * n + l]) + Math.abs(h[(l + 2) * n + l + 1])
-        : Math.abs(h[hi * n + hi - 1]) + Math.abs(h[(hi - 1) * n + hi - 2]);
+      const s = top ? Math.abs(h[(l + 1) * n + l]) + Math.abs(h[(l + 2) * n + l + 1]) : Math.abs(h[hi * n + hi - 1]) + Math.abs(h[(hi - 1) * n + hi - 2]);
       const x = 0.75 * s + (top ? h[l * n + l] : h[hi * n + hi]);
       sum = 2 * x;
       prod = x * x + 0.4375 * s * s;
@@ -158,15 +146,7 @@ function francisStep(h: Float64Array, n: number, l: number, hi: number, sum: num
   const h10 = h[(l + 1) * n + l];
   const h11 = h[(l + 1) * n + l + 1];
   const h21 = h[(l + 2) * n + l + 1];
-  const m = Math.max(
-    Math.abs(h00),
-    Math.abs(h01),
-    Math.abs(h10),
-    Math.abs(h11),
-    Math.abs(h21),
-    Math.abs(sum),
-    Math.sqrt(Math.abs(prod)),
-  );
+  const m = Math.max(Math.abs(h00), Math.abs(h01), Math.abs(h10), Math.abs(h11), Math.abs(h21), Math.abs(sum), Math.sqrt(Math.abs(prod)));
   const f = 1 / m;
   const a00 = h00 * f;
   const a10 = h10 * f;

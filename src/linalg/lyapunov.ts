@@ -36,8 +36,7 @@ export function solveLyapunov(a: Float64Array, q: Float64Array, n: number): Floa
   if (bad) {
     const sign = bad.im < 0 ? "-" : "+";
     throw new NonDecayingModeError(
-      `solveLyapunov: A is not stable, eigenvalue ${bad.re} ${sign} ${Math.abs(bad.im)}i is a ${bad.kind} mode ` +
-        `(real part must be negative); no stationary covariance exists`,
+      `solveLyapunov: A is not stable, eigenvalue ${bad.re} ${sign} ${Math.abs(bad.im)}i is a ${bad.kind} mode ` + `(real part must be negative); no stationary covariance exists`,
       bad,
     );
   }
@@ -64,10 +63,7 @@ export function solveLyapunov(a: Float64Array, q: Float64Array, n: number): Floa
     realLuFactor(sys, m, piv);
   } catch (e) {
     if (e instanceof SingularMatrixError) {
-      throw new Error(
-        "solveLyapunov: the equation A V + V Aᵀ + Q = 0 is singular " +
-          "(A has eigenvalues with λi + λj = 0, e.g. an undamped mode); no unique stationary covariance",
-      );
+      throw new Error("solveLyapunov: the equation A V + V Aᵀ + Q = 0 is singular " + "(A has eigenvalues with λi + λj = 0, e.g. an undamped mode); no unique stationary covariance");
     }
     throw e;
   }

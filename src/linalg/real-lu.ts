@@ -44,13 +44,7 @@ export function realLuFactor(a: Float64Array, n: number, piv: Int32Array): void 
 }
 
 /** Solves A X = B in place (B is n×nrhs, row-major) from the factors of realLuFactor. */
-export function realLuSolve(
-  a: Float64Array,
-  n: number,
-  piv: Int32Array,
-  b: Float64Array,
-  nrhs: number,
-): void {
+export function realLuSolve(a: Float64Array, n: number, piv: Int32Array, b: Float64Array, nrhs: number): void {
   if (a.length < n * n || piv.length < n) throw new RangeError(`factor arrays are smaller than order ${n}`);
   if (!Number.isInteger(nrhs) || nrhs < 0 || b.length < n * nrhs) {
     throw new RangeError(`right-hand side must hold ${n}×${nrhs} entries`);

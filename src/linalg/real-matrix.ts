@@ -93,15 +93,6 @@ export function block(a: ArrayLike<number>, cols: number, r0: number, c0: number
 }
 
 /** Writes an r×c block into an N-column matrix at (r0, c0), multiplied by `scale`. */
-export function setBlock(
-  target: Float64Array,
-  cols: number,
-  r0: number,
-  c0: number,
-  src: ArrayLike<number>,
-  r: number,
-  c: number,
-  scale = 1,
-): void {
+export function setBlock(target: Float64Array, cols: number, r0: number, c0: number, src: ArrayLike<number>, r: number, c: number, scale = 1): void {
   for (let i = 0; i < r; i++) for (let j = 0; j < c; j++) target[(r0 + i) * cols + c0 + j] = scale * src[i * c + j];
 }

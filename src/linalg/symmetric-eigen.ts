@@ -46,10 +46,7 @@ function jacobiInPlace(w: Float64Array, n: number): void {
         rotated = true;
         // Rotation angle with t = tan θ the smaller root of t² + 2τt − 1 = 0.
         const tau = (aqq - app) / (2 * apq);
-        const t =
-          Math.abs(tau) > 1e150
-            ? 1 / (2 * tau)
-            : (tau >= 0 ? 1 : -1) / (Math.abs(tau) + Math.sqrt(1 + tau * tau));
+        const t = Math.abs(tau) > 1e150 ? 1 / (2 * tau) : (tau >= 0 ? 1 : -1) / (Math.abs(tau) + Math.sqrt(1 + tau * tau));
         const c = 1 / Math.sqrt(1 + t * t);
         const s = t * c;
         w[p * n + p] = app - t * apq;

@@ -48,14 +48,7 @@ export class NetworkBuilder {
    * Claims k white inputs with a k×k one-sided noise matrix (vacuum = identity).
    * Returns the index of the first input column.
    */
-  addInputs(
-    owner: string,
-    labels: string[],
-    noise: ArrayLike<number>,
-    category: NoiseCategory,
-    blockLabel?: string,
-    together = false,
-  ): number {
+  addInputs(owner: string, labels: string[], noise: ArrayLike<number>, category: NoiseCategory, blockLabel?: string, together = false): number {
     this.assertAllocating("addInputs");
     const k = labels.length;
     if (noise.length !== k * k) throw new Error(`noise matrix for ${owner} must be ${k}×${k}`);

@@ -50,7 +50,14 @@ export function unitPhasor(theta: number): [number, number] {
   const k = Math.round(quarterTurns);
   if (Math.abs(quarterTurns - k) < 1e-12) {
     const r = ((k % 4) + 4) % 4;
-    return ([[1, 0], [0, 1], [-1, 0], [0, -1]] as const)[r].slice() as [number, number];
+    return (
+      [
+        [1, 0],
+        [0, 1],
+        [-1, 0],
+        [0, -1],
+      ] as const
+    )[r].slice() as [number, number];
   }
   return [cos(theta), sin(theta)];
 }

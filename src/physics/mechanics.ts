@@ -18,13 +18,7 @@ import type { ReferenceCurve, SignalReference } from "./signal-reference";
 /** Scale frequency for a free mass; any positive value gives the same spectra. */
 const FREE_MASS_SCALE_OMEGA = 2 * Math.PI;
 
-export function allocateBody(
-  builder: NetworkBuilder,
-  owner: string,
-  mass: number,
-  massSign: 1 | -1,
-  omega: number,
-): MechanicalBody {
+export function allocateBody(builder: NetworkBuilder, owner: string, mass: number, massSign: 1 | -1, omega: number): MechanicalBody {
   const mode = builder.addMode(owner, "mechanical", `${owner} position/momentum`);
   const scaleOmega = omega > 0 ? omega : FREE_MASS_SCALE_OMEGA;
   return {
@@ -55,12 +49,7 @@ export function wireBody(builder: NetworkBuilder, body: MechanicalBody): void {
  * resonance (the usual Markov approximation for a high-Q mode), or its classical limit
  * 4|m|γk_BT for a free mass, which has no resonance to evaluate it at.
  */
-export function addViscousBath(
-  builder: NetworkBuilder,
-  body: MechanicalBody,
-  bath: ThermalBathInfo,
-  inputColumn: number,
-): void {
+export function addViscousBath(builder: NetworkBuilder, body: MechanicalBody, bath: ThermalBathInfo, inputColumn: number): void {
   const { p } = body.mode;
   builder.couple(p, p, -bath.gamma);
   builder.drive(p, builder.input(inputColumn), Math.sqrt(whiteThermalForcePsd(body, bath)) / body.pScale);

@@ -136,7 +136,7 @@ export function strainCurve(budget: NoiseBudget): StrainCurve {
       path: "signal.referTo",
       value: budget.quantity.name,
       problem: "the budget is not referred to strain, so it has no astrophysical reach",
-      allowed: "a budget of an interferometer's strain signal referred to \"strain\"",
+      allowed: 'a budget of an interferometer\'s strain signal referred to "strain"',
     });
   }
   return { frequencies: budget.frequencies, strainPsd: budget.total };

@@ -6,11 +6,7 @@ import { formatQuantity, parseQuantity } from "../units";
  * Parses one component's parameters into SI numbers, once, at the edge. Unknown names,
  * wrong units and out-of-range values are all reported with the field's full path.
  */
-export function resolveParams(
-  kind: ComponentKind<unknown>,
-  raw: Record<string, unknown>,
-  path: string,
-): { values: ParamValues; given: Set<string> } {
+export function resolveParams(kind: ComponentKind<unknown>, raw: Record<string, unknown>, path: string): { values: ParamValues; given: Set<string> } {
   const values: Record<string, number | string | undefined> = {};
   const given = new Set<string>();
   const known = new Set(kind.params.map((p) => p.name));

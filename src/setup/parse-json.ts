@@ -72,7 +72,7 @@ export function firstSyntaxError(text: string): number {
       if (text[i] === "\\") {
         i++;
         if (text[i] === "u") {
-          for (let k = 1; k <= 4; k++) if (!/[0-9a-fA-F]/.test(text[i + k] ?? "")) ((i = i + k), fail());
+          for (let k = 1; k <= 4; k++) if (!/[0-9a-fA-F]/.test(text[i + k] ?? "")) (i = i + k), fail();
           i += 5;
           continue;
         }

@@ -46,9 +46,7 @@ export function setupJsonSchema(): Schema {
     connections: {
       type: "array",
       items: { $ref: "#/$defs/connection" },
-      description:
-        'Pairs of ports "component.port": light flows from the first (an output) to the second (an input); ' +
-        "a probe's mechanical port is linked to a body in either order.",
+      description: 'Pairs of ports "component.port": light flows from the first (an output) to the second (an input); ' + "a probe's mechanical port is linked to a body in either order.",
     },
     readout: {
       type: "array",

@@ -174,11 +174,7 @@ function resolveComponent(entry: unknown, i: number, kinds: Map<string, Componen
   return resolved;
 }
 
-function resolveConnections(
-  input: unknown,
-  components: readonly ResolvedComponent[],
-  kinds: ReadonlyMap<string, ComponentKind<unknown>>,
-): { optical: OpticalLink[]; mechanical: MechanicalLink[] } {
+function resolveConnections(input: unknown, components: readonly ResolvedComponent[], kinds: ReadonlyMap<string, ComponentKind<unknown>>): { optical: OpticalLink[]; mechanical: MechanicalLink[] } {
   const list = input === undefined ? [] : expectArray(input, "connections", 0);
   const used = new Map<string, string>();
   const optical: OpticalLink[] = [];

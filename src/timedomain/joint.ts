@@ -45,7 +45,7 @@ export function resolveJointVariable(model: StateSpaceModel, jv: JointVariable, 
     const at = `${path}.terms[${i}]`;
     const mode = findMode(model, term, at);
     if (term.quadrature !== "x" && term.quadrature !== "p") {
-      throw new QuietframeError({ path: `${at}.quadrature`, value: term.quadrature, problem: "unknown quadrature", allowed: "\"x\" or \"p\"" });
+      throw new QuietframeError({ path: `${at}.quadrature`, value: term.quadrature, problem: "unknown quadrature", allowed: '"x" or "p"' });
     }
     if (!Number.isFinite(term.weight)) {
       throw new QuietframeError({ path: `${at}.weight`, value: term.weight, problem: "the weight must be a finite number", allowed: "any finite real number" });

@@ -51,7 +51,7 @@ export function checkSettings(s: SimulationSettings): CheckedSettings {
   samples = Math.min(samples, steps + 1);
   const initial: InitialState = s.initial ?? "stationary";
   if (initial !== "stationary" && initial !== "ground") {
-    fail("initial", s.initial, "unknown initial state", "\"stationary\" (unconditional steady state) or \"ground\" (every mode in its ground state)");
+    fail("initial", s.initial, "unknown initial state", '"stationary" (unconditional steady state) or "ground" (every mode in its ground state)');
   }
   return { settings: { duration: steps * step, step, seed, samples, initial }, steps, initialChosen: s.initial === undefined };
 }

@@ -113,11 +113,7 @@ class Run implements TrajectoryRun {
 }
 
 /** The initial covariance: the stationary state when asked for (or when left open and it exists), else the ground state. */
-function initialCovariance(
-  model: StateSpaceModel,
-  initial: "stationary" | "ground",
-  chosenByEngine: boolean,
-): { v: Float64Array; initial: "stationary" | "ground" } {
+function initialCovariance(model: StateSpaceModel, initial: "stationary" | "ground", chosenByEngine: boolean): { v: Float64Array; initial: "stationary" | "ground" } {
   if (initial === "ground") return { v: groundCovariance(model), initial };
   try {
     return { v: stationaryCovariance(model), initial };
@@ -127,7 +123,7 @@ function initialCovariance(
       path: "simulation.initial",
       value: "stationary",
       problem: `the set-up has no stationary state (${e instanceof Error ? e.message : String(e)})`,
-      allowed: "\"ground\" for a set-up with undamped or growing modes (a free mass)",
+      allowed: '"ground" for a set-up with undamped or growing modes (a free mass)',
     });
   }
 }
@@ -138,12 +134,7 @@ export function startTrajectory(model: StateSpaceModel, settings: SimulationSett
 }
 
 /** Runs to the end, reporting progress (0 … 1) about a hundred times. */
-export function simulateTrajectory(
-  model: StateSpaceModel,
-  settings: SimulationSettings,
-  request: TrajectoryRequest,
-  onProgress?: (fraction: number) => void,
-): TrajectoryResult {
+export function simulateTrajectory(model: StateSpaceModel, settings: SimulationSettings, request: TrajectoryRequest, onProgress?: (fraction: number) => void): TrajectoryResult {
   const run = new Run(model, settings, request);
   const chunk = Math.max(1000, Math.ceil(run.plannedSteps / 100));
   while (!run.advance(chunk)) onProgress?.(run.progress);

@@ -142,10 +142,11 @@ export function runRowsInWorkers(plan: TolerancePlan, workers: number, options: 
   const script = workerScript();
   const pool: Worker[] = [];
   for (let k = 0; k < workers; k++) pool.push(new Worker(script, { workerData: { plan } }));
-  const stopAll = (): Promise<void> => Promise.all(pool.map((w) => w.terminate())).then(
-    () => undefined,
-    () => undefined,
-  );
+  const stopAll = (): Promise<void> =>
+    Promise.all(pool.map((w) => w.terminate())).then(
+      () => undefined,
+      () => undefined,
+    );
   return dispatchRows(pool, plan, 0, false, options, stopAll);
 }
 

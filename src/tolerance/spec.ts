@@ -136,9 +136,7 @@ interface Target {
 
 function resolveTarget(setup: SetupDescription, axis: ToleranceAxisSpec, path: string): Target {
   const target = axis.target;
-  const quantities = setup.components.flatMap((c) =>
-    (componentKind(c.type)?.params ?? []).filter((p) => p.kind !== "choice").map((p) => `${c.name}.${p.name}`),
-  );
+  const quantities = setup.components.flatMap((c) => (componentKind(c.type)?.params ?? []).filter((p) => p.kind !== "choice").map((p) => `${c.name}.${p.name}`));
   if (typeof target !== "string") {
     throw new QuietframeError({ path: `${path}.target`, value: target, problem: "must name a parameter", allowed: '"component.parameter", e.g. "membrane.temperature"' });
   }

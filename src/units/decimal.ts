@@ -34,7 +34,9 @@ export interface DecimalDigits {
 
 /** Round finite, non-zero x to `sig` significant digits. */
 export function toDecimalDigits(x: number, sig: number): DecimalDigits {
-  const [m, e] = Math.abs(x).toExponential(sig - 1).split("e");
+  const [m, e] = Math.abs(x)
+    .toExponential(sig - 1)
+    .split("e");
   const digits = m.replace(".", "").replace(/0+$/, "") || "0";
   return { negative: x < 0, digits, exp: Number(e) };
 }

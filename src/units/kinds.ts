@@ -2,21 +2,7 @@
  * The kinds of quantity a user-facing field can hold. A field declares its kind once;
  * `parseQuantity` then turns whatever the user wrote into a plain SI number.
  */
-export const QUANTITY_KINDS = [
-  "mass",
-  "frequency",
-  "temperature",
-  "length",
-  "power",
-  "time",
-  "angle",
-  "fraction",
-  "decibel",
-  "magneticField",
-  "gyromagneticRatio",
-  "count",
-  "number",
-] as const;
+export const QUANTITY_KINDS = ["mass", "frequency", "temperature", "length", "power", "time", "angle", "fraction", "decibel", "magneticField", "gyromagneticRatio", "count", "number"] as const;
 
 export type QuantityKind = (typeof QUANTITY_KINDS)[number];
 

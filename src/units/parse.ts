@@ -1,14 +1,7 @@
 import { QuietframeError } from "../errors";
 import { hasNonZeroDigit, NUMBER_PREFIX, scaleDecimal } from "./decimal";
 import { isQuantityKind, QUANTITY_KIND_INFO, QUANTITY_KINDS, type QuantityKind } from "./kinds";
-import {
-  caseInsensitiveMatches,
-  isAmbiguousPerSecond,
-  isRelativeTemperatureUnit,
-  kindOfUnit,
-  unitScale,
-  type UnitScale,
-} from "./units";
+import { caseInsensitiveMatches, isAmbiguousPerSecond, isRelativeTemperatureUnit, kindOfUnit, unitScale, type UnitScale } from "./units";
 
 // Any run of whitespace (or none) is allowed between number and unit; inside a unit it
 // collapses to one space, which matters only in "rad/(s T)".
@@ -59,7 +52,11 @@ export function parseQuantity(value: unknown, kind: QuantityKind, path: string):
   const literal = num[0];
   if (/^[+-]?0[xXbBoO]/.test(text)) fail("hexadecimal, binary and octal numbers are not accepted; write a decimal number");
 
-  const unit = text.slice(literal.length).replace(SPACES, " ").trim().replace(/ ?\/ ?/g, "/");
+  const unit = text
+    .slice(literal.length)
+    .replace(SPACES, " ")
+    .trim()
+    .replace(/ ?\/ ?/g, "/");
   let scale: UnitScale = { pow10: 0, factor: 1 };
   if (unit === "") {
     if (info.needsUnit) fail(...missingUnit(kind, literal));

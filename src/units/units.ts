@@ -37,9 +37,7 @@ export const SI_PREFIXES: ReadonlyArray<readonly [symbol: string, pow10: number]
 ];
 
 /** Prefix symbol used when formatting, by power of ten. Micro is printed as U+00B5. */
-export const FORMAT_PREFIX: ReadonlyMap<number, string> = new Map(
-  SI_PREFIXES.filter(([s]) => s !== "u" && s !== "\u03bc").map(([s, p]) => [p, s] as const),
-);
+export const FORMAT_PREFIX: ReadonlyMap<number, string> = new Map(SI_PREFIXES.filter(([s]) => s !== "u" && s !== "\u03bc").map(([s, p]) => [p, s] as const));
 
 const TWO_PI = 2 * Math.PI;
 const DEG = Math.PI / 180;
@@ -154,9 +152,7 @@ const PREFIX_ALT = SI_PREFIXES.map(([p]) => p)
  */
 const PER_SECOND = new RegExp(`^(?:1?/(?:${PREFIX_ALT})?s|(?:${PREFIX_ALT})?s(?:\\^-1|\\^\\(-1\\)|-1|\\u207b\\u00b9|\\*\\*-1))$`);
 /** The same ambiguity at the start of a gyromagnetic ratio: "1/(s T)", "/s/T", "s^-1/T", "s^-1 T^-1". */
-const PER_SECOND_START = new RegExp(
-  `^(?:1?/\\(?(?:${PREFIX_ALT})?s|(?:${PREFIX_ALT})?s(?:\\^-1|\\^\\(-1\\)|-1|\\u207b\\u00b9|\\*\\*-1))`,
-);
+const PER_SECOND_START = new RegExp(`^(?:1?/\\(?(?:${PREFIX_ALT})?s|(?:${PREFIX_ALT})?s(?:\\^-1|\\^\\(-1\\)|-1|\\u207b\\u00b9|\\*\\*-1))`);
 
 export function isAmbiguousPerSecond(unit: string, kind: QuantityKind): boolean {
   const compact = unit.replace(/\s+/g, "");

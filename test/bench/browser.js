@@ -251,7 +251,10 @@ async function runBrowserBench(log = () => undefined) {
     const loopSeconds = (nowMs() - t0) / 1000;
 
     // The page must show what Node computes for the final slider position.
-    const [control] = resolveControls(state.setup, state.controls.filter((c) => c.target === TARGET));
+    const [control] = resolveControls(
+      state.setup,
+      state.controls.filter((c) => c.target === TARGET),
+    );
     const finalValue = writeValue(control, sliderValue(control, r.finalPosition));
     const expected = computeExplorer({ ...state, values: { ...state.values, [TARGET]: finalValue } }).fingerprint;
 

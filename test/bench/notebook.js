@@ -154,7 +154,21 @@ async function runNotebookBench(log = () => undefined) {
       const nbconvert = (extra) =>
         run(
           SYSTEM_PYTHON,
-          ["-m", "nbconvert", "--to", "notebook", "--execute", `--ExecutePreprocessor.kernel_name=${KERNEL}`, `--ExecutePreprocessor.timeout=${TIMEOUT_MS / 1000}`, ...extra, join(src, name), "--output", name, "--output-dir", out],
+          [
+            "-m",
+            "nbconvert",
+            "--to",
+            "notebook",
+            "--execute",
+            `--ExecutePreprocessor.kernel_name=${KERNEL}`,
+            `--ExecutePreprocessor.timeout=${TIMEOUT_MS / 1000}`,
+            ...extra,
+            join(src, name),
+            "--output",
+            name,
+            "--output-dir",
+            out,
+          ],
           { env: jupyter.env, timeoutMs: TIMEOUT_MS },
         );
       const r = await nbconvert([]);

@@ -188,7 +188,11 @@ function printTable(rows, header) {
     ["met", (r) => r.met],
   ];
   const width = cols.map(([name, get]) => Math.max(name.length, ...rows.map((r) => String(get(r)).length)));
-  const line = (cells) => cells.map((c, i) => String(c).padEnd(width[i])).join("  ").trimEnd();
+  const line = (cells) =>
+    cells
+      .map((c, i) => String(c).padEnd(width[i]))
+      .join("  ")
+      .trimEnd();
   const indent = width[0] + 2;
   const rule = "─".repeat(width.reduce((a, b) => a + b + 2, -2));
   console.log(header);

@@ -177,7 +177,11 @@ if (require.main === module) {
   const t0 = nowMs();
   runTimeDomainBench((s) => console.error(s)).then((r) => {
     console.log(JSON.stringify(r, null, 2));
-    console.log(timeDomainRows(r).map((row) => [row.measure, row.result, ...row.detail].join("\n  ")).join("\n"));
+    console.log(
+      timeDomainRows(r)
+        .map((row) => [row.measure, row.result, ...row.detail].join("\n  "))
+        .join("\n"),
+    );
     console.error(`${((nowMs() - t0) / 1000).toFixed(1)} s`);
   });
 }

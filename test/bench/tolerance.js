@@ -103,10 +103,15 @@ async function parallelCeiling(threads, reps = 40000) {
   const pool = Array.from({ length: threads }, () => new Worker(PROBE, { eval: true, workerData: { reps } }));
   const runOn = async (workers) => {
     const t0 = nowMs();
-    await Promise.all(workers.map((w) => new Promise((resolve) => {
-      w.once("message", resolve);
-      w.postMessage(0);
-    })));
+    await Promise.all(
+      workers.map(
+        (w) =>
+          new Promise((resolve) => {
+            w.once("message", resolve);
+            w.postMessage(0);
+          }),
+      ),
+    );
     return nowMs() - t0;
   };
   try {

@@ -239,7 +239,10 @@ describe("widget buttons on a standalone page", { timeout: 120_000 }, () => {
     const unit = expected.table.unit;
     expect(unit).toBe("m/√Hz");
     const quantity = expected.evaluation.budget.quantity.name;
-    expect(parsed.texts.some((t) => t.includes(quantity) && t.endsWith(`[${unit}]`)), JSON.stringify(parsed.texts)).toBe(true);
+    expect(
+      parsed.texts.some((t) => t.includes(quantity) && t.endsWith(`[${unit}]`)),
+      JSON.stringify(parsed.texts),
+    ).toBe(true);
     expect(parsed.texts).toContain(TITLE);
     expect(parsed.paths).toBeGreaterThan(3);
     expect(await visibleAlert(page, 0)).toBeNull();

@@ -135,7 +135,9 @@ describe("entangled panel in the live page", () => {
     const before = await numbers(0);
     await panel.locator(`input[data-target="bandwidth"]`).fill("-5");
     await panel.locator(`input[data-target="bandwidth"]`).dispatchEvent("change");
-    await session.page.waitForFunction(([selector, status]) => (globalThis as any).document.querySelector(selector).getAttribute(status) === "error", [PANEL, STATUS_ATTRIBUTE] as const, { timeout: WAIT_MS });
+    await session.page.waitForFunction(([selector, status]) => (globalThis as any).document.querySelector(selector).getAttribute(status) === "error", [PANEL, STATUS_ATTRIBUTE] as const, {
+      timeout: WAIT_MS,
+    });
     expect(await panel.locator(".qf-alert").textContent()).toMatch(/^Not applied: state\.bandwidth = -5/);
     expect(await numbers(0)).toEqual(before);
   });

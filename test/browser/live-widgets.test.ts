@@ -185,10 +185,13 @@ describe("a live explorer under a real widget manager", { timeout: TIMEOUT_MS * 
     // The kernel's idea of the value, read by a cell.
     let shown = "";
     await expect
-      .poll(async () => {
-        shown = printedValue((await execute("w.values")).stdout, "detector.efficiency");
-        return Number(shown.replace(/\s*%$/, ""));
-      }, { timeout: TIMEOUT_MS })
+      .poll(
+        async () => {
+          shown = printedValue((await execute("w.values")).stdout, "detector.efficiency");
+          return Number(shown.replace(/\s*%$/, ""));
+        },
+        { timeout: TIMEOUT_MS },
+      )
       .toBeCloseTo(readout, 10);
     await waitForRevisionAbove(before);
     await expect.poll(async () => JSON.stringify(await plottedRows()) === JSON.stringify(engineRows({ "detector.efficiency": shown })), { timeout: TIMEOUT_MS }).toBe(true);
@@ -251,10 +254,13 @@ describe("a live explorer under a real widget manager", { timeout: TIMEOUT_MS * 
     try {
       await offline.goto(`${harness!.origin}${HARNESS_PATH}index.html`, { waitUntil: "load" });
       await offline.waitForSelector("body[data-ready=true]", { state: "attached" });
-      await offline.evaluate(([state, id]) => {
-        (globalThis as any).harness.offline("quietframe-live.js");
-        return (globalThis as any).harness.restore(state, id);
-      }, [saved, chartId] as const);
+      await offline.evaluate(
+        ([state, id]) => {
+          (globalThis as any).harness.offline("quietframe-live.js");
+          return (globalThis as any).harness.restore(state, id);
+        },
+        [saved, chartId] as const,
+      );
       await offline.waitForSelector(`.${CHART_VIEW_CLASS}[data-revision]`, { timeout: TIMEOUT_MS });
       expect(await plottedRows(offline)).toEqual(rows);
       expect(consoleErrors()).toEqual([]);

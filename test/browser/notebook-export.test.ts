@@ -31,29 +31,32 @@ let htmlText = "";
 let browser: BrowserSession | undefined;
 let page: Page;
 
-beforeAll(async () => {
-  // The runtime as the kernel will read it (read first, in case dist/ is rebuilt meanwhile).
-  runtime = readFileSync(join(REPO_ROOT, RUNTIME_FILE), "utf8");
-  jupyter = createJupyterEnv();
-  outDir = mkdtempSync(join(tmpdir(), "quietframe-export-"));
-  const executed = await executeNotebook(jupyter, join(REPO_ROOT, "notebooks", NOTEBOOK), outDir, EXECUTE_TIMEOUT_MS);
-  if (!executed.notebook) {
-    throw new Error(`nbconvert could not execute ${NOTEBOOK} (exit ${executed.run.code}):\n${executed.cellErrors ?? executed.run.stderr.slice(-4000)}`);
-  }
-  notebook = executed.notebook;
-  widgetOutputs = outputsOf(notebook).filter(isWidgetOutput);
-  const exported = await run(SYSTEM_PYTHON, ["-m", "nbconvert", "--to", "html", executed.file, "--output", "export", "--output-dir", outDir], {
-    env: jupyter.env,
-    timeoutMs: EXPORT_TIMEOUT_MS,
-  });
-  if (exported.code !== 0) throw new Error(`nbconvert --to html exited with ${exported.code}:\n${exported.stderr.slice(-4000)}`);
-  const htmlFile = join(outDir, "export.html");
-  htmlText = readFileSync(htmlFile, "utf8");
-  browser = await openBrowser({ allow: LOCAL_ONLY });
-  page = browser.page;
-  await page.goto(pathToFileURL(htmlFile).href, { waitUntil: "load" });
-  await waitAllReady(page, widgetOutputs.length);
-}, EXECUTE_TIMEOUT_MS + EXPORT_TIMEOUT_MS + 120_000);
+beforeAll(
+  async () => {
+    // The runtime as the kernel will read it (read first, in case dist/ is rebuilt meanwhile).
+    runtime = readFileSync(join(REPO_ROOT, RUNTIME_FILE), "utf8");
+    jupyter = createJupyterEnv();
+    outDir = mkdtempSync(join(tmpdir(), "quietframe-export-"));
+    const executed = await executeNotebook(jupyter, join(REPO_ROOT, "notebooks", NOTEBOOK), outDir, EXECUTE_TIMEOUT_MS);
+    if (!executed.notebook) {
+      throw new Error(`nbconvert could not execute ${NOTEBOOK} (exit ${executed.run.code}):\n${executed.cellErrors ?? executed.run.stderr.slice(-4000)}`);
+    }
+    notebook = executed.notebook;
+    widgetOutputs = outputsOf(notebook).filter(isWidgetOutput);
+    const exported = await run(SYSTEM_PYTHON, ["-m", "nbconvert", "--to", "html", executed.file, "--output", "export", "--output-dir", outDir], {
+      env: jupyter.env,
+      timeoutMs: EXPORT_TIMEOUT_MS,
+    });
+    if (exported.code !== 0) throw new Error(`nbconvert --to html exited with ${exported.code}:\n${exported.stderr.slice(-4000)}`);
+    const htmlFile = join(outDir, "export.html");
+    htmlText = readFileSync(htmlFile, "utf8");
+    browser = await openBrowser({ allow: LOCAL_ONLY });
+    page = browser.page;
+    await page.goto(pathToFileURL(htmlFile).href, { waitUntil: "load" });
+    await waitAllReady(page, widgetOutputs.length);
+  },
+  EXECUTE_TIMEOUT_MS + EXPORT_TIMEOUT_MS + 120_000,
+);
 
 afterAll(async () => {
   await browser?.close();

@@ -136,9 +136,7 @@ describe(`${NOTEBOOK} in the classic notebook server`, { timeout: RUN_TIMEOUT_MS
       );
     } catch (e) {
       const report = await cells();
-      throw new Error(
-        `the cells did not finish: still running ${JSON.stringify(report.filter((c) => c.running).map((c) => c.index))}; ${problems(report).join("\n")}\n${(e as Error).message}`,
-      );
+      throw new Error(`the cells did not finish: still running ${JSON.stringify(report.filter((c) => c.running).map((c) => c.index))}; ${problems(report).join("\n")}\n${(e as Error).message}`);
     }
     const report = await cells();
     expect(problems(report)).toEqual([]);

@@ -144,10 +144,11 @@ describe("reach gauge in the live widget", () => {
 
     // Reset brings back the initial values, so a ratio of exactly one.
     await actionButton(session.page, STRAIN, "Reset").click();
-    await session.page.waitForFunction(
-      ([selector, i, fp]) => (globalThis as any).document.querySelectorAll(selector)[i].getAttribute("data-quietframe-fingerprint") === fp,
-      [WIDGET, STRAIN, strainState.fingerprint] as const,
-    );
+    await session.page.waitForFunction(([selector, i, fp]) => (globalThis as any).document.querySelectorAll(selector)[i].getAttribute("data-quietframe-fingerprint") === fp, [
+      WIDGET,
+      STRAIN,
+      strainState.fingerprint,
+    ] as const);
     expect(await sliderPosition(session.page, STRAIN, "ifo.power")).toBe(start);
     expect((await pageState(session.page, STRAIN)).values).toEqual(strainState.values);
     expect((await expectGaugeMatchesNode(STRAIN)).rangeRatio).toBe(1);

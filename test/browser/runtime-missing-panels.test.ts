@@ -39,10 +39,7 @@ beforeAll(async () => {
     figure: { kind: "margin-at" as const, frequency: "1.16 MHz" },
   };
   const map = await toleranceMapInProcess(squeezed, spec);
-  const fragments = [
-    toleranceHtml(toleranceWidgetState(squeezed, spec, map), { includeRuntime: false }),
-    entangledHtml(createEntangledState({ squeezingDb: -9 }), { includeRuntime: false }),
-  ];
+  const fragments = [toleranceHtml(toleranceWidgetState(squeezed, spec, map), { includeRuntime: false }), entangledHtml(createEntangledState({ squeezingDb: -9 }), { includeRuntime: false })];
   for (const f of fragments) expect(f).not.toContain(runtimeSource().slice(0, 2000));
   dir = mkdtempSync(join(tmpdir(), "quietframe-missing-panels-"));
   writeFileSync(

@@ -74,7 +74,10 @@ async function moveSlider(target: string, k: number, until: "new-fingerprint" | 
 }
 
 function sliderText(target: string, k: number): string {
-  const [c] = resolveControls(state.setup, state.controls.filter((x) => x.target === target));
+  const [c] = resolveControls(
+    state.setup,
+    state.controls.filter((x) => x.target === target),
+  );
   return writeValue(c, sliderValue(c, k));
 }
 
@@ -171,10 +174,7 @@ describe("standalone page in Chromium", () => {
     const other = createExplorerState(example("free-test-mass.json"), { settings: { grid: { from: "10 Hz", to: "10 kHz", points: 300 } } });
     await page.locator(".qf-loader-text").fill(stateDocumentText(other));
     await page.locator(".qf-loader-load").click();
-    await page.waitForFunction(
-      ([selector, fp]) => (globalThis as any).document.querySelector(selector)?.getAttribute("data-quietframe-fingerprint") === fp,
-      [WIDGET, other.fingerprint] as const,
-    );
+    await page.waitForFunction(([selector, fp]) => (globalThis as any).document.querySelector(selector)?.getAttribute("data-quietframe-fingerprint") === fp, [WIDGET, other.fingerprint] as const);
     expect(await page.locator(WIDGET).count()).toBe(1);
     expect(await plottedRows()).toEqual(curveRows(computeExplorer(other).table));
     // A broken paste is reported in the loader; the widget stays.

@@ -90,10 +90,7 @@ beforeAll(async () => {
   }
   notebook = executed.notebook;
   widgetOutputs = outputsOf(notebook).filter(isWidgetOutput);
-  exported = [
-    ...widgetOutputs.map((o, i) => ({ name: `widget-${i + 1}`, text: embeddedStateText(o), summary: summaryFingerprint(o) })),
-    { name: "printed", text: printedState(notebook) },
-  ];
+  exported = [...widgetOutputs.map((o, i) => ({ name: `widget-${i + 1}`, text: embeddedStateText(o), summary: summaryFingerprint(o) })), { name: "printed", text: printedState(notebook) }];
   browser = await openBrowser({ allow: LOCAL_ONLY });
   page = browser.page;
 }, EXECUTE_TIMEOUT_MS + 120_000);

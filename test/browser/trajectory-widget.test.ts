@@ -260,7 +260,10 @@ describe("the time-domain notebook, executed by the kernel and exported by nbcon
     if (!executed.notebook) throw new Error(`nbconvert could not execute ${NOTEBOOK}:\n${executed.cellErrors ?? executed.run.stderr.slice(-4000)}`);
     widgets = outputsOf(executed.notebook).filter((o) => o.output_type === "display_data" && joined(o.data?.["text/html"]).includes(`class="${TRAJECTORY_CLASS}"`));
     const last = [...executed.notebook.cells].reverse().find((c) => c.cell_type === "code")!;
-    printed = (last.outputs ?? []).filter((o) => o.output_type === "stream" && o.name === "stdout").map((o) => joined(o.text)).join("");
+    printed = (last.outputs ?? [])
+      .filter((o) => o.output_type === "stream" && o.name === "stdout")
+      .map((o) => joined(o.text))
+      .join("");
     const exported = await run(SYSTEM_PYTHON, ["-m", "nbconvert", "--to", "html", executed.file, "--output", "export", "--output-dir", outDir], { env: jupyter.env, timeoutMs: 120_000 });
     if (exported.code !== 0) throw new Error(`nbconvert --to html exited with ${exported.code}:\n${exported.stderr.slice(-4000)}`);
     html = readFileSync(join(outDir, "export.html"), "utf8");

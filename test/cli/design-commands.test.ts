@@ -20,7 +20,12 @@ describe("quietframe rank, solve, optimize, spread", () => {
   it("help lists the four commands with their usage", () => {
     const { code, out } = run("help");
     expect(code).toBe(0);
-    for (const c of ["quietframe rank <setup.json>", "quietframe solve <setup.json> --param T --target X", "quietframe optimize <setup.json> --param T[=MIN:MAX]", 'quietframe spread <setup.json> --uncertain "T=95 % ± 2 %"']) {
+    for (const c of [
+      "quietframe rank <setup.json>",
+      "quietframe solve <setup.json> --param T --target X",
+      "quietframe optimize <setup.json> --param T[=MIN:MAX]",
+      'quietframe spread <setup.json> --uncertain "T=95 % ± 2 %"',
+    ]) {
       expect(out).toContain(c);
     }
   });
@@ -79,7 +84,10 @@ describe("quietframe rank, solve, optimize, spread", () => {
       [["solve", squeezed, "--param", "cavity.colour", "--target", "1 dB"], /^quietframe: --param = "cavity\.colour": is not a numeric parameter of this set-up; allowed: squeezer\.squeezing,/],
       [["solve", squeezed, "--param", "detector.efficiency", "--target", "1 dB", "--range", "100 %:50 %"], /^quietframe: --range = "50 %": must be above min \(100 %\)/],
       [["optimize", squeezed, "--param", "detector.efficiency=50 %:120 %"], /^quietframe: --param\[0\] = "120 %": a fraction must be between 0 and 1/],
-      [["spread", squeezed, "--uncertain", "membrane.frequency=1.2 MHz ± 300 K"], /^quietframe: uncertain\.membrane\.frequency\.spread = "300 K": unit "K" is a temperature, but this field is a frequency/],
+      [
+        ["spread", squeezed, "--uncertain", "membrane.frequency=1.2 MHz ± 300 K"],
+        /^quietframe: uncertain\.membrane\.frequency\.spread = "300 K": unit "K" is a temperature, but this field is a frequency/,
+      ],
       [["rank", squeezed, "--figure", "loudness"], /^quietframe: --figure = "loudness": is not a figure of merit; allowed: best-margin/],
       [["solve", squeezed, "--param", "detector.efficiency"], /^quietframe: --target: is missing/],
       [["rank", squeezed, "--figure", "margin-at=0 Hz"], /^quietframe: --figure = "0 Hz": must be above 0 Hz/],

@@ -53,7 +53,11 @@ function membraneSql(f: number): number {
 
 describe("shipped examples through the CLI", () => {
   it("every example has a closed-form SQL check here", () => {
-    expect(readdirSync(EXAMPLES).filter((f) => f.endsWith(".json")).sort()).toEqual(Object.keys(sqlClosedForm).sort());
+    expect(
+      readdirSync(EXAMPLES)
+        .filter((f) => f.endsWith(".json"))
+        .sort(),
+    ).toEqual(Object.keys(sqlClosedForm).sort());
   });
 
   it.each(Object.keys(sqlClosedForm))("%s: finite numbers and the SQL column within 1e-9 of the closed form", (file) => {

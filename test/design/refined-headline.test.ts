@@ -31,9 +31,7 @@ describe("headline figures that do not depend on the grid", () => {
       const K = sBa / (HBAR * MASS * (2 * Math.PI * f) ** 2);
       return ((K + 1 / K) / 2) * (Math.cosh(2 * r) - Math.cos(2 * (theta + Math.atan(1 / K))) * Math.sinh(2 * r));
     };
-    const prepared = prepare(
-      probedBody({ body: { mass: `${MASS} kg` }, probe: { power: `${power} W` }, light: { name: "light", type: "squeezed", params: { r, angle: `${theta} rad` } } }),
-    );
+    const prepared = prepare(probedBody({ body: { mass: `${MASS} kg` }, probe: { power: `${power} W` }, light: { name: "light", type: "squeezed", params: { r, angle: `${theta} rad` } } }));
     const h = refinedHeadline(prepared, evaluate(prepared, { from: 1, to: 1e4, points: 60 }).budget);
     expect(h.belowSqlBands).toHaveLength(1);
     const band = h.belowSqlBands[0];

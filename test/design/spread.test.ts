@@ -48,8 +48,7 @@ const slope = (f: number) => noiseAt(1, f) - noiseAt(0, f);
 describe("Monte Carlo spread against an exact distribution (a figure linear in the parameter)", () => {
   const samples = 2000;
   const seed = 17;
-  const run = () =>
-    spreadAnalysis(lossy, { kind: "noise-at", frequency: `${F} Hz` }, [{ target: "path.transmission", value: "50 % ± 5 %" }], { samples, seed, target: noiseAt(0.55, F) });
+  const run = () => spreadAnalysis(lossy, { kind: "noise-at", frequency: `${F} Hz` }, [{ target: "path.transmission", value: "50 % ± 5 %" }], { samples, seed, target: noiseAt(0.55, F) });
 
   it("draws are centre + spread·z with the seeded normal deviates of src/timedomain/random.ts, none redrawn (ten deviations from either bound)", () => {
     const r = run();

@@ -137,7 +137,12 @@ describe("one beam through the membrane's probe and then a spin ensemble", () =>
   });
 
   it("a matched positive-mass spin in the same place doubles the back-action amplitude: four times the PSD (physics notes §5)", () => {
-    expectAllClose(term(positive, BA), term(alone, BA).map((v) => 4 * v), 1e-9, "back-action ×4");
+    expectAllClose(
+      term(positive, BA),
+      term(alone, BA).map((v) => 4 * v),
+      1e-9,
+      "back-action ×4",
+    );
   });
 
   it("the imprecision (phase-quadrature term) is unchanged by either reference", () => {
@@ -200,8 +205,18 @@ describe("one beam through the membrane's probe and then a spin ensemble", () =>
     for (let i = 0; i < GRID.points; i++) expect(ba[i] / (K2 * PS2)).toBeLessThan(1e-12);
     expectAllClose(term(b, "between: vacuum (amplitude)"), new Float64Array(GRID.points).fill(((1 - eta) / eta) * K2 * PS2), 1e-9, "loss back-action");
     const cm2 = Array.from(b.frequencies, (f) => abs2(chi(1, OMEGA_M, GAMMA_M, 2 * Math.PI * f)));
-    expectAllClose(term(b, "between: vacuum (phase)"), cm2.map((c) => (PS2 * (1 - eta)) / (eta * K2 * c)), 1e-9, "loss imprecision");
-    expectAllClose(term(b, IMP), cm2.map((c) => PS2 / (K2 * c)), 1e-9, "imprecision");
+    expectAllClose(
+      term(b, "between: vacuum (phase)"),
+      cm2.map((c) => (PS2 * (1 - eta)) / (eta * K2 * c)),
+      1e-9,
+      "loss imprecision",
+    );
+    expectAllClose(
+      term(b, IMP),
+      cm2.map((c) => PS2 / (K2 * c)),
+      1e-9,
+      "imprecision",
+    );
   });
 });
 
@@ -312,17 +327,32 @@ describe("two beams from the entangled source: membrane on arm 1, spin on arm 2"
   it("matches the general closed form of the optimal combination (r ≤ 3, both orientations)", () => {
     RS.forEach((r, j) => {
       if (r > 3) return;
-      expectAllClose(matched[j].total, Array.from(matched[j].frequencies, (f) => closedForm(r, -1, f)), 1e-9, `negative-mass, r = ${r}`);
+      expectAllClose(
+        matched[j].total,
+        Array.from(matched[j].frequencies, (f) => closedForm(r, -1, f)),
+        1e-9,
+        `negative-mass, r = ${r}`,
+      );
     });
     for (const r of [0.5, 2]) {
       const b = evaluate(twoBeams(r, "positive-mass"), GRID2).budget;
-      expectAllClose(b.total, Array.from(b.frequencies, (f) => closedForm(r, 1, f)), 1e-9, `positive-mass, r = ${r}`);
+      expectAllClose(
+        b.total,
+        Array.from(b.frequencies, (f) => closedForm(r, 1, f)),
+        1e-9,
+        `positive-mass, r = ${r}`,
+      );
     }
   });
 
   it("matches the compact matched closed form for every r, with the entangled light as one budget term", () => {
     RS.forEach((r, j) => {
-      expectAllClose(matched[j].total, Array.from(matched[j].frequencies, (f) => compactMatched(r, f)), 1e-9, `r = ${r}`);
+      expectAllClose(
+        matched[j].total,
+        Array.from(matched[j].frequencies, (f) => compactMatched(r, f)),
+        1e-9,
+        `r = ${r}`,
+      );
     });
     expect(matched[3].terms.filter((t) => t.label.startsWith("epr")).map((t) => t.label)).toEqual(["epr: entangled light"]);
   });

@@ -88,12 +88,11 @@ describe("detuned cavity: optical spring and damping", () => {
     const { model } = a;
     const nS = model.nStates;
     const omega = 2 * Math.PI * f;
-    const M = math.matrix(
-      Array.from({ length: nS }, (_, i) =>
-        Array.from({ length: nS }, (_, j) => math.complex(-model.A[i * nS + j], i === j ? -omega : 0)),
-      ),
-    );
-    const sol = math.lusolve(M, Array.from(model.signalB, (v) => [v])) as Matrix;
+    const M = math.matrix(Array.from({ length: nS }, (_, i) => Array.from({ length: nS }, (_, j) => math.complex(-model.A[i * nS + j], i === j ? -omega : 0))));
+    const sol = math.lusolve(
+      M,
+      Array.from(model.signalB, (v) => [v]),
+    ) as Matrix;
     const body = model.modes.find((m) => m.owner === "body")!;
     const xScale = Math.sqrt(HBAR / (MASS * OMEGA_M));
     return math.multiply(sol.get([body.x, 0]) as Complex, xScale) as unknown as Complex;

@@ -126,11 +126,12 @@ describe("uncertainty margin by the faster solver", () => {
       const r = randomSymmetric(6, seed);
       // V = RRᵀ/6 + I/2 (positive, near the quantum limit).
       const v = new Float64Array(36);
-      for (let i = 0; i < 6; i++) for (let j = 0; j < 6; j++) {
-        let s = i === j ? 0.5 : 0;
-        for (let k = 0; k < 6; k++) s += (r[i * 6 + k] * r[j * 6 + k]) / 6;
-        v[i * 6 + j] = s;
-      }
+      for (let i = 0; i < 6; i++)
+        for (let j = 0; j < 6; j++) {
+          let s = i === j ? 0.5 : 0;
+          for (let k = 0; k < 6; k++) s += (r[i * 6 + k] * r[j * 6 + k]) / 6;
+          v[i * 6 + j] = s;
+        }
       expect(Math.abs(fastUncertaintyMargin(model.modes, v, 6) - uncertaintyMargin(model, v))).toBeLessThan(1e-13);
     }
     // Vacuum: the margin is exactly 0 (pure state at the limit).

@@ -81,7 +81,7 @@ describe("white two-mode squeezed source", () => {
     }
   });
 
-  it("squeezing in dB is 10·log10 e^{−2r}: \"-10 dB\" gives Var(X1 − X2) = 0.1 (physics notes §1)", () => {
+  it('squeezing in dB is 10·log10 e^{−2r}: "-10 dB" gives Var(X1 − X2) = 0.1 (physics notes §1)', () => {
     const xs = spectra(measured({ squeezing: "-10 dB" }, "0 deg", "0 deg"), [1e3]);
     expect(Math.abs((xs[0].s11 + xs[0].s22 - 2 * xs[0].s12) / 2 / 0.1 - 1)).toBeLessThan(1e-12);
   });

@@ -16,9 +16,7 @@ function powerTouchingAt(fq: number): number {
 }
 
 function run(power: number, efficiency: number, referTo: "displacement" | "force", points = 201) {
-  const s = loadSetup(
-    probedBody({ body: { mass: `${MASS} kg` }, probe: { power: `${power} W`, wavelength: "1064 nm" }, efficiency, referTo }),
-  );
+  const s = loadSetup(probedBody({ body: { mass: `${MASS} kg` }, probe: { power: `${power} W`, wavelength: "1064 nm" }, efficiency, referTo }));
   return evaluateSetup(s, { from: 1, to: 1e4, points }).budget;
 }
 
@@ -28,9 +26,19 @@ describe("free mass read by a quantum-limited position probe", () => {
   it("prints the free-mass SQL 2ħ/(mΩ²) beside the budget (Kimble et al., PRD 65, 022002 (2001))", () => {
     const b = run(power, 1, "displacement");
     const sql = b.references.find((r) => r.id === "sql")!;
-    expectAllClose(sql.psd, Array.from(b.frequencies, (f) => freeMassDisplacementSql(MASS, 2 * Math.PI * f)), 1e-12, "SQL");
+    expectAllClose(
+      sql.psd,
+      Array.from(b.frequencies, (f) => freeMassDisplacementSql(MASS, 2 * Math.PI * f)),
+      1e-12,
+      "SQL",
+    );
     const force = run(power, 1, "force").references.find((r) => r.id === "sql")!;
-    expectAllClose(force.psd, Array.from(b.frequencies, (f) => freeMassForceSql(MASS, 2 * Math.PI * f)), 1e-12, "force SQL");
+    expectAllClose(
+      force.psd,
+      Array.from(b.frequencies, (f) => freeMassForceSql(MASS, 2 * Math.PI * f)),
+      1e-12,
+      "force SQL",
+    );
   });
 
   it("has imprecision × back-action = ħ²/η, one-sided (Braginsky & Khalili 1992; Clerk et al., RMP 82, 1155 (2010))", () => {

@@ -136,8 +136,18 @@ describe("interferometer: input-output relations (KLMTV 2001)", () => {
     const expected = Array.from(b.frequencies, (f) => (hSql2(f) / 2) * (kimbleK(f) + 1 / kimbleK(f)));
     expectAllClose(b.total, expected, 1e-9, "S_h");
     // Shot noise (phase quadrature) and radiation pressure (amplitude quadrature) are the 1/K and K parts.
-    expectAllClose(sumTerms(b.terms, "phase quadrature"), Array.from(b.frequencies, (f) => hSql2(f) / 2 / kimbleK(f)), 1e-9, "shot noise");
-    expectAllClose(sumTerms(b.terms, "amplitude quadrature"), Array.from(b.frequencies, (f) => (hSql2(f) / 2) * kimbleK(f)), 1e-9, "radiation pressure");
+    expectAllClose(
+      sumTerms(b.terms, "phase quadrature"),
+      Array.from(b.frequencies, (f) => hSql2(f) / 2 / kimbleK(f)),
+      1e-9,
+      "shot noise",
+    );
+    expectAllClose(
+      sumTerms(b.terms, "amplitude quadrature"),
+      Array.from(b.frequencies, (f) => (hSql2(f) / 2) * kimbleK(f)),
+      1e-9,
+      "radiation pressure",
+    );
   });
 
   it("the same at other masses, powers and arm widths", () => {
@@ -162,21 +172,18 @@ describe("interferometer: input-output relations (KLMTV 2001)", () => {
     [0.8, Math.PI / 3],
     [1.5, -0.4],
     [0.3, 2.2],
-  ])(
-    "frequency-independent squeezing r = %f, θ = %f rad: S_h = (h_SQL²/2)(K + 1/K)[cosh 2R − cos 2(θ + Φ) sinh 2R], Φ = arccot K (KLMTV Sec. IV)",
-    (r, theta) => {
-      // KLMTV measure θ from the amplitude quadrature a1 as our squeezed component does; with an
-      // opposite sense the asymmetric angles here (π/3, −0.4, 2.2) would fail.
-      const light: ComponentDescription = { name: "light", type: "squeezed", params: { r, angle: `${theta} rad` } };
-      const b = evaluateSetup(loadSetup(ifoSetup({ light })), GRID).budget;
-      const expected = Array.from(b.frequencies, (f) => {
-        const K = kimbleK(f);
-        const phi = Math.atan(1 / K);
-        return (hSql2(f) / 2) * (K + 1 / K) * (Math.cosh(2 * r) - Math.cos(2 * (theta + phi)) * Math.sinh(2 * r));
-      });
-      expectAllClose(b.total, expected, 1e-9, "squeezed S_h");
-    },
-  );
+  ])("frequency-independent squeezing r = %f, θ = %f rad: S_h = (h_SQL²/2)(K + 1/K)[cosh 2R − cos 2(θ + Φ) sinh 2R], Φ = arccot K (KLMTV Sec. IV)", (r, theta) => {
+    // KLMTV measure θ from the amplitude quadrature a1 as our squeezed component does; with an
+    // opposite sense the asymmetric angles here (π/3, −0.4, 2.2) would fail.
+    const light: ComponentDescription = { name: "light", type: "squeezed", params: { r, angle: `${theta} rad` } };
+    const b = evaluateSetup(loadSetup(ifoSetup({ light })), GRID).budget;
+    const expected = Array.from(b.frequencies, (f) => {
+      const K = kimbleK(f);
+      const phi = Math.atan(1 / K);
+      return (hSql2(f) / 2) * (K + 1 / K) * (Math.cosh(2 * r) - Math.cos(2 * (theta + phi)) * Math.sinh(2 * r));
+    });
+    expectAllClose(b.total, expected, 1e-9, "squeezed S_h");
+  });
 
   it("detection efficiency η with squeezing: S_h = (h_SQL²/2)[(K + 1/K)(cosh 2R − cos 2(θ+Φ) sinh 2R) + (1 − η)/(ηK)]", () => {
     // Derivation (KLMTV relations + a beam splitter of transmission η before an ideal detector):
@@ -275,10 +282,20 @@ describe("interferometer: reference values", () => {
     const h = evaluateSetup(loadSetup(ifoSetup()), GRID).budget;
     const x = evaluateSetup(loadSetup(ifoSetup({ referTo: "displacement" })), GRID).budget;
     expect(x.quantity).toEqual({ name: "displacement", unit: "m" });
-    expectAllClose(x.total, Array.from(h.total, (v) => v * L * L), 1e-12, "displacement");
+    expectAllClose(
+      x.total,
+      Array.from(h.total, (v) => v * L * L),
+      1e-12,
+      "displacement",
+    );
     // Free-mass displacement SQL 2ħ/(mΩ²) (Braginsky & Khalili 1992) of a body of mass m/4.
     const sql = x.references.find((r) => r.id === "sql")!.psd;
-    expectAllClose(sql, Array.from(x.frequencies, (f) => (2 * HBAR) / ((MASS / 4) * (2 * Math.PI * f) ** 2)), 1e-12, "displacement SQL");
+    expectAllClose(
+      sql,
+      Array.from(x.frequencies, (f) => (2 * HBAR) / ((MASS / 4) * (2 * Math.PI * f) ** 2)),
+      1e-12,
+      "displacement SQL",
+    );
   });
 });
 

@@ -41,12 +41,13 @@ describe("optimal combination of several detector outputs", () => {
   });
 
   it("recovers the unsplit beam: two phase readouts of a lossless split equal one (information is conserved by a beam splitter)", () => {
-    for (const [eta, T] of [[1, 0.5], [0.8, 0.5], [0.9, 0.2]]) {
+    for (const [eta, T] of [
+      [1, 0.5],
+      [0.8, 0.5],
+      [0.9, 0.2],
+    ]) {
       const both = evaluateSetup(loadSetup(splitReadout("90 deg", "90 deg", eta, T)), GRID).budget;
-      const single = evaluateSetup(
-        loadSetup(probedBody({ body: { mass: "10 g" }, probe: { power: "0.3 W" }, efficiency: eta })),
-        GRID,
-      ).budget;
+      const single = evaluateSetup(loadSetup(probedBody({ body: { mass: "10 g" }, probe: { power: "0.3 W" }, efficiency: eta })), GRID).budget;
       expectAllClose(both.total, single.total, 1e-9, `η = ${eta}, T = ${T}`);
     }
   });

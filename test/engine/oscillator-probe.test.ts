@@ -33,15 +33,28 @@ describe("damped oscillator read by a quantum-limited probe", () => {
     const b = e.budget;
     const sql = b.references.find((r) => r.id === "sql")!.psd;
     const zp = b.references.find((r) => r.id === "zero-point")!.psd;
-    expectAllClose(sql, Array.from(b.frequencies, (f) => displacementSql(chi(f))), 1e-12, "SQL");
-    expectAllClose(zp, Array.from(b.frequencies, (f) => zeroPointDisplacementPsd(chi(f))), 1e-12, "zero-point");
+    expectAllClose(
+      sql,
+      Array.from(b.frequencies, (f) => displacementSql(chi(f))),
+      1e-12,
+      "SQL",
+    );
+    expectAllClose(
+      zp,
+      Array.from(b.frequencies, (f) => zeroPointDisplacementPsd(chi(f))),
+      1e-12,
+      "zero-point",
+    );
     const onResonance = b.frequencies.findIndex((f) => Math.abs(f - F_M) < 1e-6 * F_M);
     expect(onResonance).toBe(50);
     expect(Math.abs(zp[onResonance] / sql[onResonance] - 1)).toBeLessThan(1e-12);
   });
 
   it("has imprecision × back-action = ħ²/η for any rate and efficiency (Braginsky & Khalili 1992)", () => {
-    for (const [rate, eta] of [["10 Hz", 1], ["3 kHz", 0.7]] as const) {
+    for (const [rate, eta] of [
+      ["10 Hz", 1],
+      ["3 kHz", 0.7],
+    ] as const) {
       const grid = { from: 5e4, to: 2e5, points: 50 };
       const x = run({ rate, efficiency: eta }, grid).budget;
       const F = run({ rate, efficiency: eta, referTo: "force" }, grid).budget;

@@ -97,7 +97,13 @@ describe("the same set-up is refused with the same text by every caller", () => 
 
   const cases = [
     // Detection efficiency 0: nothing is detected (checked before the dynamics).
-    { name: "a blind readout (detector efficiency 0)", i: 0, j: 0, status: CellStatus.invalid, pattern: /^components\.detector\.efficiency = "0 %": detector 'detector' has efficiency 0: it sees no signal/ },
+    {
+      name: "a blind readout (detector efficiency 0)",
+      i: 0,
+      j: 0,
+      status: CellStatus.invalid,
+      pattern: /^components\.detector\.efficiency = "0 %": detector 'detector' has efficiency 0: it sees no signal/,
+    },
     { name: "a blind readout on an unstable set-up (detection is checked first)", i: 0, j: 1, status: CellStatus.invalid, pattern: /efficiency 0: it sees no signal/ },
     // Blue detuning anti-damps the membrane (radiation-pressure anti-damping).
     { name: "an unstable set-up (blue-detuned cavity)", i: 1, j: 1, status: CellStatus.unstable, pattern: /^setup: unstable: a mode at 1\.\d+e\+6 Hz grows .*blue-detuned/ },
@@ -192,11 +198,20 @@ describe("prepare once, evaluate many times", () => {
     "%s: two grids on one prepared set-up equal two fresh evaluations and the passes called one by one, bit for bit",
     (name) => {
       const setup = example(name);
-      const grids = name === "cryogenic-membrane.json" || name === "hybrid-spin-reference.json" ? [wide, narrow] : [{ from: 5, to: 5000, points: 211 }, { from: 20, to: 200, points: 33 }];
+      const grids =
+        name === "cryogenic-membrane.json" || name === "hybrid-spin-reference.json"
+          ? [wide, narrow]
+          : [
+              { from: 5, to: 5000, points: 211 },
+              { from: 20, to: 200, points: 33 },
+            ];
       const prepared = prepare(setup);
       const once = grids.map((g) => evaluate(prepared, g));
       // In the other order, on the same prepared set-up: nothing an evaluation does stays behind.
-      const reversed = [...grids].reverse().map((g) => evaluate(prepared, g)).reverse();
+      const reversed = [...grids]
+        .reverse()
+        .map((g) => evaluate(prepared, g))
+        .reverse();
       grids.forEach((grid, k) => {
         const fresh = evaluateSetup(loadSetup(setup), grid);
         const passes = noiseBudget(assemble(validateSetup(setup)), logGrid(grid));

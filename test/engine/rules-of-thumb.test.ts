@@ -169,7 +169,12 @@ describe("rule of thumb: a first demonstration of a negative-mass reference remo
 
   it("the engine's back-action ratio is the closed form from the two susceptibilities at every frequency of the band (derived above)", () => {
     for (const { name, p, r } of results) {
-      expectAllClose(r.ratio, Array.from(r.frequencies, (f) => closedFormRatio(p, f)), 1e-9, name);
+      expectAllClose(
+        r.ratio,
+        Array.from(r.frequencies, (f) => closedFormRatio(p, f)),
+        1e-9,
+        name,
+      );
     }
   });
 
@@ -394,11 +399,13 @@ describe("rule of thumb: a negative-mass reference could give a long-baseline de
     });
 
     it("a factor 2 needs an overall efficiency above 90 %, wherever the loss sits", () => {
-      const found = ([
-        ["split evenly", EQUAL],
-        ["all before the systems", ALL_BEFORE],
-        ["all at detection", ALL_AT_DETECTION],
-      ] as const).map(([where, split]) => ({ where, eta: efficiencyFor((eta) => entangledGain(eta, split), 2) }));
+      const found = (
+        [
+          ["split evenly", EQUAL],
+          ["all before the systems", ALL_BEFORE],
+          ["all at detection", ALL_AT_DETECTION],
+        ] as const
+      ).map(([where, split]) => ({ where, eta: efficiencyFor((eta) => entangledGain(eta, split), 2) }));
       console.info(`entangled scheme, η for a factor 2: ${found.map((f) => `${f.where} ${(100 * f.eta).toFixed(2)} %`).join(", ")}`);
       for (const f of found) expect(f.eta, f.where).toBeGreaterThan(0.9);
     });

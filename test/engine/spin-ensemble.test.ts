@@ -157,7 +157,11 @@ describe("stationary state of the spin oscillator", () => {
       // mathjs lyap(A, Q) solves A P + P Aᵀ + Q = 0 with Q = B (N/2) Bᵀ, our equation.
       const ref = math.lyap(toRows(model.A, n), toRows(diffusionMatrix(model), n)) as number[][];
       const { x, p } = spinBlock(model);
-      for (const [i, j] of [[x, x], [p, p], [x, p]]) {
+      for (const [i, j] of [
+        [x, x],
+        [p, p],
+        [x, p],
+      ]) {
         expect(Math.abs(v[i * n + j] - ref[i][j]), `V[${i}][${j}]`).toBeLessThanOrEqual(1e-9 * (occupation + 0.5));
       }
       // Quantum FDT for symmetric (amplitude) damping: a mode in a bath of occupation n relaxes to n + 1/2.
@@ -172,7 +176,10 @@ describe("stationary state of the spin oscillator", () => {
     // d⟨X² + P²⟩/dt = −γ⟨X² + P²⟩ + γ(2n_s + 1) + k²/2 with k² = 4Γ; the precession conserves X² + P².
     const occupation = 0.25;
     const { polarization: _, ...rest } = BASE_SPIN;
-    for (const [rate, broadening] of [["300 Hz", "0 Hz"], ["2 kHz", "50 Hz"]] as const) {
+    for (const [rate, broadening] of [
+      ["300 Hz", "0 Hz"],
+      ["2 kHz", "50 Hz"],
+    ] as const) {
       const model = spinModel({ ...rest, occupation, readoutRate: rate, probeBroadening: broadening });
       const v = stationaryCovariance(model);
       const n = model.nStates;
@@ -194,7 +201,11 @@ describe("Larmor frequency, linewidth and susceptibility", () => {
   it("f_L = γ_g·B is linear in the field (linear Zeeman regime; common practice, no source)", () => {
     const { larmorFrequency: _, ...rest } = BASE_SPIN;
     const ratio = 3.5e9; // Hz/T
-    for (const [field, tesla] of [["100 uT", 1e-4], ["314.3 uT", 3.143e-4], ["2 G", 2e-4]] as const) {
+    for (const [field, tesla] of [
+      ["100 uT", 1e-4],
+      ["314.3 uT", 3.143e-4],
+      ["2 G", 2e-4],
+    ] as const) {
       const { a } = spinBlock(spinModel({ ...rest, field, gyromagneticRatio: "3.5 GHz/T" }));
       // orientation "negative-mass": dX/dt = −Ω_L P
       expect(Math.abs(-a[0][1] / (2 * Math.PI * ratio * tesla) - 1), field).toBeLessThan(1e-12);
@@ -239,7 +250,10 @@ describe("Larmor frequency, linewidth and susceptibility", () => {
     for (const f of [3e5, 9.99e5, 1e6, 1.0003e6, 4e6]) {
       const w = 2 * Math.PI * f;
       const den = math.complex(omegaL ** 2 + gamma ** 2 / 4 - w ** 2, -gamma * w);
-      for (const [orientation, s] of [["positive-mass", 1], ["negative-mass", -1]] as const) {
+      for (const [orientation, s] of [
+        ["positive-mass", 1],
+        ["negative-mass", -1],
+      ] as const) {
         const expected = math.divide(s * omegaL, den) as MathComplex;
         const got = chiOf(orientation, f);
         const scale = math.abs(expected) as unknown as number;

@@ -48,7 +48,12 @@ describe("squeezed light into a free-mass QND readout", () => {
     [1.5, -0.4],
   ])("matches the squeezed-input closed form for r = %f, θ = %f rad", (r, theta) => {
     const b = squeezedRun({ r, angle: `${theta} rad` });
-    expectAllClose(b.total, Array.from(b.frequencies, (f) => kimbleSqueezed(f, r, theta)), 1e-9, "total");
+    expectAllClose(
+      b.total,
+      Array.from(b.frequencies, (f) => kimbleSqueezed(f, r, theta)),
+      1e-9,
+      "total",
+    );
   });
 
   it("10 dB of phase squeezing divides shot noise by 10 and multiplies back-action by 10 (squeezing in dB: 10·log10 e^{2r})", () => {
@@ -57,8 +62,18 @@ describe("squeezed light into a free-mass QND readout", () => {
     // At 90° the quadratures are uncorrelated, so they stay separate budget terms.
     const shot = (b: typeof plain) => sumTerms(b.terms, "phase quadrature");
     const ba = (b: typeof plain) => sumTerms(b.terms, "amplitude quadrature");
-    expectAllClose(shot(sq).map((v) => v * 10), shot(plain), 1e-12, "shot noise");
-    expectAllClose(ba(sq).map((v) => v / 10), ba(plain), 1e-12, "back-action");
+    expectAllClose(
+      shot(sq).map((v) => v * 10),
+      shot(plain),
+      1e-12,
+      "shot noise",
+    );
+    expectAllClose(
+      ba(sq).map((v) => v / 10),
+      ba(plain),
+      1e-12,
+      "back-action",
+    );
   });
 
   it("keeps correlated quadratures (a tilted squeezing angle) as one budget term", () => {

@@ -22,34 +22,30 @@ describe("evaluating rescaled example set-ups gives finite, non-negative spectra
     () => {
       let evaluated = 0;
       fc.assert(
-        fc.property(
-          fc.nat(EXAMPLE_TEXTS.length - 1),
-          fc.array(fc.tuple(fc.nat(), fc.nat(), fc.double({ min: -6, max: 6, noNaN: true })), { minLength: 1, maxLength: 4 }),
-          (which, edits) => {
-            const doc = exampleObject(which);
-            for (const [ci, pi, decades] of edits) {
-              const c = doc.components[ci % doc.components.length];
-              const keys = Object.keys(c.params ?? {});
-              if (keys.length === 0) continue;
-              const k = keys[pi % keys.length];
-              c.params[k] = rescaled(c.params[k], 10 ** decades);
-            }
-            const text = JSON.stringify(doc);
-            try {
-              const setup = loadSetup(text);
-              const grid = { ...(setup.grid ?? { from: 10, to: 1000, points: 6 }), points: 6 };
-              const { budget } = evaluateSetup(setup, grid);
-              expect(budget.total.length).toBe(6);
-              if (!finiteNonNegative(budget.total)) throw new Error(`total: ${Array.from(budget.total)}`);
-              for (const t of budget.terms) if (!finiteNonNegative(t.psd)) throw new Error(`term ${t.id}: ${Array.from(t.psd)}`);
-              for (const r of budget.references) if (!finiteNonNegative(r.psd)) throw new Error(`reference ${r.id}: ${Array.from(r.psd)}`);
-              evaluated++;
-            } catch (e) {
-              const defect = errorDefect(e, false);
-              if (defect) throw new Error(`${defect}\ninput: ${text}`);
-            }
-          },
-        ),
+        fc.property(fc.nat(EXAMPLE_TEXTS.length - 1), fc.array(fc.tuple(fc.nat(), fc.nat(), fc.double({ min: -6, max: 6, noNaN: true })), { minLength: 1, maxLength: 4 }), (which, edits) => {
+          const doc = exampleObject(which);
+          for (const [ci, pi, decades] of edits) {
+            const c = doc.components[ci % doc.components.length];
+            const keys = Object.keys(c.params ?? {});
+            if (keys.length === 0) continue;
+            const k = keys[pi % keys.length];
+            c.params[k] = rescaled(c.params[k], 10 ** decades);
+          }
+          const text = JSON.stringify(doc);
+          try {
+            const setup = loadSetup(text);
+            const grid = { ...(setup.grid ?? { from: 10, to: 1000, points: 6 }), points: 6 };
+            const { budget } = evaluateSetup(setup, grid);
+            expect(budget.total.length).toBe(6);
+            if (!finiteNonNegative(budget.total)) throw new Error(`total: ${Array.from(budget.total)}`);
+            for (const t of budget.terms) if (!finiteNonNegative(t.psd)) throw new Error(`term ${t.id}: ${Array.from(t.psd)}`);
+            for (const r of budget.references) if (!finiteNonNegative(r.psd)) throw new Error(`reference ${r.id}: ${Array.from(r.psd)}`);
+            evaluated++;
+          } catch (e) {
+            const defect = errorDefect(e, false);
+            if (defect) throw new Error(`${defect}\ninput: ${text}`);
+          }
+        }),
         { seed: 99, numRuns: RUNS },
       );
       // Guards against a vacuous run in which every mutation was refused before evaluation.

@@ -75,10 +75,7 @@ describe("precision when the time scales of one set-up are twelve decades apart"
    * practice, no source). The grid 1e-3 … 1e9 Hz hits 1 mHz and 1 GHz resonances exactly.
    */
   const corners: Scales[] = [];
-  for (const mass of [1e-21, 1e3])
-    for (const fm of [1e-3, 1e9])
-      for (const linewidth of [1e-3, 1e9])
-        for (const photons of [1, 1e12]) corners.push({ mass, fm, Q: 1e10, linewidth, photons });
+  for (const mass of [1e-21, 1e3]) for (const fm of [1e-3, 1e9]) for (const linewidth of [1e-3, 1e9]) for (const photons of [1, 1e12]) corners.push({ mass, fm, Q: 1e10, linewidth, photons });
   it.each(corners)("corner m = $mass kg, f_m = $fm Hz, κ/2π = $linewidth Hz, n = $photons: within 10·ε·Q of the closed forms", (s) => {
     const e = worstErrors(s);
     expect(e.backAction).toBeLessThan(10 * EPS * s.Q);

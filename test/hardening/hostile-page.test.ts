@@ -26,13 +26,16 @@ const squeezed = JSON.parse(readFileSync(join(ROOT, "examples", "cryogenic-membr
 const HOSTILE = HOSTILE_PAYLOADS.join(" ");
 
 function stateWith(text: string): ExplorerState {
-  return createExplorerState({ ...structuredClone(squeezed), name: text, description: text }, {
-    controls: [
-      { target: "squeezer.squeezing", label: `${text} (squeezing)`, min: "-15 dB", max: "0 dB", scale: "linear" },
-      { target: "detector.efficiency", label: `${text} (efficiency)`, min: 0.5, max: 1 },
-    ],
-    settings: { title: text, grid: { from: "1.1 MHz", to: "1.3 MHz", points: 200 }, spectralDensity: "amplitude" },
-  });
+  return createExplorerState(
+    { ...structuredClone(squeezed), name: text, description: text },
+    {
+      controls: [
+        { target: "squeezer.squeezing", label: `${text} (squeezing)`, min: "-15 dB", max: "0 dB", scale: "linear" },
+        { target: "detector.efficiency", label: `${text} (efficiency)`, min: 0.5, max: 1 },
+      ],
+      settings: { title: text, grid: { from: "1.1 MHz", to: "1.3 MHz", points: 200 }, spectralDensity: "amplitude" },
+    },
+  );
 }
 
 let dir: string;

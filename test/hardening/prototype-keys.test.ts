@@ -88,7 +88,11 @@ describe("prototype keys anywhere in a state file reach no prototype", () => {
     const text = stateDocumentText(explorer);
     // Every object of the document, including each control definition and the nested params.
     expect(objectCount(JSON.parse(text))).toBeGreaterThan(15);
-    everyPlacement(text, (t) => parseExplorerState(t), (s) => standalonePage(s, computeExplorer(s)));
+    everyPlacement(
+      text,
+      (t) => parseExplorerState(t),
+      (s) => standalonePage(s, computeExplorer(s)),
+    );
   });
 
   it("set-up files", () => {

@@ -21,9 +21,7 @@ export function jsonPaths(v: unknown, prefix: (string | number)[] = []): (string
 
 /** Own property names of the built-in prototypes, to detect pollution. */
 function prototypeSnapshot(): string {
-  return [Object.prototype, Array.prototype, Function.prototype, String.prototype]
-    .map((p) => Reflect.ownKeys(p).map(String).sort().join(","))
-    .join("|");
+  return [Object.prototype, Array.prototype, Function.prototype, String.prototype].map((p) => Reflect.ownKeys(p).map(String).sort().join(",")).join("|");
 }
 const CLEAN = prototypeSnapshot();
 
@@ -34,14 +32,52 @@ export function prototypesAreClean(): boolean {
 
 /** Values that are wrong in interesting ways: wrong types, odd units, extreme numbers. */
 export const UNIT_WORDS = [
-  "kg", "g", "ng", "mg", "Hz", "kHz", "MHz", "GHz", "rad/s", "K", "mK", "m", "nm", "cm", "km", "W", "mW", "kW",
-  "s", "ms", "deg", "rad", "%", "dB", "T", "mT", "G", "GHz/T", "Hz/T", "°C", "°F", "kelvin", "KHz", "hz", "µg", "μg",
-  "ｋｇ", "\u212a", "k Hz", "", " ", "/", "1/s",
+  "kg",
+  "g",
+  "ng",
+  "mg",
+  "Hz",
+  "kHz",
+  "MHz",
+  "GHz",
+  "rad/s",
+  "K",
+  "mK",
+  "m",
+  "nm",
+  "cm",
+  "km",
+  "W",
+  "mW",
+  "kW",
+  "s",
+  "ms",
+  "deg",
+  "rad",
+  "%",
+  "dB",
+  "T",
+  "mT",
+  "G",
+  "GHz/T",
+  "Hz/T",
+  "°C",
+  "°F",
+  "kelvin",
+  "KHz",
+  "hz",
+  "µg",
+  "μg",
+  "ｋｇ",
+  "\u212a",
+  "k Hz",
+  "",
+  " ",
+  "/",
+  "1/s",
 ];
 export const oddNumber = fc.oneof(
-  fc.constantFrom(
-    0, -0, 1, -1, 1e308, -1e308, 1.7976931348623157e308, 5e-324, -5e-324, 1e-320, 2 ** 53, 2 ** 53 + 2, 0.1, 1e20, -1e-20,
-  ),
+  fc.constantFrom(0, -0, 1, -1, 1e308, -1e308, 1.7976931348623157e308, 5e-324, -5e-324, 1e-320, 2 ** 53, 2 ** 53 + 2, 0.1, 1e20, -1e-20),
   fc.double({ noNaN: true, noDefaultInfinity: true }),
   fc.integer(),
 );
@@ -50,9 +86,7 @@ export const oddNumberText = fc.oneof(
   fc.constantFrom("1e400", "-1e400", "1e-400", "5e-324", "1.8e308", "1.7976931348623157e308", ".5", "5.", "+1", "0x10", "1_000", "1e", "--1", ""),
 );
 export const unitString = fc.oneof(
-  fc.tuple(oddNumberText, fc.constantFrom("", " ", "  ", "\t"), fc.oneof(fc.constantFrom(...UNIT_WORDS), fc.string({ maxLength: 5 }))).map(
-    ([n, s, u]) => `${n}${s}${u}`,
-  ),
+  fc.tuple(oddNumberText, fc.constantFrom("", " ", "  ", "\t"), fc.oneof(fc.constantFrom(...UNIT_WORDS), fc.string({ maxLength: 5 }))).map(([n, s, u]) => `${n}${s}${u}`),
   fc.constantFrom(...UNIT_WORDS),
 );
 export const wrongValue: fc.Arbitrary<unknown> = fc.oneof(
@@ -181,4 +215,3 @@ export function errorDefect(e: unknown, mayMentionForbidden: boolean): string {
   if (!mayMentionForbidden && /NaN|undefined/.test(withoutDeliberateNaN((e as Error).message))) return `message mentions NaN/undefined: ${(e as Error).message}`;
   return "";
 }
-

@@ -4,5 +4,5 @@
  */
 export const loadMathjs = () => import("mathjs");
 export type MathJs = Awaited<ReturnType<typeof loadMathjs>>;
-export type MathComplex = import("mathjs", { with: { "resolution-mode": "import" } }).Complex;
-export type MathMatrix = import("mathjs", { with: { "resolution-mode": "import" } }).Matrix;
+export type MathComplex = import("mathjs", { with: { "resolution-mode": "import" }}).Complex;
+export type MathMatrix = import("mathjs", { with: { "resolution-mode": "import" }}).Matrix;

@@ -2,11 +2,7 @@ import type { ComponentDescription, SetupDescription } from "../../src/setup/for
 
 /** Small set-up builders for tests; parameters are written as a user would write them. */
 
-export function setup(
-  components: ComponentDescription[],
-  connections: [string, string][],
-  extra: Partial<SetupDescription> = {},
-): SetupDescription {
+export function setup(components: ComponentDescription[], connections: [string, string][], extra: Partial<SetupDescription> = {}): SetupDescription {
   return {
     format: "quietframe.setup",
     version: 1,

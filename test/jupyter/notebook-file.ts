@@ -89,7 +89,13 @@ export async function executeNotebook(jupyter: JupyterEnv, source: string, outDi
   if (again.code === 0) {
     const nb = JSON.parse(readFileSync(join(outDir, diagnosticName), "utf8")) as Notebook;
     cellErrors = nb.cells
-      .map((c, i) => ({ i, err: (c.outputs ?? []).filter((o) => o.output_type === "error" || o.name === "stderr").map((o) => joined(o.text) || `${o.ename}: ${o.evalue}`).join("") }))
+      .map((c, i) => ({
+        i,
+        err: (c.outputs ?? [])
+          .filter((o) => o.output_type === "error" || o.name === "stderr")
+          .map((o) => joined(o.text) || `${o.ename}: ${o.evalue}`)
+          .join(""),
+      }))
       .filter((c) => c.err)
       .map((c) => `cell ${c.i}: ${c.err}`)
       .join("\n");
@@ -99,11 +105,7 @@ export async function executeNotebook(jupyter: JupyterEnv, source: string, outDi
 
 /** Checks a notebook file against the nbformat schema with Debian's nbformat (an outside reference). */
 export function validateWithNbformat(jupyter: JupyterEnv, file: string): Promise<RunResult> {
-  return run(
-    SYSTEM_PYTHON,
-    ["-c", "import nbformat, sys; nbformat.validate(nbformat.read(sys.argv[1], as_version=4)); print('valid')", file],
-    { env: jupyter.env, timeoutMs: 60_000 },
-  );
+  return run(SYSTEM_PYTHON, ["-c", "import nbformat, sys; nbformat.validate(nbformat.read(sys.argv[1], as_version=4)); print('valid')", file], { env: jupyter.env, timeoutMs: 60_000 });
 }
 
 export function outputsOf(nb: Notebook): NotebookOutput[] {

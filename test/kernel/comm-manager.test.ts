@@ -38,7 +38,11 @@ describe("CommManager", () => {
     await comms.handle("comm_open", { comm_id: "c1", target_name: "t", data: { x: 1 } }, {}, [], "m1");
     await frontEnd(comms, "c1", { y: 2 }, [new Uint8Array(2)]);
     await comms.handle("comm_close", { comm_id: "c1", data: { z: 3 } }, {}, [], "m3");
-    expect(got).toEqual([["open", { x: 1 }, "t"], ["msg", { y: 2 }, 1], ["close", { z: 3 }]]);
+    expect(got).toEqual([
+      ["open", { x: 1 }, "t"],
+      ["msg", { y: 2 }, 1],
+      ["close", { z: 3 }],
+    ]);
     expect(comms.get("c1")).toBeUndefined();
   });
 

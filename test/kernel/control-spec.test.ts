@@ -102,8 +102,14 @@ describe("front-end model defaults from @jupyter-widgets/controls and @jupyter-w
       const ours = Object.keys(CONTROL_SPECS[name].state);
       const theirs = Object.keys(defaults[name]);
       // _view_count is front-end bookkeeping that kernels never send; layout/style are references the classes deserialize.
-      expect(theirs.filter((k) => k !== "_view_count" && !ours.includes(k)), `${name}: front-end only`).toEqual(FRONT_END_ONLY[name] ?? []);
-      expect(ours.filter((k) => !theirs.includes(k)), `${name}: kernel only`).toEqual(KERNEL_ONLY[name] ?? []);
+      expect(
+        theirs.filter((k) => k !== "_view_count" && !ours.includes(k)),
+        `${name}: front-end only`,
+      ).toEqual(FRONT_END_ONLY[name] ?? []);
+      expect(
+        ours.filter((k) => !theirs.includes(k)),
+        `${name}: kernel only`,
+      ).toEqual(KERNEL_ONLY[name] ?? []);
     }
   });
 

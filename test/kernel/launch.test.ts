@@ -37,12 +37,27 @@ describe("the launcher", () => {
     const dir = mkdtempSync(join(tmpdir(), "quietframe-launch-"));
     dirs.push(dir);
     // ipc transport: sockets are files in the temp dir, no TCP ports to collide on.
-    const conn = { transport: "ipc", ip: join(dir, "k"), shell_port: 1, iopub_port: 2, stdin_port: 3, control_port: 4, hb_port: 5, key: "k", signature_scheme: "hmac-sha256", kernel_name: "quietframe-ts" };
+    const conn = {
+      transport: "ipc",
+      ip: join(dir, "k"),
+      shell_port: 1,
+      iopub_port: 2,
+      stdin_port: 3,
+      control_port: 4,
+      hb_port: 5,
+      key: "k",
+      signature_scheme: "hmac-sha256",
+      kernel_name: "quietframe-ts",
+    };
     writeFileSync(join(dir, "conn.json"), JSON.stringify(conn));
     const parent = spawn(process.execPath, ["-e", "setTimeout(() => {}, 60000)"], { stdio: "ignore" });
     started.push(parent);
     let log = "";
-    const kernel = spawn(process.execPath, [launcherPath(), "--config-path", join(dir, "conn.json")], { cwd: dir, env: { ...process.env, JPY_PARENT_PID: String(parent.pid) }, stdio: ["ignore", "ignore", "pipe"] });
+    const kernel = spawn(process.execPath, [launcherPath(), "--config-path", join(dir, "conn.json")], {
+      cwd: dir,
+      env: { ...process.env, JPY_PARENT_PID: String(parent.pid) },
+      stdio: ["ignore", "ignore", "pipe"],
+    });
     started.push(kernel);
     kernel.stderr!.on("data", (d: Buffer) => (log += d.toString()));
     await new Promise<void>((resolve, reject) => {

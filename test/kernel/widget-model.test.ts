@@ -46,7 +46,10 @@ describe("WidgetModel", () => {
     m.on("change", (changes, source) => seen.push(["all", changes, source]));
     m.set({ n: 4 });
     expect(sent.at(-1)?.content.data).toEqual({ method: "update", state: { n: 4 }, buffer_paths: [] });
-    expect(seen).toEqual([["n", 4, 1, "kernel"], ["all", { n: 4 }, "kernel"]]);
+    expect(seen).toEqual([
+      ["n", 4, 1, "kernel"],
+      ["all", { n: 4 }, "kernel"],
+    ]);
     expect(m.get("n")).toBe(4);
   });
 
@@ -82,7 +85,10 @@ describe("WidgetModel", () => {
     const { m, sent, log } = model();
     await frontEnd(m["comms"], m.id, { method: "update", state: { label: "c", n: -5 } });
     const [error, restore] = sent.slice(-2).map((s) => s.content.data as Record<string, unknown>);
-    expect(error).toEqual({ method: "custom", content: { error: { method: "update", message: "TestModel.n = -5: must be ≥ 0; allowed: a number ≥ 0", path: "TestModel.n", problem: "must be ≥ 0", allowed: "a number ≥ 0" } } });
+    expect(error).toEqual({
+      method: "custom",
+      content: { error: { method: "update", message: "TestModel.n = -5: must be ≥ 0; allowed: a number ≥ 0", path: "TestModel.n", problem: "must be ≥ 0", allowed: "a number ≥ 0" } },
+    });
     expect(restore).toEqual({ method: "update", state: { label: "a", n: 1 }, buffer_paths: [] });
     expect(m.state).toMatchObject({ label: "a", n: 1 });
     expect(log.at(-1)).toMatch(/update refused: TestModel\.n = -5/);

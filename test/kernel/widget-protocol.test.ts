@@ -45,7 +45,11 @@ describe("the widget message protocol with jupyter_client as the front-end", () 
       /refused: no comm target "no\.such\.target"/,
       /on jupyter\.widget refused: this kernel creates widget models itself/,
     ];
-    for (const pattern of expected) expect(log.some((l) => pattern.test(l)), `${pattern} in\n${log.join("\n")}`).toBe(true);
+    for (const pattern of expected)
+      expect(
+        log.some((l) => pattern.test(l)),
+        `${pattern} in\n${log.join("\n")}`,
+      ).toBe(true);
   });
 
   it("keeps running through all of it: no uncaught error, no failed handler", () => {

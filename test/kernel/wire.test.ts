@@ -18,7 +18,14 @@ describe("encodeMessage and decodeMessage", () => {
 
   it("round-trip identities, the four JSON parts and binary buffers", () => {
     const frames = encodeMessage(
-      { identities: [Buffer.from("peer")], msgType: "comm_msg", parent: { msg_id: "p1", session: "s" }, content: { comm_id: "c", data: { x: 1 } }, metadata: { m: true }, buffers: [new Uint8Array([1, 2, 3])] },
+      {
+        identities: [Buffer.from("peer")],
+        msgType: "comm_msg",
+        parent: { msg_id: "p1", session: "s" },
+        content: { comm_id: "c", data: { x: 1 } },
+        metadata: { m: true },
+        buffers: [new Uint8Array([1, 2, 3])],
+      },
       signing,
       "kernel-session",
     );

@@ -56,9 +56,7 @@ describe("Parlett–Reinsch balancing", () => {
     const b = a.slice();
     balanceInPlace(b, n);
     const eig = (m: Float64Array): Eig[] =>
-      (math.eigs(toRows(m, n), { eigenvectors: false }).values as unknown as (number | { re: number; im: number })[]).map((v) =>
-        typeof v === "number" ? { re: v, im: 0 } : { re: v.re, im: v.im },
-      );
+      (math.eigs(toRows(m, n), { eigenvectors: false }).values as unknown as (number | { re: number; im: number })[]).map((v) => (typeof v === "number" ? { re: v, im: 0 } : { re: v.re, im: v.im }));
     const scale = Math.max(...eig(a).map((e) => Math.hypot(e.re, e.im)));
     expect(multisetDistance(eig(b), eig(a))).toBeLessThan(1e-10 * scale);
   });

@@ -1,11 +1,6 @@
 import { beforeAll, describe, expect, it } from "vitest";
 import fc from "fast-check";
-import {
-  SingularMatrixError,
-  complexLuFactor,
-  complexLuSolve,
-  complexLuSolveTransposed,
-} from "../../src/linalg/complex-lu";
+import { SingularMatrixError, complexLuFactor, complexLuSolve, complexLuSolveTransposed } from "../../src/linalg/complex-lu";
 import { complexRows, randomMatrix, seededRandom } from "./helpers";
 import { type Complex, type MathJsStatic, loadMathjs } from "./mathjs-reference";
 
@@ -26,17 +21,7 @@ function wellConditioned(rand: () => number, n: number): { re: Float64Array; im:
 }
 
 /** ‖op(A) X − B‖∞ / (‖A‖∞‖X‖∞ + ‖B‖∞), op = identity or plain transpose. */
-function relativeResidual(
-  aRe: Float64Array,
-  aIm: Float64Array,
-  n: number,
-  xRe: Float64Array,
-  xIm: Float64Array,
-  bRe: Float64Array,
-  bIm: Float64Array,
-  nrhs: number,
-  transposed: boolean,
-): number {
+function relativeResidual(aRe: Float64Array, aIm: Float64Array, n: number, xRe: Float64Array, xIm: Float64Array, bRe: Float64Array, bIm: Float64Array, nrhs: number, transposed: boolean): number {
   let worst = 0;
   let normA = 0;
   let normX = 0;
@@ -69,15 +54,7 @@ function relativeResidual(
   return worst / (normA * normX + normB);
 }
 
-function solveWith(
-  aRe: Float64Array,
-  aIm: Float64Array,
-  n: number,
-  bRe: Float64Array,
-  bIm: Float64Array,
-  nrhs: number,
-  transposed: boolean,
-): { re: Float64Array; im: Float64Array } {
+function solveWith(aRe: Float64Array, aIm: Float64Array, n: number, bRe: Float64Array, bIm: Float64Array, nrhs: number, transposed: boolean): { re: Float64Array; im: Float64Array } {
   const fRe = aRe.slice();
   const fIm = aIm.slice();
   const piv = new Int32Array(n);

@@ -1,18 +1,7 @@
 import { beforeAll, describe, expect, it } from "vitest";
 import fc from "fast-check";
 import { eigenvectorFor, realEigenvalues } from "../../src/linalg/eigen";
-import {
-  type Eig,
-  fromRows,
-  matMul,
-  multisetDistance,
-  pairs,
-  randomMatrix,
-  randomOrthogonal,
-  seededRandom,
-  toRows,
-  transpose,
-} from "./helpers";
+import { type Eig, fromRows, matMul, multisetDistance, pairs, randomMatrix, randomOrthogonal, seededRandom, toRows, transpose } from "./helpers";
 import { type Complex, type MathJsStatic, loadMathjs } from "./mathjs-reference";
 
 let math: MathJsStatic;
@@ -69,14 +58,12 @@ describe("realEigenvalues", () => {
         // reference shows ‖(A − λI)⁻¹ b‖ ≫ ‖b‖/‖A‖ (an error of 1e-9·‖A‖ in λ would cap
         // the growth near 1e9; accurate eigenvalues give ≳ 1e12).
         for (const e of got) {
-          const shifted = toRows(a, n).map((row, i) =>
-            row.map((x, j) => (i === j ? math.complex(x - e.re, -e.im) : math.complex(x, 0))),
-          );
+          const shifted = toRows(a, n).map((row, i) => row.map((x, j) => (i === j ? math.complex(x - e.re, -e.im) : math.complex(x, 0))));
           const b = Array.from({ length: n }, (_, i) => [math.complex(1 + i / n, 0)]);
           let growth = Infinity; // mathjs refusing an exactly singular system is a pass
           try {
             const x = math.lusolve(shifted, b) as unknown as Complex[][];
-            growth = Math.max(...x.map((r) => math.abs(r[0]) as unknown as number)) * normA / 2;
+            growth = (Math.max(...x.map((r) => math.abs(r[0]) as unknown as number)) * normA) / 2;
           } catch (err) {
             expect(String(err)).toMatch(/singular/);
           }
@@ -88,9 +75,7 @@ describe("realEigenvalues", () => {
         // are covered by the check above only, and a minimum number of comparisons is enforced.
         let ref: Eig[];
         try {
-          ref = (math.eigs(toRows(a, n), { eigenvectors: false }).values as unknown as (number | Complex)[]).map(
-            (v) => (typeof v === "number" ? { re: v, im: 0 } : { re: v.re, im: v.im }),
-          );
+          ref = (math.eigs(toRows(a, n), { eigenvectors: false }).values as unknown as (number | Complex)[]).map((v) => (typeof v === "number" ? { re: v, im: 0 } : { re: v.re, im: v.im }));
         } catch (err) {
           expect(String(err)).toMatch(/failed to converge/);
           continue;
@@ -220,9 +205,7 @@ describe("realEigenvalues", () => {
     // relative to ‖A‖ ≈ 1e9 instead (≈ 1e-7 absolute) would wipe out every small eigenvalue.
     for (const b of blocks) {
       for (const w of b.want) {
-        const near = got.reduce((best, e) =>
-          Math.hypot(e.re - w.re, e.im - w.im) < Math.hypot(best.re - w.re, best.im - w.im) ? e : best,
-        );
+        const near = got.reduce((best, e) => (Math.hypot(e.re - w.re, e.im - w.im) < Math.hypot(best.re - w.re, best.im - w.im) ? e : best));
         expect(Math.abs(near.re - w.re), `Re of ${JSON.stringify(w)}`).toBeLessThanOrEqual(1e-9 * Math.abs(w.re));
         expect(Math.abs(near.im - w.im), `Im of ${JSON.stringify(w)}`).toBeLessThanOrEqual(1e-9 * Math.abs(w.im));
       }

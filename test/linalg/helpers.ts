@@ -34,13 +34,7 @@ export function fromRows(rows: number[][]): Float64Array {
   return Float64Array.from(rows.flat());
 }
 
-export function complexRows(
-  math: MathJsStatic,
-  re: Float64Array,
-  im: Float64Array,
-  rows: number,
-  cols = rows,
-): Complex[][] {
+export function complexRows(math: MathJsStatic, re: Float64Array, im: Float64Array, rows: number, cols = rows): Complex[][] {
   const out: Complex[][] = [];
   for (let i = 0; i < rows; i++) {
     const row: Complex[] = [];

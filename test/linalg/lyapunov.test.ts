@@ -50,7 +50,12 @@ describe("solveLyapunov", () => {
           }
         }
       }
-      const ref = (math.lusolve(big, Array.from(q, (x) => [-x])) as number[][]).map((r) => r[0]);
+      const ref = (
+        math.lusolve(
+          big,
+          Array.from(q, (x) => [-x]),
+        ) as number[][]
+      ).map((r) => r[0]);
       const diff = maxAbs(Array.from(v, (x, i) => x - ref[i]));
       // The shifted random A keeps the Lyapunov operator's condition number O(10–100),
       // so two backward-stable solves agree to ≪ 1e-10.
@@ -82,7 +87,16 @@ describe("solveLyapunov", () => {
 
   it("mathjs lyap sign convention is A P + P Aᵀ + Q = 0, the same as ours (guards the test above)", () => {
     // A = −I, Q = I: A P + P Aᵀ + Q = 0 ⇒ P = I/2; the other convention would give −I/2.
-    const p = math.lyap([[-1, 0], [0, -1]], [[1, 0], [0, 1]]) as unknown as number[][];
+    const p = math.lyap(
+      [
+        [-1, 0],
+        [0, -1],
+      ],
+      [
+        [1, 0],
+        [0, 1],
+      ],
+    ) as unknown as number[][];
     expect(p[0][0]).toBeCloseTo(0.5, 15);
     expect(p[1][1]).toBeCloseTo(0.5, 15);
   });

@@ -23,7 +23,12 @@ describe("real LU", () => {
       realLuSolve(f, n, piv, x, 1);
 
       // mathjs lusolve as reference.
-      const ref = (math.lusolve(toRows(a, n), Array.from(b, (v) => [v])) as number[][]).map((r) => r[0]);
+      const ref = (
+        math.lusolve(
+          toRows(a, n),
+          Array.from(b, (v) => [v]),
+        ) as number[][]
+      ).map((r) => r[0]);
       const diff = maxAbs(Array.from(x, (v, i) => v - ref[i]));
       expect(diff / maxAbs(ref), `n = ${n}`).toBeLessThan(1e-12);
 

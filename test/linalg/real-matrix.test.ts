@@ -39,7 +39,15 @@ describe("real matrix arithmetic", () => {
   it("norm1 is the largest absolute column sum, as mathjs norm(A, 1) (mathjs as reference)", () => {
     const a = randomMatrix(seededRandom(3), 6);
     expect(norm1(a, 6)).toBeCloseTo(math.norm(toRows(a, 6), 1) as number, 14);
-    expect(norm1(fromRows([[1, -7], [-2, 3]]), 2)).toBe(10);
+    expect(
+      norm1(
+        fromRows([
+          [1, -7],
+          [-2, 3],
+        ]),
+        2,
+      ),
+    ).toBe(10);
   });
 
   it("identity, add and symmetrize follow their definitions (I; A + B; (X + Xᵀ)/2)", () => {

@@ -72,7 +72,10 @@ describe("LiveExplorer: the widgets it opens", () => {
   });
 
   test("a choice parameter becomes a dropdown of its choices with the current one selected", () => {
-    const { control } = live([{ target: "membrane.temperature", min: "1 K", max: "10 K" }, { target: "detector.angle", choices: ["0 deg", "45 deg", "90 deg"] }]);
+    const { control } = live([
+      { target: "membrane.temperature", min: "1 K", max: "10 K" },
+      { target: "detector.angle", choices: ["0 deg", "45 deg", "90 deg"] },
+    ]);
     const d = control("detector.angle");
     expect(d.kind).toBe("Dropdown");
     expect(d.get("_options_labels")).toEqual(["0 deg", "45 deg", "90 deg"]);

@@ -18,10 +18,11 @@ import { createQuietframeKernelEnv, type QuietframeKernelEnv } from "../kernel/k
  * which the explorer states load and reproduce their curves.
  */
 const NOTEBOOK_DIR = join(REPO_ROOT, "notebooks");
-const NOTEBOOKS = readdirSync(NOTEBOOK_DIR).filter((f) => f.endsWith(".ipynb")).sort();
+const NOTEBOOKS = readdirSync(NOTEBOOK_DIR)
+  .filter((f) => f.endsWith(".ipynb"))
+  .sort();
 /** Notebooks whose cells build explorers (the widget that has a live form); the others keep their kernel-free widgets. */
-const usesExplorer = (name: string): boolean =>
-  (JSON.parse(readFileSync(join(NOTEBOOK_DIR, name), "utf8")) as Notebook).cells.some((c) => /\bexplorer\(/.test(joined(c.source)));
+const usesExplorer = (name: string): boolean => (JSON.parse(readFileSync(join(NOTEBOOK_DIR, name), "utf8")) as Notebook).cells.some((c) => /\bexplorer\(/.test(joined(c.source)));
 const EXECUTE_TIMEOUT_MS = 240_000;
 const WIDGET_VIEW_MIME = "application/vnd.jupyter.widget-view+json";
 
@@ -31,7 +32,20 @@ let outDir: string;
 function execute(source: string): Promise<RunResult> {
   return run(
     SYSTEM_PYTHON,
-    ["-m", "nbconvert", "--to", "notebook", "--execute", `--ExecutePreprocessor.kernel_name=${jupyter.kernelName}`, `--ExecutePreprocessor.timeout=${EXECUTE_TIMEOUT_MS / 1000}`, source, "--output", basename(source), "--output-dir", outDir],
+    [
+      "-m",
+      "nbconvert",
+      "--to",
+      "notebook",
+      "--execute",
+      `--ExecutePreprocessor.kernel_name=${jupyter.kernelName}`,
+      `--ExecutePreprocessor.timeout=${EXECUTE_TIMEOUT_MS / 1000}`,
+      source,
+      "--output",
+      basename(source),
+      "--output-dir",
+      outDir,
+    ],
     { env: jupyter.env, timeoutMs: EXECUTE_TIMEOUT_MS },
   );
 }
@@ -97,7 +111,9 @@ describe.each(NOTEBOOKS)("%s with the quietframe kernel", (name) => {
 
   it("carries the browser runtime in the first live widget's fallback only", () => {
     const runtime = readFileSync(join(REPO_ROOT, RUNTIME_FILE), "utf8");
-    const carrying = outputsOf(nb!).filter(isLiveWidget).map((w) => joined(w.data!["text/html"]).includes(runtime));
+    const carrying = outputsOf(nb!)
+      .filter(isLiveWidget)
+      .map((w) => joined(w.data!["text/html"]).includes(runtime));
     expect(carrying[0]).toBe(true);
     expect(carrying.slice(1).every((c) => !c)).toBe(true);
   });

@@ -9,18 +9,7 @@ import { headlineFigures } from "../../src/engine/headline";
 import { evaluateSetup, loadSetup } from "../../src/pipeline";
 import { EXPLORER_CLASS } from "../../widgets/explorer/names";
 import { runtimeSource } from "../../widgets/core/page/runtime-source";
-import {
-  applyValues,
-  chartBundle,
-  displayBundle,
-  encodeBundle,
-  explorer,
-  loadSetupFile,
-  resetDisplaySession,
-  showChart,
-  VEGA_LITE_MIME,
-  type SetupDescription,
-} from "../../widgets/notebook";
+import { applyValues, chartBundle, displayBundle, encodeBundle, explorer, loadSetupFile, resetDisplaySession, showChart, VEGA_LITE_MIME, type SetupDescription } from "../../widgets/notebook";
 import { REPO_ROOT } from "../jupyter/env";
 
 const EXAMPLES = join(REPO_ROOT, "examples");

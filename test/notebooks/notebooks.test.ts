@@ -17,7 +17,9 @@ import { executeNotebook, joined, outputsOf, validateWithNbformat, type Executed
  * Kernel start is about 2 s and each notebook a few seconds; the limits leave ample room.
  */
 const NOTEBOOK_DIR = join(REPO_ROOT, "notebooks");
-const NOTEBOOKS = readdirSync(NOTEBOOK_DIR).filter((f) => f.endsWith(".ipynb")).sort();
+const NOTEBOOKS = readdirSync(NOTEBOOK_DIR)
+  .filter((f) => f.endsWith(".ipynb"))
+  .sort();
 const EXECUTE_TIMEOUT_MS = 240_000;
 
 const PNG_SIGNATURE = Buffer.from([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a]);
@@ -130,13 +132,18 @@ describe.each(NOTEBOOKS)("%s", (name) => {
   it("ends with a shareable state that reproduces the same curves here", () => {
     const nb = get().notebook;
     const last = [...nb.cells].reverse().find((c) => c.cell_type === "code")!;
-    const printed = (last.outputs ?? []).filter((o) => o.output_type === "stream" && o.name === "stdout").map((o) => joined(o.text)).join("");
+    const printed = (last.outputs ?? [])
+      .filter((o) => o.output_type === "stream" && o.name === "stdout")
+      .map((o) => joined(o.text))
+      .join("");
     // Recomputed by the TypeScript sources under test, not by the kernel's build.
     const loaded = loadPrinted(printed);
     expect(loaded.fingerprintMatches).toBe(true);
     expect(loaded.fingerprint).toMatch(/^sha256:/);
     // The state matches one of the widgets shown in the notebook.
-    const shown = outputsOf(nb).filter(isWidget).map((w) => joined(w.data!["text/plain"]));
+    const shown = outputsOf(nb)
+      .filter(isWidget)
+      .map((w) => joined(w.data!["text/plain"]));
     expect(shown.some((t) => t.includes(loaded.fingerprint))).toBe(true);
   });
 });

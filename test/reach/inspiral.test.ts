@@ -1,18 +1,7 @@
 import { describe, expect, it } from "vitest";
 import { GRAVITATIONAL_CONSTANT, SOLAR_MASS, SPEED_OF_LIGHT } from "../../src/constants";
 import { evaluateSetup, loadSetup } from "../../src/pipeline";
-import {
-  ASTRONOMICAL_UNIT,
-  chirpMass,
-  HORIZON_TO_RANGE,
-  inspiralHorizon,
-  inspiralRange,
-  iscoFrequency,
-  MEGAPARSEC,
-  PARSEC,
-  strainCurve,
-  volumeGain,
-} from "../../src/reach";
+import { ASTRONOMICAL_UNIT, chirpMass, HORIZON_TO_RANGE, inspiralHorizon, inspiralRange, iscoFrequency, MEGAPARSEC, PARSEC, strainCurve, volumeGain } from "../../src/reach";
 import { quietframeErrorOf } from "../helpers/errors";
 import { setup } from "../helpers/setups";
 
@@ -198,10 +187,38 @@ describe("bad input names the field, the value and what is allowed", () => {
   const f = logGrid(10, 1000, 20);
   const s = new Float64Array(20).fill(S0);
   it.each([
-    ["frequencies[3]", () => inspiralHorizon(Float64Array.from(f, (x, i) => (i === 3 ? f[2] : x)), s)],
-    ["frequencies[0]", () => inspiralHorizon(Float64Array.from(f, (x, i) => (i === 0 ? -1 : x)), s)],
-    ["strainPsd[5]", () => inspiralHorizon(f, Float64Array.from(s, (x, i) => (i === 5 ? -x : x)))],
-    ["strainPsd[7]", () => inspiralHorizon(f, Float64Array.from(s, (x, i) => (i === 7 ? NaN : x)))],
+    [
+      "frequencies[3]",
+      () =>
+        inspiralHorizon(
+          Float64Array.from(f, (x, i) => (i === 3 ? f[2] : x)),
+          s,
+        ),
+    ],
+    [
+      "frequencies[0]",
+      () =>
+        inspiralHorizon(
+          Float64Array.from(f, (x, i) => (i === 0 ? -1 : x)),
+          s,
+        ),
+    ],
+    [
+      "strainPsd[5]",
+      () =>
+        inspiralHorizon(
+          f,
+          Float64Array.from(s, (x, i) => (i === 5 ? -x : x)),
+        ),
+    ],
+    [
+      "strainPsd[7]",
+      () =>
+        inspiralHorizon(
+          f,
+          Float64Array.from(s, (x, i) => (i === 7 ? NaN : x)),
+        ),
+    ],
     ["strainPsd", () => inspiralHorizon(f, s.subarray(1))],
     ["options.m1", () => inspiralHorizon(f, s, { m1: 0 })],
     ["options.snr", () => inspiralHorizon(f, s, { snr: -8 })],

@@ -60,7 +60,12 @@ describe("thermal force, quantum fluctuation-dissipation theorem", () => {
   const gamma = 10;
 
   it("equals 4mγħΩ(n̄ + 1/2) with the Bose–Einstein occupation n̄ (Callen & Welton 1951; Clerk et al. 2010, Sec. II)", () => {
-    for (const [f, T] of [[1e6, 0.01], [1e9, 0.05], [1e3, 300], [5e6, 4]]) {
+    for (const [f, T] of [
+      [1e6, 0.01],
+      [1e9, 0.05],
+      [1e3, 300],
+      [5e6, 4],
+    ]) {
       const omega = TWO_PI * f;
       const expected = 4 * m * gamma * HBAR * omega * (thermalOccupation(omega, T) + 0.5);
       expect(Math.abs(thermalForcePsd(m, gamma, T, omega) / expected - 1)).toBeLessThan(1e-12);

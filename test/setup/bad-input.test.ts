@@ -104,17 +104,14 @@ describe("__proto__ and other prototype names", () => {
     expect(e.message).toContain(`'free-mass' has no parameter '${key}'`);
   });
 
-  it.each(["__proto__", "constructor", "toString", "hasOwnProperty", "valueOf"])(
-    "a component named '%s' works like any other name",
-    (name) => {
-      const reference = loadAndEvaluate(JSON.stringify(freeMassSetup())).budget.total;
-      const renamed = JSON.stringify(freeMassSetup()).replaceAll('"mirror', `"${name}`);
-      expect(renamed).toContain(`"${name}.body"`);
-      const result = loadAndEvaluate(renamed);
-      expect(Array.from(result.budget.total)).toEqual(Array.from(reference));
-      expect(prototypeIsClean()).toBe(true);
-    },
-  );
+  it.each(["__proto__", "constructor", "toString", "hasOwnProperty", "valueOf"])("a component named '%s' works like any other name", (name) => {
+    const reference = loadAndEvaluate(JSON.stringify(freeMassSetup())).budget.total;
+    const renamed = JSON.stringify(freeMassSetup()).replaceAll('"mirror', `"${name}`);
+    expect(renamed).toContain(`"${name}.body"`);
+    const result = loadAndEvaluate(renamed);
+    expect(Array.from(result.budget.total)).toEqual(Array.from(reference));
+    expect(prototypeIsClean()).toBe(true);
+  });
 });
 
 describe("any JSON put anywhere in a set-up gives a result or a QuietframeError, never a crash (fast-check, seed 5)", () => {

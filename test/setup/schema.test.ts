@@ -97,9 +97,7 @@ describe("structurally broken set-ups are rejected by the schema", () => {
     const s = freeMassSetup();
     s.colour = "blue";
     const errors = errorsFor(s);
-    expect(errors).toContainEqual(
-      expect.objectContaining({ instancePath: "", keyword: "additionalProperties", params: { additionalProperty: "colour" } }),
-    );
+    expect(errors).toContainEqual(expect.objectContaining({ instancePath: "", keyword: "additionalProperties", params: { additionalProperty: "colour" } }));
   });
 
   it("__proto__ as a top-level key (from JSON text, so it is an own key)", () => {
@@ -120,9 +118,7 @@ describe("structurally broken set-ups are rejected by the schema", () => {
     const s = freeMassSetup();
     component(s, "mirror").params.weight = "1 kg";
     const errors = errorsFor(s);
-    expect(errors).toContainEqual(
-      expect.objectContaining({ instancePath: "/components/1/params", keyword: "additionalProperties", params: { additionalProperty: "weight" } }),
-    );
+    expect(errors).toContainEqual(expect.objectContaining({ instancePath: "/components/1/params", keyword: "additionalProperties", params: { additionalProperty: "weight" } }));
   });
 
   it("a required parameter left out", () => {
@@ -196,10 +192,7 @@ describe("the schema never rejects what the validator accepts (fast-check, seed 
     for (const kind of COMPONENT_KINDS.values()) {
       const variant = sub(`type-${kind.type}`);
       const valueArb = (p: ParamSpec) =>
-        fc.oneof(
-          { weight: 3, arbitrary: fc.constantFrom(...sampleValues(p)) },
-          { weight: 1, arbitrary: fc.oneof(fc.double(), fc.string({ maxLength: 8 }), fc.boolean(), fc.constant(null)) },
-        );
+        fc.oneof({ weight: 3, arbitrary: fc.constantFrom(...sampleValues(p)) }, { weight: 1, arbitrary: fc.oneof(fc.double(), fc.string({ maxLength: 8 }), fc.boolean(), fc.constant(null)) });
       const paramsArb = fc.record(Object.fromEntries(kind.params.map((p) => [p.name, valueArb(p)])), { requiredKeys: [] });
       fc.assert(
         fc.property(paramsArb, (params) => {

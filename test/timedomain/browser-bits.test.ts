@@ -73,10 +73,11 @@ describe("a seeded run gives the same bits in headless Chromium as in Node", () 
     }).outputFiles[0].text;
     await session.page.setContent("<!doctype html><html><body></body></html>");
     await session.page.addScriptTag({ content: bundle });
-    const inBrowser = await session.page.evaluate(
-      ([setup, settings, request]) => (globalThis as unknown as { runTimeDomain: (...a: unknown[]) => string }).runTimeDomain(setup, settings, request),
-      [SETUP, SETTINGS, REQUEST] as const,
-    );
+    const inBrowser = await session.page.evaluate(([setup, settings, request]) => (globalThis as unknown as { runTimeDomain: (...a: unknown[]) => string }).runTimeDomain(setup, settings, request), [
+      SETUP,
+      SETTINGS,
+      REQUEST,
+    ] as const);
     const model = assemble(loadSetup(SETUP)).model;
     const inNode = fingerprint(simulateTrajectory(model, SETTINGS, REQUEST), conditionalSteadyState(model));
     expect(inBrowser.length).toBe(inNode.length);

@@ -175,9 +175,13 @@ describe("membrane and a matched negative-mass spin ensemble in one beam", () =>
       { component: "spin", quadrature: "x", weight: 1 },
     ],
   };
-  const r = simulateTrajectory(model, { duration: 2e-3, step: 1e-7, seed: 5, samples: 101, initial: "ground" }, {
-    joint: [uVariable, { label: "x_membrane", terms: [{ component: "membrane", quadrature: "x", weight: 1 }] }],
-  });
+  const r = simulateTrajectory(
+    model,
+    { duration: 2e-3, step: 1e-7, seed: 5, samples: 101, initial: "ground" },
+    {
+      joint: [uVariable, { label: "x_membrane", terms: [{ component: "membrane", quadrature: "x", weight: 1 }] }],
+    },
+  );
 
   it("Var(x_m + x_s) stays at 1 while x_m alone is heated by back-action", () => {
     const [u, x] = r.joint;

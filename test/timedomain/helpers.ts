@@ -27,14 +27,7 @@ export function relativeMatrixError(a: ArrayLike<number>, b: ArrayLike<number>):
  * white inputs with one-sided noise N, outputs y = C z + D w. Used where a closed form is
  * easiest to state directly in A, B, C, D, N.
  */
-export function handModel(o: {
-  modes: string[];
-  A: number[][];
-  B: number[][];
-  N: number[][];
-  C?: number[][];
-  D?: number[][];
-}): StateSpaceModel {
+export function handModel(o: { modes: string[]; A: number[][]; B: number[][]; N: number[][]; C?: number[][]; D?: number[][] }): StateSpaceModel {
   const n = o.A.length;
   const m = o.N.length;
   const p = o.C?.length ?? 0;

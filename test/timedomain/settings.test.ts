@@ -82,9 +82,7 @@ describe("simulation settings are checked (common practice, no source: the allow
     expect(() => startTrajectory(model, good, { joint: [{ label: "?", terms: [{ component: "nobody", quadrature: "x", weight: 1 }] }] })).toThrow(
       /joint\[0\]\.terms\[0\]\.component = "nobody".*'body'/,
     );
-    expect(() => startTrajectory(model, good, { joint: [{ label: "?", terms: [{ component: "body", mode: "wobble", quadrature: "x", weight: 1 }] }] })).toThrow(
-      /joint\[0\]\.terms\[0\]\.mode/,
-    );
+    expect(() => startTrajectory(model, good, { joint: [{ label: "?", terms: [{ component: "body", mode: "wobble", quadrature: "x", weight: 1 }] }] })).toThrow(/joint\[0\]\.terms\[0\]\.mode/);
     expect(() => startTrajectory(model, good, { joint: [], pair: ["body", "ghost"] })).toThrow(/pair\[1\]\.component/);
     expect(() => startTrajectory(model, good, { joint: [], pair: ["body", "body"] })).toThrow(/pair\[1\] = "body": entanglement needs two different components/);
   });

@@ -182,7 +182,11 @@ describe("Wiener–Khinchin: the PSD of a long simulated record is the engine's 
     for (let k = 0; k < bins; k++) psd[k] /= segments;
     const df = 1 / (seg * h);
     const freqs = Float64Array.from({ length: bins }, (_, k) => k * df);
-    const engine = outputSpectra(model, [0], freqs.map((f) => Math.max(f, 1e-3))).re;
+    const engine = outputSpectra(
+      model,
+      [0],
+      freqs.map((f) => Math.max(f, 1e-3)),
+    ).re;
     // The record is y averaged over each step: the sequence has Σ_j S(f + j/h) sinc²(π(f + j/h)h).
     // The white floor (1) folds back to exactly 1; the resonant excess is negligible above Nyquist.
     const expected = (k: number): number => {

@@ -41,8 +41,20 @@ describe("unconditional covariance over time", () => {
     const v0 = groundCovariance(membrane);
     const vInf = stationaryCovariance(membrane);
     for (const t of [1e-9, 3e-7, 2e-5, 4e-4]) {
-      const e = (math.expm(math.matrix(toRows(membrane.A.map((x) => x * t), n))) as MathMatrix).toArray() as number[][];
-      const d = toRows(v0.map((x, i) => x - vInf[i]), n);
+      const e = (
+        math.expm(
+          math.matrix(
+            toRows(
+              membrane.A.map((x) => x * t),
+              n,
+            ),
+          ),
+        ) as MathMatrix
+      ).toArray() as number[][];
+      const d = toRows(
+        v0.map((x, i) => x - vInf[i]),
+        n,
+      );
       const expected = math.add(math.multiply(math.multiply(e, d), math.transpose(e)), toRows(vInf, n)) as number[][];
       expect(relativeMatrixError(transientCovariance(membrane, v0, t), fromRows(expected)), `t = ${t} s`).toBeLessThan(1e-8);
     }

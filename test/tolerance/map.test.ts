@@ -171,7 +171,14 @@ describe("cells without a value", () => {
     expect(map.counts).toEqual({ ok: 6, unstable: 4, invalid: 5 });
     // Messages come in row-major order, the first few only.
     expect(map.messages.map((m) => [m.x, m.y, m.status])).toEqual([
-      [0, 0, 2], [1, 0, 2], [2, 0, 2], [3, 0, 2], [4, 0, 2], [3, 1, 1], [4, 1, 1], [3, 2, 1],
+      [0, 0, 2],
+      [1, 0, 2],
+      [2, 0, 2],
+      [3, 0, 2],
+      [4, 0, 2],
+      [3, 1, 1],
+      [4, 1, 1],
+      [3, 2, 1],
     ]);
     const invalid = map.messages[0];
     expect(invalid.setting).toEqual({ "cavity.detuning": "-4 MHz", "cavity.inputCoupling": "0 %" });

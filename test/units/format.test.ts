@@ -75,18 +75,7 @@ describe("formatQuantity examples", () => {
 describe("round trip: parseQuantity(formatQuantity(x, kind, 17), kind) (fast-check, seed 7)", () => {
   const anyFinite = fc.double({ noNaN: true, noDefaultInfinity: true });
   // Kinds scaled by powers of ten round-trip exactly: scaling is done on the decimal text.
-  const exactKinds: QuantityKind[] = [
-    "mass",
-    "frequency",
-    "temperature",
-    "length",
-    "power",
-    "time",
-    "magneticField",
-    "gyromagneticRatio",
-    "decibel",
-    "number",
-  ];
+  const exactKinds: QuantityKind[] = ["mass", "frequency", "temperature", "length", "power", "time", "magneticField", "gyromagneticRatio", "decibel", "number"];
   const same = (a: number, b: number) => a === b; // treats -0 and 0 as equal
 
   for (const kind of exactKinds) {
@@ -107,9 +96,7 @@ describe("round trip: parseQuantity(formatQuantity(x, kind, 17), kind) (fast-che
 
   it("count: exact for every positive double", () => {
     fc.assert(
-      fc.property(fc.double({ min: Number.MIN_VALUE, noNaN: true, noDefaultInfinity: true }), (x) =>
-        same(parseQuantity(formatQuantity(x, "count", 17), "count", "p"), x),
-      ),
+      fc.property(fc.double({ min: Number.MIN_VALUE, noNaN: true, noDefaultInfinity: true }), (x) => same(parseQuantity(formatQuantity(x, "count", 17), "count", "p"), x)),
       { seed: 7, numRuns: 10000 },
     );
   });

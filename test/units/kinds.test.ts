@@ -6,21 +6,7 @@ import { expectProblem } from "./helpers";
 describe("quantity kinds", () => {
   it("lists the thirteen kinds", () => {
     expect([...QUANTITY_KINDS].sort()).toEqual(
-      [
-        "angle",
-        "count",
-        "decibel",
-        "fraction",
-        "frequency",
-        "gyromagneticRatio",
-        "length",
-        "magneticField",
-        "mass",
-        "number",
-        "power",
-        "temperature",
-        "time",
-      ].sort(),
+      ["angle", "count", "decibel", "fraction", "frequency", "gyromagneticRatio", "length", "magneticField", "mass", "number", "power", "temperature", "time"].sort(),
     );
   });
   it("isQuantityKind accepts exactly the kinds", () => {
@@ -45,10 +31,7 @@ describe("unit tables", () => {
         for (const other of QUANTITY_KINDS) {
           if (other === kind) continue;
           // "Gs" (gigasecond) in a field slot gets a more useful hint than "is a time".
-          const expected =
-            sym === "Gs" && other === "magneticField"
-              ? /would be gigaseconds/
-              : new RegExp(`is ${QUANTITY_KIND_INFO[kind].phrase}, but this field is`);
+          const expected = sym === "Gs" && other === "magneticField" ? /would be gigaseconds/ : new RegExp(`is ${QUANTITY_KIND_INFO[kind].phrase}, but this field is`);
           expectProblem(() => parseQuantity(`0.5 ${sym}`, other, "f"), "f", expected);
         }
       }

@@ -290,7 +290,7 @@ describe("errors are QuietframeErrors naming the path and what is wrong", () => 
     ["0", "count", /must be positive/],
   ];
   for (const [value, kind, problem] of cases) {
-    const label = typeof value === "bigint" ? `${value}n` : JSON.stringify(value) ?? String(value);
+    const label = typeof value === "bigint" ? `${value}n` : (JSON.stringify(value) ?? String(value));
     it(`${label} as ${kind}`, () => {
       const q = expectProblem(() => parseQuantity(value, kind, P), P, problem);
       expect(q.value).toEqual(value);

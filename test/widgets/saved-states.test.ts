@@ -41,7 +41,17 @@ describe("states saved before the layout change", () => {
   it("entangled.json computes the same figures", () => {
     const state = loadEntangledState(text("entangled.json"), "entangled.json");
     const c = computeEntangled(state);
-    const figures = { covariance: Array.from(c.covariance), eprX: c.eprX, eprP: c.eprP, duanSum: c.duanSum, logNegativity: c.logNegativity, conditionalVariance: c.conditionalVariance, spectrum: c.spectrum, epr: c.epr, ellipses: c.ellipses };
+    const figures = {
+      covariance: Array.from(c.covariance),
+      eprX: c.eprX,
+      eprP: c.eprP,
+      duanSum: c.duanSum,
+      logNegativity: c.logNegativity,
+      conditionalVariance: c.conditionalVariance,
+      spectrum: c.spectrum,
+      epr: c.epr,
+      ellipses: c.ellipses,
+    };
     expect(sha256(figures)).toBe(ENTANGLED_FIGURES_SHA256);
   });
 });

@@ -1,5 +1,22 @@
 /** The entangled-light panel's state and model (two-mode squeezed source, losses, bandwidth). */
-import { QuietframeError, squeezeFactorFromDb, AMPLITUDE_CORRELATED, conditionalVariance, duanBound, duanSum, entangledSourceCovariance, entangledSourceSpectrum, eprVariances, logarithmicNegativity, cos, log10, pow, sin, QUIETFRAME_VERSION, type TwoModeSqueezing } from "../../src/index";
+import {
+  QuietframeError,
+  squeezeFactorFromDb,
+  AMPLITUDE_CORRELATED,
+  conditionalVariance,
+  duanBound,
+  duanSum,
+  entangledSourceCovariance,
+  entangledSourceSpectrum,
+  eprVariances,
+  logarithmicNegativity,
+  cos,
+  log10,
+  pow,
+  sin,
+  QUIETFRAME_VERSION,
+  type TwoModeSqueezing,
+} from "../../src/index";
 import { parseUntrustedJson } from "../core/state/state-text";
 
 /**
@@ -104,20 +121,26 @@ function checkEntangledState(input: unknown, path: string): EntangledState {
   }
   const o = input as Record<string, unknown>;
   if (o.format !== ENTANGLED_STATE_FORMAT) throw new QuietframeError({ path: `${path}.format`, value: o.format, problem: "is not an entangled-panel state", allowed: `"${ENTANGLED_STATE_FORMAT}"` });
-  if (o.version !== ENTANGLED_STATE_VERSION) throw new QuietframeError({ path: `${path}.version`, value: o.version, problem: "is not a version this quietframe reads", allowed: String(ENTANGLED_STATE_VERSION) });
+  if (o.version !== ENTANGLED_STATE_VERSION)
+    throw new QuietframeError({ path: `${path}.version`, value: o.version, problem: "is not a version this quietframe reads", allowed: String(ENTANGLED_STATE_VERSION) });
   if (typeof o.quietframe !== "string") throw new QuietframeError({ path: `${path}.quietframe`, value: o.quietframe, problem: "must be a version string", allowed: 'e.g. "0.1.0"' });
   const sq = o.squeeze;
-  if (typeof sq !== "object" || sq === null || Array.isArray(sq)) throw new QuietframeError({ path: `${path}.squeeze`, value: sq, problem: "must be an object", allowed: '{"unit": "dB" | "r", "value": number}' });
+  if (typeof sq !== "object" || sq === null || Array.isArray(sq))
+    throw new QuietframeError({ path: `${path}.squeeze`, value: sq, problem: "must be an object", allowed: '{"unit": "dB" | "r", "value": number}' });
   const s = sq as Record<string, unknown>;
   if (s.unit !== "dB" && s.unit !== "r") throw new QuietframeError({ path: `${path}.squeeze.unit`, value: s.unit, problem: "is not a squeeze unit", allowed: '"dB" or "r"' });
-  const value = s.unit === "dB" ? finiteIn(s.value, `${path}.squeeze.value`, SQUEEZE_DB_MIN, 0, `${SQUEEZE_DB_MIN} dB ≤ squeezing ≤ 0 dB`) : finiteIn(s.value, `${path}.squeeze.value`, 0, SQUEEZE_R_MAX, `0 ≤ r ≤ ${SQUEEZE_R_MAX}`);
+  const value =
+    s.unit === "dB"
+      ? finiteIn(s.value, `${path}.squeeze.value`, SQUEEZE_DB_MIN, 0, `${SQUEEZE_DB_MIN} dB ≤ squeezing ≤ 0 dB`)
+      : finiteIn(s.value, `${path}.squeeze.value`, 0, SQUEEZE_R_MAX, `0 ≤ r ≤ ${SQUEEZE_R_MAX}`);
   const efficiency1 = finiteIn(o.efficiency1, `${path}.efficiency1`, 0, 1, "0 ≤ η1 ≤ 1");
   const efficiency2 = finiteIn(o.efficiency2, `${path}.efficiency2`, 0, 1, "0 ≤ η2 ≤ 1");
   let bandwidth: number | null = null;
   if (o.bandwidth !== null && o.bandwidth !== undefined) {
     bandwidth = finiteIn(o.bandwidth, `${path}.bandwidth`, 1e-3, 1e15, "a linewidth in Hz from 1e-3 to 1e15, or null for a white source");
   }
-  if (typeof o.title !== "string" || o.title.length > 200) throw new QuietframeError({ path: `${path}.title`, value: o.title, problem: "must be text of at most 200 characters", allowed: "plain text" });
+  if (typeof o.title !== "string" || o.title.length > 200)
+    throw new QuietframeError({ path: `${path}.title`, value: o.title, problem: "must be text of at most 200 characters", allowed: "plain text" });
   const known = new Set(["format", "version", "quietframe", "squeeze", "efficiency1", "efficiency2", "bandwidth", "title"]);
   for (const key of Object.keys(o)) if (!known.has(key)) throw new QuietframeError({ path: `${path}.${key}`, problem: "is not a field of an entangled-panel state", allowed: [...known].join(", ") });
   return { format: ENTANGLED_STATE_FORMAT, version: ENTANGLED_STATE_VERSION, quietframe: o.quietframe, squeeze: { unit: s.unit, value }, efficiency1, efficiency2, bandwidth, title: o.title };

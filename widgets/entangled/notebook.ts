@@ -1,16 +1,7 @@
 /** The entangled-light panel's notebook API: entangledPanel(...), show(), figures, saved state. */
 import { inspect } from "node:util";
 import { QuietframeError } from "../../src/index";
-import {
-  computeEntangled,
-  createEntangledState,
-  entangledStateText,
-  entangledSummary,
-  loadEntangledState,
-  type EntangledComputation,
-  type EntangledOptions,
-  type EntangledState,
-} from "./model";
+import { computeEntangled, createEntangledState, entangledStateText, entangledSummary, loadEntangledState, type EntangledComputation, type EntangledOptions, type EntangledState } from "./model";
 import { panelSpec } from "./specs";
 import { entangledHtml } from "./html";
 import { renderPng, renderSvg, type RenderPngOptions } from "../core/render/static";

@@ -27,7 +27,12 @@ export function spectrumSpec(c: EntangledComputation, white: boolean): Spec {
         encoding: {
           x: { field: "f", type: "quantitative", scale: { type: "log" }, title: "sideband frequency (Hz)", axis: { format: "~s" } },
           y: { field: "db", type: "quantitative", title: "dB relative to vacuum" },
-          color: { field: "series", type: "nominal", scale: { domain: [SPECTRUM_SERIES.conditional, SPECTRUM_SERIES.epr], range: PALETTE.slice(0, 2) }, legend: { orient: "bottom", title: null, direction: "vertical", labelLimit: 320 } },
+          color: {
+            field: "series",
+            type: "nominal",
+            scale: { domain: [SPECTRUM_SERIES.conditional, SPECTRUM_SERIES.epr], range: PALETTE.slice(0, 2) },
+            legend: { orient: "bottom", title: null, direction: "vertical", labelLimit: 320 },
+          },
         },
       },
       { mark: { type: "rule", strokeDash: [4, 3], color: "#444" }, data: { values: [{ y: 0 }] }, encoding: { y: { field: "y", type: "quantitative" } } },
@@ -80,8 +85,26 @@ export function ellipseSpec(c: EntangledComputation): Spec {
       x: { field: "x", type: "quantitative", scale: { domain: [-m, m], nice: false }, title: "X (amplitude)" },
       y: { field: "y", type: "quantitative", scale: { domain: [-m, m], nice: false }, title: "P (phase)" },
       order: { field: "i", type: "quantitative" },
-      color: { field: "series", type: "nominal", scale: { domain: series, range: [PALETTE[3], PALETTE[2], PALETTE[1], PALETTE[0]] }, legend: { orient: "bottom", title: null, direction: "vertical", labelLimit: 320 } },
-      strokeDash: { field: "series", type: "nominal", scale: { domain: series, range: [[3, 3], [1, 0], [6, 2], [1, 0]] }, legend: null },
+      color: {
+        field: "series",
+        type: "nominal",
+        scale: { domain: series, range: [PALETTE[3], PALETTE[2], PALETTE[1], PALETTE[0]] },
+        legend: { orient: "bottom", title: null, direction: "vertical", labelLimit: 320 },
+      },
+      strokeDash: {
+        field: "series",
+        type: "nominal",
+        scale: {
+          domain: series,
+          range: [
+            [3, 3],
+            [1, 0],
+            [6, 2],
+            [1, 0],
+          ],
+        },
+        legend: null,
+      },
     },
     config: { font: FONT },
   };

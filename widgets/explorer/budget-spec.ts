@@ -80,7 +80,14 @@ export function budgetSpec(table: BudgetTable, quantity: string, options: Budget
       strokeDash: {
         field: "kind",
         type: "nominal",
-        scale: { domain: ["total", "term", "reference"], range: [[1, 0], [1, 0], [6, 4]] },
+        scale: {
+          domain: ["total", "term", "reference"],
+          range: [
+            [1, 0],
+            [1, 0],
+            [6, 4],
+          ],
+        },
         legend: null,
       },
       strokeWidth: {

@@ -3,18 +3,7 @@ import { QuietframeError, loadSetup, QUIETFRAME_VERSION, type SetupDescription }
 import { computeExplorer, type ExplorerComputation } from "./model";
 import { EXPLORER_MODEL_NAME, EXPLORER_STATE_FORMAT, EXPLORER_STATE_VERSION, type ExplorerSettings, type ExplorerState } from "./format";
 import { WIDGET_MODULE, type JupyterWidgetStateDocument } from "../core/state/widget-state";
-import {
-  copyJson,
-  expectArray,
-  expectRecord,
-  FINGERPRINT_PATTERN,
-  isRecord,
-  modelIdOf,
-  rebasedErrors,
-  rejectUnknownKeys,
-  singleModelDocument,
-  VERSION_PATTERN,
-} from "../core/state/strict-read";
+import { copyJson, expectArray, expectRecord, FINGERPRINT_PATTERN, isRecord, modelIdOf, rebasedErrors, rejectUnknownKeys, singleModelDocument, VERSION_PATTERN } from "../core/state/strict-read";
 import { parseStateText } from "../core/state/state-text";
 import { checkControlSpec, checkControlValues, expectString, expectWord } from "../core/state/control-read";
 
@@ -64,9 +53,15 @@ export interface LoadedExplorerState {
 export function loadExplorerState(input: string | unknown, source = "state"): LoadedExplorerState {
   const { state, path } = locateState(input, source);
   // The set-up first: the controls are resolved against it and assume it is well formed.
-  rebasedErrors((p) => `${path}.setup.${p}`, () => loadSetup(state.setup));
+  rebasedErrors(
+    (p) => `${path}.setup.${p}`,
+    () => loadSetup(state.setup),
+  );
   // Model paths are relative to the state (`values.…`, `controls[0]…`, `settings.…`) or, for set-up problems, to the set-up.
-  const computation = rebasedErrors((p) => `${path}.${STATE_FIELD.test(p) ? "" : "setup."}${p}`, () => computeExplorer(state));
+  const computation = rebasedErrors(
+    (p) => `${path}.${STATE_FIELD.test(p) ? "" : "setup."}${p}`,
+    () => computeExplorer(state),
+  );
   return { state, computation, fingerprintMatches: computation.fingerprint === state.fingerprint };
 }
 
@@ -174,4 +169,3 @@ function checkSettings(input: unknown, path: string): ExplorerSettings {
 function hasOwn(obj: object, key: string): boolean {
   return Object.prototype.hasOwnProperty.call(obj, key);
 }
-

@@ -45,7 +45,5 @@ function isExplorerInput(value: unknown): boolean {
   if (value.format === EXPLORER_STATE_FORMAT) return true;
   if (Array.isArray(value.cells) && isRecord(value.metadata)) return true;
   const models = isRecord(value.state) ? Object.values(value.state) : [];
-  return models.some(
-    (m) => isRecord(m) && ((m.model_module === WIDGET_MODULE && m.model_name === EXPLORER_MODEL_NAME) || (m.model_module === LIVE_MODULE && m.model_name === CHART_MODEL_NAME)),
-  );
+  return models.some((m) => isRecord(m) && ((m.model_module === WIDGET_MODULE && m.model_name === EXPLORER_MODEL_NAME) || (m.model_module === LIVE_MODULE && m.model_name === CHART_MODEL_NAME)));
 }

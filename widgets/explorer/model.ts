@@ -1,4 +1,19 @@
-import { QuietframeError, headlineFigures, parseGrid, tabulateBudget, evaluate, prepare, loadSetup, applyValues, QUIETFRAME_VERSION, type HeadlineFigures, type BudgetTable, type Evaluation, type SetupDescription, type ResolvedSetup } from "../../src/index";
+import {
+  QuietframeError,
+  headlineFigures,
+  parseGrid,
+  tabulateBudget,
+  evaluate,
+  prepare,
+  loadSetup,
+  applyValues,
+  QUIETFRAME_VERSION,
+  type HeadlineFigures,
+  type BudgetTable,
+  type Evaluation,
+  type SetupDescription,
+  type ResolvedSetup,
+} from "../../src/index";
 import { budgetFingerprint } from "./fingerprint";
 import { EXPLORER_STATE_FORMAT, EXPLORER_STATE_VERSION, type ExplorerSettings, type ExplorerState } from "./format";
 import type { ControlSpec } from "../core/controls/control-spec";
@@ -61,7 +76,15 @@ export function createExplorerState(setup: SetupDescription, options: ExplorerOp
     spectralDensity: "amplitude",
     ...options.settings,
   };
-  const base = { format: EXPLORER_STATE_FORMAT, version: EXPLORER_STATE_VERSION, quietframe: QUIETFRAME_VERSION, setup: structuredClone(setup), controls: structuredClone(controls), values, settings } as const;
+  const base = {
+    format: EXPLORER_STATE_FORMAT,
+    version: EXPLORER_STATE_VERSION,
+    quietframe: QUIETFRAME_VERSION,
+    setup: structuredClone(setup),
+    controls: structuredClone(controls),
+    values,
+    settings,
+  } as const;
   return { ...base, fingerprint: computeExplorer(base).fingerprint };
 }
 

@@ -26,7 +26,13 @@ export class QuietframeHandler extends JupyterHandlerImpl {
   override handleKernel(): KernelInfo {
     const info = super.handleKernel();
     // The messaging spec requires status in every reply; tslab leaves it out of kernel_info_reply.
-    return { ...info, status: "ok", implementation: "quietframe-ts", implementation_version: QUIETFRAME_VERSION, banner: `${info.banner} (quietframe ${QUIETFRAME_VERSION}, kernel with comms)` } as KernelInfo;
+    return {
+      ...info,
+      status: "ok",
+      implementation: "quietframe-ts",
+      implementation_version: QUIETFRAME_VERSION,
+      banner: `${info.banner} (quietframe ${QUIETFRAME_VERSION}, kernel with comms)`,
+    } as KernelInfo;
   }
 }
 

@@ -82,11 +82,21 @@ export function installKernelSpec(options: InstallOptions = {}): string {
   const spec = kernelSpec();
   const run = spawnSync(python, ["-c", INSTALL_PY, JSON.stringify(spec), KERNEL_NAME, user ? "1" : "0", prefix], { env: options.env ?? process.env, encoding: "utf8" });
   if (run.error) {
-    throw new QuietframeError({ path: "--python", value: python, problem: `cannot be started (${(run.error as NodeJS.ErrnoException).code ?? run.error.message})`, allowed: "a Python with Jupyter, e.g. --python /usr/bin/python3" });
+    throw new QuietframeError({
+      path: "--python",
+      value: python,
+      problem: `cannot be started (${(run.error as NodeJS.ErrnoException).code ?? run.error.message})`,
+      allowed: "a Python with Jupyter, e.g. --python /usr/bin/python3",
+    });
   }
   if (run.status === 3) throw new QuietframeError({ path: "--python", value: python, problem: "has no jupyter_client", allowed: "the Python your Jupyter runs on (e.g. --python /usr/bin/python3)" });
   if (run.status !== 0) {
-    throw new QuietframeError({ path: "kernel install", value: python, problem: `Jupyter refused the kernel spec: ${(run.stderr || "").trim().split("\n").slice(-1)[0] || `exit status ${run.status}`}`, allowed: "a writable kernel directory (try --user or --prefix DIR)" });
+    throw new QuietframeError({
+      path: "kernel install",
+      value: python,
+      problem: `Jupyter refused the kernel spec: ${(run.stderr || "").trim().split("\n").slice(-1)[0] || `exit status ${run.status}`}`,
+      allowed: "a writable kernel directory (try --user or --prefix DIR)",
+    });
   }
   const dir = run.stdout.trim().split("\n").slice(-1)[0];
   return dir && existsSync(join(dir, "kernel.json")) ? dir : dir || "(unknown)";

@@ -124,4 +124,3 @@ function domainOf(cells: readonly HeatmapCell[], axis: "x" | "y"): [number, numb
   }
   return [lo, hi];
 }
-

@@ -1,4 +1,18 @@
-import { componentKind, QuietframeError, CellStatus, toleranceCellSetup, parseQuantity, QUIETFRAME_VERSION, type SetupDescription, type CellMessage, type ToleranceMap, type AxisScale, type FigureInfo, type ToleranceMapSpec, type QuantityKind } from "../../src/index";
+import {
+  componentKind,
+  QuietframeError,
+  CellStatus,
+  toleranceCellSetup,
+  parseQuantity,
+  QUIETFRAME_VERSION,
+  type SetupDescription,
+  type CellMessage,
+  type ToleranceMap,
+  type AxisScale,
+  type FigureInfo,
+  type ToleranceMapSpec,
+  type QuantityKind,
+} from "../../src/index";
 import { createExplorerState } from "../explorer/model";
 import type { ExplorerState } from "../explorer/format";
 import type { ControlSpec } from "../core/controls/control-spec";

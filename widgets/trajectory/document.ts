@@ -2,18 +2,7 @@
 import { QuietframeError, parseJsonText, QUIETFRAME_VERSION, type SetupDescription } from "../../src/index";
 import { MAX_STATE_TEXT_BYTES } from "../core/state/state-text";
 import { WIDGET_MODULE, type JupyterWidgetStateDocument } from "../core/state/widget-state";
-import {
-  copyJson,
-  expectArray,
-  expectRecord,
-  FINGERPRINT_PATTERN,
-  isRecord,
-  modelIdOf,
-  rebasedErrors,
-  rejectUnknownKeys,
-  singleModelDocument,
-  VERSION_PATTERN,
-} from "../core/state/strict-read";
+import { copyJson, expectArray, expectRecord, FINGERPRINT_PATTERN, isRecord, modelIdOf, rebasedErrors, rejectUnknownKeys, singleModelDocument, VERSION_PATTERN } from "../core/state/strict-read";
 import { checkControlSpec, checkControlValues, expectQuantity } from "../core/state/control-read";
 import { TRAJECTORY_MODEL_NAME, TRAJECTORY_STATE_FORMAT, TRAJECTORY_STATE_VERSION, type SimulationSpec, type TrajectoryState } from "./format";
 import { checkJoint, checkPair } from "./joint";
@@ -92,7 +81,12 @@ function locate(input: unknown, source: string): { state: TrajectoryState; path:
   const top = expectRecord(value, source, "a widget-state document or a trajectory state (a JSON object)");
   if (Object.prototype.hasOwnProperty.call(top, "format")) return { state: checkTrajectoryState(top, source), path: source };
   if (top.version_major !== 2) {
-    throw new QuietframeError({ path: `${source}.version_major`, value: top.version_major, problem: "is not a widget-state format this quietframe reads", allowed: `2, or a bare state {"format": "${TRAJECTORY_STATE_FORMAT}", …}` });
+    throw new QuietframeError({
+      path: `${source}.version_major`,
+      value: top.version_major,
+      problem: "is not a widget-state format this quietframe reads",
+      allowed: `2, or a bare state {"format": "${TRAJECTORY_STATE_FORMAT}", …}`,
+    });
   }
   const models = expectRecord(top.state, `${source}.state`, "an object of widget models keyed by model id");
   const ours = Object.keys(models).filter((id) => {
@@ -114,20 +108,31 @@ function locate(input: unknown, source: string): { state: TrajectoryState; path:
 /** Checks a trajectory state field by field and returns a fresh copy. */
 export function checkTrajectoryState(input: unknown, path: string): TrajectoryState {
   const o = expectRecord(input, path, `a trajectory state {"format": "${TRAJECTORY_STATE_FORMAT}", …}`);
-  if (o.format !== TRAJECTORY_STATE_FORMAT) throw new QuietframeError({ path: `${path}.format`, value: o.format, problem: "is not a quietframe trajectory state", allowed: `"${TRAJECTORY_STATE_FORMAT}"` });
+  if (o.format !== TRAJECTORY_STATE_FORMAT)
+    throw new QuietframeError({ path: `${path}.format`, value: o.format, problem: "is not a quietframe trajectory state", allowed: `"${TRAJECTORY_STATE_FORMAT}"` });
   const version = o.version;
-  if (typeof version !== "number" || !Number.isInteger(version) || version < 1) throw new QuietframeError({ path: `${path}.version`, value: version, problem: "must be a positive integer", allowed: String(TRAJECTORY_STATE_VERSION) });
-  if (version > TRAJECTORY_STATE_VERSION) throw new QuietframeError({ path: `${path}.version`, value: version, problem: "was written by a newer quietframe than this one", allowed: `versions up to ${TRAJECTORY_STATE_VERSION}; upgrade quietframe to read it` });
+  if (typeof version !== "number" || !Number.isInteger(version) || version < 1)
+    throw new QuietframeError({ path: `${path}.version`, value: version, problem: "must be a positive integer", allowed: String(TRAJECTORY_STATE_VERSION) });
+  if (version > TRAJECTORY_STATE_VERSION)
+    throw new QuietframeError({
+      path: `${path}.version`,
+      value: version,
+      problem: "was written by a newer quietframe than this one",
+      allowed: `versions up to ${TRAJECTORY_STATE_VERSION}; upgrade quietframe to read it`,
+    });
   rejectUnknownKeys(o, STATE_KEYS, path, "a trajectory state");
-  if (typeof o.quietframe !== "string" || !VERSION_PATTERN.test(o.quietframe)) throw new QuietframeError({ path: `${path}.quietframe`, value: o.quietframe, problem: "is not a quietframe version", allowed: `a version such as "${QUIETFRAME_VERSION}"` });
+  if (typeof o.quietframe !== "string" || !VERSION_PATTERN.test(o.quietframe))
+    throw new QuietframeError({ path: `${path}.quietframe`, value: o.quietframe, problem: "is not a quietframe version", allowed: `a version such as "${QUIETFRAME_VERSION}"` });
   const setup = copyJson(expectRecord(o.setup, `${path}.setup`, "a set-up object (docs/setup-format.md)"), `${path}.setup`, 0) as unknown as SetupDescription;
   const controls = expectArray(o.controls, `${path}.controls`, "an array of controls (may be empty)").map((c, i) => checkControlSpec(c, `${path}.controls[${i}]`));
   const values = checkControlValues(o.values, `${path}.values`);
   const simulation = checkSimulation(o.simulation, `${path}.simulation`);
   const joint = checkJoint(o.joint, `${path}.joint`);
   const pair = checkPair(o.pair, `${path}.pair`);
-  if (o.title !== undefined && (typeof o.title !== "string" || o.title.length > 200)) throw new QuietframeError({ path: `${path}.title`, value: o.title, problem: "must be text of at most 200 characters", allowed: "plain text" });
-  if (typeof o.fingerprint !== "string" || !FINGERPRINT_PATTERN.test(o.fingerprint)) throw new QuietframeError({ path: `${path}.fingerprint`, value: o.fingerprint, problem: "is not a curve fingerprint", allowed: '"sha256:" followed by 64 lowercase hex digits' });
+  if (o.title !== undefined && (typeof o.title !== "string" || o.title.length > 200))
+    throw new QuietframeError({ path: `${path}.title`, value: o.title, problem: "must be text of at most 200 characters", allowed: "plain text" });
+  if (typeof o.fingerprint !== "string" || !FINGERPRINT_PATTERN.test(o.fingerprint))
+    throw new QuietframeError({ path: `${path}.fingerprint`, value: o.fingerprint, problem: "is not a curve fingerprint", allowed: '"sha256:" followed by 64 lowercase hex digits' });
   return {
     format: TRAJECTORY_STATE_FORMAT,
     version,
@@ -153,4 +158,3 @@ function checkSimulation(input: unknown, path: string): SimulationSpec {
   if (o.stoppedAfter !== undefined) out.stoppedAfter = o.stoppedAfter as number | null;
   return out;
 }
-

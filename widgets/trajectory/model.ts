@@ -1,4 +1,19 @@
-import { QuietframeError, assemble, loadSetup, prepare, startSimulation, applyValues, QUIETFRAME_VERSION, type AssembledSetup, type SetupDescription, type ResolvedSetup, type JointVariable, type TrajectoryRequest, type TrajectoryResult, type TrajectoryRun } from "../../src/index";
+import {
+  QuietframeError,
+  assemble,
+  loadSetup,
+  prepare,
+  startSimulation,
+  applyValues,
+  QUIETFRAME_VERSION,
+  type AssembledSetup,
+  type SetupDescription,
+  type ResolvedSetup,
+  type JointVariable,
+  type TrajectoryRequest,
+  type TrajectoryResult,
+  type TrajectoryRun,
+} from "../../src/index";
 import { resolveStateControls, type ResolvedControl } from "../core/controls/setup-controls";
 import { setupValues } from "../explorer/model";
 import type { ControlSpec } from "../core/controls/control-spec";
@@ -167,8 +182,12 @@ export function newTrajectory(setup: SetupDescription, options: TrajectoryOption
   const controls = structuredClone(options.controls ?? []);
   const values = setupValues(setup, controls);
   const s = options.simulation;
-  for (const key of Object.keys(options)) if (!["controls", "simulation", "joint", "pair", "title"].includes(key)) throw new QuietframeError({ path: `options.${key}`, problem: "is not an option of a trajectory widget", allowed: "controls, simulation, joint, pair, title" });
-  for (const key of Object.keys(s)) if (!["duration", "step", "seed", "samples", "initial"].includes(key)) throw new QuietframeError({ path: `options.simulation.${key}`, problem: "is not a simulation setting", allowed: "duration, step, seed, samples, initial" });
+  for (const key of Object.keys(options))
+    if (!["controls", "simulation", "joint", "pair", "title"].includes(key))
+      throw new QuietframeError({ path: `options.${key}`, problem: "is not an option of a trajectory widget", allowed: "controls, simulation, joint, pair, title" });
+  for (const key of Object.keys(s))
+    if (!["duration", "step", "seed", "samples", "initial"].includes(key))
+      throw new QuietframeError({ path: `options.simulation.${key}`, problem: "is not a simulation setting", allowed: "duration, step, seed, samples, initial" });
   const simulation: SimulationSpec = { duration: s.duration, step: s.step, seed: s.seed ?? 1, ...(s.initial === undefined ? {} : { initial: s.initial }) };
   // Resolve once without samples to learn the steps, then store the samples explicitly.
   const steps = resolveSimulation(simulation, "options.simulation").steps;
@@ -195,7 +214,11 @@ export function defaultJoint(setup: SetupDescription, values: Record<string, str
   const model = assemble(loadSetup(applyValues(setup, values))).model;
   const joint = model.modes.filter((m) => m.kind !== "optical").map((m) => ({ label: `x ${m.owner}`, terms: [{ component: m.owner, quadrature: "x" as const, weight: 1 }] }));
   if (joint.length === 0) {
-    throw new QuietframeError({ path: "options.joint", problem: "is needed: the set-up has no mechanical or spin mode to follow by default", allowed: 'e.g. [{ label: "x cavity", terms: [{ component: "cavity", quadrature: "x", weight: 1 }] }]' });
+    throw new QuietframeError({
+      path: "options.joint",
+      problem: "is needed: the set-up has no mechanical or spin mode to follow by default",
+      allowed: 'e.g. [{ label: "x cavity", terms: [{ component: "cavity", quadrature: "x", weight: 1 }] }]',
+    });
   }
   return joint;
 }
@@ -221,4 +244,3 @@ export function withComputation(state: Omit<TrajectoryState, "fingerprint">, c: 
   const simulation: SimulationSpec = { ...rest, samples: c.simulation.settings.samples, initial: c.result.settings.initial };
   return { ...state, simulation: stoppedAfter === null ? simulation : { ...simulation, stoppedAfter }, fingerprint: c.fingerprint };
 }
-

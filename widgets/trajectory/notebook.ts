@@ -122,8 +122,11 @@ export class NotebookTrajectory {
 
   /** Changes values or settings and runs again (the same checks as a loaded state). */
   set(changes: TrajectoryChanges): this {
-    if (typeof changes !== "object" || changes === null) throw new QuietframeError({ path: "changes", value: changes, problem: "must be an object", allowed: "{ values?, simulation?, joint?, pair? }" });
-    for (const key of Object.keys(changes)) if (!["values", "simulation", "joint", "pair"].includes(key)) throw new QuietframeError({ path: `changes.${key}`, problem: "is not something set() changes", allowed: "values, simulation, joint, pair" });
+    if (typeof changes !== "object" || changes === null)
+      throw new QuietframeError({ path: "changes", value: changes, problem: "must be an object", allowed: "{ values?, simulation?, joint?, pair? }" });
+    for (const key of Object.keys(changes))
+      if (!["values", "simulation", "joint", "pair"].includes(key))
+        throw new QuietframeError({ path: `changes.${key}`, problem: "is not something set() changes", allowed: "values, simulation, joint, pair" });
     const s = this.#state;
     const { stoppedAfter: _stopped, ...simulation } = { ...s.simulation, ...changes.simulation };
     const base = { ...s, values: { ...s.values, ...changes.values }, simulation, joint: changes.joint ?? s.joint, pair: changes.pair === undefined ? s.pair : changes.pair };
@@ -200,7 +203,8 @@ export function trajectoryWidget(input: SetupDescription | TrajectoryState | Rec
     const loaded = loadTrajectoryState(value, "state", kernelProgress());
     return new NotebookTrajectory(loaded.state, loaded.computation, loaded.fingerprintMatches);
   }
-  if (options === undefined) throw new QuietframeError({ path: "options", problem: "is required for a set-up", allowed: '{ simulation: { duration: "200 us", step: "10 ns", seed: 1 }, controls?, joint?, pair? }' });
+  if (options === undefined)
+    throw new QuietframeError({ path: "options", problem: "is required for a set-up", allowed: '{ simulation: { duration: "200 us", step: "10 ns", seed: 1 }, controls?, joint?, pair? }' });
   const { state, computation } = newTrajectory(value as SetupDescription, options, kernelProgress());
   return new NotebookTrajectory(state, computation);
 }

@@ -37,7 +37,15 @@ export function jointSpec(rows: TrajectoryRows, labels: readonly string[]): Spec
     $schema: SCHEMA,
     title: { text: "Estimate (line, ±1σ band) and true value (dashed)", font: FONT, fontSize: 13 },
     data: { name: DATASETS.joint, values: rows.joint },
-    facet: { row: { field: "series", type: "nominal", sort: [...labels], title: null, header: { labelAngle: 0, labelAlign: "left", labelAnchor: "start", labelOrient: "top", labelFont: FONT, labelFontSize: 11 } } },
+    facet: {
+      row: {
+        field: "series",
+        type: "nominal",
+        sort: [...labels],
+        title: null,
+        header: { labelAngle: 0, labelAlign: "left", labelAnchor: "start", labelOrient: "top", labelFont: FONT, labelFontSize: 11 },
+      },
+    },
     spec: {
       width: WIDTH,
       height: Math.max(60, Math.round(HEIGHT / Math.max(1, labels.length)) + 20),
@@ -58,7 +66,11 @@ export function jointSpec(rows: TrajectoryRows, labels: readonly string[]): Spec
 export function varianceSpec(rows: TrajectoryRows, labels: readonly string[]): Spec {
   const curves = [...new Set(rows.variance.map((r) => r.curve))];
   // Solid conditional, dashed unconditional, dash-dot patterns for the parts; the zero-point rules are dotted.
-  const partDashes = [[9, 3, 2, 3], [3, 2], [12, 3, 2, 3, 2, 3]];
+  const partDashes = [
+    [9, 3, 2, 3],
+    [3, 2],
+    [12, 3, 2, 3, 2, 3],
+  ];
   let part = 0;
   const dashes = curves.map((c) => (c === CURVES.conditional ? [1, 0] : c === CURVES.unconditional ? [6, 3] : partDashes[part++ % partDashes.length]));
   return {
@@ -157,5 +169,10 @@ export function trajectoryPanelSpec(rows: TrajectoryRows, labels: readonly strin
 
 /** The Vega-Lite spec of the static figure: every chart of the run, each curve thinned to STATIC_POINTS. */
 export function trajectoryFigureSpec(c: TrajectoryComputation, state: TrajectoryState): Record<string, unknown> {
-  return trajectoryPanelSpec(trajectoryRows(c.result, STATIC_POINTS, state.joint), state.joint.map((j) => j.label), state.pair, trajectoryTitle(state));
+  return trajectoryPanelSpec(
+    trajectoryRows(c.result, STATIC_POINTS, state.joint),
+    state.joint.map((j) => j.label),
+    state.pair,
+    trajectoryTitle(state),
+  );
 }

@@ -34,7 +34,10 @@ export function trajectorySummary(c: TrajectoryComputation, joint: readonly Join
     for (const [label, values] of [[engineDuanLabel(e.pair), e.duanSum] as const, ...(other ? [[other.label, other.values] as const] : [])]) {
       const first = firstBelow(values, e.duanBound);
       const verdict = values[last] < e.duanBound ? "entangled" : "not shown entangled";
-      lines.push({ label: "Duan sum", text: `${label} (1 = ${e.pair[0]}, 2 = ${e.pair[1]}) = ${n(values[last])} (separable ≥ ${n(e.duanBound)}): ${verdict}${first >= 0 ? `; first below the bound after ${writeTime(r.time[first])}` : ""}` });
+      lines.push({
+        label: "Duan sum",
+        text: `${label} (1 = ${e.pair[0]}, 2 = ${e.pair[1]}) = ${n(values[last])} (separable ≥ ${n(e.duanBound)}): ${verdict}${first >= 0 ? `; first below the bound after ${writeTime(r.time[first])}` : ""}`,
+      });
     }
   }
   lines.push({ label: "Curve fingerprint", text: c.fingerprint });

@@ -89,7 +89,7 @@ async function profile(fn, { ms = 2000, top = 8, intervalUs = 200 } = {}) {
           name: e.name,
           where: e.key,
           source: originalLine(e.url, e.line),
-          hottest: hottest ? originalLine(e.url, hottest[0]) ?? `${shortUrl(e.url)}:${hottest[0]}` : undefined,
+          hottest: hottest ? (originalLine(e.url, hottest[0]) ?? `${shortUrl(e.url)}:${hottest[0]}`) : undefined,
         };
       });
   } finally {

@@ -31,9 +31,7 @@ export async function waitAllReady(page: Page, count: number, timeout = WIDGET_W
   } catch (e) {
     const seen = await page.evaluate(
       ([selector, status]) =>
-        (Array.from((globalThis as any).document.querySelectorAll(selector)) as any[]).map(
-          (el) => `${el.getAttribute(status)}: ${(el.querySelector(".qf-alert")?.textContent ?? "").slice(0, 300)}`,
-        ),
+        (Array.from((globalThis as any).document.querySelectorAll(selector)) as any[]).map((el) => `${el.getAttribute(status)}: ${(el.querySelector(".qf-alert")?.textContent ?? "").slice(0, 300)}`),
       [WIDGET, STATUS_ATTRIBUTE] as const,
     );
     throw new Error(`expected ${count} ready widgets, the page has ${JSON.stringify(seen)}: ${(e as Error).message}`);
@@ -81,7 +79,10 @@ export async function sliderPosition(page: Page, index: number, target: string):
 
 /** The value, as a set-up writes it, that slider position k of a control stands for (computed in Node). */
 export function sliderText(state: ExplorerState, target: string, k: number): string {
-  const [c] = resolveControls(state.setup, state.controls.filter((x) => x.target === target));
+  const [c] = resolveControls(
+    state.setup,
+    state.controls.filter((x) => x.target === target),
+  );
   if (!c) throw new Error(`the state has no control for ${target}`);
   return writeValue(c, sliderValue(c, k));
 }
@@ -132,7 +133,10 @@ export async function expectPageMatchesEngine(page: Page, index: number): Promis
 
 /** A slider position away from the current one (and from both ends, where values are clamped). */
 export function otherPosition(state: ExplorerState, target: string, current: number): number {
-  const [c] = resolveControls(state.setup, state.controls.filter((x) => x.target === target));
+  const [c] = resolveControls(
+    state.setup,
+    state.controls.filter((x) => x.target === target),
+  );
   if (!c || c.control !== "slider") throw new Error(`${target} is not a slider`);
   const steps = c.steps;
   const k = current > steps / 2 ? Math.round(steps * 0.2) : Math.round(steps * 0.8);

@@ -97,7 +97,7 @@ describe("spectrum", () => {
     const c = computeEntangled(createEntangledState({ r: 1, bandwidth: 1e6 }));
     const epr = c.spectrum.filter((row) => row.series === SPECTRUM_SERIES.epr);
     // Lossless at Ω → 0 the squeezing is e^{−2r} by construction of the pump (ε = (κ/2) tanh(r/2)).
-    expect(Math.abs(epr[0].db - 10 * Math.log10(Math.exp(-2))) ).toBeLessThan(0.01);
+    expect(Math.abs(epr[0].db - 10 * Math.log10(Math.exp(-2)))).toBeLessThan(0.01);
     expect(Math.abs(epr[epr.length - 1].db)).toBeLessThan(0.05);
     for (let i = 1; i < epr.length; i++) expect(epr[i].db).toBeGreaterThanOrEqual(epr[i - 1].db - 1e-12);
   });
@@ -190,4 +190,3 @@ describe("state", () => {
     expect(p.figures.duanSum).toBeGreaterThan(before);
   });
 });
-

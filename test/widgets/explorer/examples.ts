@@ -32,7 +32,9 @@ const CONTROLS: Record<string, ControlSpec[]> = {
 };
 
 export function exampleFiles(): string[] {
-  return readdirSync(EXAMPLES_DIR).filter((f) => f.endsWith(".json")).sort();
+  return readdirSync(EXAMPLES_DIR)
+    .filter((f) => f.endsWith(".json"))
+    .sort();
 }
 
 export function exampleSetup(file: string): SetupDescription {

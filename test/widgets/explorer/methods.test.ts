@@ -123,7 +123,7 @@ describe("methodsText on the shipped examples", () => {
 });
 
 describe("user text cannot change the markup", () => {
-  const hostile = 'a # $ % & _ { } ~ ^ \\ b <script>alert(1)</script> *x* [l](u) |t| `c`';
+  const hostile = "a # $ % & _ { } ~ ^ \\ b <script>alert(1)</script> *x* [l](u) |t| `c`";
 
   test("escapeLatex: each special character (hand-written LaTeX, text mode)", () => {
     expect(escapeLatex("#$%&_{}")).toBe("\\#\\$\\%\\&\\_\\{\\}");
@@ -138,18 +138,14 @@ describe("user text cannot change the markup", () => {
   });
 
   test("escapeMarkdown: backslash escapes, one line", () => {
-    expect(escapeMarkdown("*a* _b_ `c` [d](e) <f> #g |h| ~i~ &j; $k$ \\")).toBe(
-      "\\*a\\* \\_b\\_ \\`c\\` \\[d\\](e) \\<f\\> \\#g \\|h\\| \\~i\\~ \\&j; \\$k\\$ \\\\",
-    );
+    expect(escapeMarkdown("*a* _b_ `c` [d](e) <f> #g |h| ~i~ &j; $k$ \\")).toBe("\\*a\\* \\_b\\_ \\`c\\` \\[d\\](e) \\<f\\> \\#g \\|h\\| \\~i\\~ \\&j; \\$k\\$ \\\\");
     expect(escapeMarkdown("x\n# heading\n- item")).toBe("x \\# heading - item");
   });
 
   test("a hostile set-up name in LaTeX: escaped, braces balanced, no command from the user", () => {
     const setup = { ...exampleSetup("free-test-mass.json"), name: `${hostile}\n\\end{document}` };
     const { latex } = both(createExplorerState(setup));
-    expect(latex).toContain(
-      "a \\# \\$ \\% \\& \\_ \\{ \\} \\textasciitilde{} \\textasciicircum{} \\textbackslash{} b \\textless{}script\\textgreater{}alert(1)\\textless{}/script\\textgreater{}",
-    );
+    expect(latex).toContain("a \\# \\$ \\% \\& \\_ \\{ \\} \\textasciitilde{} \\textasciicircum{} \\textbackslash{} b \\textless{}script\\textgreater{}alert(1)\\textless{}/script\\textgreater{}");
     expect(latex).not.toContain("\\end{document}");
     const unescaped = (ch: string): number => [...latex.matchAll(new RegExp(`(?<!\\\\)\\${ch}`, "g"))].length;
     expect(unescaped("{")).toBe(unescaped("}"));

@@ -59,11 +59,7 @@ describe("heat-map data", () => {
 
   it("flags NaN cells by status and keeps finite figures exactly", () => {
     const cells = heatmapCells(state);
-    expect(cells.map((c) => c.status)).toEqual([
-      "invalid", "invalid", "invalid", "invalid", "invalid",
-      "ok", "ok", "ok", "unstable", "unstable",
-      "ok", "ok", "ok", "unstable", "unstable",
-    ]);
+    expect(cells.map((c) => c.status)).toEqual(["invalid", "invalid", "invalid", "invalid", "invalid", "ok", "ok", "ok", "unstable", "unstable", "ok", "ok", "ok", "unstable", "unstable"]);
     cells.forEach((c, k) => {
       if (c.status === "ok") expect(c.value).toBe(map.values[k]);
       else {
@@ -108,7 +104,9 @@ describe("heat-map spec", () => {
     expect(color.scale.domainMid).toBe(0);
     expect(color.scale.range).toEqual([...DIVERGING_RANGE]);
     expect(color.scale.domain[0]).toBe(-color.scale.domain[1]);
-    const finite = heatmapCells(state).filter((c) => c.value !== null).map((c) => Math.abs(c.value as number));
+    const finite = heatmapCells(state)
+      .filter((c) => c.value !== null)
+      .map((c) => Math.abs(c.value as number));
     expect(color.scale.domain[1]).toBe(Math.max(...finite));
     expect(computed.transform).toEqual([{ filter: "isValid(datum.value)" }]);
   });

@@ -43,7 +43,11 @@ describe("trajectoryWidget in a notebook", () => {
     expect(html).toContain(`class="${TRAJECTORY_CLASS}"`);
     const m = new RegExp(`<script type="application/json" class="${TRAJECTORY_STATE_CLASS}">([\\s\\S]*?)</script>`).exec(html);
     expect(loadTrajectoryState(m![1]).fingerprintMatches).toBe(true);
-    expect(Buffer.from(b["image/png"] as Uint8Array).subarray(0, 8).equals(PNG_SIGNATURE)).toBe(true);
+    expect(
+      Buffer.from(b["image/png"] as Uint8Array)
+        .subarray(0, 8)
+        .equals(PNG_SIGNATURE),
+    ).toBe(true);
     expect(b["text/plain"]).toContain(`fingerprint: ${w.state.fingerprint}`);
   });
 
@@ -112,7 +116,10 @@ describe("kernel-side progress", () => {
   it("is silent for a quick run and says at most one line a second for a long one", () => {
     let clock = 0;
     const lines: string[] = [];
-    const r = progressReporter(() => clock, (t) => lines.push(t));
+    const r = progressReporter(
+      () => clock,
+      (t) => lines.push(t),
+    );
     clock = 500;
     r.onProgress!(0.1, 100, 1000);
     expect(lines).toEqual([]);

@@ -6,7 +6,12 @@ import { loadMathjs } from "../../helpers/mathjs";
 describe("simulation settings", () => {
   it("read times with their units as mathjs converts them to seconds", async () => {
     const math = await loadMathjs();
-    for (const [text, unit] of [["200 us", "200 us"], ["1.5 ms", "1.5 ms"], ["10 ns", "10 ns"], ["2 s", "2 s"]]) {
+    for (const [text, unit] of [
+      ["200 us", "200 us"],
+      ["1.5 ms", "1.5 ms"],
+      ["10 ns", "10 ns"],
+      ["2 s", "2 s"],
+    ]) {
       const r = resolveSimulation({ duration: text, step: text, seed: 0 });
       // Outside reference: mathjs unit conversion.
       expect(Math.abs(r.settings.duration / math.unit(unit).toNumber("s") - 1)).toBeLessThan(1e-15);

@@ -8,12 +8,7 @@ export const BOOTED = "data-quietframe-booted";
  * Disposes the widgets in `live` whose element left the page, then starts one widget for each
  * element of `className` under root that has not booted yet. Returns the widgets started.
  */
-export function bootNew<W extends { readonly element: HTMLElement; dispose(): void }>(
-  root: ParentNode,
-  className: string,
-  live: W[],
-  start: (element: HTMLElement) => W,
-): W[] {
+export function bootNew<W extends { readonly element: HTMLElement; dispose(): void }>(root: ParentNode, className: string, live: W[], start: (element: HTMLElement) => W): W[] {
   pruneDisconnected(live);
   const started: W[] = [];
   for (const element of root.querySelectorAll<HTMLElement>(`.${className}:not([${BOOTED}])`)) {

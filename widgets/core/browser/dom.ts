@@ -4,11 +4,7 @@
  */
 export type Child = Node | string | null | undefined | false;
 
-export function el<K extends keyof HTMLElementTagNameMap>(
-  tag: K,
-  attrs: Record<string, string | undefined> = {},
-  children: readonly Child[] = [],
-): HTMLElementTagNameMap[K] {
+export function el<K extends keyof HTMLElementTagNameMap>(tag: K, attrs: Record<string, string | undefined> = {}, children: readonly Child[] = []): HTMLElementTagNameMap[K] {
   const node = document.createElement(tag);
   for (const [name, value] of Object.entries(attrs)) if (value !== undefined) node.setAttribute(name, value);
   for (const child of children) if (child) node.append(typeof child === "string" ? document.createTextNode(child) : child);

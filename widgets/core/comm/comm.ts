@@ -34,7 +34,12 @@ export class Comm {
   private readonly closeCallbacks: CloseCallback[] = [];
   private readonly invalidCallbacks: InvalidCallback[] = [];
 
-  constructor(id: string, targetName: string, private readonly sender: CommSender, private readonly onClosed: (comm: Comm) => void) {
+  constructor(
+    id: string,
+    targetName: string,
+    private readonly sender: CommSender,
+    private readonly onClosed: (comm: Comm) => void,
+  ) {
     this.id = id;
     this.targetName = targetName;
   }

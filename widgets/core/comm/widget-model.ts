@@ -160,7 +160,11 @@ export class WidgetModel {
         for (const cb of [...this.customListeners]) this.guard("custom listener", () => cb(msg.data.content, msg.buffers));
         return;
       default:
-        return this.refuse(typeof method === "string" ? method : "(no method)", typeof method === "string" ? `unknown method "${method}"` : "data.method is missing", "update, request_state or custom");
+        return this.refuse(
+          typeof method === "string" ? method : "(no method)",
+          typeof method === "string" ? `unknown method "${method}"` : "data.method is missing",
+          "update, request_state or custom",
+        );
     }
   }
 
@@ -204,7 +208,16 @@ export class WidgetModel {
     const accepted: Record<string, unknown> = {};
     for (const [key, value] of Object.entries(patch)) {
       if (!Object.prototype.hasOwnProperty.call(this.current, key)) {
-        return { error: new QuietframeError({ path: this.where(key), value, problem: "is not a key of this model", allowed: Object.keys(this.current).filter((k) => !k.startsWith("_")).join(", ") }) };
+        return {
+          error: new QuietframeError({
+            path: this.where(key),
+            value,
+            problem: "is not a key of this model",
+            allowed: Object.keys(this.current)
+              .filter((k) => !k.startsWith("_"))
+              .join(", "),
+          }),
+        };
       }
       if (IMMUTABLE_KEYS.includes(key) && !sameValue(value, this.current[key])) {
         return { error: new QuietframeError({ path: this.where(key), value, problem: "is fixed when the model is created", allowed: showValue(this.current[key]) }) };

@@ -22,7 +22,10 @@ export function jsonForScript(value: unknown): string {
 
 /** As jsonForScript, for JSON that is already text. */
 export function jsonTextForScript(json: string): string {
-  return json.replace(/</g, "\\u003c").replace(/\u2028/g, "\\u2028").replace(/\u2029/g, "\\u2029");
+  return json
+    .replace(/</g, "\\u003c")
+    .replace(/\u2028/g, "\\u2028")
+    .replace(/\u2029/g, "\\u2029");
 }
 
 /** Base64 of bytes, for data URLs (Buffer in Node, btoa in browsers). */

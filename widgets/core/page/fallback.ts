@@ -16,7 +16,9 @@ export function fallbackStyle(className: string, options: { caution?: boolean; e
   return (
     `${k} .qf-fallback svg+img.qf-fallback-png{display:none}` +
     `${k} .qf-fallback img,${k} .qf-fallback svg{max-width:100%;height:auto}` +
-    (options.caution ? `${k} .qf-fallback .qf-caution{border:2px solid #c77700;background:#fff6de;color:#3d2600;padding:.45em .7em;margin:.5em 0}${k} .qf-fallback .qf-caution ul{margin:.2em 0 0;padding-left:1.2em}` : "") +
+    (options.caution
+      ? `${k} .qf-fallback .qf-caution{border:2px solid #c77700;background:#fff6de;color:#3d2600;padding:.45em .7em;margin:.5em 0}${k} .qf-fallback .qf-caution ul{margin:.2em 0 0;padding-left:1.2em}`
+      : "") +
     (options.extra ?? "")
   );
 }

@@ -48,4 +48,3 @@ function utf8Length(text: string): number {
   }
   return n;
 }
-

@@ -40,8 +40,7 @@ export function singleModelDocument(id: string, modelName: string, state: object
 
 /** Re-throws model errors (one or many) with their paths mapped by `where`. */
 export function rebasedErrors<T>(where: (path: string) => string, fn: () => T): T {
-  const rebase = (e: QuietframeError): QuietframeError =>
-    new QuietframeError({ path: where(e.path), value: e.value, problem: e.problem, allowed: e.allowed });
+  const rebase = (e: QuietframeError): QuietframeError => new QuietframeError({ path: where(e.path), value: e.value, problem: e.problem, allowed: e.allowed });
   try {
     return fn();
   } catch (e) {

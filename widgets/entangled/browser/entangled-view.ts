@@ -2,17 +2,7 @@
 import { widgetBaseCss } from "../../core/browser/styles";
 import type { View } from "vega";
 import { vega } from "../../core/browser/vega";
-import {
-  computeEntangled,
-  entangledStateText,
-  entangledSummary,
-  loadEntangledState,
-  SLIDER_STEPS,
-  sliderPosition,
-  sliderValue,
-  type EntangledComputation,
-  type EntangledState,
-} from "../model";
+import { computeEntangled, entangledStateText, entangledSummary, loadEntangledState, SLIDER_STEPS, sliderPosition, sliderValue, type EntangledComputation, type EntangledState } from "../model";
 import { ENTANGLED_CLASS, ENTANGLED_NUMBER_ATTRIBUTES, ENTANGLED_STATE_CLASS } from "../names";
 import { ellipseSpec, eprSpec, spectrumSpec } from "../specs";
 import { STATUS_ATTRIBUTE } from "../../core/page/names";

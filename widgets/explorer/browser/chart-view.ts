@@ -55,7 +55,15 @@ export class ChartView {
         }
         if (first >= 0) await this.view.change(CURVES_DATASET, reflowing().modify(current[first], "value", current[first].value)).runAsync();
       } else {
-        await this.view.change(CURVES_DATASET, vega().changeset().remove(() => true).insert(rows)).runAsync();
+        await this.view
+          .change(
+            CURVES_DATASET,
+            vega()
+              .changeset()
+              .remove(() => true)
+              .insert(rows),
+          )
+          .runAsync();
         this.plotted = rows;
       }
     } else {
@@ -120,10 +128,7 @@ export class ChartView {
     const f = view.scale("x").invert(x) as number;
     const i = nearestIndex(table.frequencies, f);
     const rows = table.columns.map((c) => el("tr", {}, [el("td", {}, [c.label]), el("td", {}, [formatNumber(c.values[i])])]));
-    this.pointer.replaceChildren(
-      el("div", {}, [`${formatNumber(table.frequencies[i], 6)} Hz · ${table.unit}`]),
-      el("table", {}, [el("tbody", {}, rows)]),
-    );
+    this.pointer.replaceChildren(el("div", {}, [`${formatNumber(table.frequencies[i], 6)} Hz · ${table.unit}`]), el("table", {}, [el("tbody", {}, rows)]));
     const host = this.element.getBoundingClientRect();
     this.pointer.hidden = false;
     // Beside the cursor, flipped to the other side near the right or bottom edge of the chart.

@@ -133,7 +133,19 @@ export class ExplorerWidget {
     this.shown = { ...state.values };
     const id = `quietframe-w${++widgetCount}`;
     this.controls = new ControlsView(computation.controls, state.values, id, (target, value) => this.setValue(target, value));
-    const live = el("div", { class: "qf-live" }, [this.controls.element, this.alert, this.notice, this.caution, this.flashNote, this.chart.element, this.readout, this.gauge, this.notes, this.actions(), this.copyHost]);
+    const live = el("div", { class: "qf-live" }, [
+      this.controls.element,
+      this.alert,
+      this.notice,
+      this.caution,
+      this.flashNote,
+      this.chart.element,
+      this.readout,
+      this.gauge,
+      this.notes,
+      this.actions(),
+      this.copyHost,
+    ]);
     try {
       await this.chart.show(this.chartInput(state, computation));
     } catch (e) {
@@ -333,14 +345,10 @@ export class ExplorerWidget {
         const how = await copyText(stateDocumentText(this.requireState()), this.copyHost);
         if (how === "copied") this.flash("State copied to the clipboard.");
       }),
-      button("Download state", "Save the widget-state JSON; the CLI and the standalone page read it", () =>
-        downloadText(stateDocumentText(this.requireState()), `${stem()}.json`, "application/json"),
-      ),
+      button("Download state", "Save the widget-state JSON; the CLI and the standalone page read it", () => downloadText(stateDocumentText(this.requireState()), `${stem()}.json`, "application/json")),
       button("SVG", "Save the chart as SVG", async () => downloadText(await this.chart.svg(), `${stem()}.svg`, "image/svg+xml")),
       button("PNG", "Save the chart as PNG", async () => downloadUrl(await this.chart.pngDataUrl(2), `${stem()}.png`)),
-      button("CSV", "Save the plotted numbers (shortest round-trip form)", () =>
-        downloadText(tableToCsv(this.requireComputation().table), `${stem()}.csv`, "text/csv"),
-      ),
+      button("CSV", "Save the plotted numbers (shortest round-trip form)", () => downloadText(tableToCsv(this.requireComputation().table), `${stem()}.csv`, "text/csv")),
       button("Methods (Markdown)", "Save a methods paragraph for these values", () =>
         downloadText(methodsText(this.requireState(), this.requireComputation(), "markdown"), `${stem()}-methods.md`, "text/markdown"),
       ),

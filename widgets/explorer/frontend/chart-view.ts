@@ -45,7 +45,14 @@ export class QuietframeChartView extends DOMWidgetView {
     this.alert.hidden = error === "";
     const cautions = (this.model.get("cautions") ?? []) as string[];
     this.caution.hidden = cautions.length === 0;
-    this.caution.replaceChildren(el("strong", {}, [CAUTION_HEADING]), el("ul", {}, cautions.map((c) => el("li", {}, [c]))));
+    this.caution.replaceChildren(
+      el("strong", {}, [CAUTION_HEADING]),
+      el(
+        "ul",
+        {},
+        cautions.map((c) => el("li", {}, [c])),
+      ),
+    );
     const lines = (this.model.get("headline") ?? []) as SummaryLine[];
     this.readout.replaceChildren(...lines.flatMap((line) => [el("dt", {}, [line.label]), el("dd", {}, [line.text])]));
     void this.draw();

@@ -59,7 +59,8 @@ function numericWidget(c: ResolvedControl): ControlWidget {
       initialState: (written) => ({ description, value: String(written), continuous_update: false }),
       toWidget: (written) => String(written),
       fromWidget: (held) => {
-        if (typeof held !== "string") throw new QuietframeError({ path: `values.${c.target}`, value: held, problem: "the field holds no text", allowed: `a value such as "${c.unit ? `1 ${c.unit}` : "1"}"` });
+        if (typeof held !== "string")
+          throw new QuietframeError({ path: `values.${c.target}`, value: held, problem: "the field holds no text", allowed: `a value such as "${c.unit ? `1 ${c.unit}` : "1"}"` });
         const text = held.trim();
         // A bare number is taken in the unit shown in the description, as on the kernel-free page.
         if (/^[-+]?(\d+\.?\d*|\.\d+)(e[-+]?\d+)?$/i.test(text)) return c.unit ? `${text} ${c.unit}` : Number(text);

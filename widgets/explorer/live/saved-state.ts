@@ -64,7 +64,12 @@ export function liveStateSource(text: string, source: string, which?: number): S
     throw new QuietframeError({ path: `${documentPath}.state`, problem: "holds no quietframe live chart", allowed: `a model with model_module "${LIVE_MODULE}" and model_name "${CHART_MODEL_NAME}"` });
   }
   if (which === undefined && charts.length > 1) {
-    throw new QuietframeError({ path: `${documentPath}.state`, value: charts.length, problem: `holds ${charts.length} quietframe live charts`, allowed: `one of them by number, 1 to ${charts.length} (render --widget N)` });
+    throw new QuietframeError({
+      path: `${documentPath}.state`,
+      value: charts.length,
+      problem: `holds ${charts.length} quietframe live charts`,
+      allowed: `one of them by number, 1 to ${charts.length} (render --widget N)`,
+    });
   }
   const n = which ?? 1;
   if (!Number.isInteger(n) || n < 1 || n > charts.length) {

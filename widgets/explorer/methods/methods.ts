@@ -105,7 +105,9 @@ function formulaSentences(w: Writer, setup: SetupDescription, computation: Explo
   const targetType = setup.components.find((c) => c.name === setup.signal.on)?.type;
   const out: string[] = [];
   if (types.has("oscillator")) {
-    out.push(`The mechanical susceptibility is ${w.math("χ(Ω) = 1/(m(Ω_m² − Ω² − iγΩ))", "\\chi(\\Omega) = 1/(m(\\Omega_m^2 - \\Omega^2 - i\\gamma\\Omega))")} with ${w.math("γ = Ω_m/Q", "\\gamma = \\Omega_m/Q")}.`);
+    out.push(
+      `The mechanical susceptibility is ${w.math("χ(Ω) = 1/(m(Ω_m² − Ω² − iγΩ))", "\\chi(\\Omega) = 1/(m(\\Omega_m^2 - \\Omega^2 - i\\gamma\\Omega))")} with ${w.math("γ = Ω_m/Q", "\\gamma = \\Omega_m/Q")}.`,
+    );
   }
   if (types.has("free-mass")) out.push(`A free mass has ${w.math("χ(Ω) = −1/(mΩ²)", "\\chi(\\Omega) = -1/(m\\Omega^2)")}.`);
   if (budget.quantity.name === "displacement") {
@@ -113,12 +115,8 @@ function formulaSentences(w: Writer, setup: SetupDescription, computation: Explo
   }
   if (refs.has("sql") && targetType === "interferometer") {
     const strain = budget.quantity.name === "strain";
-    const sql = strain
-      ? w.math("h_SQL² = 8ħ/(mΩ²L²)", "h_{\\mathrm{SQL}}^2 = 8\\hbar/(m\\Omega^2L^2)")
-      : w.math("S_ΔL^SQL = 8ħ/(mΩ²)", "S_{\\Delta L}^{\\mathrm{SQL}} = 8\\hbar/(m\\Omega^2)");
-    out.push(
-      `The interferometer follows the two-photon input–output relations of a tuned Michelson with arm cavities; the standard quantum limit shown is ${sql}${cite("kimble2001")}.`,
-    );
+    const sql = strain ? w.math("h_SQL² = 8ħ/(mΩ²L²)", "h_{\\mathrm{SQL}}^2 = 8\\hbar/(m\\Omega^2L^2)") : w.math("S_ΔL^SQL = 8ħ/(mΩ²)", "S_{\\Delta L}^{\\mathrm{SQL}} = 8\\hbar/(m\\Omega^2)");
+    out.push(`The interferometer follows the two-photon input–output relations of a tuned Michelson with arm cavities; the standard quantum limit shown is ${sql}${cite("kimble2001")}.`);
   } else if (refs.has("sql")) {
     const sql =
       targetType === "free-mass"

@@ -47,12 +47,12 @@ const LATEX_SPECIAL: Readonly<Record<string, string>> = {
 
 // Characters that appear in units and labels but are not set up in a default LaTeX document.
 const LATEX_UNICODE: Readonly<Record<string, string>> = {
-  "µ": "\\ensuremath{\\mu}",
-  "μ": "\\ensuremath{\\mu}",
+  µ: "\\ensuremath{\\mu}",
+  μ: "\\ensuremath{\\mu}",
   "°": "\\ensuremath{^\\circ}",
-  "Ω": "\\ensuremath{\\Omega}",
-  "χ": "\\ensuremath{\\chi}",
-  "ħ": "\\ensuremath{\\hbar}",
+  Ω: "\\ensuremath{\\Omega}",
+  χ: "\\ensuremath{\\chi}",
+  ħ: "\\ensuremath{\\hbar}",
   "√": "\\ensuremath{\\surd}",
   "²": "\\ensuremath{^2}",
   "−": "\\ensuremath{-}",

@@ -385,7 +385,11 @@ export class TrajectoryWidget {
   }
 
   private async draw(c: TrajectoryComputation, state: Omit<TrajectoryState, "fingerprint">): Promise<void> {
-    const specs = trajectorySpecs(trajectoryRows(c.result, Infinity, state.joint), state.joint.map((j) => j.label), state.pair);
+    const specs = trajectorySpecs(
+      trajectoryRows(c.result, Infinity, state.joint),
+      state.joint.map((j) => j.label),
+      state.pair,
+    );
     const hosts = specs.map(() => el("div", { class: "qf-canvas" }));
     const { View, parse, compile } = vega();
     const views = specs.map((spec) => new View(parse(compile(spec as unknown as Parameters<typeof compile>[0]).spec), { renderer: "canvas", hover: false }));
@@ -406,7 +410,12 @@ export class TrajectoryWidget {
   private async panelView(): Promise<View> {
     const state = this.requireState();
     const c = this.requireComputation();
-    const spec = trajectoryPanelSpec(trajectoryRows(c.result, STATIC_POINTS, state.joint), state.joint.map((j) => j.label), state.pair, trajectoryTitle(state));
+    const spec = trajectoryPanelSpec(
+      trajectoryRows(c.result, STATIC_POINTS, state.joint),
+      state.joint.map((j) => j.label),
+      state.pair,
+      trajectoryTitle(state),
+    );
     const { View, parse, compile } = vega();
     const view = new View(parse(compile(spec as unknown as Parameters<typeof compile>[0]).spec), { renderer: "none" });
     await view.runAsync();

@@ -20,10 +20,14 @@ function loadAmdModule(url: string, provided: Record<string, unknown>): Promise<
     const w = window as unknown as { define?: unknown };
     const define = (deps: string[], factory: (...args: unknown[]) => ModuleExports): void => {
       try {
-        resolve(factory(...deps.map((d) => {
-          if (!(d in provided)) throw new Error(`the module asks for ${d}, which this page does not provide`);
-          return provided[d];
-        })));
+        resolve(
+          factory(
+            ...deps.map((d) => {
+              if (!(d in provided)) throw new Error(`the module asks for ${d}, which this page does not provide`);
+              return provided[d];
+            }),
+          ),
+        );
       } catch (e) {
         reject(e);
       }

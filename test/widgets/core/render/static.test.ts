@@ -61,7 +61,10 @@ describe("explorerFigures on the shipped examples", () => {
     for (const c of computation.table.columns) {
       // Long labels are cut with an ellipsis to fit the legend.
       const label = c.label.replace(/&/g, "&amp;").replace(/</g, "&lt;").replace(/>/g, "&gt;");
-      expect(texts.some((t) => t === label || (t.endsWith("…") && label.startsWith(t.slice(0, -1)))), c.label).toBe(true);
+      expect(
+        texts.some((t) => t === label || (t.endsWith("…") && label.startsWith(t.slice(0, -1)))),
+        c.label,
+      ).toBe(true);
     }
     // The title defaults to the set-up's name.
     expect(texts).toContain(exampleSetup(file).name);
@@ -93,7 +96,7 @@ describe("renderSvg", () => {
     const { svg, png } = await explorerFigures(computeExplorer(state), state);
     expect(svg).not.toMatch(/<script/i);
     expect(svg).not.toMatch(/<b>/);
-    expect(textElements(svg)).toContain("&lt;script&gt;alert(1)&lt;/script&gt; &amp; \"&lt;b&gt;bold&lt;/b&gt;\"");
+    expect(textElements(svg)).toContain('&lt;script&gt;alert(1)&lt;/script&gt; &amp; "&lt;b&gt;bold&lt;/b&gt;"');
     // resvg parses the SVG as XML (a second, strict reader): escaped text keeps the document well formed.
     expect(Array.from(png.slice(0, 8))).toEqual(PNG_SIGNATURE);
   });

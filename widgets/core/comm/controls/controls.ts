@@ -51,7 +51,15 @@ export function createControl(modelName: string, state: Record<string, unknown>,
   for (const key of ["description", "disabled", "tooltip"] as const) if (options[key] !== undefined && key in spec.state) full[key] = options[key];
   // Check what the caller gave before opening anything, so a bad option leaves no stray models.
   for (const key of Object.keys(full)) {
-    if (!(key in spec.state)) throw new QuietframeError({ path: `${modelName}.${key}`, value: full[key], problem: "is not an attribute of this model", allowed: Object.keys(spec.state).filter((k) => !k.startsWith("_")).join(", ") });
+    if (!(key in spec.state))
+      throw new QuietframeError({
+        path: `${modelName}.${key}`,
+        value: full[key],
+        problem: "is not an attribute of this model",
+        allowed: Object.keys(spec.state)
+          .filter((k) => !k.startsWith("_"))
+          .join(", "),
+      });
     const v = validators[key];
     if (v) full[key] = v(full[key], full);
   }
@@ -71,7 +79,12 @@ export function createControl(modelName: string, state: Record<string, unknown>,
 
 // --- range checks ------------------------------------------------------------------------
 
-function within(modelName: string, lo: (next: Readonly<Record<string, unknown>>) => number, hi: (next: Readonly<Record<string, unknown>>) => number, shown: (next: Readonly<Record<string, unknown>>) => string): Validator {
+function within(
+  modelName: string,
+  lo: (next: Readonly<Record<string, unknown>>) => number,
+  hi: (next: Readonly<Record<string, unknown>>) => number,
+  shown: (next: Readonly<Record<string, unknown>>) => string,
+): Validator {
   return (value, next) => {
     const v = value as number;
     if (v < lo(next) || v > hi(next)) throw new QuietframeError({ path: `${modelName}.value`, value: v, problem: "is outside the slider's range", allowed: shown(next) });
@@ -81,7 +94,8 @@ function within(modelName: string, lo: (next: Readonly<Record<string, unknown>>)
 
 function ordered(modelName: string, key: "min" | "max"): Validator {
   return (value, next) => {
-    if ((next.min as number) > (next.max as number)) throw new QuietframeError({ path: `${modelName}.${key}`, value, problem: "would make min greater than max", allowed: `min ≤ max (now min ${String(next.min)}, max ${String(next.max)})` });
+    if ((next.min as number) > (next.max as number))
+      throw new QuietframeError({ path: `${modelName}.${key}`, value, problem: "would make min greater than max", allowed: `min ≤ max (now min ${String(next.min)}, max ${String(next.max)})` });
     return value;
   };
 }
@@ -111,7 +125,12 @@ export function floatSlider(options: FloatSliderOptions = {}): ControlModel {
   return createControl(name, sliderState(options), {
     ...options,
     extra: {
-      value: within(name, (n) => n.min as number, (n) => n.max as number, (n) => `${String(n.min)} ≤ value ≤ ${String(n.max)}`),
+      value: within(
+        name,
+        (n) => n.min as number,
+        (n) => n.max as number,
+        (n) => `${String(n.min)} ≤ value ≤ ${String(n.max)}`,
+      ),
       min: ordered(name, "min"),
       max: ordered(name, "max"),
     },
@@ -158,22 +177,32 @@ export function dropdown(options: DropdownOptions): ControlModel {
     throw new QuietframeError({ path: `${name}.options`, value: options.options, problem: "must be a list of labels", allowed: 'e.g. ["positive", "negative"]' });
   }
   const index = options.index === undefined ? (options.options.length > 0 ? 0 : null) : options.index;
-  return createControl(name, { _options_labels: [...options.options], index }, {
-    ...options,
-    extra: {
-      index: (value, next) => {
-        const labels = next._options_labels as unknown[];
-        if (value !== null && ((value as number) < 0 || (value as number) >= labels.length)) {
-          throw new QuietframeError({ path: `${name}.index`, value, problem: "is not the position of a label", allowed: labels.length === 0 ? "null (no labels)" : `null or 0 … ${labels.length - 1}` });
-        }
-        return value;
-      },
-      _options_labels: (value) => {
-        if (!(value as unknown[]).every((v) => typeof v === "string")) throw new QuietframeError({ path: `${name}._options_labels`, value, problem: "must hold only labels", allowed: "a list of strings" });
-        return value;
+  return createControl(
+    name,
+    { _options_labels: [...options.options], index },
+    {
+      ...options,
+      extra: {
+        index: (value, next) => {
+          const labels = next._options_labels as unknown[];
+          if (value !== null && ((value as number) < 0 || (value as number) >= labels.length)) {
+            throw new QuietframeError({
+              path: `${name}.index`,
+              value,
+              problem: "is not the position of a label",
+              allowed: labels.length === 0 ? "null (no labels)" : `null or 0 … ${labels.length - 1}`,
+            });
+          }
+          return value;
+        },
+        _options_labels: (value) => {
+          if (!(value as unknown[]).every((v) => typeof v === "string"))
+            throw new QuietframeError({ path: `${name}._options_labels`, value, problem: "must hold only labels", allowed: "a list of strings" });
+          return value;
+        },
       },
     },
-  });
+  );
 }
 
 /** The label a dropdown shows now, or undefined when none is selected. */
@@ -212,19 +241,25 @@ export interface BoxOptions {
 
 function box(modelName: string, children: readonly WidgetModel[], options: BoxOptions): ControlModel {
   const refs = children.map((c, i) => {
-    if (!(c instanceof WidgetModel) && !(typeof (c as { ref?: unknown })?.ref === "string")) throw new QuietframeError({ path: `${modelName}.children[${i}]`, value: typeof c, problem: "is not a widget model", allowed: "models made by quietframe (floatSlider(), html(), …)" });
+    if (!(c instanceof WidgetModel) && !(typeof (c as { ref?: unknown })?.ref === "string"))
+      throw new QuietframeError({ path: `${modelName}.children[${i}]`, value: typeof c, problem: "is not a widget model", allowed: "models made by quietframe (floatSlider(), html(), …)" });
     return c.ref;
   });
-  return createControl(modelName, { children: refs, ...(options.box_style !== undefined ? { box_style: options.box_style } : {}) }, {
-    layout: options.layout,
-    comms: options.comms,
-    extra: {
-      children: (value) => {
-        if (!(value as unknown[]).every((r) => typeof r === "string" && MODEL_REF.test(r))) throw new QuietframeError({ path: `${modelName}.children`, value, problem: "must list widget models", allowed: '["IPY_MODEL_<id>", …]' });
-        return value;
+  return createControl(
+    modelName,
+    { children: refs, ...(options.box_style !== undefined ? { box_style: options.box_style } : {}) },
+    {
+      layout: options.layout,
+      comms: options.comms,
+      extra: {
+        children: (value) => {
+          if (!(value as unknown[]).every((r) => typeof r === "string" && MODEL_REF.test(r)))
+            throw new QuietframeError({ path: `${modelName}.children`, value, problem: "must list widget models", allowed: '["IPY_MODEL_<id>", …]' });
+          return value;
+        },
       },
     },
-  });
+  );
 }
 
 export function vbox(children: readonly WidgetModel[], options: BoxOptions = {}): ControlModel {
