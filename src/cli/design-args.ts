@@ -4,10 +4,9 @@ import { QuietframeError } from "../errors";
 import type { FigureSpec } from "../figures/spec";
 import { FALLBACK_GRID } from "../pipeline";
 import type { SetupDescription } from "../setup/format";
-import { checkGrid } from "../setup/grid";
 import { loadSetup } from "../setup/load";
 import { parseJsonText } from "../setup/parse-json";
-import { parseQuantity } from "../units";
+import { gridFromOptions } from "./grid-options";
 
 /** What the design commands (rank, solve, optimize, spread) share: the set-up file, the figure, the grid and the output format. */
 
@@ -92,17 +91,7 @@ export function figureOption(text: string | undefined): FigureSpec {
 /** The grid from --from/--to/--points over the set-up's own (undefined: the set-up's). */
 export function gridOption(description: SetupDescription, values: { from?: string; to?: string; points?: string }): DesignGrid | undefined {
   if (values.from === undefined && values.to === undefined && values.points === undefined) return undefined;
-  const base = loadSetup(description).grid ?? FALLBACK_GRID;
-  return checkGrid(
-    {
-      from: values.from === undefined ? base.from : parseQuantity(values.from, "frequency", "--from"),
-      to: values.to === undefined ? base.to : parseQuantity(values.to, "frequency", "--to"),
-      points: values.points === undefined ? base.points : Number(values.points),
-    },
-    "grid",
-    { from: values.from ?? base.from, to: values.to ?? base.to, points: values.points ?? base.points },
-    (field) => (values[field] === undefined ? `grid.${field}` : `--${field}`),
-  );
+  return gridFromOptions(loadSetup(description).grid ?? FALLBACK_GRID, values);
 }
 
 export function formatOption(format: string | undefined): "text" | "json" {

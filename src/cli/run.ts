@@ -1,13 +1,17 @@
+/**
+ * The `quietframe` command, runnable in-process (tests call runCli / runCliAsync with their own
+ * output sinks): argument parsing, usage text, and dispatch to each command. Problems with the
+ * input go to stderr with exit status 1 and nothing on stdout.
+ */
 import { readFileSync } from "node:fs";
 import { parseArgs } from "node:util";
 import { QuietframeError, QuietframeErrors } from "../errors";
-import { checkGrid, type FrequencyGridSpec } from "../setup/grid";
 import { describeHeadline, headlineFigures } from "../engine/headline";
 import { jsonNumbers, spectralDensityUnit, tableToCsv, tabulateBudget } from "../engine/tabulate";
 import { COMPONENT_KINDS } from "../components/registry";
 import { evaluate, FALLBACK_GRID, loadSetup, prepare } from "../pipeline";
-import { parseQuantity } from "../units";
 import { QUIETFRAME_VERSION } from "../version";
+import { gridFromOptions } from "./grid-options";
 import { RENDER_USAGE, renderCommand, reportCommand } from "./render";
 import { KERNEL_USAGE, kernelCommand } from "./kernel-install";
 import { DESIGN_USAGE } from "./design-args";
@@ -134,21 +138,6 @@ const GRID_OPTIONS = {
   to: { type: "string" },
   points: { type: "string" },
 } as const;
-
-/** The set-up's grid, with --from/--to/--points overriding it. */
-function gridFromOptions(base: FrequencyGridSpec, values: { from?: string; to?: string; points?: string }): FrequencyGridSpec {
-  return checkGrid(
-    {
-      from: values.from === undefined ? base.from : parseQuantity(values.from, "frequency", "--from"),
-      to: values.to === undefined ? base.to : parseQuantity(values.to, "frequency", "--to"),
-      points: values.points === undefined ? base.points : Number(values.points),
-    },
-    "grid",
-    { from: values.from ?? base.from, to: values.to ?? base.to, points: values.points ?? base.points },
-    // Name the option the user typed, or the set-up's grid field when the value came from there.
-    (field) => (values[field] === undefined ? `grid.${field}` : `--${field}`),
-  );
-}
 
 function evalCommand(args: string[], io: CliIo): number {
   const { values, positionals } = parseArgs({
