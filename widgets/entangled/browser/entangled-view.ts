@@ -1,7 +1,6 @@
 /** The entangled-light panel in the page: controls, three charts, numbers, download. */
 import { widgetBaseCss } from "../../core/browser/styles";
 import type { View } from "vega";
-import { vega } from "../../core/browser/vega";
 import { computeEntangled, entangledStateText, entangledSummary, loadEntangledState, SLIDER_STEPS, sliderPosition, sliderValue, type EntangledComputation, type EntangledState } from "../model";
 import { ENTANGLED_CLASS, ENTANGLED_NUMBER_ATTRIBUTES, ENTANGLED_STATE_CLASS } from "../names";
 import { ellipseSpec, eprSpec, spectrumSpec } from "../specs";
@@ -9,6 +8,7 @@ import { STATUS_ATTRIBUTE } from "../../core/page/names";
 import { downloadText } from "../../core/browser/actions";
 import { messageOf } from "../../core/browser/boot";
 import { el, injectStyleOnce } from "../../core/browser/dom";
+import { replaceCanvasCharts } from "../../core/browser/canvas-charts";
 
 const STYLE_ID = "quietframe-entangled-style";
 const P = `.${ENTANGLED_CLASS}`;
@@ -140,13 +140,7 @@ export class EntangledPanelView {
 
   private async draw(c: EntangledComputation, state: EntangledState): Promise<void> {
     const specs = [spectrumSpec(c, state.bandwidth === null), eprSpec(c), ellipseSpec(c)];
-    const hosts = specs.map(() => el("div", { class: "qf-canvas" }));
-    const { View, parse, compile } = vega();
-    const views = specs.map((spec) => new View(parse(compile(spec as unknown as Parameters<typeof compile>[0]).spec), { renderer: "canvas", hover: false }));
-    await Promise.all(views.map((v, i) => v.initialize(hosts[i]).runAsync()));
-    for (const v of this.views) v.finalize();
-    this.views = views;
-    this.charts.replaceChildren(...hosts);
+    this.views = await replaceCanvasCharts(this.charts, specs, this.views);
   }
 
   private showNumbers(state: EntangledState, c: EntangledComputation): void {

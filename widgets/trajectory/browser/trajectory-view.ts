@@ -19,6 +19,7 @@ import { actionButton, copyText, downloadText, downloadUrl, fileStem } from "../
 import { messageOf } from "../../core/browser/boot";
 import { ControlsView } from "../../core/browser/controls-view";
 import { el, flashText, injectStyleOnce } from "../../core/browser/dom";
+import { replaceCanvasCharts } from "../../core/browser/canvas-charts";
 
 export type TrajectoryStatus = "booting" | "running" | "ready" | "error";
 
@@ -390,13 +391,7 @@ export class TrajectoryWidget {
       state.joint.map((j) => j.label),
       state.pair,
     );
-    const hosts = specs.map(() => el("div", { class: "qf-canvas" }));
-    const { View, parse, compile } = vega();
-    const views = specs.map((spec) => new View(parse(compile(spec as unknown as Parameters<typeof compile>[0]).spec), { renderer: "canvas", hover: false }));
-    await Promise.all(views.map((v, i) => v.initialize(hosts[i]).runAsync()));
-    for (const v of this.views) v.finalize();
-    this.views = views;
-    this.charts.replaceChildren(...hosts);
+    this.views = await replaceCanvasCharts(this.charts, specs, this.views);
   }
 
   private showFigures(c: TrajectoryComputation, joint: TrajectoryState["joint"]): void {
