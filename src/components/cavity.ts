@@ -1,8 +1,9 @@
 import { QuietframeError } from "../errors";
+import { laserPowerCautions } from "../safety/cautions";
+import { formatQuantity } from "../units";
 import { combine, type Field } from "../network/linear-form";
 import type { ModeInfo } from "../network/model";
-import { HBAR } from "../constants";
-import { opticalAngularFrequency, pushOnBody, zeroPointDisplacement } from "../physics/optomechanics";
+import { cavityInputPower, intracavityPhotons, opticalAngularFrequency, pushOnBody, zeroPointDisplacement } from "../physics/optomechanics";
 import { maybeNum, num, type ComponentKind, type MechanicalBody, type ResolvedComponent } from "./types";
 
 interface CavityHandle {
@@ -121,15 +122,16 @@ export const cavity: ComponentKind<CavityHandle> = {
       : `cavity '${c.name}' is red-detuned (Δ/2π = ${d} Hz): its optical spring softens a positive-mass body and, when strong, pulls it statically unstable`;
   },
   cautions: (c) => {
-    const p = maybeNum(c, "power");
-    return p !== undefined && p > 0.5 ? [`'${c.name}' is driven with ${p} W: hazardous laser power (Class 4 above 0.5 W). Follow your institution's laser-safety programme and local rules.`] : [];
+    const power = maybeNum(c, "power");
+    if (power !== undefined) return laserPowerCautions(`'${c.name}' is driven with`, power, "of input light");
+    const photons = maybeNum(c, "photons");
+    if (photons === undefined) return [];
+    const kappa = 2 * Math.PI * num(c, "linewidth");
+    const input = cavityInputPower(photons, num(c, "wavelength"), kappa, 2 * Math.PI * num(c, "detuning"), kappa * num(c, "inputCoupling"));
+    const drive = `${formatQuantity(photons, "count")} intracavity photons at ${formatQuantity(num(c, "wavelength"), "length")}, linewidth ${formatQuantity(num(c, "linewidth"), "frequency")}, detuning ${formatQuantity(num(c, "detuning"), "frequency")} and input coupling ${formatQuantity(num(c, "inputCoupling"), "fraction")}`;
+    return laserPowerCautions(`'${c.name}' holds ${drive}, which implies`, input, "of input light");
   },
 };
-
-/** Intracavity photon number from the drive: n = κ_in P / (ħ ω_L (κ²/4 + Δ²)). */
-export function intracavityPhotons(power: number, wavelength: number, kappa: number, delta: number, kIn: number): number {
-  return (kIn * power) / (HBAR * opticalAngularFrequency(wavelength) * ((kappa * kappa) / 4 + delta * delta));
-}
 
 function quadratureCoupling(c: ResolvedComponent, body: MechanicalBody, kappa: number, delta: number, kIn: number): number {
   const wavelength = num(c, "wavelength");

@@ -1,5 +1,7 @@
 import { HBAR, SPEED_OF_LIGHT } from "../constants";
 import { QuietframeError } from "../errors";
+import { laserPowerCautions } from "../safety/cautions";
+import { formatQuantity } from "../units";
 import type { NetworkBuilder } from "../network/builder";
 import { combine, type Field } from "../network/linear-form";
 import type { ModeInfo } from "../network/model";
@@ -182,12 +184,10 @@ export const interferometer: ComponentKind<InterferometerHandle> = {
   applySignal: (builder, h) => builder.driveBySignal(h.optical.p, h.signalGain),
   signalReference: (h) => strainSignalReference(h.mass, h.armLength),
   cautions: (c) => {
-    const p = num(c, "power");
-    if (!(p > 0.5)) return [];
-    const input = (2 * num(c, "armLength") * 2 * Math.PI * num(c, "armBandwidth") * p) / SPEED_OF_LIGHT;
-    return [
-      `'${c.name}' circulates ${p} W in each arm (about ${round(input)} W at the beam splitter without losses): hazardous laser power (Class 4 above 0.5 W). Follow your institution's laser-safety programme and local rules.`,
-    ];
+    const arm = num(c, "power");
+    // I0 = 2Lγ·P_arm/c: the power at the beam splitter for lossless arms (see the header).
+    const input = (2 * num(c, "armLength") * 2 * Math.PI * num(c, "armBandwidth") * arm) / SPEED_OF_LIGHT;
+    return laserPowerCautions(`'${c.name}' circulates`, arm, `in each arm (about ${formatQuantity(input, "power", 3)} at the beam splitter without losses)`);
   },
 };
 

@@ -1,4 +1,5 @@
 import { addSymmetricBath, addViscousBath, allocateBody, applyForceSignal, forceSignalReference, thermalQuadratureNoise, wireBody } from "../physics/mechanics";
+import { cryogenicCautions } from "../safety/cautions";
 import { num, type ComponentKind, type MechanicalBody } from "./types";
 
 /** Above this Q the resonance is narrower than double precision resolves Ω_m² − Ω² (relative error ~ 2e-16·Q on resonance). */
@@ -70,4 +71,5 @@ export const oscillator: ComponentKind<OscillatorHandle> = {
   signals: ["force"],
   applySignal: (builder, h) => applyForceSignal(builder, h.body),
   signalReference: (h) => forceSignalReference(h.body),
+  cautions: (c) => cryogenicCautions(c.name, num(c, "temperature")),
 };

@@ -1,7 +1,9 @@
 import { HBAR } from "../constants";
 import { QuietframeError } from "../errors";
 import { combine } from "../network/linear-form";
-import { pushOnBody, reflectionForcePsd, zeroPointDisplacement } from "../physics/optomechanics";
+import { probePowerForMeasurementRate, pushOnBody, reflectionForcePsd, zeroPointDisplacement } from "../physics/optomechanics";
+import { laserPowerCautions } from "../safety/cautions";
+import { formatQuantity } from "../units";
 import { maybeNum, num, type ComponentKind, type MechanicalBody, type ResolvedComponent } from "./types";
 
 /**
@@ -49,9 +51,16 @@ export const positionProbe: ComponentKind<null> = {
       out: { amplitude: inputs.in.amplitude, phase: combine(1, inputs.in.phase, k, builder.state(body.mode.x)) },
     };
   },
-  cautions: (c) => {
-    const p = maybeNum(c, "power");
-    return p !== undefined && p > 0.5 ? [`'${c.name}' uses ${p} W of probe light: hazardous laser power (Class 4 above 0.5 W). Follow your institution's laser-safety programme and local rules.`] : [];
+  cautions: (c, bodies) => {
+    const power = maybeNum(c, "power");
+    if (power !== undefined) return laserPowerCautions(`'${c.name}' uses`, power, "of probe light");
+    const body = bodies.mechanics;
+    const rate = maybeNum(c, "measurementRate");
+    if (!body || body.omega <= 0 || rate === undefined) return [];
+    const wavelength = num(c, "wavelength");
+    const implied = probePowerForMeasurementRate(2 * Math.PI * rate, wavelength, body.mass, body.omega);
+    const reading = `a measurement rate of ${formatQuantity(rate, "frequency")} on '${body.owner}' (${formatQuantity(body.mass, "mass")}, ${formatQuantity(body.omega / (2 * Math.PI), "frequency")})`;
+    return laserPowerCautions(`'${c.name}' reaches ${reading}, which implies`, implied, `of probe light at ${formatQuantity(wavelength, "length")}`);
   },
 };
 

@@ -1,4 +1,5 @@
 import { QuietframeError } from "../errors";
+import { larmorFieldCautions, magneticFieldCautions } from "../safety/cautions";
 import { combine } from "../network/linear-form";
 import type { ModeInfo } from "../network/model";
 import { isValidSpin, MAX_SPIN, occupationFromPolarization, polarizationFromOccupation } from "../physics/spin-statistics";
@@ -191,17 +192,10 @@ export const spinEnsemble: ComponentKind<SpinHandle> = {
     return { out: { amplitude: inputs.in.amplitude, phase: combine(1, inputs.in.phase, k, builder.state(x)) } };
   },
   cautions: (c) => {
-    const b = maybeNum(c, "field");
-    return b !== undefined && b >= FIELD_CAUTION
-      ? [
-          `'${c.name}' uses a static magnetic field of ${b} T: fields of 0.5 mT (5 G) and more can disturb pacemakers and other implanted devices, and strong fields pull on ferromagnetic objects. Mark the area and follow your institution's magnetic-field safety rules.`,
-        ]
-      : [];
+    const field = maybeNum(c, "field");
+    return field !== undefined ? magneticFieldCautions(c.name, field) : larmorFieldCautions(c.name, num(c, "larmorFrequency"));
   },
 };
-
-/** Static field from which a caution is shown (the usual 0.5 mT limit for implanted medical devices). */
-const FIELD_CAUTION = 5e-4;
 
 /** Largest allowed ratio of the stationary transverse variance to the macroscopic spin (a 0.1 rad spread). */
 const LINEAR_REGIME_LIMIT = 0.01;

@@ -1,4 +1,5 @@
 import { addViscousBath } from "../physics/mechanics";
+import { cryogenicCautions } from "../safety/cautions";
 import { num, type ComponentKind, type ThermalBathInfo } from "./types";
 
 interface BathHandle {
@@ -36,4 +37,5 @@ export const thermalBath: ComponentKind<BathHandle> = {
     addViscousBath(builder, body, bath, handle.column);
     return {};
   },
+  cautions: (c) => cryogenicCautions(c.name, num(c, "temperature")),
 };

@@ -100,8 +100,12 @@ export interface ComponentKind<H = unknown> {
   readonly signalReference?: (handle: H, kind: string) => SignalReference;
   /** A sentence on how this component can make a set-up unstable, used in stability messages. */
   readonly instabilityHint?: (c: ResolvedComponent) => string | undefined;
-  /** Physical cautions (e.g. hazardous optical power), repeated in summaries. */
-  readonly cautions?: (c: ResolvedComponent) => string[];
+  /**
+   * Safety cautions (laser power, cryogenics, magnetic fields), repeated in summaries; one
+   * sentence each (see src/safety/cautions.ts). `bodies` are the linked bodies, as in wire,
+   * for hazards implied through a body (a measurement rate needs its mass and frequency).
+   */
+  readonly cautions?: (c: ResolvedComponent, bodies: Readonly<Record<string, MechanicalBody | undefined>>) => string[];
 }
 
 export function num(c: ResolvedComponent, name: string): number {

@@ -41,6 +41,7 @@ export function assemble(setup: ResolvedSetup): AssembledSetup {
   };
   const sourceOf = new Map(setup.optical.map((l) => [`${l.to.component}.${l.to.port}`, l.from]));
   const emitted = new Map<string, Field>();
+  const linkedBodies = new Map<string, Record<string, MechanicalBody | undefined>>();
 
   for (const c of flowOrder(setup)) {
     const kind = setup.kinds.get(c)!;
@@ -56,6 +57,7 @@ export function assemble(setup: ResolvedSetup): AssembledSetup {
         bodies[port.name] = link ? bodyOf(link.body) : undefined;
       }
     }
+    linkedBodies.set(c, bodies);
     const out = kind.wire({ builder, component, handle: handles.get(c), inputs, bodies });
     for (const [port, field] of Object.entries(out)) emitted.set(`${c}.${port}`, field);
   }
@@ -66,7 +68,7 @@ export function assemble(setup: ResolvedSetup): AssembledSetup {
   const signal = target.signalReference!(handles.get(setup.signal.on), setup.signal.kind);
   const referredTo = pickQuantity(signal, setup.signal.referTo);
   const readoutRows = setup.readout.map((d) => model.outputs.findIndex((o) => o.owner === d));
-  const cautions = setup.components.flatMap((c) => setup.kinds.get(c.name)!.cautions?.(c) ?? []);
+  const cautions = setup.components.flatMap((c) => setup.kinds.get(c.name)!.cautions?.(c, linkedBodies.get(c.name) ?? {}) ?? []);
   return { setup, model, readoutRows, signal, referredTo, cautions };
 }
 

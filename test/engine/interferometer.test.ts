@@ -315,8 +315,13 @@ describe("interferometer: stability, cautions and bad input", () => {
     expect(e.cautions).toHaveLength(1);
     expect(e.cautions[0]).toMatch(/hazardous laser power/);
     expect(e.cautions[0]).toMatch(/laser-safety programme and local rules/);
+    // 0.2 W is within Class 3B (5 mW to 0.5 W): a note of its own, not the Class 4 caution.
     const low = evaluateSetup(loadSetup(ifoSetup({ params: { power: "0.2 W" } })), { from: 10, to: 1000, points: 2 });
-    expect(low.cautions).toEqual([]);
+    expect(low.cautions).toHaveLength(1);
+    expect(low.cautions[0]).toMatch(/within Class 3B/);
+    expect(low.cautions[0]).not.toMatch(/hazardous laser power|Class 4/);
+    const faint = evaluateSetup(loadSetup(ifoSetup({ params: { power: "1 mW" } })), { from: 10, to: 1000, points: 2 });
+    expect(faint.cautions).toEqual([]);
   });
 
   function problemOf(fn: () => unknown): QuietframeError {
