@@ -5,6 +5,7 @@ import { ENTANGLED_CLASS, ENTANGLED_NUMBER_ATTRIBUTES, ENTANGLED_STATE_CLASS } f
 import { escapeHtml, jsonTextForScript } from "../core/page/escape";
 import { bootstrapScriptTag, runtimeScriptTag } from "../core/page/bootstrap";
 import { fallbackNote, fallbackPng, fallbackStyle, summaryListHtml } from "../core/page/fallback";
+import { safetyNoteHtml } from "../core/page/safety-note";
 import { VERSION_ATTRIBUTE } from "../core/page/names";
 import type { FragmentParts, PageParts } from "../core/page/parts";
 import { plainSvg } from "../core/page/plain-svg";
@@ -23,6 +24,7 @@ export function entangledFragment(state: EntangledState, parts: FragmentParts, c
   const out: string[] = [];
   out.push(`<div class="${ENTANGLED_CLASS}" ${VERSION_ATTRIBUTE}="${escapeHtml(QUIETFRAME_VERSION)}"${numbers}>`);
   out.push(`<style>${FALLBACK_STYLE}</style>`);
+  out.push(safetyNoteHtml());
   out.push(`<div class="qf-fallback">`);
   if (parts.svg !== undefined) out.push(plainSvg(parts.svg));
   if (parts.png !== undefined) out.push(fallbackPng(parts.png, `Entangled light: ${state.title}`));

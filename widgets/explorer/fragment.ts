@@ -7,6 +7,7 @@ import { stateDocumentText } from "./document";
 import { escapeHtml, jsonTextForScript } from "../core/page/escape";
 import { bootstrapScriptTag, runtimeScriptTag } from "../core/page/bootstrap";
 import { cautionHtml, fallbackNote, fallbackPng, fallbackStyle, summaryListHtml } from "../core/page/fallback";
+import { safetyNoteHtml } from "../core/page/safety-note";
 import { VERSION_ATTRIBUTE } from "../core/page/names";
 import type { FragmentParts } from "../core/page/parts";
 import { EXPLORER_CLASS, STATE_SCRIPT_CLASS } from "./names";
@@ -23,6 +24,7 @@ export function explorerFragment(state: ExplorerState, computation: ExplorerComp
   const out: string[] = [];
   out.push(`<div class="${EXPLORER_CLASS}" ${VERSION_ATTRIBUTE}="${escapeHtml(QUIETFRAME_VERSION)}">`);
   out.push(`<style>${FALLBACK_STYLE}</style>`);
+  out.push(safetyNoteHtml());
   out.push(`<div class="qf-fallback">`);
   if (parts.svg !== undefined) out.push(checkedSvg(parts.svg));
   if (parts.png !== undefined) out.push(fallbackPng(parts.png, `Noise budget: ${title}`));

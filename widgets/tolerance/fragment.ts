@@ -4,6 +4,7 @@ import { TOLERANCE_CLASS, TOLERANCE_STATE_CLASS } from "./names";
 import { toleranceSummaryText, type ToleranceWidgetState } from "./model";
 import { escapeHtml, jsonForScript } from "../core/page/escape";
 import { fallbackNote, fallbackPng, fallbackStyle } from "../core/page/fallback";
+import { safetyNoteHtml } from "../core/page/safety-note";
 import { VERSION_ATTRIBUTE } from "../core/page/names";
 import type { FragmentParts, PageParts } from "../core/page/parts";
 import { bootstrapScriptTag, runtimeScriptTag } from "../core/page/bootstrap";
@@ -21,6 +22,7 @@ export function toleranceFragment(state: ToleranceWidgetState, parts: FragmentPa
   const out: string[] = [];
   out.push(`<div class="${TOLERANCE_CLASS}" ${VERSION_ATTRIBUTE}="${escapeHtml(QUIETFRAME_VERSION)}">`);
   out.push(`<style>${FALLBACK_STYLE}</style>`);
+  out.push(safetyNoteHtml());
   out.push(`<div class="qf-fallback">`);
   if (parts.svg !== undefined) out.push(plainSvg(parts.svg));
   if (parts.png !== undefined) out.push(fallbackPng(parts.png, `Tolerance map: ${title}`));

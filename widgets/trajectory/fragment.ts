@@ -8,6 +8,7 @@ import { trajectorySummary } from "./summary";
 import { escapeHtml, jsonTextForScript } from "../core/page/escape";
 import { cautionHtml, fallbackNote, fallbackPng, fallbackStyle, summaryListHtml } from "../core/page/fallback";
 import { bootstrapScriptTag, runtimeScriptTag } from "../core/page/bootstrap";
+import { safetyNoteHtml } from "../core/page/safety-note";
 import { FINGERPRINT_ATTRIBUTE, VERSION_ATTRIBUTE } from "../core/page/names";
 import type { FragmentParts, PageParts } from "../core/page/parts";
 import { plainSvg } from "../core/page/plain-svg";
@@ -24,6 +25,7 @@ export function trajectoryFragment(state: TrajectoryState, computation: Trajecto
   const out: string[] = [];
   out.push(`<div class="${TRAJECTORY_CLASS}" ${VERSION_ATTRIBUTE}="${escapeHtml(QUIETFRAME_VERSION)}" ${FINGERPRINT_ATTRIBUTE}="${escapeHtml(computation.fingerprint)}">`);
   out.push(`<style>${FALLBACK_STYLE}</style>`);
+  out.push(safetyNoteHtml());
   out.push(`<div class="qf-fallback">`);
   if (parts.svg !== undefined) out.push(plainSvg(parts.svg));
   if (parts.png !== undefined) out.push(fallbackPng(parts.png, `Trajectories: ${title}`));
