@@ -1,5 +1,5 @@
-import { parseArgs } from "node:util";
 import { QuietframeError } from "../errors";
+import { parseOptions } from "./options";
 import { installKernelSpec, KERNEL_DISPLAY_NAME, KERNEL_NAME } from "../../widgets/kernel/kernel-spec";
 import type { CliIo } from "./run";
 
@@ -16,10 +16,7 @@ export function kernelCommand(args: string[], io: CliIo): number {
   if (sub !== "install") {
     throw new QuietframeError({ path: "kernel", value: sub ?? "", problem: "is not a kernel subcommand", allowed: "install" });
   }
-  const { values } = parseArgs({
-    args: rest,
-    options: { user: { type: "boolean" }, prefix: { type: "string" }, python: { type: "string" } },
-  });
+  const { values } = parseOptions("kernel install", rest, { user: { type: "boolean" }, prefix: { type: "string" }, python: { type: "string" } }, false);
   const dir = installKernelSpec({ user: values.user, prefix: values.prefix, python: values.python });
   io.out(`Installed the ${KERNEL_DISPLAY_NAME} kernel spec (${KERNEL_NAME}) in ${dir}\n`);
   return 0;

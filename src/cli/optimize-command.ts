@@ -1,4 +1,4 @@
-import { parseArgs } from "node:util";
+import { parseOptions } from "./options";
 import { optimizeDesign, shownFigure, type OptimizeParameter, type OptimizeResult } from "../design";
 import { QuietframeError } from "../errors";
 import type { CliIo } from "./run";
@@ -7,11 +7,7 @@ import { resultJson, textTable } from "./text-table";
 
 /** `quietframe optimize`: the best figure over several parameters within their ranges. */
 export function optimizeCommand(args: string[], io: CliIo): number {
-  const { values, positionals } = parseArgs({
-    args,
-    allowPositionals: true,
-    options: { ...DESIGN_OPTIONS, param: { type: "string", multiple: true }, starts: { type: "string" }, seed: { type: "string" } },
-  });
+  const { values, positionals } = parseOptions("optimize", args, { ...DESIGN_OPTIONS, param: { type: "string", multiple: true }, starts: { type: "string" }, seed: { type: "string" } });
   const format = formatOption(values.format);
   const { description } = readSetupDescription(positionals);
   if (!values.param?.length) throw new QuietframeError({ path: "--param", problem: "is missing", allowed: 'one or more parameters, e.g. --param "probe.power=1 mW:10 W"' });

@@ -1,4 +1,4 @@
-import { parseArgs } from "node:util";
+import { parseOptions } from "./options";
 import { rankParameters, shownFigure, type Ranking } from "../design";
 import type { CliIo } from "./run";
 import { DESIGN_OPTIONS, figureOption, formatOption, gridOption, readSetupDescription, wholeOption, withOptionNames } from "./design-args";
@@ -6,7 +6,7 @@ import { resultJson, textTable } from "./text-table";
 
 /** `quietframe rank`: the parameters of a set-up ranked by what they do for a figure of merit. */
 export function rankCommand(args: string[], io: CliIo): number {
-  const { values, positionals } = parseArgs({ args, allowPositionals: true, options: { ...DESIGN_OPTIONS, param: { type: "string", multiple: true }, scan: { type: "string" } } });
+  const { values, positionals } = parseOptions("rank", args, { ...DESIGN_OPTIONS, param: { type: "string", multiple: true }, scan: { type: "string" } });
   const format = formatOption(values.format);
   const { description } = readSetupDescription(positionals);
   const options = { parameters: values.param, grid: gridOption(description, values), scanPoints: wholeOption(values.scan, "--scan") };

@@ -1,7 +1,6 @@
 import { randomBytes } from "node:crypto";
 import { readFileSync, renameSync, rmSync, writeFileSync } from "node:fs";
 import { basename, extname } from "node:path";
-import { parseArgs } from "node:util";
 import { describeHeadline } from "../engine/headline";
 import { spectralDensityUnit } from "../engine/tabulate";
 import { QuietframeError } from "../errors";
@@ -11,6 +10,7 @@ import { kindOutput, OUTPUT_FORMATS, type OutputFormat } from "../../widgets/cor
 import { explorerKind } from "../../widgets/explorer/kind";
 import { computeExplorer, createExplorerState } from "../../widgets/explorer/model";
 import { loadWidgetState } from "../../widgets/registry";
+import { parseOptions } from "./options";
 import type { CliIo } from "./run";
 
 /**
@@ -46,7 +46,7 @@ function widgetNumber(text: string | undefined): number | undefined {
 }
 
 export async function renderCommand(args: string[], io: CliIo): Promise<number> {
-  const { values, positionals } = parseArgs({ args, allowPositionals: true, options: RENDER_OPTIONS });
+  const { values, positionals } = parseOptions("render", args, RENDER_OPTIONS);
   const [input, ...extra] = positionals;
   if (!input) throw new QuietframeError({ path: "<state.json>", problem: "no state file given", allowed: "a path to a widget-state JSON file" });
   if (extra.length) throw new QuietframeError({ path: "<state.json>", value: positionals, problem: "only one state file at a time", allowed: "one path" });
@@ -85,7 +85,7 @@ const REPORT_OPTIONS = {
 } as const;
 
 export async function reportCommand(args: string[], io: CliIo): Promise<number> {
-  const { values, positionals } = parseArgs({ args, allowPositionals: true, options: REPORT_OPTIONS });
+  const { values, positionals } = parseOptions("report", args, REPORT_OPTIONS);
   const [input, ...extra] = positionals;
   if (!input) throw new QuietframeError({ path: "<setup.json>", problem: "no set-up file given", allowed: "a path to a set-up JSON file" });
   if (extra.length) throw new QuietframeError({ path: "<setup.json>", value: positionals, problem: "only one set-up file at a time", allowed: "one path" });

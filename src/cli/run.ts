@@ -4,7 +4,6 @@
  * input go to stderr with exit status 1 and nothing on stdout.
  */
 import { readFileSync } from "node:fs";
-import { parseArgs } from "node:util";
 import { QuietframeError, QuietframeErrors } from "../errors";
 import { describeHeadline, headlineFigures } from "../engine/headline";
 import { jsonNumbers, spectralDensityUnit, tableToCsv, tabulateBudget } from "../engine/tabulate";
@@ -12,6 +11,8 @@ import { COMPONENT_KINDS } from "../components/registry";
 import { evaluate, FALLBACK_GRID, loadSetup, prepare } from "../pipeline";
 import { QUIETFRAME_VERSION } from "../version";
 import { gridFromOptions } from "./grid-options";
+import { parseOptions } from "./options";
+import { didYouMean, withSuggestions } from "./suggest";
 import { RENDER_USAGE, renderCommand, reportCommand } from "./render";
 import { KERNEL_USAGE, kernelCommand } from "./kernel-install";
 import { DESIGN_USAGE } from "./design-args";
@@ -40,6 +41,9 @@ usage:
   quietframe types [type]
       Lists component types, or one type's parameters and ports.
 ${DESIGN_USAGE}${RENDER_USAGE}${KERNEL_USAGE}`;
+
+/** Every command word, for "did you mean" on a mistyped one. */
+const COMMANDS = ["eval", "summary", "check", "types", "rank", "solve", "optimize", "spread", "render", "report", "kernel", "help"];
 
 /** Commands that render figures (Vega renders asynchronously); runCliAsync runs them. */
 const ASYNC_COMMANDS: Readonly<Record<string, (args: string[], io: CliIo) => Promise<number>>> = {
@@ -100,7 +104,7 @@ export function runCli(argv: string[], io: CliIo): number {
         io.err(`quietframe: '${command}' renders asynchronously; call runCliAsync\n`);
         return 2;
       default:
-        io.err(`quietframe: unknown command '${command}'\n\n${USAGE}`);
+        io.err(`quietframe: unknown command '${command}'${didYouMean(command, COMMANDS)}\n\n${USAGE}`);
         return 2;
     }
   } catch (e) {
@@ -111,13 +115,8 @@ export function runCli(argv: string[], io: CliIo): number {
 /** User-facing problems become messages and an exit status; anything else is a bug and is rethrown. */
 function reportFailure(e: unknown, io: CliIo): number {
   if (e instanceof QuietframeError || e instanceof QuietframeErrors) {
-    io.err(`quietframe: ${e.message.split("\n").join("\nquietframe: ")}\n`);
+    io.err(`quietframe: ${withSuggestions(e).message.split("\n").join("\nquietframe: ")}\n`);
     return 1;
-  }
-  const code = (e as NodeJS.ErrnoException | undefined)?.code;
-  if (typeof code === "string" && code.startsWith("ERR_PARSE_ARGS_")) {
-    io.err(`quietframe: ${(e as Error).message}\n\n${USAGE}`);
-    return 2;
   }
   throw e;
 }
@@ -140,11 +139,7 @@ const GRID_OPTIONS = {
 } as const;
 
 function evalCommand(args: string[], io: CliIo): number {
-  const { values, positionals } = parseArgs({
-    args,
-    allowPositionals: true,
-    options: { ...GRID_OPTIONS, format: { type: "string", default: "csv" }, psd: { type: "boolean", default: false } },
-  });
+  const { values, positionals } = parseOptions("eval", args, { ...GRID_OPTIONS, format: { type: "string", default: "csv" }, psd: { type: "boolean", default: false } });
   if (positionals.length > 1) throw new QuietframeError({ path: "<setup.json>", value: positionals, problem: "only one set-up file at a time", allowed: "one path" });
   if (values.format !== "csv" && values.format !== "json") {
     throw new QuietframeError({ path: "--format", value: values.format, problem: "is not an output format", allowed: "csv or json" });
@@ -178,7 +173,7 @@ function evalCommand(args: string[], io: CliIo): number {
 }
 
 function summaryCommand(args: string[], io: CliIo): number {
-  const { values, positionals } = parseArgs({ args, allowPositionals: true, options: GRID_OPTIONS });
+  const { values, positionals } = parseOptions("summary", args, GRID_OPTIONS);
   const setup = readSetupFile(positionals[0]);
   const result = evaluate(prepare(setup), gridFromOptions(setup.grid ?? FALLBACK_GRID, values));
   const q = result.budget.quantity;
@@ -195,7 +190,7 @@ function summaryCommand(args: string[], io: CliIo): number {
 }
 
 function checkCommand(args: string[], io: CliIo): number {
-  const { positionals } = parseArgs({ args, allowPositionals: true, options: {} });
+  const { positionals } = parseOptions("check", args, {});
   const setup = readSetupFile(positionals[0]);
   // Two frequencies are enough to know the referred quantity and that the signal reaches the readout.
   const result = evaluate(prepare(setup), { from: 1, to: 10, points: 2 });

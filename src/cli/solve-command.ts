@@ -1,4 +1,4 @@
-import { parseArgs } from "node:util";
+import { parseOptions } from "./options";
 import { shownFigure, solveForTarget, targetWindow, type SolveResult, type WindowResult } from "../design";
 import { QuietframeError } from "../errors";
 import type { CliIo } from "./run";
@@ -7,10 +7,12 @@ import { resultJson } from "./text-table";
 
 /** `quietframe solve`: the value of a parameter that reaches a target, or the window around its value that keeps it. */
 export function solveCommand(args: string[], io: CliIo): number {
-  const { values, positionals } = parseArgs({
-    args,
-    allowPositionals: true,
-    options: { ...DESIGN_OPTIONS, param: { type: "string" }, target: { type: "string" }, window: { type: "boolean", default: false }, range: { type: "string" } },
+  const { values, positionals } = parseOptions("solve", args, {
+    ...DESIGN_OPTIONS,
+    param: { type: "string" },
+    target: { type: "string" },
+    window: { type: "boolean", default: false },
+    range: { type: "string" },
   });
   const format = formatOption(values.format);
   const { description } = readSetupDescription(positionals);

@@ -1,4 +1,4 @@
-import { parseArgs } from "node:util";
+import { parseOptions } from "./options";
 import { shownFigure, spreadAnalysis, type SpreadResult, type UncertaintySpec } from "../design";
 import { QuietframeError } from "../errors";
 import type { CliIo } from "./run";
@@ -7,10 +7,12 @@ import { resultJson, textTable } from "./text-table";
 
 /** `quietframe spread`: what uncertain parameters do to a figure (Monte Carlo beside first-order propagation). */
 export function spreadCommand(args: string[], io: CliIo): number {
-  const { values, positionals } = parseArgs({
-    args,
-    allowPositionals: true,
-    options: { ...DESIGN_OPTIONS, uncertain: { type: "string", multiple: true }, samples: { type: "string" }, seed: { type: "string" }, target: { type: "string" } },
+  const { values, positionals } = parseOptions("spread", args, {
+    ...DESIGN_OPTIONS,
+    uncertain: { type: "string", multiple: true },
+    samples: { type: "string" },
+    seed: { type: "string" },
+    target: { type: "string" },
   });
   const format = formatOption(values.format);
   const { description } = readSetupDescription(positionals);

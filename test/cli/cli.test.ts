@@ -121,11 +121,12 @@ describe("bad set-ups: exit 1, nothing on stdout, the message on stderr", () => 
     for (const part of parts) expect(r.err).toContain(part);
   });
 
-  it("an unknown option is a usage error (exit 2)", () => {
+  it("an unknown option is refused with our own message naming the nearest option (exit 1)", () => {
     const r = cli("eval", EXAMPLE_FILES[0], "--frm", "10 Hz");
-    expect(r.code).toBe(2);
+    expect(r.code).toBe(1);
     expect(r.out).toBe("");
-    expect(r.err).toContain("Unknown option '--frm'");
+    expect(r.err).toContain('quietframe: --frm: is not an option of quietframe eval (did you mean "--from"?); allowed: --from, --to, --points, --format, --psd');
+    expect(r.err).not.toMatch(/Unknown option|positional argument/);
   });
 
   it('a negative value given as a separate argument (`--from "-10 Hz"`) is an error, not a crash', () => {
