@@ -12,6 +12,7 @@ import { evaluate, FALLBACK_GRID, loadSetup, prepare } from "../pipeline";
 import { QUIETFRAME_VERSION } from "../version";
 import { gridFromOptions } from "./grid-options";
 import { parseOptions } from "./options";
+import { reachLines } from "./reach-lines";
 import { didYouMean, withSuggestions } from "./suggest";
 import { RENDER_USAGE, renderCommand, reportCommand } from "./render";
 import { KERNEL_USAGE, kernelCommand } from "./kernel-install";
@@ -33,9 +34,10 @@ usage:
       Signal-referred noise, its budget terms and the reference curves (SQL, zero-point,
       thermal) on a log-spaced grid. Frequencies like "10 Hz" or "2kHz". Amplitude spectral
       densities by default; --psd prints one-sided power spectral densities.
-  quietframe summary <setup.json> [--from F] [--to F] [--points N]
+  quietframe summary <setup.json> [--from F] [--to F] [--points N] [--against other.json]
       The headline figures: largest margin below the SQL and where, the band below the SQL,
-      and which noise term dominates where.
+      and which noise term dominates where. For a strain set-up also the inspiral range and
+      horizon (1.4 + 1.4 M☉, SNR 8) and, with --against, the volume gain over another set-up.
   quietframe check <setup.json>
       Validates a set-up and reports its size and stability.
   quietframe types [type]
@@ -173,16 +175,20 @@ function evalCommand(args: string[], io: CliIo): number {
 }
 
 function summaryCommand(args: string[], io: CliIo): number {
-  const { values, positionals } = parseOptions("summary", args, GRID_OPTIONS);
+  const { values, positionals } = parseOptions("summary", args, { ...GRID_OPTIONS, against: { type: "string" } });
   const setup = readSetupFile(positionals[0]);
-  const result = evaluate(prepare(setup), gridFromOptions(setup.grid ?? FALLBACK_GRID, values));
+  const grid = gridFromOptions(setup.grid ?? FALLBACK_GRID, values);
+  const result = evaluate(prepare(setup), grid);
+  // The reference is evaluated on the same frequencies, so the two ranges integrate the same band.
+  const against = values.against === undefined ? undefined : { budget: evaluate(prepare(readSetupFile(values.against)), grid).budget, name: values.against };
   const q = result.budget.quantity;
-  const grid = result.budget.frequencies;
+  const frequencies = result.budget.frequencies;
   io.out(
     `${setup.name || positionals[0]}\n` +
-      `${grid.length} frequencies from ${grid[0]} Hz to ${grid[grid.length - 1]} Hz; ${setup.signal.kind} on '${setup.signal.on}' referred to ${q.name}\n` +
+      `${frequencies.length} frequencies from ${frequencies[0]} Hz to ${frequencies[frequencies.length - 1]} Hz; ${setup.signal.kind} on '${setup.signal.on}' referred to ${q.name}\n` +
       describeHeadline(headlineFigures(result.budget), spectralDensityUnit(q.unit, "power")) +
       "\n" +
+      reachLines(result.budget, against) +
       result.warnings.map((w) => `warning: ${w}\n`).join("") +
       result.cautions.map((c) => `caution: ${c}\n`).join(""),
   );
