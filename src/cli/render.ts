@@ -10,6 +10,7 @@ import { kindOutput, OUTPUT_FORMATS, type OutputFormat } from "../../widgets/cor
 import { explorerKind } from "../../widgets/explorer/kind";
 import { computeExplorer, createExplorerState } from "../../widgets/explorer/model";
 import { loadWidgetState } from "../../widgets/registry";
+import { notebookWidgets, pickNotebookWidget } from "./notebook-widgets";
 import { parseOptions } from "./options";
 import type { CliIo } from "./run";
 
@@ -27,7 +28,8 @@ export const RENDER_USAGE = `  quietframe render <state.json> -o <out.html|out.s
       figure: a standalone interactive page (html), the chart (svg, png at --scale, default 2)
       or the plotted numbers (csv; explorers and trajectories). Warns when the recomputed
       curves differ from the stored fingerprint; --strict makes that an error.
-      A saved notebook (.ipynb) works too: the state of its live chart (--widget N if several).
+      A saved notebook (.ipynb) works too: its widget outputs and live charts, in the order the
+      notebook shows them (--widget N if several; the error lists them).
   quietframe report <setup.json> -o <report.html> [--control target[=min:max[:log|linear]]]... [--title T]
       An interactive HTML report of a set-up with sliders for the given parameters, e.g.
       --control "membrane.temperature=10 mK:300 K"; prints the headline figures.
@@ -55,7 +57,10 @@ export async function renderCommand(args: string[], io: CliIo): Promise<number> 
   const scale = pngScale(values.scale);
   const text = readText(input);
   // The registry finds the state's kind (an explorer, a trajectory whose simulation runs again, …).
-  const { kind, loaded } = loadWidgetState(text, basename(input), { widget: widgetNumber(values.widget) });
+  // A notebook: its widget outputs and live charts, one picked by --widget; otherwise a state file.
+  const inNotebook = notebookWidgets(text, basename(input));
+  const which = widgetNumber(values.widget);
+  const { kind, loaded } = inNotebook ? pickNotebookWidget(inNotebook, basename(input), which).load() : loadWidgetState(text, basename(input), { widget: which });
   const fingerprint = loaded.fingerprint;
   if (fingerprint && fingerprint.recomputed !== fingerprint.stored) {
     const message =
