@@ -18,7 +18,8 @@ import { expectPageMatchesEngine, moveSlider, pageState, sliderPosition, sliderT
  * The live reach gauge and caution box in Chromium: a strain budget (the long-baseline
  * example) shows range and volume gain against its initial set-up, exactly as Node computes
  * them, and both follow the arm-power slider; a displacement budget shows no gauge. Moving a
- * power slider across 0.5 W makes the laser-power caution appear and disappear.
+ * power slider across 0.5 W turns the Class 4 caution into the Class 3B note and back, and
+ * below 5 mW the caution box goes.
  */
 const ROOT = join(__dirname, "..", "..");
 const example = (name: string): SetupDescription => JSON.parse(readFileSync(join(ROOT, "examples", name), "utf8")) as SetupDescription;
@@ -125,7 +126,7 @@ describe("reach gauge in the live widget", () => {
     expect(await widget.locator(".qf-notes").textContent()).not.toMatch(/hazardous/);
   });
 
-  it("follows the arm-power slider: below 0.5 W the range shrinks and the caution goes, above it comes back", async () => {
+  it("follows the arm-power slider: below 0.5 W the range shrinks and the Class 4 caution gives way to the Class 3B note, above it comes back", async () => {
     const start = await sliderPosition(session.page, STRAIN, "ifo.power");
     const before = (await gauge(STRAIN)).attributes["data-range-mpc"];
     await moveSlider(session.page, STRAIN, "ifo.power", positionFor(strainState, "ifo.power", 10, false));
@@ -133,8 +134,11 @@ describe("reach gauge in the live widget", () => {
     expect(low.state.values["ifo.power"]).toBe(sliderText(strainState, "ifo.power", 10));
     expect(low.rangeRatio).toBeLessThan(0.5);
     expect((await gauge(STRAIN)).attributes["data-range-mpc"]).not.toBe(before);
-    expect(low.cautions).toEqual([]);
-    expect(await cautionsShown(STRAIN)).toBeNull();
+    // Below 0.5 W (but above 5 mW) the Class 4 caution gives way to the Class 3B note.
+    expect(low.cautions).toHaveLength(1);
+    expect(low.cautions[0]).toMatch(/within Class 3B/);
+    expect(low.cautions[0]).not.toMatch(/hazardous laser power/);
+    expect(await cautionsShown(STRAIN)).toEqual([...low.cautions]);
 
     await moveSlider(session.page, STRAIN, "ifo.power", positionFor(strainState, "ifo.power", 60, true));
     const high = await expectGaugeMatchesNode(STRAIN);
@@ -160,11 +164,16 @@ describe("reach gauge in the live widget", () => {
     expect(none.hidden).toBe(true);
     expect(none.reachLines).toEqual([]);
     expect(await session.page.locator(WIDGET).nth(DISPLACEMENT).locator(".qf-readout").textContent()).not.toMatch(/Inspiral|Mpc/);
-    expect(await cautionsShown(DISPLACEMENT)).toBeNull();
+    // The example's 10 mW input is within Class 3B: the note shows from the start.
+    const initial = computeExplorer(displacementState).evaluation.cautions;
+    expect(initial).toHaveLength(1);
+    expect(initial[0]).toMatch(/within Class 3B/);
+    expect(await cautionsShown(DISPLACEMENT)).toEqual([...initial]);
 
     await moveSlider(session.page, DISPLACEMENT, "arm.power", positionFor(displacementState, "arm.power", 190, true));
     const { computation } = await expectPageMatchesEngine(session.page, DISPLACEMENT);
     expect(computation.evaluation.cautions).toHaveLength(1);
+    expect(computation.evaluation.cautions[0]).toMatch(/hazardous laser power/);
     expect(await cautionsShown(DISPLACEMENT)).toEqual([...computation.evaluation.cautions]);
     expect((await gauge(DISPLACEMENT)).hidden).toBe(true);
 

@@ -65,7 +65,9 @@ describe("quietframe render", () => {
   it("writes a standalone page whose embedded state recomputes to the stored fingerprint, bit for bit", async () => {
     const out = fresh("page.html");
     const r = await cli("render", stateFile, "-o", out);
-    expect(r).toMatchObject({ code: 0, err: "" });
+    // The state's 2.5 K membrane is cryogenic: its caution is the only line on stderr.
+    expect(r).toMatchObject({ code: 0 });
+    expect(r.err).toMatch(/^caution: 'membrane' is at 2\.5 K, at or below 4\.2 K [^\n]*licensed practice\.\n$/);
     expect(r.out).toContain(state.fingerprint);
     const html = readFileSync(out, "utf8");
     expect(html.startsWith("<!DOCTYPE html>")).toBe(true);
