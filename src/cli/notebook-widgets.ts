@@ -7,6 +7,7 @@
 import { QuietframeError } from "../errors";
 import { parseJsonText } from "../setup/parse-json";
 import type { LoadedWidget, WidgetKind } from "../../widgets/core/kind";
+import { isRecord } from "../../widgets/core/state/strict-read";
 import { WIDGET_STATE_MIME } from "../../widgets/core/state/widget-state";
 import { ENTANGLED_STATE_CLASS } from "../../widgets/entangled/names";
 import { STATE_SCRIPT_CLASS } from "../../widgets/explorer/names";
@@ -99,8 +100,4 @@ function liveCharts(metadata: Record<string, unknown>): string[] {
     const m = models[id];
     return isRecord(m) && m.model_module === LIVE_MODULE && m.model_name === CHART_MODEL_NAME;
   });
-}
-
-function isRecord(v: unknown): v is Record<string, unknown> {
-  return typeof v === "object" && v !== null && !Array.isArray(v);
 }
