@@ -60,7 +60,11 @@ export const positionProbe: ComponentKind<null> = {
     const wavelength = num(c, "wavelength");
     const implied = probePowerForMeasurementRate(2 * Math.PI * rate, wavelength, body.mass, body.omega);
     const reading = `a measurement rate of ${formatQuantity(rate, "frequency")} on '${body.owner}' (${formatQuantity(body.mass, "mass")}, ${formatQuantity(body.omega / (2 * Math.PI), "frequency")})`;
-    return laserPowerCautions(`'${c.name}' reaches ${reading}, which implies`, implied, `of probe light at ${formatQuantity(wavelength, "length")} reflected once off the body (a cavity's build-up lowers what the source must give)`);
+    return laserPowerCautions(
+      `'${c.name}' reaches ${reading}, which implies`,
+      implied,
+      `of probe light at ${formatQuantity(wavelength, "length")} reflected once off the body (a cavity's build-up lowers what the source must give)`,
+    );
   },
 };
 

@@ -157,7 +157,9 @@ describe("laser power implied by a position probe's measurement rate", () => {
 
   it("the shipped hybrid example's 30 kHz rate on 4 ng at 1.1 MHz implies about 106 W", () => {
     const cautions = cautionsOf(example("hybrid-spin-reference.json"));
-    expect(cautions.find((c) => c.startsWith("'probe'"))).toContain("which implies 106 W of probe light at 852 nm reflected once off the body (a cavity's build-up lowers what the source must give): hazardous laser power");
+    expect(cautions.find((c) => c.startsWith("'probe'"))).toContain(
+      "which implies 106 W of probe light at 852 nm reflected once off the body (a cavity's build-up lowers what the source must give): hazardous laser power",
+    );
   });
 });
 
