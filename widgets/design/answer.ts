@@ -3,7 +3,9 @@ import {
   CellStatus,
   designParameter,
   designProblem,
+  loadSetup,
   logGrid,
+  numericParameters,
   optimizeDesign,
   rankParameters,
   spreadAnalysis,
@@ -14,7 +16,7 @@ import {
   type SetupDescription,
   type SpreadResult,
 } from "../../src/index";
-import type { DesignAnswer, DesignQuestion, FigureLabel, GridText, NoiseCurves, OptimumAnswer, PlainNumber, RankingAnswer, SpreadAnswer } from "./format";
+import type { DesignAnswer, DesignQuestion, FigureLabel, GridText, NoiseCurves, OptimumAnswer, PlainNumber, RankingAnswer, RankingQuestion, SpreadAnswer } from "./format";
 
 /**
  * The one place the widget asks the engine (rankParameters, optimizeDesign, spreadAnalysis):
@@ -45,13 +47,14 @@ function figureLabel(f: DesignFigure): FigureLabel {
   return { kind: f.kind, label: f.label, unit: f.unit, better: f.better };
 }
 
-/** Computes the answer to a question; bad input throws a QuietframeError naming the field (`question.*`, `figure.*`, `grid.*`, `setup`). */
-export function computeAnswer(setup: SetupDescription, figure: FigureSpec, question: DesignQuestion, grid?: GridText): DesignAnswer {
+/** Told after each step of a long computation: steps done of all there are (parameters of a ranking). */
+export type StepReport = (done: number, total: number) => void;
+
+/** Computes the answer to a question; bad input throws a QuietframeError naming the field (`options.*`, `parameters[…]`, `figure.*`, `grid.*`, `setup`). */
+export function computeAnswer(setup: SetupDescription, figure: FigureSpec, question: DesignQuestion, grid?: GridText, onStep?: StepReport): DesignAnswer {
   switch (question.kind) {
-    case "ranking": {
-      const options = { parameters: question.parameters, scanPoints: question.scanPoints, relativeStep: question.relativeStep, grid };
-      return rankingAnswer(rankParameters(setup, figure, options));
-    }
+    case "ranking":
+      return rankingAnswer(rankOneByOne(setup, figure, question, grid, onStep));
     case "optimum": {
       const options = { starts: question.starts, seed: question.seed, maxEvaluationsPerStart: question.maxEvaluationsPerStart, tolerance: question.tolerance, grid };
       return optimumAnswer(setup, figure, grid, optimizeDesign(setup, figure, question.parameters, options));
@@ -59,6 +62,34 @@ export function computeAnswer(setup: SetupDescription, figure: FigureSpec, quest
     case "spread":
       return spreadAnswer(spreadAnalysis(setup, figure, question.uncertain, { samples: question.samples, seed: question.seed, target: question.target, grid }));
   }
+}
+
+/**
+ * rankParameters one parameter at a time, so that a long ranking can say how far it is: each
+ * parameter's row does not depend on the others (the same figure at the set-up's values, the same
+ * steps and scan), so the rows, their order (largest |gain per 1 %| first, ties in list order) and
+ * the evaluation count (the set-up's own value once) are exactly those of one call.
+ */
+export function rankOneByOne(setup: SetupDescription, figure: FigureSpec, question: RankingQuestion, grid: GridText | undefined, onStep?: StepReport): Ranking {
+  const options = { scanPoints: question.scanPoints, relativeStep: question.relativeStep, grid };
+  // Every option, the figure and the grid are checked (and the set-up's figure taken) before the first parameter.
+  const head = rankParameters(setup, figure, { ...options, parameters: [] });
+  const base = loadSetup(setup);
+  const targets = question.parameters === undefined ? numericParameters(base).map((p) => p.target) : question.parameters.map((t, i) => designParameter(base, t, `options.parameters[${i}]`).target);
+  const rows: Ranking["parameters"][number][] = [];
+  let evaluations = head.evaluations;
+  targets.forEach((target, i) => {
+    const one = rankParameters(setup, figure, { ...options, parameters: [target] });
+    rows.push(one.parameters[0]);
+    evaluations += one.evaluations - head.evaluations;
+    onStep?.(i + 1, targets.length);
+  });
+  const key = (r: Ranking["parameters"][number]): number => (r.gainPer1Percent === null ? -1 : Math.abs(r.gainPer1Percent));
+  const ranked = rows
+    .map((r, i) => ({ r, i }))
+    .sort((a, b) => key(b.r) - key(a.r) || a.i - b.i)
+    .map((e) => e.r);
+  return { figure: head.figure, current: head.current, parameters: ranked, evaluations };
 }
 
 export function rankingAnswer(r: Ranking): RankingAnswer {

@@ -4,7 +4,7 @@ import { QuietframeError, parseJsonText, type FigureSpec, type OptimizeParameter
 import type { MimeBundle } from "../core/notebook/display";
 import { showWidgetOutput } from "../core/notebook/show-output";
 import { renderPng, renderSvg, type RenderPngOptions } from "../core/render/static";
-import { computeAnswer } from "./answer";
+import { computeAnswer, type StepReport } from "./answer";
 import { designCautions } from "./cautions";
 import { designCsv } from "./csv";
 import { designDocumentText, designState, isDesignInput, loadDesignState } from "./document";
@@ -159,23 +159,35 @@ export function designWidget(saved: DesignState | Record<string, unknown> | stri
   const value: unknown = typeof saved === "string" ? parseJsonText(saved, "designWidget input") : saved;
   if (!isDesignInput(value))
     throw new QuietframeError({ path: "state", problem: "is not a saved design widget", allowed: 'a state {"format": "quietframe.design", …} or a widget-state document holding one' });
-  const loaded = timed(() => loadDesignState(value, "state"));
+  const loaded = loadDesignState(value, "state");
   return new NotebookDesign(loaded.state, loaded.fingerprintMatches);
 }
 
 function ask(setup: SetupDescription, figure: FigureSpec, question: DesignQuestion, options: DesignWidgetOptions): DesignState {
-  const answer = timed(() => computeAnswer(setup, figure, question, options.grid));
+  const progress = progressReporter();
+  const answer = computeAnswer(setup, figure, question, options.grid, progress.onStep);
+  progress.finish();
   return designState(setup, figure, question, answer, options);
 }
 
 /**
- * Runs a computation and, when it took longer than a second, says how long and how many
- * evaluations it needed (the engine's searches report no progress while they run).
+ * Progress as text for computations that take more than a second: a ranking says how many
+ * parameters it has done (at most one line a second), and every long computation says when it
+ * finished; quick ones print nothing. The clock and the writer are parameters so tests need not wait.
  */
-function timed<T>(compute: () => T, now: () => number = Date.now, write: (text: string) => void = (t) => void process.stdout.write(t)): T {
+export function progressReporter(now: () => number = Date.now, write: (text: string) => void = (t) => void process.stdout.write(t)): { onStep: StepReport; finish(): void } {
   const started = now();
-  const result = compute();
-  const took = now() - started;
-  if (took >= QUIET_MS) write(`design: finished in ${(took / 1000).toFixed(1)} s\n`);
-  return result;
+  let said = started;
+  return {
+    onStep(done, total) {
+      const t = now();
+      if (t - started < QUIET_MS || t - said < QUIET_MS) return;
+      said = t;
+      write(`ranking: ${done} of ${total} parameters (${((100 * done) / total).toFixed(0)} %)\n`);
+    },
+    finish() {
+      const took = now() - started;
+      if (took >= QUIET_MS) write(`design: finished in ${(took / 1000).toFixed(1)} s\n`);
+    },
+  };
 }

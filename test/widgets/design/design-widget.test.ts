@@ -1,12 +1,12 @@
 import { readFileSync } from "node:fs";
 import { describe, expect, it } from "vitest";
 import { optimizeDesign, QuietframeError, rankParameters, spreadAnalysis, type FigureSpec, type SetupDescription } from "../../../src/index";
-import { decodeNumber } from "../../../widgets/design/answer";
+import { decodeNumber, rankingAnswer, rankOneByOne } from "../../../widgets/design/answer";
 import { designDocumentText, loadDesignState, readDesignState } from "../../../widgets/design/document";
 import { answerFingerprint } from "../../../widgets/design/fingerprint";
 import type { OptimumAnswer, RankingAnswer, SpreadAnswer } from "../../../widgets/design/format";
 import { designMethods } from "../../../widgets/design/methods";
-import { optimumWidget, rankingWidget, spreadWidget, designWidget } from "../../../widgets/design/notebook";
+import { optimumWidget, progressReporter, rankingWidget, spreadWidget, designWidget } from "../../../widgets/design/notebook";
 import { bandRows, curvePoints, gainBars, histogramMarks, spreadHistogram } from "../../../widgets/design/specs";
 import { loadWidgetState } from "../../../widgets/registry";
 import { kindOutput } from "../../../widgets/core/render/kind-output";
@@ -71,6 +71,44 @@ describe("design widget: the plotted rows are the engine's numbers", () => {
     // The optimum improves the margin at 300 Hz, so the noise there must be lower than before.
     const near = (name: string) => points.filter((p) => p.curve === name).reduce((a, b) => (Math.abs(Math.log(b.f / 300)) < Math.abs(Math.log(a.f / 300)) ? b : a));
     if (engine.optimum!.figure > engine.current) expect(near("at the optimum").psd).toBeLessThanOrEqual(near("as given").psd);
+  });
+
+  it("ranking one parameter at a time (for progress) gives exactly rankParameters' table: rows, order and evaluations", () => {
+    const steps: string[] = [];
+    const oneByOne = rankOneByOne(setup, margin, { kind: "ranking", scanPoints: 5 }, grid, (done, total) => steps.push(`${done}/${total}`));
+    const once = rankParameters(setup, margin, { grid, scanPoints: 5 });
+    expect(oneByOne).toEqual(once);
+    expect(rankingAnswer(oneByOne)).toEqual(rankingAnswer(once));
+    expect(steps.at(-1)).toBe(`${once.parameters.length}/${once.parameters.length}`);
+  });
+
+  it("reports progress only for runs longer than a second, at most once a second", () => {
+    let t = 0;
+    const lines: string[] = [];
+    const quiet = progressReporter(
+      () => t,
+      (s) => lines.push(s),
+    );
+    t = 500;
+    quiet.onStep(1, 4);
+    quiet.finish();
+    expect(lines).toEqual([]);
+    t = 0;
+    const slow = progressReporter(
+      () => t,
+      (s) => lines.push(s),
+    );
+    for (const [time, done] of [
+      [1200, 1],
+      [1500, 2],
+      [2300, 3],
+    ]) {
+      t = time;
+      slow.onStep(done, 4);
+    }
+    t = 2600;
+    slow.finish();
+    expect(lines).toEqual(["ranking: 1 of 4 parameters (25 %)\n", "ranking: 3 of 4 parameters (75 %)\n", "design: finished in 2.6 s\n"]);
   });
 
   it("`.result` is plain JSON values", () => {

@@ -54,6 +54,15 @@ export class DesignWidgetView {
     return this.state && structuredClone(this.state);
   }
 
+  /** The datasets each drawn chart holds, by name (for tests and page scripts). */
+  plottedData(): Record<string, Record<string, unknown>[]>[] {
+    const plain = (row: object): Record<string, unknown> => Object.fromEntries(Object.entries(row).filter(([, x]) => x === null || ["number", "string", "boolean"].includes(typeof x)));
+    return this.views.map((v) => {
+      const data = (v.getState({ data: () => true, signals: () => false }) as { data?: Record<string, unknown> }).data ?? {};
+      return Object.fromEntries(Object.entries(data).flatMap(([name, rows]) => (Array.isArray(rows) ? [[name, rows.map(plain)]] : [])));
+    });
+  }
+
   dispose(): void {
     for (const v of this.views) v.finalize();
     this.views = [];
