@@ -28,9 +28,9 @@ const W = `.${DESIGN_CLASS}`;
 
 let dir: string;
 let session: BrowserSession;
-let spread: NotebookDesign;
-let ranking: NotebookDesign;
-let optimum: NotebookDesign;
+let spread: NotebookDesign<SpreadAnswer>;
+let ranking: NotebookDesign<RankingAnswer>;
+let optimum: NotebookDesign<OptimumAnswer>;
 
 async function open(name: string, state: DesignState): Promise<void> {
   // Through the registry, as `quietframe render` writes a page: the answer is computed again in Node.

@@ -12,7 +12,7 @@ export function designMethods(state: DesignState): string {
   const a = state.answer;
   const grid = state.grid ? `a grid from ${state.grid.from} to ${state.grid.to}${state.grid.points ? ` (${state.grid.points} points)` : ""}` : "the set-up's frequency grid";
   const head = `${designTitle(state)}. Figure of merit: ${a.figure.label}, evaluated through the noise budget on ${grid}.`;
-  const tail = `Computed with quietframe ${state.quietframe} (this page: ${QUIETFRAME_VERSION}); answer fingerprint ${state.fingerprint}.`;
+  const tail = `Computed with quietframe ${state.quietframe}${state.quietframe === QUIETFRAME_VERSION ? "" : ` (read by quietframe ${QUIETFRAME_VERSION})`}; answer fingerprint ${state.fingerprint}.`;
   switch (q.kind) {
     case "ranking": {
       if (a.kind !== "ranking") break;

@@ -8,7 +8,7 @@ import { computeAnswer, type StepReport } from "./answer";
 import { designCautions } from "./cautions";
 import { designCsv } from "./csv";
 import { designDocumentText, designState, isDesignInput, loadDesignState } from "./document";
-import type { DesignAnswer, DesignQuestion, DesignState, GridText, OptimumQuestion, RankingQuestion, SpreadQuestion } from "./format";
+import type { DesignAnswer, DesignQuestion, DesignState, GridText, OptimumAnswer, OptimumQuestion, RankingAnswer, RankingQuestion, SpreadAnswer, SpreadQuestion } from "./format";
 import { designHtml } from "./html";
 import { designMethods } from "./methods";
 import { checkQuestion } from "./question-read";
@@ -46,7 +46,7 @@ const QUIET_MS = 1000;
  * asks again with changes (bad input throws a message naming the field and keeps the last
  * answer), `w.stateText()` saves it for `quietframe render`.
  */
-export class NotebookDesign {
+export class NotebookDesign<A extends DesignAnswer = DesignAnswer> {
   #state: DesignState;
   #fingerprintMatches: boolean;
 
@@ -56,8 +56,8 @@ export class NotebookDesign {
   }
 
   /** The answer as plain JSON values. */
-  get result(): DesignAnswer {
-    return structuredClone(this.#state.answer);
+  get result(): A {
+    return structuredClone(this.#state.answer) as A;
   }
 
   get state(): DesignState {
@@ -126,7 +126,7 @@ export class NotebookDesign {
   }
 
   toString(): string {
-    return [designSummaryText(this.#state), ...this.cautions.map((c) => `caution: ${c}`)].join("\n");
+    return [designSummaryText(this.#state), ...this.cautions.map((c) => `caution: ${c}`), `fingerprint: ${this.#state.fingerprint}`].join("\n");
   }
 
   [inspect.custom](): string {
@@ -135,23 +135,23 @@ export class NotebookDesign {
 }
 
 /** Which parameters to improve first for a figure: gains per 1 % with errors, direction, bound, best alone. */
-export function rankingWidget(setup: SetupDescription, figure: FigureSpec, options: RankingWidgetOptions = {}): NotebookDesign {
+export function rankingWidget(setup: SetupDescription, figure: FigureSpec, options: RankingWidgetOptions = {}): NotebookDesign<RankingAnswer> {
   const { grid, title, ...rest } = options;
-  return new NotebookDesign(ask(setup, figure, checkQuestion({ kind: "ranking", ...rest }, "options"), { grid, title }));
+  return new NotebookDesign<RankingAnswer>(ask(setup, figure, checkQuestion({ kind: "ranking", ...rest }, "options"), { grid, title }));
 }
 
 /** The best settings of the given parameters within their ranges, with the noise before and after. */
-export function optimumWidget(setup: SetupDescription, figure: FigureSpec, parameters: OptimizeParameter[], options: OptimumWidgetOptions = {}): NotebookDesign {
+export function optimumWidget(setup: SetupDescription, figure: FigureSpec, parameters: OptimizeParameter[], options: OptimumWidgetOptions = {}): NotebookDesign<OptimumAnswer> {
   const { grid, title, ...rest } = options;
   const question = checkQuestion({ kind: "optimum", ...rest, parameters }, "options");
-  return new NotebookDesign(ask(setup, figure, question, { grid, title }));
+  return new NotebookDesign<OptimumAnswer>(ask(setup, figure, question, { grid, title }));
 }
 
 /** What the spread of uncertain parameters does to the figure: histogram, percentiles, noise bands. */
-export function spreadWidget(setup: SetupDescription, figure: FigureSpec, uncertain: UncertaintySpec[], options: SpreadWidgetOptions = {}): NotebookDesign {
+export function spreadWidget(setup: SetupDescription, figure: FigureSpec, uncertain: UncertaintySpec[], options: SpreadWidgetOptions = {}): NotebookDesign<SpreadAnswer> {
   const { grid, title, ...rest } = options;
   const question = checkQuestion({ kind: "spread", ...rest, uncertain }, "options");
-  return new NotebookDesign(ask(setup, figure, question, { grid, title }));
+  return new NotebookDesign<SpreadAnswer>(ask(setup, figure, question, { grid, title }));
 }
 
 /** A saved design widget (a bare state or a widget-state document, as an object or JSON text), its answer computed again. */

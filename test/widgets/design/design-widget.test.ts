@@ -1,5 +1,8 @@
-import { readFileSync } from "node:fs";
+import { mkdtempSync, readFileSync, rmSync, writeFileSync } from "node:fs";
+import { tmpdir } from "node:os";
+import { join } from "node:path";
 import { describe, expect, it } from "vitest";
+import { runCliAsync } from "../../../src/cli/run";
 import { optimizeDesign, QuietframeError, rankParameters, spreadAnalysis, type FigureSpec, type SetupDescription } from "../../../src/index";
 import { decodeNumber, rankingAnswer, rankOneByOne } from "../../../widgets/design/answer";
 import { designDocumentText, loadDesignState, readDesignState } from "../../../widgets/design/document";
@@ -139,6 +142,36 @@ describe("design widget state", () => {
     expect(csv.split("\n").filter((l) => l.startsWith("sample,")).length).toBe(200);
     const html = new TextDecoder().decode(await kindOutput(kind, loaded, "html", 1));
     expect(html).toContain(`data-quietframe-fingerprint="${spread.fingerprint}"`);
+  });
+
+  it("`quietframe render` writes the figure of a saved state and, with --strict, refuses one whose answer it does not reproduce", async () => {
+    const dir = mkdtempSync(join(tmpdir(), "quietframe-design-render-"));
+    try {
+      const run = async (...argv: string[]) => {
+        let out = "";
+        let err = "";
+        const code = await runCliAsync(["render", ...argv], { out: (t) => (out += t), err: (t) => (err += t) });
+        return { code, out, err };
+      };
+      const saved = join(dir, "ranking.json");
+      writeFileSync(saved, ranking.stateText());
+      const ok = await run(saved, "-o", join(dir, "ranking.csv"), "--strict");
+      expect(ok.code).toBe(0);
+      expect(ok.out).toContain(ranking.fingerprint);
+      expect(readFileSync(join(dir, "ranking.csv"), "utf8").split("\n")[0]).toBe("rank,parameter,value,gain_dB_per_1_percent,low_dB,high_dB,helps");
+      // A stored answer that is not what the question gives: its fingerprint no longer matches the recomputation.
+      const doc = JSON.parse(ranking.stateText());
+      const model = Object.values(doc.state)[0] as { state: { answer: RankingAnswer; fingerprint: string } };
+      const rows = model.state.answer.rows;
+      model.state.answer = { ...model.state.answer, rows: [{ ...rows[0], value: rows[0].value * 2 }, ...rows.slice(1)] };
+      model.state.fingerprint = answerFingerprint(model.state.answer);
+      writeFileSync(saved, JSON.stringify(doc));
+      const refused = await run(saved, "-o", join(dir, "ranking.svg"), "--strict");
+      expect(refused.code).toBe(1);
+      expect(refused.err).toMatch(/recomputed curves differ/);
+    } finally {
+      rmSync(dir, { recursive: true, force: true });
+    }
   });
 
   it("a changed number changes the fingerprint, and loading reports the mismatch", () => {
