@@ -236,6 +236,26 @@ describe("design widget: bad input names the field and keeps the last answer", (
     expect(broken((s) => (s.answer as { values: unknown[] }).values.pop())).toBe(`${base}.answer.values`);
     expect(broken((s) => ((s.answer as { distribution: Record<string, unknown> }).distribution.median = "x"))).toBe(`${base}.answer.distribution.median`);
     expect(broken((s) => ((s.grid as Record<string, unknown>).points = 0.5))).toBe(`${base}.grid.points`);
+    const rankingDoc = JSON.parse(ranking.stateText()) as typeof doc;
+    const rankingId = Object.keys(rankingDoc.state)[0];
+    const rankingBase = `state.state.${rankingId}.state`;
+    const brokenRanking = (change: (s: Record<string, unknown>) => void): string => {
+      const copy = structuredClone(rankingDoc);
+      change(copy.state[rankingId].state);
+      return errorOf(() => readDesignState(JSON.stringify(copy))).path;
+    };
+    expect(brokenRanking((s) => ((s.answer as { rows: Record<string, unknown>[] }).rows[1].helps = "sideways"))).toBe(`${rankingBase}.answer.rows[1].helps`);
+    expect(brokenRanking((s) => ((s.answer as { rows: { best: Record<string, unknown> }[] }).rows[0].best.range = [1]))).toBe(`${rankingBase}.answer.rows[0].best.range`);
+    expect(brokenRanking((s) => ((s.question as Record<string, unknown>).scanPoints = 2))).toBe(`${rankingBase}.question.scanPoints`);
+    expect(brokenRanking((s) => ((s.question as Record<string, unknown>).seed = 1))).toBe(`${rankingBase}.question.seed`);
+    const optimumDoc = JSON.parse(optimum.stateText()) as typeof doc;
+    const optimumId = Object.keys(optimumDoc.state)[0];
+    const optimumState = optimumDoc.state[optimumId].state as { answer: { curves: { after: unknown[] } }; question: { parameters: Record<string, unknown>[] } };
+    optimumState.answer.curves.after.pop();
+    expect(errorOf(() => readDesignState(JSON.stringify(optimumDoc))).path).toBe(`state.state.${optimumId}.state.answer.curves.after`);
+    optimumState.answer.curves.after.push(1e-39);
+    optimumState.question.parameters[0].min = { value: 1 };
+    expect(errorOf(() => readDesignState(JSON.stringify(optimumDoc))).path).toBe(`state.state.${optimumId}.state.question.parameters[0].min`);
     // A question the engine refuses when computing again: the path points into the question.
     const copy = structuredClone(doc);
     (copy.state[id].state.question as { uncertain: { target: string }[] }).uncertain[0].target = "detector.nothing";
