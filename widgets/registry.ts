@@ -4,6 +4,7 @@
  * the loader. Adding a kind: a folder with its kind.ts, and one line below.
  */
 import type { LoadedWidget, LoadOptions, WidgetKind } from "./core/kind";
+import { designKind } from "./design/kind";
 import { entangledKind } from "./entangled/kind";
 import { explorerKind } from "./explorer/kind";
 import { toleranceKind } from "./tolerance/kind";
@@ -13,7 +14,7 @@ import { trajectoryKind } from "./trajectory/kind";
  * In the order a saved state is matched against them. The explorer comes last and also reads
  * input no other kind recognises, so that its reader says what is wrong with it.
  */
-export const WIDGET_KINDS: readonly WidgetKind[] = [trajectoryKind, toleranceKind, entangledKind, explorerKind];
+export const WIDGET_KINDS: readonly WidgetKind[] = [trajectoryKind, toleranceKind, entangledKind, designKind, explorerKind];
 
 /** The kind of a saved state (text or parsed); the last kind when none recognises it. */
 export function kindOf(input: unknown): WidgetKind {

@@ -12,7 +12,7 @@ const LAYERS = ["engine", "widgets core", "widget kinds", "application"] as cons
 type Layer = (typeof LAYERS)[number];
 
 /** Folders under widgets/ that are widget kinds (one folder per kind, see widgets/registry.ts). */
-const KIND_FOLDERS = ["explorer", "trajectory", "tolerance", "entangled"];
+const KIND_FOLDERS = ["explorer", "trajectory", "tolerance", "entangled", "design"];
 /** Files and folders of the application layer (the top). */
 const APPLICATION = ["src/cli/", "widgets/notebook/", "widgets/kernel/", "widgets/runtime/", "widgets/index.ts", "widgets/registry.ts"];
 /** Folders of code that runs in a page (the runtime bundle and the front-end module); `*` is one folder name. */

@@ -38,7 +38,7 @@ describe("the widget registry", () => {
     const names = WIDGET_KINDS.map((k) => k.name);
     expect(new Set(names).size).toBe(names.length);
     expect(new Set(WIDGET_KINDS.map((k) => k.stateFormat)).size).toBe(names.length);
-    expect([...names].sort()).toEqual(["entangled", "explorer", "tolerance", "trajectory"]);
+    expect([...names].sort()).toEqual(["design", "entangled", "explorer", "tolerance", "trajectory"]);
   });
 
   it.each([

@@ -27,6 +27,20 @@ export type { ExplorerSettings, ExplorerState } from "../explorer/format";
 export { entangledPanel, EntangledPanel, type EntangledFigures, type EntangledShowOptions } from "../entangled/notebook";
 export { trajectoryWidget, NotebookTrajectory, type TrajectoryChanges, type TrajectoryFiguresPlain, type TrajectoryShowOptions } from "../trajectory/notebook";
 export { toleranceWidget, NotebookTolerance, type ToleranceWidgetOptions, type ToleranceShowOptions } from "../tolerance/notebook";
+export {
+  rankingWidget,
+  optimumWidget,
+  spreadWidget,
+  designWidget,
+  NotebookDesign,
+  type DesignShowOptions,
+  type DesignWidgetOptions,
+  type RankingWidgetOptions,
+  type OptimumWidgetOptions,
+  type SpreadWidgetOptions,
+  type QuestionChanges,
+} from "../design/notebook";
+export type { DesignAnswer, DesignState, RankingAnswer, OptimumAnswer, SpreadAnswer } from "../design/format";
 
 /**
  * Reads a set-up file (relative paths from the kernel's working directory, which is the

@@ -1,0 +1,24 @@
+/** The design widget as a widget kind (see core/kind.ts): the registry's entry for it. */
+import type { LoadedWidget, WidgetKind } from "../core/kind";
+import { designView } from "./browser/view";
+import { designCautions } from "./cautions";
+import { designCsv } from "./csv";
+import { isDesignInput, loadDesignState } from "./document";
+import { DESIGN_STATE_FORMAT, type DesignState } from "./format";
+import { designFragment, designPageDocument } from "./fragment";
+import { designFigureSpec } from "./specs";
+
+export const designKind: WidgetKind<LoadedWidget<DesignState>> = {
+  name: "design",
+  stateFormat: DESIGN_STATE_FORMAT,
+  recognises: isDesignInput,
+  load(input, source) {
+    // The question is computed again (its seeds make that exact); the state keeps the stored fingerprint, so a page can tell a mismatch.
+    const { state, recomputedFingerprint } = loadDesignState(input, source);
+    return { state, fingerprint: { stored: state.fingerprint, recomputed: recomputedFingerprint, writtenBy: state.quietframe }, warnings: [], cautions: designCautions(state) };
+  },
+  figure: ({ state }) => ({ spec: designFigureSpec(state.answer), csv: designCsv(state.answer) }),
+  fragment: ({ state }, parts) => designFragment(state, parts),
+  page: ({ state }, parts) => designPageDocument(state, parts),
+  view: designView,
+};
