@@ -44,3 +44,8 @@ export { computeTrajectory, createTrajectoryState, prepareTrajectory, finishTraj
 export { loadTrajectoryState, parseTrajectoryState, trajectoryDocumentText, isTrajectoryInput } from "./trajectory/document";
 export { TRAJECTORY_STATE_FORMAT, TRAJECTORY_STATE_VERSION, type TrajectoryState, type SimulationSpec } from "./trajectory/format";
 export { trajectoryPanelSpec } from "./trajectory/specs";
+
+// Design answers (ranking, optimum, spread).
+export { designHtml, designPage, type DesignHtmlOptions } from "./design/html";
+export { loadDesignState, readDesignState, designDocumentText, isDesignInput, type LoadedDesignState } from "./design/document";
+export { DESIGN_STATE_FORMAT, DESIGN_STATE_VERSION, type DesignState, type DesignQuestion } from "./design/format";

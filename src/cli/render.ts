@@ -24,9 +24,10 @@ export { OUTPUT_FORMATS, type OutputFormat };
 
 export const RENDER_USAGE = `  quietframe render <state.json> -o <out.html|out.svg|out.png|out.csv> [--format F] [--strict] [--scale S]
       Recomputes a saved widget state (an explorer, a trajectory widget whose simulation
-      runs again from its seed, a tolerance map or an entangled-light panel) and writes its
-      figure: a standalone interactive page (html), the chart (svg, png at --scale, default 2)
-      or the plotted numbers (csv; explorers and trajectories). Warns when the recomputed
+      runs again from its seed, a tolerance map, an entangled-light panel or a design answer
+      computed again from its question) and writes its figure: a standalone interactive page
+      (html), the chart (svg, png at --scale, default 2) or the plotted numbers (csv; not for
+      tolerance maps and entangled panels). Warns when the recomputed
       curves differ from the stored fingerprint; --strict makes that an error.
       A saved notebook (.ipynb) works too: its widget outputs and live charts, in the order the
       notebook shows them (--widget N if several; the error lists them).

@@ -1,6 +1,7 @@
-import { dirname } from "node:path";
+import { existsSync, readdirSync } from "node:fs";
+import { dirname, join } from "node:path";
 import { describe, expect, it } from "vitest";
-import { cycles, importsOf, sourceFiles, type ImportEdge } from "./import-graph";
+import { cycles, importsOf, ROOT, sourceFiles, type ImportEdge } from "./import-graph";
 
 /**
  * The layer rules of DEVELOPERS.md, enforced: engine ← widgets core ← widget kinds ←
@@ -11,8 +12,8 @@ import { cycles, importsOf, sourceFiles, type ImportEdge } from "./import-graph"
 const LAYERS = ["engine", "widgets core", "widget kinds", "application"] as const;
 type Layer = (typeof LAYERS)[number];
 
-/** Folders under widgets/ that are widget kinds (one folder per kind, see widgets/registry.ts). */
-const KIND_FOLDERS = ["explorer", "trajectory", "tolerance", "entangled", "design"];
+/** Folders under widgets/ that are widget kinds: those with a kind.ts (core/kind.ts is the interface itself). */
+const KIND_FOLDERS = readdirSync(join(ROOT, "widgets")).filter((name) => name !== "core" && existsSync(join(ROOT, "widgets", name, "kind.ts")));
 /** Files and folders of the application layer (the top). */
 const APPLICATION = ["src/cli/", "widgets/notebook/", "widgets/kernel/", "widgets/runtime/", "widgets/index.ts", "widgets/registry.ts"];
 /** Folders of code that runs in a page (the runtime bundle and the front-end module); `*` is one folder name. */
@@ -46,6 +47,11 @@ function folderOf(file: string): string {
 const where = (e: ImportEdge): string => `${e.from}:${e.line} imports ${e.specifier}${e.to ? ` (${e.to})` : ""}`;
 
 describe("layer rules", () => {
+  it("finds the widget kinds by their kind.ts", () => {
+    expect(KIND_FOLDERS).toEqual(expect.arrayContaining(["design", "entangled", "explorer", "tolerance", "trajectory"]));
+    expect(KIND_FOLDERS).not.toContain("core");
+  });
+
   it("every source file belongs to a layer", () => {
     expect(FILES.filter((f) => layerOf(f) === undefined)).toEqual([]);
   });
@@ -89,6 +95,6 @@ describe("the import reader behind the rules", () => {
 
   it("reads this test's own imports, resolved to files", () => {
     const own = importsOf("test/layout/layers.test.ts");
-    expect(own.map((e) => e.to ?? e.specifier)).toEqual(["node:path", "vitest", "test/layout/import-graph.ts"]);
+    expect(own.map((e) => e.to ?? e.specifier)).toEqual(["node:fs", "node:path", "vitest", "test/layout/import-graph.ts"]);
   });
 });
