@@ -65,6 +65,6 @@ describe("quietframe kernel install", () => {
   it("refuses an unknown kernel subcommand", () => {
     const err: string[] = [];
     expect(runCli(["kernel", "uninstall"], { out: () => undefined, err: (s) => err.push(s) })).toBe(1);
-    expect(err.join("")).toBe('quietframe: kernel = "uninstall": is not a kernel subcommand; allowed: install\n');
+    expect(err.join("")).toBe('quietframe: kernel = "uninstall": is not a kernel subcommand (did you mean "install"?); allowed: install\n');
   });
 });

@@ -7,6 +7,7 @@ import { designCautions } from "./cautions";
 import { htmlDocument } from "../core/page/html-document";
 import { FINGERPRINT_ATTRIBUTE, VERSION_ATTRIBUTE } from "../core/page/names";
 import { plainSvg } from "../core/page/plain-svg";
+import { safetyNoteHtml } from "../core/page/safety-note";
 import type { FragmentParts, PageParts } from "../core/page/parts";
 import type { DesignState } from "./format";
 import { DESIGN_CLASS, DESIGN_STATE_CLASS } from "./names";
@@ -23,6 +24,7 @@ export function designFragment(state: DesignState, parts: FragmentParts): string
   const out: string[] = [];
   out.push(`<div class="${DESIGN_CLASS}" ${VERSION_ATTRIBUTE}="${escapeHtml(QUIETFRAME_VERSION)}" ${FINGERPRINT_ATTRIBUTE}="${escapeHtml(state.fingerprint)}">`);
   out.push(`<style>${FALLBACK_STYLE}</style>`);
+  out.push(safetyNoteHtml());
   out.push(`<div class="qf-fallback">`);
   if (parts.svg !== undefined) out.push(plainSvg(parts.svg));
   if (parts.png !== undefined) out.push(fallbackPng(parts.png, designTitle(state)));

@@ -11,7 +11,7 @@ import { loadWidgetState, WIDGET_KINDS } from "../../../../widgets/registry";
  * the README section it points to exists.
  */
 const ROOT = join(__dirname, "..", "..", "..", "..");
-const STATES = join(ROOT, "test", "fixtures", "states");
+const STATES = join(ROOT, "examples", "states");
 
 describe("the standing safety note", () => {
   const files = readdirSync(STATES).filter((f) => f.endsWith(".json"));
