@@ -32,7 +32,7 @@ export interface NoiseBudget {
   readonly quantity: { readonly name: string; readonly unit: string };
   /** Detectors whose outputs are combined (optimally, with frequency-dependent weights). */
   readonly readout: readonly string[];
-  /** Total one-sided PSD; equals the sum of the terms. */
+  /** Total one-sided PSD; equals the sum of the terms. It and the terms' PSDs are views of one buffer. */
   readonly total: Float64Array;
   readonly terms: readonly BudgetTerm[];
   /** SQL, zero-point and thermal references, in the same quantity. */
@@ -51,18 +51,25 @@ export function noiseBudget(assembled: AssembledSetup, frequencies: Float64Array
   const groups = model.groups;
   const nf = frequencies.length;
   const p = readoutRows.length;
-  const total = new Float64Array(nf);
-  const termPsd = groups.map(() => new Float64Array(nf));
+  const nGroups = groups.length;
+  // One allocation for the total and every term (a typed array costs about as much to allocate
+  // as tens of frequencies cost to compute): the total first, then each group's, as views.
+  const curves = new Float64Array((1 + nGroups) * nf);
+  const total = curves.subarray(0, nf);
+  const termPsd = groups.map((_, g) => curves.subarray((1 + g) * nf, (2 + g) * nf));
   const evaluator = new TransferEvaluator(model, readoutRows);
   const referral: SignalReferral = p === 1 ? new SingleOutput(model, groups) : new OptimalCombination(model, groups, p);
-  // The referral factor (|χ|² for displacement) serves the terms and every reference curve.
-  const factors = new Float64Array(nf);
-  const nGroups = groups.length;
+  // The angular frequencies and the referral factor (|χ|² for displacement), which serves the
+  // terms and every reference curve, kept for the reference curves.
+  const atFrequency = new Float64Array(2 * nf);
+  const omegas = atFrequency.subarray(0, nf);
+  const factors = atFrequency.subarray(nf);
   const referred = new Float64Array(nGroups);
   let blindPoints = 0;
 
   for (let f = 0; f < nf; f++) {
     const omega = 2 * Math.PI * frequencies[f];
+    omegas[f] = omega;
     const factor = referredTo.psdFactor(omega);
     factors[f] = factor;
     evaluator.at(omega);
@@ -71,7 +78,7 @@ export function noiseBudget(assembled: AssembledSetup, frequencies: Float64Array
       sum = 0;
       for (let g = 0; g < nGroups; g++) {
         const v = referred[g] * factor;
-        termPsd[g][f] = v;
+        curves[(1 + g) * nf + f] = v;
         sum += v;
       }
     }
@@ -80,7 +87,7 @@ export function noiseBudget(assembled: AssembledSetup, frequencies: Float64Array
     if (!Number.isFinite(sum)) {
       blindPoints++;
       total[f] = Infinity;
-      for (let g = 0; g < nGroups; g++) termPsd[g][f] = Infinity;
+      for (let g = 0; g < nGroups; g++) curves[(1 + g) * nf + f] = Infinity;
     }
   }
 
@@ -106,8 +113,6 @@ export function noiseBudget(assembled: AssembledSetup, frequencies: Float64Array
   // Each reference curve is computed when it is first read (a figure of merit reads one, a
   // noise band none): from the angular frequencies and factors of this call, so it has the
   // same bits as when computed here, whatever happens to the caller's frequency array since.
-  const omegas = new Float64Array(nf);
-  for (let f = 0; f < nf; f++) omegas[f] = 2 * Math.PI * frequencies[f];
   const references = signal.curves.map((curve) => lazyReference(curve, omegas, factors));
   return {
     frequencies,

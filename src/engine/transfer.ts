@@ -7,7 +7,9 @@ import type { StateSpaceModel } from "../network/model";
  * It solves (−iΩ I − A)ᵀ Gᵀ = C_rᵀ (a few right-hand sides) instead of inverting,
  * and keeps all work arrays between calls. Everything that does not depend on Ω (−A, C_rᵀ,
  * the non-zero entries of B and b_s) is laid out once in the constructor, so a frequency
- * costs the factorisation, the solve and the products over non-zero entries only.
+ * costs the factorisation, the solve and the products over non-zero entries only. The
+ * factorisation and the solve are those of linalg/complex-lu.ts, operation for operation,
+ * written out here so that each pivot's reciprocal is computed once for both.
  */
 export class TransferEvaluator {
   readonly rows: readonly number[];
