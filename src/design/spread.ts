@@ -106,7 +106,7 @@ export interface SampleOutcomes {
   /** Row k: the total noise of sample from + k on the band grid (rows of samples without a value are left 0); empty without bands. */
   readonly curves: Float64Array;
   /** The first sample of these without a value, and why. */
-  readonly firstFailure?: { readonly sample: number; readonly message: string };
+  readonly firstFailure?: { readonly sample: number; readonly message?: string };
 }
 
 /** What evaluating samples needs: the problem, the uncertainties, the band grid and the draws. */
@@ -167,7 +167,7 @@ export function evaluateSamples(plan: SampleJob, from: number, to: number): Samp
     values[s - from] = outcome.value;
     status[s - from] = outcome.status;
     if (outcome.status !== CellStatus.ok) {
-      firstFailure ??= { sample: s, message: outcome.message ?? "" };
+      firstFailure ??= { sample: s, message: outcome.message };
       continue;
     }
     if (frequencies && outcome.curve) curves.set(outcome.curve, (s - from) * nf);
@@ -182,14 +182,18 @@ export function evaluateSamples(plan: SampleJob, from: number, to: number): Samp
 export function finishSpread(plan: SpreadPlan, parts: readonly SampleOutcomes[], evaluatedElsewhere = 0): SpreadResult {
   const { problem, list, samples, seed, target, nominal, centres, frequencies, draws, redrawn } = plan;
   const nf = frequencies?.length ?? 0;
-  const values = new Float64Array(samples);
-  const status = new Uint8Array(samples);
-  const curves = new Float64Array(frequencies ? samples * nf : 0);
+  const whole = parts.length === 1 && parts[0].values.length === samples;
+  // One part (the in-process run) is used as it is: its curves alone can be hundreds of megabytes.
+  const values = whole ? parts[0].values : new Float64Array(samples);
+  const status = whole ? parts[0].status : new Uint8Array(samples);
+  const curves = whole ? parts[0].curves : new Float64Array(samples * nf);
   let firstFailure: SampleOutcomes["firstFailure"];
   for (const part of parts) {
-    values.set(part.values, part.from);
-    status.set(part.status, part.from);
-    if (frequencies) curves.set(part.curves, part.from * nf);
+    if (!whole) {
+      values.set(part.values, part.from);
+      status.set(part.status, part.from);
+      curves.set(part.curves, part.from * nf);
+    }
     if (part.firstFailure && (!firstFailure || part.firstFailure.sample < firstFailure.sample)) firstFailure = part.firstFailure;
   }
   let unstable = 0;

@@ -238,17 +238,21 @@ function preparedRows(r) {
   return [
     {
       id: "7a",
-      measure: `one prepared evaluation (values written in, checks, budget at ${p.points} pts, every number read): SetupPreparer vs prepare(description, values)`,
-      result: `${x(low)} faster (least over the examples)`,
+      measure:
+        `one prepared evaluation (values written in, checks, budget at ${p.points} pts, every number read): SetupPreparer` +
+        (before === undefined ? " vs prepare(description, values)" : " vs the older build"),
+      result: `${x(before ?? low)} faster (least over the examples)`,
       detail: [
         ...p.rows.map(
           (e) =>
             `${e.file}: fast ${fmtUs(e.fastUs)} · plain ${fmtUs(e.plainUs)} (${x(e.speedup)}) · total only ${fmtUs(e.fastTotalUs)} (${x(e.totalOnlySpeedup)})` +
             (e.beforeUs === undefined ? "" : ` · older build ${fmtUs(e.beforeUs)} (${x(e.speedupOverBefore)})`),
         ),
-        before === undefined ? "set QUIETFRAME_BASELINE_DIST to an older build's dist folder to time it in the same run" : `against the older build: at least ${x(before)} (goal ≥ 3×)`,
+        before === undefined
+          ? "set QUIETFRAME_BASELINE_DIST to an older build's dist folder to time it in the same run (the goal is against it)"
+          : `fast vs plain way in this build: at least ${x(low)}; "total only" reads no reference curve (what noise bands and maps read)`,
       ],
-      goal: before === undefined ? "" : "≥ 3× the older build",
+      goal: before === undefined ? "" : "≥ 3×",
       met: before === undefined ? "" : before >= 3 ? "yes" : "NO",
     },
     {
