@@ -1,7 +1,8 @@
 #!/usr/bin/env bash
 # Makes sure the Debian packages that the notebook and browser suites drive are installed:
 # the real Jupyter clients (nbconvert/nbclient, nbformat, jupyter-client, ipykernel, the
-# classic notebook server, the kernel conformance tests) and Chromium. The suites test
+# classic notebook server, the kernel conformance tests), Chromium, and NumPy for the bench
+# row that compares the engine with the same algebra written in NumPy. The suites test
 # against these outside programs on purpose, so they come from the distribution, not npm.
 #
 # Idempotent and silent when everything is present. Installs only what is missing, as root
@@ -17,6 +18,7 @@ PACKAGES=(
   python3-ipykernel
   jupyter-notebook
   chromium
+  python3-numpy
 )
 
 if ! command -v dpkg-query >/dev/null 2>&1; then

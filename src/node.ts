@@ -1,7 +1,8 @@
 /**
  * quietframe for Node: everything of the browser-safe main entry, plus what needs the
- * platform — tolerance maps on worker threads and reading set-up files.
+ * platform — tolerance maps and Monte Carlo spreads on worker threads, and reading set-up files.
  */
 export * from "./index";
 export { toleranceMap, TolerancePool } from "./tolerance/node";
 export { loadSetupFile } from "./setup/load-file";
+export { spreadAnalysisOnThreads, type SpreadThreadOptions } from "./design/spread-threads";

@@ -1,11 +1,12 @@
 import { checkPhysicality, type PhysicalityReport } from "./engine/covariance";
 import { analyzeStability, requireNoGrowingModes, type StabilityReport } from "./engine/stability";
-import { QuietframeError } from "./errors";
+import { QuietframeError, QuietframeErrors } from "./errors";
 import { assemble, type AssembledSetup } from "./setup/assemble";
 import { applyValues } from "./setup/apply-values";
 import type { SetupDescription } from "./setup/format";
 import { loadSetup } from "./setup/load";
 import { parseJsonText } from "./setup/parse-json";
+import { SetupRevaluer } from "./setup/revalue";
 import { requireSomeDetection, type ResolvedSetup } from "./setup/validate";
 
 /**
@@ -42,7 +43,45 @@ export interface PreparedSetup {
  * UnstableSetupError (path `setup`) that says which mode grows and why.
  */
 export function prepare(setup: string | SetupDescription | ResolvedSetup, values?: SetupValues): PreparedSetup {
-  const resolved = resolveWithValues(setup, values);
+  return checked(resolveWithValues(setup, values));
+}
+
+/**
+ * Prepares many value sets of one set-up (a map's cells, Monte Carlo samples, a slider's
+ * positions): the set-up is parsed and validated once, here, and each value set is written
+ * into the validated set-up, so that only the components it names are validated again.
+ * `prepare(values)` gives what `prepare(setup, values)` would give for the set-up as it was
+ * when the preparer was made: the same result bit for bit, the same errors.
+ */
+export class SetupPreparer {
+  private readonly revaluer?: SetupRevaluer;
+  private readonly base?: ResolvedSetup;
+
+  constructor(private readonly setup: string | SetupDescription | ResolvedSetup) {
+    if (isResolved(setup)) return;
+    try {
+      const description = typeof setup === "string" ? parseJsonText(setup, "setup") : setup;
+      if (!hasComponentList(description)) return;
+      this.base = loadSetup(description);
+      this.revaluer = new SetupRevaluer(this.base);
+    } catch (e) {
+      // A set-up that does not validate as it is may still do so with values written in:
+      // each value set then goes the plain way, which reports whatever is wrong.
+      if (!(e instanceof QuietframeError || e instanceof QuietframeErrors)) throw e;
+    }
+  }
+
+  prepare(values?: SetupValues): PreparedSetup {
+    const { revaluer, base } = this;
+    if (!revaluer || !base) return prepare(this.setup, values);
+    if (values === undefined) return checked(base);
+    if (typeof values !== "object" || values === null || Array.isArray(values)) return prepare(this.setup, values);
+    return checked(revaluer.resolve(values));
+  }
+}
+
+/** Passes 3 and 4 on a validated set-up: a readout that detects, assembly, stability, physicality. */
+function checked(resolved: ResolvedSetup): PreparedSetup {
   requireSomeDetection(resolved);
   const assembled = assemble(resolved);
   const stability = requireNoGrowingModes(assembled, analyzeStability(assembled));

@@ -1,15 +1,15 @@
 import { spectralDensityUnit } from "../engine/tabulate";
 import { QuietframeError } from "../errors";
 import { assemble } from "../setup/assemble";
-import { figureAndCurveOfSetup, figureOfSetup } from "../figures/of-setup";
+import { figureAndCurveOfPrepared } from "../figures/of-setup";
 import { CellStatus, type FigureOutcome } from "../figures/outcome";
 import { ALL_FIGURE_KINDS, resolveFigure, type FigureInfo, type FigureSpec, type FigurePlan } from "../figures/spec";
 import { log10, pow } from "../numeric/portable-math";
 import { FALLBACK_GRID } from "../pipeline";
-import { applyValues } from "../setup/apply-values";
 import type { SetupDescription } from "../setup/format";
 import { checkGrid, logGrid, parseGrid, type FrequencyGridSpec } from "../setup/grid";
 import { loadSetup } from "../setup/load";
+import { SetupPreparer } from "../prepare";
 import { parseJsonText } from "../setup/parse-json";
 import type { ResolvedSetup } from "../setup/validate";
 import { exactText, type DesignParameter } from "./parameters";
@@ -59,13 +59,15 @@ export function designProblem(setup: SetupDescription | string, figure: FigureSp
   const resolved = resolveFigure(description, base, figure, g, { kinds: ALL_FIGURE_KINDS, atFrequency: "exact" });
   const designFigure: DesignFigure = { ...resolved.info, better: resolved.info.kind === "noise-at" ? "lower" : "higher" };
   let evaluations = 0;
-  const written = (values: Readonly<Record<string, number>>, parameters: readonly DesignParameter[]): SetupDescription => {
+  // Each trial is written into the set-up validated once (the same result as writing it into the description and preparing that).
+  const preparer = new SetupPreparer(description);
+  const written = (values: Readonly<Record<string, number>>, parameters: readonly DesignParameter[]) => {
     const text: Record<string, string | number> = {};
     for (const p of parameters) {
       const v = values[p.target];
       if (v !== undefined) text[p.target] = exactText(v, p);
     }
-    return applyValues(description, text);
+    return () => preparer.prepare(text);
   };
   return {
     setup: description,
@@ -77,11 +79,11 @@ export function designProblem(setup: SetupDescription | string, figure: FigureSp
     grid: g,
     evaluate(values, parameters) {
       evaluations++;
-      return figureOfSetup(written(values, parameters), resolved.plan, resolved.frequencies);
+      return figureAndCurveOfPrepared(written(values, parameters), resolved.plan, resolved.frequencies, undefined);
     },
     evaluateWithCurve(values, parameters, curveFrequencies) {
       evaluations++;
-      return figureAndCurveOfSetup(written(values, parameters), resolved.plan, resolved.frequencies, curveFrequencies);
+      return figureAndCurveOfPrepared(written(values, parameters), resolved.plan, resolved.frequencies, curveFrequencies);
     },
     get evaluations() {
       return evaluations;

@@ -5,8 +5,9 @@ import type { SetupDescription } from "../setup/format";
 import { logGrid } from "../setup/grid";
 import { GaussianSource } from "../timedomain/random";
 import { parameterDerivative } from "./parameter-derivative";
-import { designProblem, merit, type DesignFigure, type DesignGrid } from "./problem";
+import { designProblem, merit, type DesignFigure, type DesignGrid, type DesignProblem } from "./problem";
 import { meanAndDeviation, quantileSorted } from "./quantile";
+import { quantilesBySelection } from "./select-quantile";
 import { targetMerit } from "./target";
 import { resolveUncertainties, type ResolvedUncertainty, type SpreadDistribution, type UncertaintySpec } from "./uncertainty";
 
@@ -73,8 +74,55 @@ export interface SpreadResult {
 const MAX_REDRAWS = 1000;
 
 export function spreadAnalysis(setup: SetupDescription | string, figure: FigureSpec, uncertain: readonly UncertaintySpec[], options: SpreadOptions = {}): SpreadResult {
+  const plan = planSpread(setup, figure, uncertain, options);
+  return finishSpread(plan, [evaluateSamples(plan, 0, plan.samples)]);
+}
+
+/**
+ * A Monte Carlo run laid out before any sample is evaluated: the problem, the nominal figure
+ * and every sample's draws (the seeded generator is used in sample order, here only, so where
+ * the samples are then evaluated changes no bit).
+ */
+export interface SpreadPlan {
+  readonly problem: DesignProblem;
+  readonly list: readonly ResolvedUncertainty[];
+  readonly samples: number;
+  readonly seed: number;
+  readonly target?: { readonly value: number; readonly merit: number };
+  readonly nominal: number;
+  readonly centres: Readonly<Record<string, number>>;
+  /** Grid of the noise bands (Hz); absent when bands are off. */
+  readonly frequencies?: Float64Array;
+  /** Drawn SI values by target, one per sample. */
+  readonly draws: Readonly<Record<string, Float64Array>>;
+  readonly redrawn: readonly number[];
+}
+
+/** The outcomes of samples from, from + 1, …: figure and status of each, and the total noise of each on the band grid. */
+export interface SampleOutcomes {
+  readonly from: number;
+  readonly values: Float64Array;
+  readonly status: Uint8Array;
+  /** Row k: the total noise of sample from + k on the band grid (rows of samples without a value are left 0); empty without bands. */
+  readonly curves: Float64Array;
+  /** The first sample of these without a value, and why. */
+  readonly firstFailure?: { readonly sample: number; readonly message?: string };
+}
+
+/** What evaluating samples needs: the problem, the uncertainties, the band grid and the draws. */
+export type SampleJob = Pick<SpreadPlan, "problem" | "list" | "frequencies" | "draws">;
+
+/** The problem, the uncertainties and the band grid of a spread: checked first by planSpread, rebuilt by a worker thread. */
+export function spreadSetting(setup: SetupDescription | string, figure: FigureSpec, uncertain: readonly UncertaintySpec[], options: Pick<SpreadOptions, "grid" | "bands">): Omit<SampleJob, "draws"> {
   const problem = designProblem(setup, figure, options.grid);
   const list = resolveUncertainties(problem.base, uncertain);
+  const frequencies = options.bands === false ? undefined : logGrid(problem.grid);
+  return { problem, list, frequencies };
+}
+
+/** Checks everything, evaluates the nominal figure and draws every sample. */
+export function planSpread(setup: SetupDescription | string, figure: FigureSpec, uncertain: readonly UncertaintySpec[], options: SpreadOptions = {}): SpreadPlan {
+  const { problem, list, frequencies } = spreadSetting(setup, figure, uncertain, options);
   const samples = wholeNumber(options.samples, 1000, 2, 100_000, "options.samples");
   const seed = wholeNumber(options.seed, 1, 0, 4294967295, "options.seed");
   const target = options.target === undefined ? undefined : targetMerit(problem.figure, options.target, "target");
@@ -89,36 +137,75 @@ export function spreadAnalysis(setup: SetupDescription | string, figure: FigureS
       allowed: "centres at which the set-up evaluates",
     });
   }
-  const nominal = nominalOutcome.value;
-  const frequencies = options.bands === false ? undefined : logGrid(problem.grid);
-
   const random = new GaussianSource(seed);
   const draws: Record<string, Float64Array> = Object.fromEntries(list.map((u) => [u.parameter.target, new Float64Array(samples)]));
   const redrawn = list.map(() => 0);
-  const values = new Float64Array(samples);
-  const curves: Float64Array[] = [];
-  let unstable = 0;
-  let invalid = 0;
-  let firstFailure: string | undefined;
-  let reached = 0;
   for (let s = 0; s < samples; s++) {
-    const setting: Record<string, number> = {};
     list.forEach((u, k) => {
       const { value, redraws } = draw(u, random);
       redrawn[k] += redraws;
-      setting[u.parameter.target] = value;
       draws[u.parameter.target][s] = value;
     });
+  }
+  return { problem, list, samples, seed, target, nominal: nominalOutcome.value, centres, frequencies, draws, redrawn };
+}
+
+/** Evaluates samples from … to − 1 (in this thread; a worker thread runs the same on its own copy of the job). */
+export function evaluateSamples(plan: SampleJob, from: number, to: number): SampleOutcomes {
+  const { problem, list, frequencies, draws } = plan;
+  const params = list.map((u) => u.parameter);
+  const count = to - from;
+  const nf = frequencies?.length ?? 0;
+  const values = new Float64Array(count);
+  const status = new Uint8Array(count);
+  const curves = new Float64Array(count * nf);
+  let firstFailure: SampleOutcomes["firstFailure"];
+  for (let s = from; s < to; s++) {
+    const setting: Record<string, number> = {};
+    for (const u of list) setting[u.parameter.target] = draws[u.parameter.target][s];
     const outcome = problem.evaluateWithCurve(setting, params, frequencies ?? problem.figureFrequencies);
-    values[s] = outcome.value;
-    if (outcome.status === CellStatus.unstable) unstable++;
-    if (outcome.status === CellStatus.invalid) invalid++;
+    values[s - from] = outcome.value;
+    status[s - from] = outcome.status;
     if (outcome.status !== CellStatus.ok) {
-      firstFailure ??= outcome.message;
+      firstFailure ??= { sample: s, message: outcome.message };
       continue;
     }
-    if (target && merit(problem.figure, outcome) >= target.merit) reached++;
-    if (frequencies && outcome.curve) curves.push(outcome.curve);
+    if (frequencies && outcome.curve) curves.set(outcome.curve, (s - from) * nf);
+  }
+  return { from, values, status, curves, firstFailure };
+}
+
+/**
+ * The result from every sample's outcome (`parts` cover the samples once, in any order);
+ * `evaluatedElsewhere`: how many of them worker threads evaluated (they count as evaluations too).
+ */
+export function finishSpread(plan: SpreadPlan, parts: readonly SampleOutcomes[], evaluatedElsewhere = 0): SpreadResult {
+  const { problem, list, samples, seed, target, nominal, centres, frequencies, draws, redrawn } = plan;
+  const nf = frequencies?.length ?? 0;
+  const whole = parts.length === 1 && parts[0].values.length === samples;
+  // One part (the in-process run) is used as it is: its curves alone can be hundreds of megabytes.
+  const values = whole ? parts[0].values : new Float64Array(samples);
+  const status = whole ? parts[0].status : new Uint8Array(samples);
+  const curves = whole ? parts[0].curves : new Float64Array(samples * nf);
+  let firstFailure: SampleOutcomes["firstFailure"];
+  for (const part of parts) {
+    if (!whole) {
+      values.set(part.values, part.from);
+      status.set(part.status, part.from);
+      curves.set(part.curves, part.from * nf);
+    }
+    if (part.firstFailure && (!firstFailure || part.firstFailure.sample < firstFailure.sample)) firstFailure = part.firstFailure;
+  }
+  let unstable = 0;
+  let invalid = 0;
+  let reached = 0;
+  const withValue: number[] = [];
+  for (let s = 0; s < samples; s++) {
+    if (status[s] === CellStatus.unstable) unstable++;
+    if (status[s] === CellStatus.invalid) invalid++;
+    if (status[s] !== CellStatus.ok) continue;
+    if (target && merit(problem.figure, { value: values[s], status: CellStatus.ok }) >= target.merit) reached++;
+    withValue.push(s);
   }
   const ok = values.filter((v) => !Number.isNaN(v)).sort();
   const stats = meanAndDeviation(ok);
@@ -131,14 +218,14 @@ export function spreadAnalysis(setup: SetupDescription | string, figure: FigureS
     uncertain: list.map((u, k) => ({ target: u.parameter.target, shown: u.shown, centre: u.centre, spread: u.spread, distribution: u.distribution, truncated: u.truncated, redrawn: redrawn[k] })),
     samples,
     seed,
-    failed: { unstable, invalid, message: firstFailure },
+    failed: { unstable, invalid, message: firstFailure?.message },
     distribution,
     probability,
     linear,
     draws,
     values,
-    bands: frequencies && curves.length > 0 ? percentileBands(frequencies, curves, problem.noiseUnit) : undefined,
-    evaluations: problem.evaluations,
+    bands: frequencies && withValue.length > 0 ? percentileBands(frequencies, curves, withValue, problem.noiseUnit) : undefined,
+    evaluations: problem.evaluations + evaluatedElsewhere,
   };
 }
 
@@ -188,18 +275,15 @@ function linearPropagation(
   return { mean: nominal, deviation, terms: withShares, holds, note };
 }
 
-function percentileBands(frequencies: Float64Array, curves: Float64Array[], unit: string): NonNullable<SpreadResult["bands"]> {
+function percentileBands(frequencies: Float64Array, curves: Float64Array, withValue: readonly number[], unit: string): NonNullable<SpreadResult["bands"]> {
   const nf = frequencies.length;
   const p5 = new Float64Array(nf);
   const median = new Float64Array(nf);
   const p95 = new Float64Array(nf);
-  const column = new Float64Array(curves.length);
+  const column = new Float64Array(withValue.length);
   for (let i = 0; i < nf; i++) {
-    for (let s = 0; s < curves.length; s++) column[s] = curves[s][i];
-    column.sort();
-    p5[i] = quantileSorted(column, 0.05);
-    median[i] = quantileSorted(column, 0.5);
-    p95[i] = quantileSorted(column, 0.95);
+    for (let k = 0; k < withValue.length; k++) column[k] = curves[withValue[k] * nf + i];
+    [p5[i], median[i], p95[i]] = quantilesBySelection(column, [0.05, 0.5, 0.95]);
   }
   return { frequencies, p5, median, p95, unit };
 }

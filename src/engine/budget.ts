@@ -6,7 +6,8 @@ import { QuietframeError } from "../errors";
 import { complexLuFactor, complexLuSolve } from "../linalg/complex-lu";
 import { SingularMatrixError } from "../linalg/singular-error";
 import type { AssembledSetup } from "../setup/assemble";
-import type { NoiseCategory, StateSpaceModel } from "../network/model";
+import type { NoiseCategory, NoiseGroup, StateSpaceModel } from "../network/model";
+import type { ReferenceCurve } from "../components/types";
 import { TransferEvaluator } from "./transfer";
 
 export interface BudgetTerm {
@@ -31,7 +32,7 @@ export interface NoiseBudget {
   readonly quantity: { readonly name: string; readonly unit: string };
   /** Detectors whose outputs are combined (optimally, with frequency-dependent weights). */
   readonly readout: readonly string[];
-  /** Total one-sided PSD; equals the sum of the terms. */
+  /** Total one-sided PSD; equals the sum of the terms. It and the terms' PSDs are views of one buffer. */
   readonly total: Float64Array;
   readonly terms: readonly BudgetTerm[];
   /** SQL, zero-point and thermal references, in the same quantity. */
@@ -50,28 +51,34 @@ export function noiseBudget(assembled: AssembledSetup, frequencies: Float64Array
   const groups = model.groups;
   const nf = frequencies.length;
   const p = readoutRows.length;
-  const total = new Float64Array(nf);
-  const termPsd = groups.map(() => new Float64Array(nf));
-  const evaluator = new TransferEvaluator(model, readoutRows);
-  const spectra = groups.map((g) => new GroupSpectra(model, g.columns, p));
-  const referral: SignalReferral = p === 1 ? new SingleOutput() : new OptimalCombination(p);
-  // The referral factor (|χ|² for displacement) serves the terms and every reference curve.
-  const factors = new Float64Array(nf);
   const nGroups = groups.length;
+  // One allocation for the total and every term (a typed array costs about as much to allocate
+  // as tens of frequencies cost to compute): the total first, then each group's, as views.
+  const curves = new Float64Array((1 + nGroups) * nf);
+  const total = curves.subarray(0, nf);
+  const termPsd = groups.map((_, g) => curves.subarray((1 + g) * nf, (2 + g) * nf));
+  const evaluator = new TransferEvaluator(model, readoutRows);
+  const referral: SignalReferral = p === 1 ? new SingleOutput(model, groups) : new OptimalCombination(model, groups, p);
+  // The angular frequencies and the referral factor (|χ|² for displacement), which serves the
+  // terms and every reference curve, kept for the reference curves.
+  const atFrequency = new Float64Array(2 * nf);
+  const omegas = atFrequency.subarray(0, nf);
+  const factors = atFrequency.subarray(nf);
+  const referred = new Float64Array(nGroups);
   let blindPoints = 0;
 
   for (let f = 0; f < nf; f++) {
     const omega = 2 * Math.PI * frequencies[f];
+    omegas[f] = omega;
     const factor = referredTo.psdFactor(omega);
     factors[f] = factor;
     evaluator.at(omega);
-    for (let g = 0; g < nGroups; g++) spectra[g].compute(evaluator.hRe, evaluator.hIm);
     let sum = Infinity;
-    if (referral.prepare(evaluator.sRe, evaluator.sIm, spectra)) {
+    if (referral.refer(evaluator, referred)) {
       sum = 0;
       for (let g = 0; g < nGroups; g++) {
-        const v = referral.referred(spectra[g]) * factor;
-        termPsd[g][f] = v;
+        const v = referred[g] * factor;
+        curves[(1 + g) * nf + f] = v;
         sum += v;
       }
     }
@@ -80,7 +87,7 @@ export function noiseBudget(assembled: AssembledSetup, frequencies: Float64Array
     if (!Number.isFinite(sum)) {
       blindPoints++;
       total[f] = Infinity;
-      for (let g = 0; g < nGroups; g++) termPsd[g][f] = Infinity;
+      for (let g = 0; g < nGroups; g++) curves[(1 + g) * nf + f] = Infinity;
     }
   }
 
@@ -103,11 +110,10 @@ export function noiseBudget(assembled: AssembledSetup, frequencies: Float64Array
       terms.push({ id: g.id, label: g.label, owner: g.owner, category: g.category, psd: termPsd[i] });
     }
   });
-  const references = signal.curves.map((curve) => {
-    const psd = new Float64Array(nf);
-    for (let f = 0; f < nf; f++) psd[f] = curve.psd(2 * Math.PI * frequencies[f]) * factors[f];
-    return { id: curve.id, label: curve.label, psd };
-  });
+  // Each reference curve is computed when it is first read (a figure of merit reads one, a
+  // noise band none): from the angular frequencies and factors of this call, so it has the
+  // same bits as when computed here, whatever happens to the caller's frequency array since.
+  const references = signal.curves.map((curve) => lazyReference(curve, omegas, factors));
   return {
     frequencies,
     quantity: { name: referredTo.name, unit: referredTo.unit },
@@ -124,100 +130,114 @@ function allZero(xs: Float64Array): boolean {
   return true;
 }
 
+/** A reference curve whose PSD (curve × referral factor at each frequency) is computed on first read. */
+function lazyReference(curve: ReferenceCurve, omegas: Float64Array, factors: Float64Array): ReferenceSpectrum {
+  let psd: Float64Array | undefined;
+  return {
+    id: curve.id,
+    label: curve.label,
+    get psd(): Float64Array {
+      if (psd === undefined) {
+        psd = new Float64Array(omegas.length);
+        for (let f = 0; f < omegas.length; f++) psd[f] = curve.psd(omegas[f]) * factors[f];
+      }
+      return psd;
+    },
+  };
+}
+
 /**
- * S_g = H_g N_g H_g† for one group (p×p Hermitian), reusing its arrays. The non-zero
- * entries N_ij of the group are listed once, in the order the sum visits them.
+ * The non-zero entries N_ij of every group, listed once in the order the sums visit them
+ * (group by group; within a group, i then j over its columns), with where each group starts.
  */
-class GroupSpectra {
-  readonly re: Float64Array;
-  readonly im: Float64Array;
-  private readonly m: number;
-  private readonly ni: Int32Array;
-  private readonly nj: Int32Array;
-  private readonly nv: Float64Array;
-  constructor(
-    model: StateSpaceModel,
-    columns: readonly number[],
-    private readonly p: number,
-  ) {
-    this.re = new Float64Array(p * p);
-    this.im = new Float64Array(p * p);
+class GroupEntries {
+  readonly start: Int32Array;
+  readonly ni: Int32Array;
+  readonly nj: Int32Array;
+  readonly nv: Float64Array;
+  constructor(model: StateSpaceModel, groups: readonly NoiseGroup[]) {
     const m = model.nInputs;
-    this.m = m;
+    const start: number[] = [0];
     const ni: number[] = [];
     const nj: number[] = [];
     const nv: number[] = [];
-    for (const i of columns) {
-      for (const j of columns) {
-        const nij = model.N[i * m + j];
-        if (nij === 0) continue;
-        ni.push(i);
-        nj.push(j);
-        nv.push(nij);
+    for (const g of groups) {
+      for (const i of g.columns) {
+        for (const j of g.columns) {
+          const nij = model.N[i * m + j];
+          if (nij === 0) continue;
+          ni.push(i);
+          nj.push(j);
+          nv.push(nij);
+        }
       }
+      start.push(nv.length);
     }
+    this.start = Int32Array.from(start);
     this.ni = Int32Array.from(ni);
     this.nj = Int32Array.from(nj);
     this.nv = Float64Array.from(nv);
   }
-
-  compute(hRe: Float64Array, hIm: Float64Array): void {
-    const { p, m, re, im, ni, nj, nv } = this;
-    const count = nv.length;
-    // Every entry is written below (upper triangle and its mirror), so no clearing is needed.
-    for (let a = 0; a < p; a++) {
-      for (let b = a; b < p; b++) {
-        let sr = 0;
-        let si = 0;
-        for (let e = 0; e < count; e++) {
-          const i = ni[e];
-          const j = nj[e];
-          const nij = nv[e];
-          // H[a,i] N_ij conj(H[b,j])
-          const ar = hRe[a * m + i];
-          const ai = hIm[a * m + i];
-          const br = hRe[b * m + j];
-          const bi = -hIm[b * m + j];
-          sr += nij * (ar * br - ai * bi);
-          si += nij * (ar * bi + ai * br);
-        }
-        re[a * p + b] = sr;
-        im[a * p + b] = a === b ? 0 : si;
-        re[b * p + a] = sr;
-        im[b * p + a] = a === b ? 0 : -si;
-      }
-    }
-  }
 }
 
-/** Turns a group's output spectrum into signal-referred noise at one frequency. */
+/** Turns the transfer functions at one frequency into each group's signal-referred noise. */
 interface SignalReferral {
-  /** Takes the signal response and all group spectra; false when the readout is blind to the signal. */
-  prepare(hRe: Float64Array, hIm: Float64Array, groups: readonly GroupSpectra[]): boolean;
-  referred(group: GroupSpectra): number;
+  /** Fills `referred` (one value per group); false when the readout is blind to the signal. */
+  refer(transfer: TransferEvaluator, referred: Float64Array): boolean;
 }
 
-/** One output: S_g / |h|². */
+/** One output: S_g / |h|², with S_g = Σ N_ij H_i conj(H_j) over the group's entries. */
 class SingleOutput implements SignalReferral {
-  private h2 = 0;
-  prepare(hRe: Float64Array, hIm: Float64Array): boolean {
-    this.h2 = hRe[0] * hRe[0] + hIm[0] * hIm[0];
-    return this.h2 !== 0;
+  private readonly entries: GroupEntries;
+  constructor(model: StateSpaceModel, groups: readonly NoiseGroup[]) {
+    this.entries = new GroupEntries(model, groups);
   }
-  referred(group: GroupSpectra): number {
-    return group.re[0] / this.h2;
+
+  refer(transfer: TransferEvaluator, referred: Float64Array): boolean {
+    const { hRe, hIm, sRe, sIm } = transfer;
+    const h2 = sRe[0] * sRe[0] + sIm[0] * sIm[0];
+    if (h2 === 0) return false;
+    const { start, ni, nj, nv } = this.entries;
+    for (let g = 0; g + 1 < start.length; g++) {
+      let sr = 0;
+      for (let e = start[g]; e < start[g + 1]; e++) {
+        // Re(H_i N_ij conj(H_j)), written as the p×p product of OptimalCombination writes it.
+        const i = ni[e];
+        const j = nj[e];
+        const ar = hRe[i];
+        const ai = hIm[i];
+        const br = hRe[j];
+        const bi = -hIm[j];
+        sr += nv[e] * (ar * br - ai * bi);
+      }
+      referred[g] = sr / h2;
+    }
+    return true;
   }
 }
 
-/** Optimal frequency-dependent combination of several outputs: w = S_y⁻¹h, weight w†S_g w/q². */
+/**
+ * Optimal frequency-dependent combination of several outputs: S_g = H_g N_g H_g† (p×p
+ * Hermitian) for each group, w = S_y⁻¹h with S_y = Σ_g S_g, and each group's weight w†S_g w/q².
+ */
 class OptimalCombination implements SignalReferral {
+  private readonly entries: GroupEntries;
+  /** Each group's p×p spectrum, real and imaginary parts, one after another. */
+  private readonly gRe: Float64Array;
+  private readonly gIm: Float64Array;
   private readonly sRe: Float64Array;
   private readonly sIm: Float64Array;
   private readonly wRe: Float64Array;
   private readonly wIm: Float64Array;
   private readonly piv: Int32Array;
-  private q = 0;
-  constructor(private readonly p: number) {
+  constructor(
+    model: StateSpaceModel,
+    groups: readonly NoiseGroup[],
+    private readonly p: number,
+  ) {
+    this.entries = new GroupEntries(model, groups);
+    this.gRe = new Float64Array(groups.length * p * p);
+    this.gIm = new Float64Array(groups.length * p * p);
     this.sRe = new Float64Array(p * p);
     this.sIm = new Float64Array(p * p);
     this.wRe = new Float64Array(p);
@@ -225,18 +245,23 @@ class OptimalCombination implements SignalReferral {
     this.piv = new Int32Array(p);
   }
 
-  prepare(hRe: Float64Array, hIm: Float64Array, groups: readonly GroupSpectra[]): boolean {
-    const { p, sRe, sIm, wRe, wIm } = this;
+  refer(transfer: TransferEvaluator, referred: Float64Array): boolean {
+    const { p, sRe, sIm, wRe, wIm, gRe, gIm } = this;
+    const { hRe, hIm } = transfer;
+    const m = hRe.length / p;
+    const nGroups = referred.length;
+    const pp = p * p;
+    this.groupSpectra(hRe, hIm, m);
     sRe.fill(0);
     sIm.fill(0);
-    for (const g of groups) {
-      for (let i = 0; i < p * p; i++) {
-        sRe[i] += g.re[i];
-        sIm[i] += g.im[i];
+    for (let g = 0; g < nGroups; g++) {
+      for (let i = 0; i < pp; i++) {
+        sRe[i] += gRe[g * pp + i];
+        sIm[i] += gIm[g * pp + i];
       }
     }
-    wRe.set(hRe.subarray(0, p));
-    wIm.set(hIm.subarray(0, p));
+    wRe.set(transfer.sRe.subarray(0, p));
+    wIm.set(transfer.sIm.subarray(0, p));
     if (wRe.every((v) => v === 0) && wIm.every((v) => v === 0)) return false;
     try {
       complexLuFactor(sRe, sIm, p, this.piv);
@@ -252,25 +277,58 @@ class OptimalCombination implements SignalReferral {
     }
     complexLuSolve(sRe, sIm, p, this.piv, wRe, wIm, 1);
     let q = 0;
-    for (let k = 0; k < p; k++) q += hRe[k] * wRe[k] + hIm[k] * wIm[k];
-    this.q = q;
-    return q !== 0;
+    for (let k = 0; k < p; k++) q += transfer.sRe[k] * wRe[k] + transfer.sIm[k] * wIm[k];
+    if (q === 0) return false;
+    for (let g = 0; g < nGroups; g++) referred[g] = this.weighted(g * pp) / (q * q);
+    return true;
   }
 
-  /** Re(w† S_g w) / q². */
-  referred(group: GroupSpectra): number {
-    const { p, wRe, wIm } = this;
+  /** S_g = H_g N_g H_g† of every group: the upper triangle summed over the entries, mirrored. */
+  private groupSpectra(hRe: Float64Array, hIm: Float64Array, m: number): void {
+    const { p, gRe, gIm } = this;
+    const { start, ni, nj, nv } = this.entries;
+    for (let g = 0; g + 1 < start.length; g++) {
+      const o = g * p * p;
+      // Every entry is written below (upper triangle and its mirror), so no clearing is needed.
+      for (let a = 0; a < p; a++) {
+        for (let b = a; b < p; b++) {
+          let sr = 0;
+          let si = 0;
+          for (let e = start[g]; e < start[g + 1]; e++) {
+            const i = ni[e];
+            const j = nj[e];
+            const nij = nv[e];
+            // H[a,i] N_ij conj(H[b,j])
+            const ar = hRe[a * m + i];
+            const ai = hIm[a * m + i];
+            const br = hRe[b * m + j];
+            const bi = -hIm[b * m + j];
+            sr += nij * (ar * br - ai * bi);
+            si += nij * (ar * bi + ai * br);
+          }
+          gRe[o + a * p + b] = sr;
+          gIm[o + a * p + b] = a === b ? 0 : si;
+          gRe[o + b * p + a] = sr;
+          gIm[o + b * p + a] = a === b ? 0 : -si;
+        }
+      }
+    }
+  }
+
+  /** Re(w† S_g w) for the group spectrum at offset o. */
+  private weighted(o: number): number {
+    const { p, wRe, wIm, gRe, gIm } = this;
     let sum = 0;
     for (let a = 0; a < p; a++) {
       for (let b = 0; b < p; b++) {
         // conj(w_a) M_ab w_b
-        const mr = group.re[a * p + b];
-        const mi = group.im[a * p + b];
+        const mr = gRe[o + a * p + b];
+        const mi = gIm[o + a * p + b];
         const xr = mr * wRe[b] - mi * wIm[b];
         const xi = mr * wIm[b] + mi * wRe[b];
         sum += wRe[a] * xr + wIm[a] * xi;
       }
     }
-    return sum / (this.q * this.q);
+    return sum;
   }
 }

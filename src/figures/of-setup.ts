@@ -2,7 +2,7 @@ import { UnstableSetupError } from "../engine/stability";
 import { QuietframeError, QuietframeErrors } from "../errors";
 import { evaluate } from "../evaluate";
 import { NonDecayingModeError } from "../linalg/non-decaying-mode";
-import { prepare } from "../prepare";
+import { prepare, type PreparedSetup } from "../prepare";
 import type { SetupDescription } from "../setup/format";
 import { CellStatus, type FigureOutcome } from "./outcome";
 import type { FigurePlan } from "./spec";
@@ -27,8 +27,21 @@ export function figureAndCurveOfSetup(
   frequencies: Float64Array,
   curveFrequencies: Float64Array | undefined,
 ): FigureOutcome & { readonly curve?: Float64Array } {
+  return figureAndCurveOfPrepared(() => prepare(setup), figure, frequencies, curveFrequencies);
+}
+
+/**
+ * As figureAndCurveOfSetup, with the set-up prepared by `prepareSetup` (a SetupPreparer writing
+ * a value set, for a search that evaluates many): whatever it throws is an outcome the same way.
+ */
+export function figureAndCurveOfPrepared(
+  prepareSetup: () => PreparedSetup,
+  figure: FigurePlan,
+  frequencies: Float64Array,
+  curveFrequencies: Float64Array | undefined,
+): FigureOutcome & { readonly curve?: Float64Array } {
   try {
-    const prepared = prepare(setup);
+    const prepared = prepareSetup();
     // Elsewhere a warning beside the curves; a single figure has nowhere to show one, and it would mean nothing.
     if (prepared.physicality && !prepared.physicality.physical) return { value: NaN, status: CellStatus.invalid, message: prepared.physicality.summary };
     const budget = evaluate(prepared, frequencies).budget;

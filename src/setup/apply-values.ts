@@ -1,4 +1,5 @@
 import { QuietframeError } from "../errors";
+import { copyDescription } from "./copy-description";
 import type { SetupDescription } from "./format";
 
 /**
@@ -7,12 +8,18 @@ import type { SetupDescription } from "./format";
  * controls, tolerance-map cells and notebooks all derive their set-ups this one way.
  */
 export function applyValues(setup: SetupDescription, values: Readonly<Record<string, string | number>>): SetupDescription {
-  const copy = structuredClone(setup);
+  const copy = copyDescription(setup);
   for (const [target, value] of Object.entries(values)) {
-    const dot = target.indexOf(".");
-    const component = copy.components.find((c) => c.name === target.slice(0, dot));
+    const { component: name, param } = splitTarget(target);
+    const component = copy.components.find((c) => c.name === name);
     if (!component) throw new QuietframeError({ path: `values.${target}`, value, problem: "names no component of the set-up" });
-    component.params = { ...(component.params ?? {}), [target.slice(dot + 1)]: value };
+    component.params = { ...(component.params ?? {}), [param]: value };
   }
   return copy;
+}
+
+/** "component.parameter" split at its first dot, as applyValues reads a target. */
+export function splitTarget(target: string): { component: string; param: string } {
+  const dot = target.indexOf(".");
+  return { component: target.slice(0, dot), param: target.slice(dot + 1) };
 }

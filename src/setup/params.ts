@@ -1,6 +1,6 @@
 import { QuietframeError } from "../errors";
 import type { ChoiceParam, ComponentKind, ParamValues, QuantityParam } from "../components/types";
-import { formatQuantity, parseQuantity } from "../units";
+import { formatQuantity, parseQuantity, type QuantityKind } from "../units";
 
 /**
  * Parses one component's parameters into SI numbers, once, at the edge. Unknown names,
@@ -42,7 +42,7 @@ function resolveChoice(spec: ChoiceParam, input: unknown, path: string): string 
 }
 
 function resolveQuantity(spec: QuantityParam, input: unknown, path: string): number {
-  const v = parseQuantity(input, spec.kind, path);
+  const v = typeof input === "string" ? parseText(input, spec.kind, path) : parseQuantity(input, spec.kind, path);
   const tooLow = spec.min !== undefined && (spec.minExclusive ? v <= spec.min : v < spec.min);
   const tooHigh = spec.max !== undefined && (spec.maxExclusive ? v >= spec.max : v > spec.max);
   if (tooLow || tooHigh) {
@@ -51,6 +51,25 @@ function resolveQuantity(spec: QuantityParam, input: unknown, path: string): num
   }
   return v;
 }
+
+/**
+ * parseQuantity of a string, remembered: the same text of the same kind always parses to the
+ * same number (the path only names the field in an error, and errors are not remembered), and
+ * re-validating a set-up for each value set would otherwise parse its unchanged texts again.
+ */
+function parseText(text: string, kind: QuantityKind, path: string): number {
+  const key = `${kind}\u0000${text}`;
+  const known = parsedTexts.get(key);
+  if (known !== undefined) return known;
+  const v = parseQuantity(text, kind, path);
+  if (parsedTexts.size >= MAX_PARSED_TEXTS) parsedTexts.clear();
+  parsedTexts.set(key, v);
+  return v;
+}
+
+/** Texts remembered at most (a few hundred bytes each); the memory starts over when full. */
+const MAX_PARSED_TEXTS = 4096;
+const parsedTexts = new Map<string, number>();
 
 export function describeRange(spec: QuantityParam): string {
   const show = (x: number): string => formatQuantity(x, spec.kind);

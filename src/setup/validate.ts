@@ -5,6 +5,7 @@
 import { QuietframeError, QuietframeErrors } from "../errors";
 import { componentKind, COMPONENT_KINDS } from "../components/registry";
 import type { ComponentKind, PortSpec, ResolvedComponent } from "../components/types";
+import { copyDescription } from "./copy-description";
 import { parseGrid, type FrequencyGridSpec } from "./grid";
 import { SETUP_FORMAT, SETUP_KEYS, SETUP_VERSION, type SetupDescription } from "./format";
 import { resolveParams } from "./params";
@@ -96,7 +97,7 @@ export function validateSetup(input: unknown): ResolvedSetup {
     readout,
     signal,
     grid,
-    source: structuredClone(top) as unknown as SetupDescription,
+    source: copyDescription(top) as unknown as SetupDescription,
   };
 }
 
@@ -166,11 +167,21 @@ function resolveComponent(entry: unknown, i: number, kinds: Map<string, Componen
       allowed: [...COMPONENT_KINDS.keys()].join(", "),
     });
   }
-  const raw = obj.params === undefined ? {} : expectObject(obj.params, `${path}.params`);
+  const resolved = resolveComponentParams(name, kind, obj.params);
+  kinds.set(name, kind);
+  return resolved;
+}
+
+/**
+ * A component's parameters (`params` as written, possibly absent) resolved to SI values and
+ * checked, its cross-parameter rules included; its name and kind are already checked.
+ */
+export function resolveComponentParams(name: string, kind: ComponentKind<unknown>, params: unknown): ResolvedComponent {
+  const path = `components.${name}`;
+  const raw = params === undefined ? {} : expectObject(params, `${path}.params`);
   const { values, given } = resolveParams(kind, raw, path);
   const resolved: ResolvedComponent = { name, type: kind.type, values, given, raw, path };
   kind.crossCheck?.(resolved);
-  kinds.set(name, kind);
   return resolved;
 }
 

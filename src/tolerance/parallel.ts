@@ -1,6 +1,5 @@
-import { existsSync } from "node:fs";
-import { join } from "node:path";
 import { Worker } from "node:worker_threads";
+import { CHUNKS_AHEAD, nextChunkSize, workerScript } from "../threads/engine-threads";
 import type { RowResult } from "./evaluate";
 import { RowCollector, ToleranceMapCancelled, type ToleranceMapOptions } from "./run";
 import type { TolerancePlan } from "./spec";
@@ -26,22 +25,6 @@ export type FromWorker =
   | { readonly type: "row"; readonly map: number; readonly y: number; readonly row: RowResult }
   | { readonly type: "idle"; readonly map: number }
   | { readonly type: "failed"; readonly map: number; readonly y: number; readonly message: string; readonly stack: string };
-
-/**
- * The compiled worker script. Built code finds it beside itself; code run from the TypeScript
- * sources (the test runner) uses the built one, so `npm run build` must have run.
- */
-export function workerScript(): string {
-  const fromSources = __filename.endsWith(".ts");
-  const file = fromSources ? join(__dirname, "..", "..", "dist", "src", "tolerance", "worker.js") : join(__dirname, "worker.js");
-  if (!existsSync(file)) {
-    throw new Error(`the tolerance-map worker dist/src/tolerance/worker.js is missing: run "npm run build" first`);
-  }
-  return file;
-}
-
-/** How many chunks each worker is kept ahead by. */
-const AHEAD = 2;
 
 /**
  * Hands the rows of one map to the given (started) workers and collects them. `sendPlan`:
@@ -84,8 +67,7 @@ function dispatchRows(
     }
     const feed = (w: Worker): void => {
       if (next >= rows || settled) return;
-      // A share of what is left: large chunks first, single rows at the end.
-      const chunk = Math.max(1, Math.ceil((rows - next) / (workers.length * 4)));
+      const chunk = nextChunkSize(rows - next, workers.length);
       const batch: number[] = [];
       while (batch.length < chunk && next < rows) batch.push(next++);
       const withPlan = sendPlan && !planSent.has(w);
@@ -128,7 +110,7 @@ function dispatchRows(
           w.off("messageerror", fail);
           w.off("exit", onExit);
         });
-        for (let k = 0; k < AHEAD; k++) feed(w);
+        for (let k = 0; k < CHUNKS_AHEAD; k++) feed(w);
       }
     } catch (e) {
       fail(e);

@@ -1,5 +1,6 @@
 import { logGrid, type FrequencyGridSpec } from "../setup/grid";
 import { QuietframeError } from "../errors";
+import { checkWorkers } from "../threads/worker-count";
 import { applyValues } from "../setup/apply-values";
 import type { SetupDescription } from "../setup/format";
 import { CellStatus, evaluateRow, MAX_CELL_MESSAGES, type CellMessage, type RowResult } from "./evaluate";
@@ -82,14 +83,8 @@ export class ToleranceMapCancelled extends Error {
   }
 }
 
-/** Checks the options shared by every way of running a map. */
-export function checkWorkers(workers: unknown, fallback: number): number {
-  if (workers === undefined) return fallback;
-  if (typeof workers !== "number" || !Number.isInteger(workers) || workers < 1) {
-    throw new QuietframeError({ path: "options.workers", value: workers, problem: "is not a usable number of threads", allowed: "an integer ≥ 1" });
-  }
-  return workers;
-}
+/** The number of threads of a map, checked as every threaded job checks it. */
+export { checkWorkers };
 
 /** Checks onProgress and signal. */
 export function checkCallbacks(options: ToleranceMapOptions): void {

@@ -19,7 +19,7 @@ const { join, relative } = require("node:path");
 const { ROOT, dist } = require("./lib/repo");
 const { nowMs } = require("./lib/timing");
 
-const SECTIONS = ["engine", "browser", "notebook", "tolerance", "timedomain"];
+const SECTIONS = ["engine", "browser", "notebook", "tolerance", "timedomain", "prepared"];
 
 function fmtTime(ms) {
   if (!Number.isFinite(ms)) return String(ms);
@@ -163,6 +163,16 @@ async function profiles(selected) {
     const freqs = qf.logGrid({ from: 1, to: 1e4, points: 4096 });
     out["noiseBudget, free mass + probe, 4096 pts"] = await profile(() => qf.noiseBudget(assembled, freqs), { ms: 1500 });
   }
+  if (selected.includes("prepared")) {
+    const qf = dist("src/index");
+    const { SetupPreparer } = dist("src/prepare");
+    const setup = JSON.parse(readFileSync(join(ROOT, "examples", "cryogenic-membrane-squeezed.json"), "utf8"));
+    const preparer = new SetupPreparer(setup);
+    const grid = { from: 1.1e6, to: 1.3e6, points: 256 };
+    const values = ["5 K", "6 K", "7 K"];
+    let k = 0;
+    out["prepared evaluation (SetupPreparer + evaluate), 256 pts"] = await profile(() => qf.evaluate(preparer.prepare({ "membrane.temperature": values[k++ % 3] }), grid).budget.total, { ms: 1500 });
+  }
   if (selected.includes("browser")) {
     const { createExplorerState, computeExplorer } = dist("widgets/explorer/model");
     const setup = JSON.parse(readFileSync(join(ROOT, "examples", "cryogenic-membrane.json"), "utf8"));
@@ -246,6 +256,13 @@ async function main() {
       details.tolerance = await t.runToleranceBench(log);
       rows.push(...t.toleranceRows(details.tolerance));
       if (!details.tolerance.identical) failures.push("tolerance maps differ between runs");
+    },
+    prepared: async () => {
+      const p = require("./prepared");
+      details.prepared = await p.runPreparedBench(log);
+      rows.push(...p.preparedRows(details.prepared));
+      if (!details.prepared.mc.identical) failures.push("Monte Carlo on threads and in this thread differ");
+      if (!details.prepared.numpy.rows.every((r) => r.checkPassed)) failures.push("NumPy and the engine disagree");
     },
     timedomain: async () => {
       const t = require("./timedomain");

@@ -246,7 +246,7 @@ function toleranceRows(t) {
   ];
 }
 
-module.exports = { runToleranceBench, toleranceRows };
+module.exports = { runToleranceBench, toleranceRows, parallelCeiling };
 
 if (require.main === module) {
   const t0 = nowMs();
