@@ -1,6 +1,7 @@
 import { parseArgs } from "node:util";
 import { QuietframeError } from "../errors";
 import { installKernelSpec, KERNEL_DISPLAY_NAME, KERNEL_NAME } from "../../widgets/kernel/kernel-spec";
+import { findJupyterPython } from "./jupyter-python";
 import type { CliIo } from "./run";
 
 /** `quietframe kernel install`: registers the quietframe kernel (tslab with comms) with Jupyter. */
@@ -8,7 +9,8 @@ import type { CliIo } from "./run";
 export const KERNEL_USAGE = `  quietframe kernel install [--user | --prefix DIR] [--python PATH]
       Registers the "${KERNEL_DISPLAY_NAME}" kernel (${KERNEL_NAME}): TypeScript cells with
       live widgets. --user (default unless root): your own Jupyter; --prefix DIR: DIR/share/jupyter;
-      --python: the Python your Jupyter runs on (default python3).
+      --python: the Python your Jupyter runs on (default: the one that runs the jupyter command
+      on PATH, else the active virtual environment's, else python3).
 `;
 
 export function kernelCommand(args: string[], io: CliIo): number {
@@ -20,7 +22,10 @@ export function kernelCommand(args: string[], io: CliIo): number {
     args: rest,
     options: { user: { type: "boolean" }, prefix: { type: "string" }, python: { type: "string" } },
   });
-  const dir = installKernelSpec({ user: values.user, prefix: values.prefix, python: values.python });
+  if (values.user && values.prefix !== undefined)
+    throw new QuietframeError({ path: "--prefix", value: values.prefix, problem: "cannot be combined with --user", allowed: "one of --user or --prefix DIR" });
+  const python = findJupyterPython({ python: values.python }).command;
+  const dir = installKernelSpec({ user: values.user, prefix: values.prefix, python });
   io.out(`Installed the ${KERNEL_DISPLAY_NAME} kernel spec (${KERNEL_NAME}) in ${dir}\n`);
   return 0;
 }

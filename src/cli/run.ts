@@ -14,6 +14,7 @@ import { QUIETFRAME_VERSION } from "../version";
 import { gridFromOptions } from "./grid-options";
 import { RENDER_USAGE, renderCommand, reportCommand } from "./render";
 import { KERNEL_USAGE, kernelCommand } from "./kernel-install";
+import { EXTENSION_USAGE, extensionCommand } from "./extension-install";
 import { DESIGN_USAGE } from "./design-args";
 import { optimizeCommand } from "./optimize-command";
 import { rankCommand } from "./rank-command";
@@ -39,7 +40,7 @@ usage:
       Validates a set-up and reports its size and stability.
   quietframe types [type]
       Lists component types, or one type's parameters and ports.
-${DESIGN_USAGE}${RENDER_USAGE}${KERNEL_USAGE}`;
+${DESIGN_USAGE}${RENDER_USAGE}${KERNEL_USAGE}${EXTENSION_USAGE}`;
 
 /** Commands that render figures (Vega renders asynchronously); runCliAsync runs them. */
 const ASYNC_COMMANDS: Readonly<Record<string, (args: string[], io: CliIo) => Promise<number>>> = {
@@ -76,6 +77,8 @@ export function runCli(argv: string[], io: CliIo): number {
         return typesCommand(rest, io);
       case "kernel":
         return kernelCommand(rest, io);
+      case "extension":
+        return extensionCommand(rest, io);
       case "rank":
         return rankCommand(rest, io);
       case "solve":
