@@ -76,7 +76,12 @@ async function main() {
   };
   writeFileSync(join(staging, "package.json"), `${JSON.stringify(manifest, null, 2)}\n`);
   const builder = join(root, "node_modules", "@jupyterlab", "builder", "lib", "build-labextension.js");
-  execFileSync(process.execPath, [builder, "--core-path", core, staging], { stdio: ["ignore", "ignore", "inherit"] });
+  try {
+    execFileSync(process.execPath, [builder, "--core-path", core, staging], { stdio: ["ignore", "pipe", "pipe"], encoding: "utf8" });
+  } catch (e) {
+    // The builder's own report (webpack's errors) only when it failed.
+    throw new Error(`@jupyterlab/builder failed:\n${e.stdout ?? ""}${e.stderr ?? ""}`);
+  }
   const built = JSON.parse(readFileSync(join(output, "package.json"), "utf8"));
   if (!built.jupyterlab?._build?.load) throw new Error("the builder wrote no remote entry");
 }

@@ -1,8 +1,8 @@
 import { spawnSync } from "node:child_process";
-import { mkdirSync, readFileSync } from "node:fs";
+import { existsSync, mkdirSync, readFileSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
-import type { Page } from "playwright-core";
+import type { Locator, Page } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { curveRows, type CurveRow } from "../../widgets/explorer/budget-spec";
 import { computeExplorer } from "../../widgets/explorer/model";
@@ -190,11 +190,36 @@ function engineRows(state: ExplorerState, values: Record<string, string> = {}): 
   return curveRows(computeExplorer({ ...state, values: { ...state.values, ...values } }).table);
 }
 
-function sliderRow(page: Page, label: string) {
+function sliderRow(page: Page, label: string): Locator {
   return page
     .locator(".widget-hslider")
     .filter({ has: page.locator(".widget-label", { hasText: label }) })
     .first();
+}
+
+/** Waits until `n` charts have drawn curves. */
+async function waitForCharts(page: Page, n: number): Promise<void> {
+  await page.waitForFunction(([cls, count]) => (globalThis as any).document.querySelectorAll(`.${cls}[data-revision]`).length === count, [CHART_VIEW_CLASS, n] as const, { timeout: TIMEOUT_MS });
+}
+
+/** Waits until the first chart has drawn a revision newer than `revision`. */
+async function waitForFirstChartAbove(page: Page, revision: number): Promise<void> {
+  await page.waitForFunction(([cls, r]) => Number((globalThis as any).document.querySelectorAll(`.${cls}`)[0]?.dataset.revision ?? 0) > (r as number), [CHART_VIEW_CLASS, revision] as const, {
+    timeout: TIMEOUT_MS,
+  });
+}
+
+/** Drags the first slider labelled `label` to `fraction` of its track with real pointer events; returns the slider. */
+async function dragSlider(page: Page, label: string, fraction: number): Promise<Locator> {
+  const slider = sliderRow(page, label);
+  await slider.scrollIntoViewIfNeeded();
+  const track = (await slider.locator(".noUi-target").boundingBox())!;
+  const handle = (await slider.locator(".noUi-handle").boundingBox())!;
+  await page.mouse.move(handle.x + handle.width / 2, handle.y + handle.height / 2);
+  await page.mouse.down();
+  await page.mouse.move(track.x + track.width * fraction, track.y + track.height / 2, { steps: 8 });
+  await page.mouse.up();
+  return slider;
 }
 
 /** What `jupyter labextension list` of the pinned environment prints, without its colours. */
@@ -232,6 +257,26 @@ describe("the pinned front-ends", () => {
   });
 });
 
+describe("quietframe extension install and remove", () => {
+  it("puts the built extension into PREFIX/share/jupyter/labextensions and takes it out again", async () => {
+    const other = join(fe!.dir, "other-prefix");
+    const target = join(other, "share", "jupyter", "labextensions", "quietframe-live");
+    expect(await fe!.cli(["extension", "install", "--prefix", other])).toBe(`Installed the quietframe-live extension in ${target}; reload JupyterLab's page\n`);
+    const manifest = JSON.parse(readFileSync(join(target, "package.json"), "utf8")) as { name: string; version: string; jupyterlab: { _build: { load: string } } };
+    expect(manifest.name).toBe("quietframe-live");
+    expect(manifest.version).toBe(LIVE_MODULE_VERSION);
+    expect(existsSync(join(target, manifest.jupyterlab._build.load))).toBe(true);
+    expect(JSON.parse(readFileSync(join(target, "install.json"), "utf8"))).toEqual({
+      packageManager: "npm",
+      packageName: "quietframe",
+      uninstallInstructions: `npx quietframe extension remove --prefix ${JSON.stringify(other)}`,
+    });
+    expect(await fe!.cli(["extension", "remove", "--prefix", other])).toBe(`Removed the quietframe-live extension from ${target}; reload JupyterLab's page\n`);
+    expect(existsSync(target)).toBe(false);
+    expect(await fe!.cli(["extension", "remove", "--prefix", other])).toBe(`The quietframe-live extension is not in ${target}: nothing to remove\n`);
+  });
+});
+
 describe("an example notebook in JupyterLab 4", { timeout: TIMEOUT_MS * 3 }, () => {
   let page: Page;
   let states: ExplorerState[] = [];
@@ -245,7 +290,7 @@ describe("an example notebook in JupyterLab 4", { timeout: TIMEOUT_MS * 3 }, () 
   });
 
   it("draws each explorer's live chart with the curves the engine computes in Node", async () => {
-    await page.waitForFunction(([cls]) => (globalThis as any).document.querySelectorAll(`.${cls}[data-revision]`).length === 2, [CHART_VIEW_CLASS] as const, { timeout: TIMEOUT_MS });
+    await waitForCharts(page, 2);
     expect(await page.locator(".widget-hslider").count()).toBeGreaterThan(4);
     await save(page);
     states = savedChartStates(LAB_NOTEBOOK);
@@ -262,14 +307,7 @@ describe("an example notebook in JupyterLab 4", { timeout: TIMEOUT_MS * 3 }, () 
 
   it("a slider moved with the mouse changes the kernel's value and the chart", async () => {
     const before = await drawnRevision(page, 0);
-    const slider = sliderRow(page, TARGET_LABEL);
-    await slider.scrollIntoViewIfNeeded();
-    const track = (await slider.locator(".noUi-target").boundingBox())!;
-    const handle = (await slider.locator(".noUi-handle").boundingBox())!;
-    await page.mouse.move(handle.x + handle.width / 2, handle.y + handle.height / 2);
-    await page.mouse.down();
-    await page.mouse.move(track.x + track.width * 0.2, track.y + track.height / 2, { steps: 8 });
-    await page.mouse.up();
+    const slider = await dragSlider(page, TARGET_LABEL, 0.2);
     const readout = Number(await slider.locator(".widget-readout").innerText());
     expect(readout).toBeGreaterThan(50);
     expect(readout).toBeLessThan(70);
@@ -283,9 +321,7 @@ describe("an example notebook in JupyterLab 4", { timeout: TIMEOUT_MS * 3 }, () 
         { timeout: TIMEOUT_MS },
       )
       .toBeCloseTo(readout, 10);
-    await page.waitForFunction(([cls, r]) => Number((globalThis as any).document.querySelectorAll(`.${cls}`)[0]?.dataset.revision ?? 0) > (r as number), [CHART_VIEW_CLASS, before] as const, {
-      timeout: TIMEOUT_MS,
-    });
+    await waitForFirstChartAbove(page, before);
     const want = engineRows(states[0], { [TARGET]: shown });
     await expect.poll(async () => JSON.stringify(await plottedRows(page, 0)) === JSON.stringify(want), { timeout: TIMEOUT_MS }).toBe(true);
     expect(want).not.toEqual(engineRows(states[0]));
@@ -297,9 +333,7 @@ describe("an example notebook in JupyterLab 4", { timeout: TIMEOUT_MS * 3 }, () 
     expect(result.errors).toEqual([]);
     expect(printedValue(result.text, TARGET)).toBe("70 %");
     await expect.poll(() => sliderRow(page, TARGET_LABEL).locator(".widget-readout").innerText(), { timeout: TIMEOUT_MS }).toBe("70");
-    await page.waitForFunction(([cls, r]) => Number((globalThis as any).document.querySelectorAll(`.${cls}`)[0]?.dataset.revision ?? 0) > (r as number), [CHART_VIEW_CLASS, before] as const, {
-      timeout: TIMEOUT_MS,
-    });
+    await waitForFirstChartAbove(page, before);
     const want = engineRows(states[0], { [TARGET]: "70 %" });
     await expect.poll(async () => JSON.stringify(await plottedRows(page, 0)) === JSON.stringify(want), { timeout: TIMEOUT_MS }).toBe(true);
     await screenshot(page, "lab-set-from-cell");
@@ -330,7 +364,7 @@ describe("an example notebook in JupyterLab 4", { timeout: TIMEOUT_MS * 3 }, () 
     const rows = [await plottedRows(page, 0), await plottedRows(page, 1)];
     await page.reload({ waitUntil: "load" });
     await page.waitForFunction(() => (globalThis as any).jupyterapp?.shell?.currentWidget?.context?.isReady === true, undefined, { timeout: TIMEOUT_MS });
-    await page.waitForFunction(([cls]) => (globalThis as any).document.querySelectorAll(`.${cls}[data-revision]`).length === 2, [CHART_VIEW_CLASS] as const, { timeout: TIMEOUT_MS });
+    await waitForCharts(page, 2);
     expect(await page.locator(".jupyter-widgets-error-widget").count()).toBe(0);
     expect(await plottedRows(page, 0)).toEqual(rows[0]);
     expect(await plottedRows(page, 1)).toEqual(rows[1]);
@@ -355,7 +389,7 @@ describe("an example notebook in JupyterLab 4", { timeout: TIMEOUT_MS * 3 }, () 
       before,
       { timeout: TIMEOUT_MS },
     );
-    await page.waitForFunction(([cls]) => (globalThis as any).document.querySelectorAll(`.${cls}[data-revision]`).length === 2, [CHART_VIEW_CLASS] as const, { timeout: TIMEOUT_MS });
+    await waitForCharts(page, 2);
     expect(await plottedRows(page, 0)).toEqual(rows[0]);
     expect(await plottedRows(page, 1)).toEqual(rows[1]);
     expect(await plottedRows(page, 0)).toEqual(engineRows(saved[0]));
@@ -378,7 +412,7 @@ describe("the same notebook in Notebook 7", { timeout: TIMEOUT_MS * 3 }, () => {
     await openNotebook(page, "notebooks", NB7_NOTEBOOK);
     await chooseKernel(page, KERNEL_DISPLAY);
     expect(await runAll(page)).toEqual([]);
-    await page.waitForFunction(([cls]) => (globalThis as any).document.querySelectorAll(`.${cls}[data-revision]`).length === 2, [CHART_VIEW_CLASS] as const, { timeout: TIMEOUT_MS });
+    await waitForCharts(page, 2);
     await save(page);
     const states = savedChartStates(NB7_NOTEBOOK);
     for (let i = 0; i < 2; i++) expect(await plottedRows(page, i), `chart ${i + 1}`).toEqual(engineRows(states[i]));
@@ -386,17 +420,8 @@ describe("the same notebook in Notebook 7", { timeout: TIMEOUT_MS * 3 }, () => {
     await screenshot(page, "notebook7-first-chart");
 
     const before = await drawnRevision(page, 0);
-    const slider = sliderRow(page, TARGET_LABEL);
-    await slider.scrollIntoViewIfNeeded();
-    const track = (await slider.locator(".noUi-target").boundingBox())!;
-    const handle = (await slider.locator(".noUi-handle").boundingBox())!;
-    await page.mouse.move(handle.x + handle.width / 2, handle.y + handle.height / 2);
-    await page.mouse.down();
-    await page.mouse.move(track.x + track.width * 0.3, track.y + track.height / 2, { steps: 8 });
-    await page.mouse.up();
-    await page.waitForFunction(([cls, r]) => Number((globalThis as any).document.querySelectorAll(`.${cls}`)[0]?.dataset.revision ?? 0) > (r as number), [CHART_VIEW_CLASS, before] as const, {
-      timeout: TIMEOUT_MS,
-    });
+    const slider = await dragSlider(page, TARGET_LABEL, 0.3);
+    await waitForFirstChartAbove(page, before);
     const shown = printedValue((await runCell(page, `${FIRST_EXPLORER}.values`)).text, TARGET);
     expect(Number(shown.replace(/\s*%$/, ""))).toBeCloseTo(Number(await slider.locator(".widget-readout").innerText()), 10);
     const want = engineRows(states[0], { [TARGET]: shown });
