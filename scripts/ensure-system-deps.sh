@@ -6,8 +6,11 @@
 # against these outside programs on purpose, so they come from the distribution, not npm.
 #
 # Idempotent and silent when everything is present. Installs only what is missing, as root
-# or through passwordless sudo; otherwise stops and names the packages to install.
+# or through passwordless sudo; otherwise stops and names the packages to install. Then makes
+# the virtual environment with JupyterLab 4 and Notebook 7 (scripts/ensure-python-env.sh).
 set -euo pipefail
+
+here="$(cd "$(dirname "$0")" && pwd)"
 
 PACKAGES=(
   jupyter-nbconvert
@@ -33,7 +36,9 @@ for p in "${PACKAGES[@]}"; do
   status="$(dpkg-query -W -f='${db:Status-Status}' "$p" 2>/dev/null || true)"
   [ "$status" = "installed" ] || missing+=("$p")
 done
-[ "${#missing[@]}" -eq 0 ] && exit 0
+if [ "${#missing[@]}" -eq 0 ]; then
+  exec bash "$here/ensure-python-env.sh"
+fi
 
 if [ "$(id -u)" -eq 0 ]; then
   as_root=()
@@ -58,3 +63,4 @@ if ! { "${as_root[@]}" "${apt[@]}" update && "${as_root[@]}" "${apt[@]}" install
   exit 1
 fi
 echo "ensure-system-deps: done in $((SECONDS - start)) s" >&2
+exec bash "$here/ensure-python-env.sh"

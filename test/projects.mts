@@ -14,7 +14,7 @@
 
 /** Integration files, each with the reason it cannot run in the unit loop. */
 export const INTEGRATION_FILES: Readonly<Record<string, string>> = {
-  "test/browser/**/*.test.ts": "headless Chromium on built pages, notebook exports and servers",
+  "test/browser/**/*.test.ts": "Chromium on built pages, exports and Jupyter servers (classic notebook; JupyterLab 4, Notebook 7 with the lab extension)",
   "test/cli/binary.test.ts": "spawns the built binary dist/src/cli/main.js",
   "test/cli/render.test.ts": "spawns the built binary dist/src/cli/main.js",
   "test/hardening/hostile-page.test.ts": "headless Chromium",

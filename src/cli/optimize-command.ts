@@ -1,7 +1,7 @@
 import { parseOptions } from "./options";
 import { optimizeDesign, shownFigure, type OptimizeParameter, type OptimizeResult } from "../design";
 import { QuietframeError } from "../errors";
-import type { CliIo } from "./run";
+import type { CliIo } from "./io";
 import { DESIGN_OPTIONS, figureOption, formatOption, gridOption, rangeOption, readSetupDescription, splitAssignment, wholeOption, withOptionNames } from "./design-args";
 import { resultJson, textTable } from "./text-table";
 

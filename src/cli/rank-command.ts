@@ -1,6 +1,6 @@
 import { parseOptions } from "./options";
 import { rankParameters, shownFigure, type Ranking } from "../design";
-import type { CliIo } from "./run";
+import type { CliIo } from "./io";
 import { DESIGN_OPTIONS, figureOption, formatOption, gridOption, readSetupDescription, wholeOption, withOptionNames } from "./design-args";
 import { resultJson, textTable } from "./text-table";
 

@@ -12,7 +12,7 @@ import { computeExplorer, createExplorerState } from "../../widgets/explorer/mod
 import { loadWidgetState } from "../../widgets/registry";
 import { notebookWidgets, pickNotebookWidget } from "./notebook-widgets";
 import { parseOptions } from "./options";
-import type { CliIo } from "./run";
+import type { CliIo } from "./io";
 
 /**
  * `render` and `report`: files from saved widget states and set-ups. The application layer: it

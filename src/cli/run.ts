@@ -5,6 +5,7 @@
  */
 import { readFileSync } from "node:fs";
 import { QuietframeError, QuietframeErrors } from "../errors";
+import type { CliIo } from "./io";
 import { describeHeadline, headlineFigures } from "../engine/headline";
 import { jsonNumbers, spectralDensityUnit, tableToCsv, tabulateBudget } from "../engine/tabulate";
 import { COMPONENT_KINDS } from "../components/registry";
@@ -16,16 +17,14 @@ import { reachLines } from "./reach-lines";
 import { didYouMean, withSuggestions } from "./suggest";
 import { RENDER_USAGE, renderCommand, reportCommand } from "./render";
 import { KERNEL_USAGE, kernelCommand } from "./kernel-install";
+import { EXTENSION_USAGE, extensionCommand } from "./extension-install";
 import { DESIGN_USAGE } from "./design-args";
 import { optimizeCommand } from "./optimize-command";
 import { rankCommand } from "./rank-command";
 import { solveCommand } from "./solve-command";
 import { spreadCommand } from "./spread-command";
 
-export interface CliIo {
-  out: (s: string) => void;
-  err: (s: string) => void;
-}
+export type { CliIo } from "./io";
 
 const USAGE = `quietframe ${QUIETFRAME_VERSION}: linear quantum-noise budgets below the standard quantum limit
 
@@ -42,7 +41,7 @@ usage:
       Validates a set-up and reports its size and stability.
   quietframe types [type]
       Lists component types, or one type's parameters and ports.
-${DESIGN_USAGE}${RENDER_USAGE}${KERNEL_USAGE}`;
+${DESIGN_USAGE}${RENDER_USAGE}${KERNEL_USAGE}${EXTENSION_USAGE}`;
 
 /** Every command word, for "did you mean" on a mistyped one. */
 const COMMANDS = ["eval", "summary", "check", "types", "rank", "solve", "optimize", "spread", "render", "report", "kernel", "help"];
@@ -82,6 +81,8 @@ export function runCli(argv: string[], io: CliIo): number {
         return typesCommand(rest, io);
       case "kernel":
         return kernelCommand(rest, io);
+      case "extension":
+        return extensionCommand(rest, io);
       case "rank":
         return rankCommand(rest, io);
       case "solve":

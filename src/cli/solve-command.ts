@@ -1,7 +1,7 @@
 import { parseOptions } from "./options";
 import { shownFigure, solveForTarget, targetWindow, type SolveResult, type WindowResult } from "../design";
 import { QuietframeError } from "../errors";
-import type { CliIo } from "./run";
+import type { CliIo } from "./io";
 import { DESIGN_OPTIONS, figureOption, formatOption, gridOption, rangeOption, readSetupDescription, withOptionNames } from "./design-args";
 import { resultJson } from "./text-table";
 

@@ -1,7 +1,7 @@
 import { spawnSync } from "node:child_process";
 import { existsSync, mkdtempSync, rmSync } from "node:fs";
 import { tmpdir } from "node:os";
-import { join } from "node:path";
+import { delimiter, dirname, join } from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { runCli } from "../../src/cli/run";
 import { REPO_ROOT, SYSTEM_PYTHON } from "../jupyter/env";
@@ -45,6 +45,21 @@ describe("quietframe kernel install", () => {
     expect(spec.argv[0]).toBe(process.execPath);
     expect(existsSync(spec.argv[1])).toBe(true);
     expect(spec.argv[1]).toMatch(/dist[\\/]widgets[\\/]kernel[\\/]launch\.js$/);
+  });
+
+  it("without --python, registers with the Python that runs the jupyter command on PATH", () => {
+    // Debian's /usr/bin/jupyter is a script whose first line names /usr/bin/python3, the
+    // interpreter its jupyter_client is installed for (another python3 may come first on PATH).
+    const other = mkdtempSync(join(tmpdir(), "quietframe-prefix-"));
+    try {
+      const path = [dirname(process.execPath), dirname(SYSTEM_PYTHON)].join(delimiter);
+      const r = spawnSync(process.execPath, [BUILT_CLI, "kernel", "install", "--prefix", other], { env: { ...env.env, PATH: path, VIRTUAL_ENV: "" }, encoding: "utf8" });
+      expect(r.stderr).toBe("");
+      expect(r.status).toBe(0);
+      expect(existsSync(join(other, "share", "jupyter", "kernels", "quietframe-ts", "kernel.json"))).toBe(true);
+    } finally {
+      rmSync(other, { recursive: true, force: true });
+    }
   });
 
   it("refuses --user together with --prefix", () => {

@@ -207,12 +207,17 @@ class WidgetProtocolTests(unittest.TestCase):
         comm_id = uuid.uuid4().hex
         self.fe.send("comm_open", {"comm_id": comm_id, "target_name": "jupyter.widget.control", "data": {}})
         _, msgs = self.fe.comm_msg(comm_id, {"method": "request_states"})
-        # messages.md, "Control Widget messaging protocol": update_states with every widget's state.
+        # messages.md, "Control Widget messaging protocol": update_states with every widget's state,
+        # each as widget managers read it (ipywidgets' ManagerBase._loadFromKernel and the Python
+        # kernel side: {model_name, model_module, model_module_version, state}).
         replies = comm_msgs(msgs, "update_states")
         self.assertEqual(len(replies), 1)
         data = replies[0]["content"]["data"]
-        self.assertEqual(data["states"][self.ids["slider"]]["_model_name"], "FloatSliderModel")
-        self.assertIn([self.ids["counter"], "curve"], data["buffer_paths"])
+        slider = data["states"][self.ids["slider"]]
+        self.assertEqual(slider["model_name"], "FloatSliderModel")
+        self.assertEqual(slider["model_module"], "@jupyter-widgets/controls")
+        self.assertEqual(slider["state"]["_model_name"], "FloatSliderModel")
+        self.assertIn([self.ids["counter"], "state", "curve"], data["buffer_paths"])
         self.fe.send("comm_close", {"comm_id": comm_id, "data": {}})
 
     # --- bad input -------------------------------------------------------------------------

@@ -5,7 +5,8 @@ import { createServer } from "node:net";
 import { SYSTEM_PYTHON, type JupyterEnv } from "../../jupyter/env";
 
 /**
- * Debian's classic notebook server, started for one test on 127.0.0.1 with a random token
+ * A Jupyter server (Debian's classic notebook server, or JupyterLab from the pinned
+ * environment), started for one test on 127.0.0.1 with a random token
  * and the private Jupyter environment, and stopped by that test (SIGTERM to its PID; the
  * server shuts its kernels down with it).
  */
@@ -56,12 +57,19 @@ function waitForExit(child: ChildProcess, ms: number): Promise<boolean> {
   });
 }
 
-async function startOnce(jupyter: JupyterEnv, notebookDir: string): Promise<NotebookServer> {
-  const port = await freePort();
-  const token = randomBytes(24).toString("hex");
-  const child = spawn(
-    SYSTEM_PYTHON,
-    [
+/** How to start one Jupyter server: the program and its arguments for a port and a token. */
+export interface ServerCommand {
+  readonly program: string;
+  readonly args: (port: number, token: string) => string[];
+  readonly env: NodeJS.ProcessEnv;
+  readonly cwd: string;
+}
+
+/** Debian's classic notebook server serving `notebookDir`. */
+function classicNotebook(jupyter: JupyterEnv, notebookDir: string): ServerCommand {
+  return {
+    program: SYSTEM_PYTHON,
+    args: (port, token) => [
       "-m",
       "notebook",
       "--no-browser",
@@ -73,8 +81,15 @@ async function startOnce(jupyter: JupyterEnv, notebookDir: string): Promise<Note
       "--NotebookApp.password=",
       `--notebook-dir=${notebookDir}`,
     ],
-    { env: jupyter.env, cwd: notebookDir, stdio: ["ignore", "pipe", "pipe"] },
-  );
+    env: jupyter.env,
+    cwd: notebookDir,
+  };
+}
+
+async function startOnce(command: ServerCommand): Promise<NotebookServer> {
+  const port = await freePort();
+  const token = randomBytes(24).toString("hex");
+  const child = spawn(command.program, command.args(port, token), { env: command.env, cwd: command.cwd, stdio: ["ignore", "pipe", "pipe"] });
   let out = "";
   const keep = (chunk: Buffer): void => {
     out = (out + chunk.toString()).slice(-OUTPUT_LIMIT);
@@ -90,7 +105,7 @@ async function startOnce(jupyter: JupyterEnv, notebookDir: string): Promise<Note
       resolve(false);
     });
   });
-  if (!spawned || child.pid === undefined) throw new Error(`could not start ${SYSTEM_PYTHON} -m notebook: ${out}`);
+  if (!spawned || child.pid === undefined) throw new Error(`could not start ${command.program}: ${out}`);
   const pid = child.pid;
   let stopping: ReturnType<NotebookServer["stop"]> | undefined;
   const server: NotebookServer = {
@@ -128,23 +143,28 @@ async function startOnce(jupyter: JupyterEnv, notebookDir: string): Promise<Note
     }
     if (Date.now() > deadline) {
       await server.stop();
-      throw new Error(`the notebook server did not answer within ${READY_TIMEOUT_MS / 1000} s:\n${out.slice(-4000)}`);
+      throw new Error(`the Jupyter server did not answer within ${READY_TIMEOUT_MS / 1000} s:\n${out.slice(-4000)}`);
     }
     await new Promise((r) => setTimeout(r, 200));
   }
-  throw Object.assign(new Error(`the notebook server exited (${exitInfo.code ?? exitInfo.signal}) before answering:\n${out.slice(-4000)}`), { output: out });
+  throw Object.assign(new Error(`the Jupyter server exited (${exitInfo.code ?? exitInfo.signal}) before answering:\n${out.slice(-4000)}`), { output: out });
 }
 
-/** Starts the server on a free port (another, if someone took the port in between). */
-export async function startNotebookServer(jupyter: JupyterEnv, notebookDir: string): Promise<NotebookServer> {
+/** Starts a Jupyter server on a free port (another, if someone took the port in between). */
+export async function startJupyterServer(command: ServerCommand): Promise<NotebookServer> {
   for (let attempt = 1; ; attempt++) {
     try {
-      return await startOnce(jupyter, notebookDir);
+      return await startOnce(command);
     } catch (e) {
       const output = (e as { output?: string }).output ?? "";
       if (attempt >= 3 || !/already in use|Address in use|EADDRINUSE/i.test(output)) throw e;
     }
   }
+}
+
+/** Starts Debian's classic notebook server on a free port. */
+export function startNotebookServer(jupyter: JupyterEnv, notebookDir: string): Promise<NotebookServer> {
+  return startJupyterServer(classicNotebook(jupyter, notebookDir));
 }
 
 /**

@@ -10,7 +10,10 @@ import { widgetRegistry } from "./widget-registry";
  *   is told no (comm closed with the reason), as this kernel has no class registry to build
  *   a model from a front-end's state.
  * - "jupyter.widget.control" (messages.md, "Control Widget messaging protocol, version 1.0"):
- *   `request_states` → `update_states` with the full state of every open model.
+ *   `request_states` → `update_states` with every open model as widget managers read it:
+ *   {model_name, model_module, model_module_version, state}, the form of saved widget state
+ *   (ipywidgets' ManagerBase._loadFromKernel, which JupyterLab and Notebook 7 use when a page
+ *   reconnects to a running kernel), buffer paths running through "state".
  */
 
 export const CONTROL_TARGET = "jupyter.widget.control";
@@ -38,9 +41,10 @@ function answerControl(comms: CommManager, comm: Comm, msg: CommMessage): void {
   const buffers: Uint8Array[] = [];
   for (const model of widgetRegistry().values()) {
     const split = model.fullState();
-    states[model.id] = split.state;
+    const state = split.state;
+    states[model.id] = { model_name: state._model_name, model_module: state._model_module, model_module_version: state._model_module_version, state };
     split.buffer_paths.forEach((p, i) => {
-      buffer_paths.push([model.id, ...p]);
+      buffer_paths.push([model.id, "state", ...p]);
       buffers.push(split.buffers[i]);
     });
   }

@@ -17,7 +17,7 @@ ${R} .qf-pointer{position:absolute;pointer-events:none;background:rgba(255,255,2
 ${R} .qf-pointer table{border-collapse:collapse}
 ${R} .qf-pointer td{padding:0 .4em 0 0}
 ${R} .qf-readout{display:grid;grid-template-columns:max-content 1fr;gap:.15em .8em;margin:0}
-${R} .qf-readout dt{font-weight:500}
+${R} .qf-readout dt{font-weight:500;white-space:nowrap;width:auto;float:none;margin:0}
 ${R} .qf-readout dd{margin:0}
 `;
 

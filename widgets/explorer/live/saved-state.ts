@@ -48,7 +48,7 @@ export function liveStateSource(text: string, source: string, which?: number): S
       throw new QuietframeError({
         path: `${source}.metadata.widgets`,
         problem: "holds no saved widget state",
-        allowed: "a notebook saved with its widget state (in the classic notebook: Widgets → Save Notebook Widget State; JupyterLab saves it by default)",
+        allowed: "a notebook saved with its widget state (in the classic notebook: Widgets → Save Notebook Widget State; in JupyterLab: Settings → Save Widget State Automatically, then save)",
       });
     }
   }
