@@ -14,7 +14,11 @@ function run(args: string[]): { code: number; err: string; out: string } {
 
 describe("quietframe extension", () => {
   it("refuses an unknown subcommand and names the allowed ones", () => {
-    expect(run(["extension", "uninstall"])).toEqual({ code: 1, out: "", err: 'quietframe: extension = "uninstall": is not an extension subcommand; allowed: install, remove\n' });
+    expect(run(["extension", "uninstall"])).toEqual({
+      code: 1,
+      out: "",
+      err: 'quietframe: extension = "uninstall": is not an extension subcommand (did you mean "install"?); allowed: install, remove\n',
+    });
   });
 
   it("refuses more than one place to install to", () => {
