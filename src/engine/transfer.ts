@@ -1,3 +1,5 @@
+import { complexLuFactor, complexLuSolveTransposed, type PivotInverses } from "../linalg/complex-lu";
+import { SingularMatrixError } from "../linalg/singular-error";
 import type { StateSpaceModel } from "../network/model";
 
 /**
@@ -38,8 +40,8 @@ export class TransferEvaluator {
   private readonly mIm: Float64Array;
   private readonly piv: Int32Array;
   /** Reciprocals of the pivots of the last factorisation. */
-  private readonly invRe: Float64Array;
-  private readonly invIm: Float64Array;
+  /** Reciprocals of the pivots, kept by the factorisation for the solve. */
+  private readonly inverses: PivotInverses;
   private readonly gRe: Float64Array;
   private readonly gIm: Float64Array;
 
@@ -93,8 +95,7 @@ export class TransferEvaluator {
     this.mRe = new Float64Array(n * n);
     this.mIm = new Float64Array(n * n);
     this.piv = new Int32Array(n);
-    this.invRe = new Float64Array(n);
-    this.invIm = new Float64Array(n);
+    this.inverses = { re: new Float64Array(n), im: new Float64Array(n) };
     this.gRe = new Float64Array(n * p);
     this.gIm = new Float64Array(n * p);
   }
@@ -141,126 +142,33 @@ export class TransferEvaluator {
     return true;
   }
 
-  /**
-   * M = −iΩ I − A factorised in place as P M = L U: the elimination of linalg/complex-lu.ts
-   * (same pivots, same operations in the same order, so the same bits), fused here so that the
-   * reciprocal of each pivot is kept for the solve, which would otherwise compute it again.
-   */
+  /** M = −iΩ I − A factorised in place as P M = L U, keeping the pivots' reciprocals for the solve. */
   private factor(omega: number): void {
-    const { n, negA, mRe: re, mIm: im, piv, invRe, invIm } = this;
+    const { n, negA, mRe: re, mIm: im, piv } = this;
     // Plain loops: for the few entries of a small model they beat set/fill calls.
     for (let i = 0; i < n * n; i++) {
       re[i] = negA[i];
       im[i] = 0;
     }
     for (let i = 0; i < n; i++) im[i * n + i] = -omega;
-    for (let k = 0; k < n; k++) {
-      const rowK = k * n;
-      let pk = k;
-      let best = Math.abs(re[rowK + k]) + Math.abs(im[rowK + k]);
-      for (let i = k + 1; i < n; i++) {
-        const size = Math.abs(re[i * n + k]) + Math.abs(im[i * n + k]);
-        // A NaN candidate is taken as pivot so it is reported below rather than skipped.
-        if (size > best || (size !== size && best === best)) {
-          best = size;
-          pk = i;
-        }
-      }
-      piv[k] = pk;
-      if (best === 0 || !Number.isFinite(best)) {
+    try {
+      complexLuFactor(re, im, n, piv, this.inverses);
+    } catch (e) {
+      if (e instanceof SingularMatrixError) {
         throw new Error(`the set-up has an undamped mode exactly at ${omega / (2 * Math.PI)} Hz; its response is infinite there`);
       }
-      if (pk !== k) {
-        const rowP = pk * n;
-        for (let j = 0; j < n; j++) {
-          let t = re[rowK + j];
-          re[rowK + j] = re[rowP + j];
-          re[rowP + j] = t;
-          t = im[rowK + j];
-          im[rowK + j] = im[rowP + j];
-          im[rowP + j] = t;
-        }
-      }
-      // Reciprocal of the pivot, pre-scaled so |re|²+|im|² cannot overflow or underflow.
-      const s = 1 / best;
-      const pr = re[rowK + k] * s;
-      const pi = im[rowK + k] * s;
-      const d = s / (pr * pr + pi * pi);
-      const ir = pr * d;
-      const ii = -pi * d;
-      invRe[k] = ir;
-      invIm[k] = ii;
-      for (let i = k + 1; i < n; i++) {
-        const rowI = i * n;
-        const ar = re[rowI + k];
-        const ai = im[rowI + k];
-        if (ar === 0 && ai === 0) continue;
-        const lr = ar * ir - ai * ii;
-        const li = ar * ii + ai * ir;
-        re[rowI + k] = lr;
-        im[rowI + k] = li;
-        for (let j = k + 1; j < n; j++) {
-          const ur = re[rowK + j];
-          const ui = im[rowK + j];
-          re[rowI + j] -= lr * ur - li * ui;
-          im[rowI + j] -= lr * ui + li * ur;
-        }
-      }
+      throw e;
     }
   }
 
-  /**
-   * Gᵀ (n×p) from Mᵀ Gᵀ = C_rᵀ with the factors of `factor`: Uᵀ w = b, Lᵀ z = w, x = Pᵀ z, as
-   * complexLuSolveTransposed does, with the pivots' reciprocals taken from the factorisation.
-   */
+  /** Gᵀ (n×p) from Mᵀ Gᵀ = C_rᵀ with the factors of `factor`. */
   private solveTransposed(): void {
-    const { n, p, mRe: re, mIm: im, piv, invRe, invIm, cT, gRe, gIm } = this;
+    const { n, p, mRe, mIm, piv, cT, gRe, gIm } = this;
     for (let i = 0; i < n * p; i++) {
       gRe[i] = cT[i];
       gIm[i] = 0;
     }
-    for (let i = 0; i < n; i++) {
-      const rowI = i * n;
-      const bi = i * p;
-      const ir = invRe[i];
-      const ii = invIm[i];
-      for (let c = 0; c < p; c++) {
-        const xr = gRe[bi + c];
-        const xi = gIm[bi + c];
-        gRe[bi + c] = xr * ir - xi * ii;
-        gIm[bi + c] = xr * ii + xi * ir;
-      }
-      for (let j = i + 1; j < n; j++) {
-        const ur = re[rowI + j];
-        const ui = im[rowI + j];
-        if (ur === 0 && ui === 0) continue;
-        axpyRow(gRe, gIm, j * p, bi, -ur, -ui, p);
-      }
-    }
-    for (let i = n - 1; i > 0; i--) {
-      const rowI = i * n;
-      const bi = i * p;
-      for (let j = 0; j < i; j++) {
-        const lr = re[rowI + j];
-        const li = im[rowI + j];
-        if (lr === 0 && li === 0) continue;
-        axpyRow(gRe, gIm, j * p, bi, -lr, -li, p);
-      }
-    }
-    for (let k = n - 1; k >= 0; k--) {
-      const pk = piv[k];
-      if (pk === k) continue;
-      const oa = k * p;
-      const ob = pk * p;
-      for (let c = 0; c < p; c++) {
-        let t = gRe[oa + c];
-        gRe[oa + c] = gRe[ob + c];
-        gRe[ob + c] = t;
-        t = gIm[oa + c];
-        gIm[oa + c] = gIm[ob + c];
-        gIm[ob + c] = t;
-      }
-    }
+    complexLuSolveTransposed(mRe, mIm, n, piv, gRe, gIm, p, this.inverses);
   }
 
   /** Fills hRe/hIm/sRe/sIm for angular frequency omega (rad/s). */
@@ -297,15 +205,5 @@ export class TransferEvaluator {
       sRe[k] = re;
       sIm[k] = im;
     }
-  }
-}
-
-/** Row at `dst` += (fr + i·fi) · row at `src`, as in linalg/complex-lu.ts. */
-function axpyRow(bRe: Float64Array, bIm: Float64Array, dst: number, src: number, fr: number, fi: number, count: number): void {
-  for (let c = 0; c < count; c++) {
-    const xr = bRe[src + c];
-    const xi = bIm[src + c];
-    bRe[dst + c] += fr * xr - fi * xi;
-    bIm[dst + c] += fr * xi + fi * xr;
   }
 }

@@ -25,12 +25,22 @@ function checkRhs(n: number, nrhs: number, bRe: Float64Array, bIm: Float64Array)
 }
 
 /**
+ * Where complexLuFactor keeps the reciprocal of each pivot (U's diagonal), for a solve that
+ * would otherwise compute it again: an evaluation per frequency factors once and solves once.
+ */
+export interface PivotInverses {
+  readonly re: Float64Array;
+  readonly im: Float64Array;
+}
+
+/**
  * In-place LU with partial pivoting: on return the strict lower triangle holds L (unit
  * diagonal implied), the upper triangle holds U, and row k was exchanged with row piv[k]
  * at step k (so P A = L U with P the product of those exchanges).
  */
-export function complexLuFactor(re: Float64Array, im: Float64Array, n: number, piv: Int32Array): void {
+export function complexLuFactor(re: Float64Array, im: Float64Array, n: number, piv: Int32Array, inverses?: PivotInverses): void {
   checkSizes(n, re, im, piv);
+  if (inverses && (inverses.re.length < n || inverses.im.length < n)) throw new Error("complexLuFactor: inverses must hold n entries");
   for (let k = 0; k < n; k++) {
     const rowK = k * n;
     let p = k;
@@ -64,6 +74,10 @@ export function complexLuFactor(re: Float64Array, im: Float64Array, n: number, p
     const d = s / (pr * pr + pi * pi);
     const invRe = pr * d;
     const invIm = -pi * d;
+    if (inverses) {
+      inverses.re[k] = invRe;
+      inverses.im[k] = invIm;
+    }
     for (let i = k + 1; i < n; i++) {
       const rowI = i * n;
       const ar = re[rowI + k];
@@ -122,14 +136,15 @@ export function complexLuSolve(re: Float64Array, im: Float64Array, n: number, pi
  * Since P A = L U, Aᵀ = Uᵀ Lᵀ P, so: Uᵀ w = b (forward), Lᵀ z = w (backward), x = Pᵀ z.
  * Column-oriented updates keep the reads of U and L along their stored rows.
  */
-export function complexLuSolveTransposed(re: Float64Array, im: Float64Array, n: number, piv: Int32Array, bRe: Float64Array, bIm: Float64Array, nrhs: number): void {
+export function complexLuSolveTransposed(re: Float64Array, im: Float64Array, n: number, piv: Int32Array, bRe: Float64Array, bIm: Float64Array, nrhs: number, inverses?: PivotInverses): void {
   checkSizes(n, re, im, piv);
   checkRhs(n, nrhs, bRe, bIm);
   // Uᵀ w = b: row i of U is column i of Uᵀ.
   for (let i = 0; i < n; i++) {
     const rowI = i * n;
     const bi = i * nrhs;
-    scaleRowByInverse(bRe, bIm, bi, re[rowI + i], im[rowI + i], nrhs);
+    if (inverses) scaleRow(bRe, bIm, bi, inverses.re[i], inverses.im[i], nrhs);
+    else scaleRowByInverse(bRe, bIm, bi, re[rowI + i], im[rowI + i], nrhs);
     for (let j = i + 1; j < n; j++) {
       const ur = re[rowI + j];
       const ui = im[rowI + j];
@@ -184,8 +199,11 @@ function scaleRowByInverse(bRe: Float64Array, bIm: Float64Array, off: number, dr
   const pr = dr * s;
   const pi = di * s;
   const d = s / (pr * pr + pi * pi);
-  const ir = pr * d;
-  const ii = -pi * d;
+  scaleRow(bRe, bIm, off, pr * d, -pi * d, nrhs);
+}
+
+/** Row at `off` *= (ir + i·ii). */
+function scaleRow(bRe: Float64Array, bIm: Float64Array, off: number, ir: number, ii: number, nrhs: number): void {
   for (let c = 0; c < nrhs; c++) {
     const xr = bRe[off + c];
     const xi = bIm[off + c];

@@ -184,3 +184,35 @@ describe("complex LU", () => {
     );
   });
 });
+
+describe("complex LU with the pivots' reciprocals kept", () => {
+  it("factor and transposed solve give the same bits as without, and the kept values are 1/U[k][k]", () => {
+    const rand = seededRandom(41);
+    for (const n of [1, 3, 6, 11]) {
+      const aRe = randomMatrix(rand, n);
+      const aIm = randomMatrix(rand, n);
+      const bRe = randomMatrix(rand, n, 2);
+      const bIm = randomMatrix(rand, n, 2);
+      const plain = solveWith(aRe, aIm, n, bRe, bIm, 2, true);
+      const fRe = aRe.slice();
+      const fIm = aIm.slice();
+      const piv = new Int32Array(n);
+      const inverses = { re: new Float64Array(n), im: new Float64Array(n) };
+      complexLuFactor(fRe, fIm, n, piv, inverses);
+      const xRe = bRe.slice();
+      const xIm = bIm.slice();
+      complexLuSolveTransposed(fRe, fIm, n, piv, xRe, xIm, 2, inverses);
+      expect(Array.from(xRe)).toEqual(Array.from(plain.re));
+      expect(Array.from(xIm)).toEqual(Array.from(plain.im));
+      for (let k = 0; k < n; k++) {
+        // (ur + i·ui)(ir + i·ii) = 1 up to rounding (elementary complex arithmetic).
+        const ur = fRe[k * n + k];
+        const ui = fIm[k * n + k];
+        const ir = inverses.re[k];
+        const ii = inverses.im[k];
+        expect(Math.abs(ur * ir - ui * ii - 1)).toBeLessThan(1e-14);
+        expect(Math.abs(ur * ii + ui * ir)).toBeLessThan(1e-14);
+      }
+    }
+  });
+});
