@@ -34,6 +34,8 @@ export interface OptimizeOptions {
   readonly maxEvaluationsPerStart?: number;
   /** Convergence: simplex size in the unit box (default 1e-10). */
   readonly tolerance?: number;
+  /** Called after each start with the starts done and their number, e.g. to show progress. */
+  readonly onProgress?: (done: number, total: number) => void;
 }
 
 export interface OptimizedValue {
@@ -111,6 +113,7 @@ export function optimizeDesign(setup: SetupDescription | string, figure: FigureS
   const reports: StartReport[] = [];
   let best: { u: Float64Array; f: number } | undefined;
   for (let s = 0; s < starts; s++) {
+    if (s > 0) options.onProgress?.(s, starts);
     const u0 = new Float64Array(n);
     for (let k = 0; k < n; k++) u0[k] = s === 0 ? clampUnit(toUnit(ranges[k], params[k].value)) : random.uniform();
     const before = problem.evaluations;
@@ -124,6 +127,7 @@ export function optimizeDesign(setup: SetupDescription | string, figure: FigureS
     reports.push({ start, status: run.converged ? "converged" : "budget-spent", figure: figureOf(problem.figure, -run.f), evaluations: problem.evaluations - before });
     if (!best || run.f < best.f) best = { u: run.u, f: run.f };
   }
+  options.onProgress?.(starts, starts);
   if (!best) {
     const reasons = [...new Set(reports.map((r) => r.message ?? "no value"))];
     return {

@@ -29,6 +29,8 @@ export interface SpreadOptions {
   readonly grid?: DesignGrid;
   /** Percentile bands of the total noise over the grid (default true). */
   readonly bands?: boolean;
+  /** Called after each block of samples (about a hundred blocks) with the samples done and their number. */
+  readonly onProgress?: (done: number, total: number) => void;
 }
 
 export interface SpreadResult {
@@ -75,7 +77,17 @@ const MAX_REDRAWS = 1000;
 
 export function spreadAnalysis(setup: SetupDescription | string, figure: FigureSpec, uncertain: readonly UncertaintySpec[], options: SpreadOptions = {}): SpreadResult {
   const plan = planSpread(setup, figure, uncertain, options);
-  return finishSpread(plan, [evaluateSamples(plan, 0, plan.samples)]);
+  const report = options.onProgress;
+  if (!report) return finishSpread(plan, [evaluateSamples(plan, 0, plan.samples)]);
+  // In blocks, so a caller can show progress; the parts cover every sample once, which gives the same bits.
+  const block = Math.ceil(plan.samples / 100);
+  const parts: SampleOutcomes[] = [];
+  for (let from = 0; from < plan.samples; from += block) {
+    const to = Math.min(plan.samples, from + block);
+    parts.push(evaluateSamples(plan, from, to));
+    report(to, plan.samples);
+  }
+  return finishSpread(plan, parts);
 }
 
 /**

@@ -56,11 +56,11 @@ export function computeAnswer(setup: SetupDescription, figure: FigureSpec, quest
     case "ranking":
       return rankingAnswer(rankOneByOne(setup, figure, question, grid, onStep));
     case "optimum": {
-      const options = { starts: question.starts, seed: question.seed, maxEvaluationsPerStart: question.maxEvaluationsPerStart, tolerance: question.tolerance, grid };
+      const options = { starts: question.starts, seed: question.seed, maxEvaluationsPerStart: question.maxEvaluationsPerStart, tolerance: question.tolerance, grid, onProgress: onStep };
       return optimumAnswer(setup, figure, grid, optimizeDesign(setup, figure, question.parameters, options));
     }
     case "spread":
-      return spreadAnswer(spreadAnalysis(setup, figure, question.uncertain, { samples: question.samples, seed: question.seed, target: question.target, grid }));
+      return spreadAnswer(spreadAnalysis(setup, figure, question.uncertain, { samples: question.samples, seed: question.seed, target: question.target, grid, onProgress: onStep }));
   }
 }
 

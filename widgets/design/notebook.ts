@@ -164,18 +164,29 @@ export function designWidget(saved: DesignState | Record<string, unknown> | stri
 }
 
 function ask(setup: SetupDescription, figure: FigureSpec, question: DesignQuestion, options: DesignWidgetOptions): DesignState {
-  const progress = progressReporter();
+  const progress = progressReporter(Date.now, (t) => void process.stdout.write(t), PROGRESS_LABELS[question.kind]);
   const answer = computeAnswer(setup, figure, question, options.grid, progress.onStep);
   progress.finish();
   return designState(setup, figure, question, answer, options);
 }
 
+/** What a progress line counts, by question: parameters ranked, optimizer starts, Monte Carlo samples. */
+export const PROGRESS_LABELS = {
+  ranking: { name: "ranking", unit: "parameters" },
+  optimum: { name: "optimum", unit: "starts" },
+  spread: { name: "spread", unit: "samples" },
+} as const;
+
 /**
- * Progress as text for computations that take more than a second: a ranking says how many
- * parameters it has done (at most one line a second), and every long computation says when it
- * finished; quick ones print nothing. The clock and the writer are parameters so tests need not wait.
+ * Progress as text for computations that take more than a second: how many parameters, starts
+ * or samples are done (at most one line a second), and when a long computation finished; quick
+ * ones print nothing. The clock and the writer are parameters so tests need not wait.
  */
-export function progressReporter(now: () => number = Date.now, write: (text: string) => void = (t) => void process.stdout.write(t)): { onStep: StepReport; finish(): void } {
+export function progressReporter(
+  now: () => number = Date.now,
+  write: (text: string) => void = (t) => void process.stdout.write(t),
+  label: { readonly name: string; readonly unit: string } = PROGRESS_LABELS.ranking,
+): { onStep: StepReport; finish(): void } {
   const started = now();
   let said = started;
   return {
@@ -183,7 +194,7 @@ export function progressReporter(now: () => number = Date.now, write: (text: str
       const t = now();
       if (t - started < QUIET_MS || t - said < QUIET_MS) return;
       said = t;
-      write(`ranking: ${done} of ${total} parameters (${((100 * done) / total).toFixed(0)} %)\n`);
+      write(`${label.name}: ${done} of ${total} ${label.unit} (${((100 * done) / total).toFixed(0)} %)\n`);
     },
     finish() {
       const took = now() - started;

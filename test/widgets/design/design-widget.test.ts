@@ -9,7 +9,7 @@ import { designDocumentText, loadDesignState, readDesignState } from "../../../w
 import { answerFingerprint } from "../../../widgets/design/fingerprint";
 import type { OptimumAnswer, RankingAnswer, SpreadAnswer } from "../../../widgets/design/format";
 import { designMethods } from "../../../widgets/design/methods";
-import { optimumWidget, progressReporter, rankingWidget, spreadWidget, designWidget } from "../../../widgets/design/notebook";
+import { optimumWidget, PROGRESS_LABELS, progressReporter, rankingWidget, spreadWidget, designWidget } from "../../../widgets/design/notebook";
 import { bandRows, curvePoints, gainBars, histogramMarks, spreadHistogram } from "../../../widgets/design/specs";
 import { loadWidgetState } from "../../../widgets/registry";
 import { kindOutput } from "../../../widgets/core/render/kind-output";
@@ -112,6 +112,16 @@ describe("design widget: the plotted rows are the engine's numbers", () => {
     t = 2600;
     slow.finish();
     expect(lines).toEqual(["ranking: 1 of 4 parameters (25 %)\n", "ranking: 3 of 4 parameters (75 %)\n", "design: finished in 2.6 s\n"]);
+    t = 0;
+    const spreadLines: string[] = [];
+    const samples = progressReporter(
+      () => t,
+      (s) => spreadLines.push(s),
+      PROGRESS_LABELS.spread,
+    );
+    t = 1500;
+    samples.onStep(100, 250);
+    expect(spreadLines).toEqual(["spread: 100 of 250 samples (40 %)\n"]);
   });
 
   it("`.result` is plain JSON values", () => {
