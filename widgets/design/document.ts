@@ -1,8 +1,8 @@
 /** The design widget's state file: strict reading, widget-state document, recomputation and its fingerprint. */
-import { QuietframeError, parseJsonText, QUIETFRAME_VERSION, type FigureSpec, type SetupDescription } from "../../src/index";
-import { MAX_STATE_TEXT_BYTES } from "../core/state/state-text";
-import { WIDGET_MODULE, type JupyterWidgetStateDocument } from "../core/state/widget-state";
-import { copyJson, expectRecord, FINGERPRINT_PATTERN, isRecord, modelIdOf, rebasedErrors, rejectUnknownKeys, singleModelDocument, VERSION_PATTERN } from "../core/state/strict-read";
+import { QuietframeError, QUIETFRAME_VERSION, type FigureSpec, type SetupDescription } from "../../src/index";
+import { holdsSingleModelState, locateSingleModelState, type SingleModelKind } from "../core/state/single-model-read";
+import type { JupyterWidgetStateDocument } from "../core/state/widget-state";
+import { copyJson, expectRecord, FINGERPRINT_PATTERN, modelIdOf, rebasedErrors, rejectUnknownKeys, singleModelDocument, VERSION_PATTERN } from "../core/state/strict-read";
 import { computeAnswer } from "./answer";
 import { checkAnswer } from "./answer-read";
 import { answerFingerprint } from "./fingerprint";
@@ -51,17 +51,7 @@ export function designDocumentText(state: DesignState): string {
 
 /** True when the input (text or parsed) is a design state or a document holding one; never throws. */
 export function isDesignInput(input: unknown): boolean {
-  let value = input;
-  if (typeof input === "string") {
-    try {
-      value = JSON.parse(input);
-    } catch {
-      return false;
-    }
-  }
-  if (!isRecord(value)) return false;
-  if (value.format === DESIGN_STATE_FORMAT) return true;
-  return isRecord(value.state) && Object.values(value.state).some((m) => isRecord(m) && m.model_module === WIDGET_MODULE && m.model_name === DESIGN_MODEL_NAME);
+  return holdsSingleModelState(input, STATE_KIND);
 }
 
 /** Reads a state as it is (the answer it carries, nothing computed): what the page draws. */
@@ -99,36 +89,10 @@ export function fieldOfState(enginePath: string): string {
 }
 
 function locate(input: unknown, source: string): { state: DesignState; path: string } {
-  if (typeof input === "string" && input.length > MAX_STATE_TEXT_BYTES) {
-    throw new QuietframeError({ path: source, problem: `is more than ${MAX_STATE_TEXT_BYTES} characters of text`, allowed: "a state document of at most 5 MiB" });
-  }
-  const value = typeof input === "string" ? parseJsonText(input, source) : input;
-  const top = expectRecord(value, source, "a widget-state document or a design state (a JSON object)");
-  if (Object.prototype.hasOwnProperty.call(top, "format")) return { state: checkDesignState(top, source), path: source };
-  if (top.version_major !== 2) {
-    throw new QuietframeError({
-      path: `${source}.version_major`,
-      value: top.version_major,
-      problem: "is not a widget-state format this quietframe reads",
-      allowed: `2, or a bare state {"format": "${DESIGN_STATE_FORMAT}", …}`,
-    });
-  }
-  const models = expectRecord(top.state, `${source}.state`, "an object of widget models keyed by model id");
-  const ours = Object.keys(models).filter((id) => {
-    const m = models[id];
-    return isRecord(m) && m.model_module === WIDGET_MODULE && m.model_name === DESIGN_MODEL_NAME;
-  });
-  if (ours.length !== 1) {
-    throw new QuietframeError({
-      path: `${source}.state`,
-      problem: ours.length ? `holds ${ours.length} quietframe design models` : "holds no quietframe design model",
-      allowed: `exactly one model with model_module "${WIDGET_MODULE}" and model_name "${DESIGN_MODEL_NAME}"`,
-    });
-  }
-  const id = ours[0];
-  const path = `${source}.state${/^[A-Za-z0-9_-]+$/.test(id) ? `.${id}` : `[${JSON.stringify(id)}]`}.state`;
-  return { state: checkDesignState((models[id] as Record<string, unknown>).state, path), path };
+  return locateSingleModelState(input, source, STATE_KIND);
 }
+
+const STATE_KIND: SingleModelKind<DesignState> = { what: "design", format: DESIGN_STATE_FORMAT, modelName: DESIGN_MODEL_NAME, check: (input, path) => checkDesignState(input, path) };
 
 /** Checks a design state field by field and returns a fresh copy. */
 export function checkDesignState(input: unknown, path: string): DesignState {

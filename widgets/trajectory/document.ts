@@ -1,8 +1,8 @@
 /** The trajectory widget's state file: strict reading, widget-state document, rerun. */
-import { QuietframeError, parseJsonText, QUIETFRAME_VERSION, type SetupDescription } from "../../src/index";
-import { MAX_STATE_TEXT_BYTES } from "../core/state/state-text";
-import { WIDGET_MODULE, type JupyterWidgetStateDocument } from "../core/state/widget-state";
-import { copyJson, expectArray, expectRecord, FINGERPRINT_PATTERN, isRecord, modelIdOf, rebasedErrors, rejectUnknownKeys, singleModelDocument, VERSION_PATTERN } from "../core/state/strict-read";
+import { QuietframeError, QUIETFRAME_VERSION, type SetupDescription } from "../../src/index";
+import { holdsSingleModelState, locateSingleModelState, type SingleModelKind } from "../core/state/single-model-read";
+import type { JupyterWidgetStateDocument } from "../core/state/widget-state";
+import { copyJson, expectArray, expectRecord, FINGERPRINT_PATTERN, modelIdOf, rebasedErrors, rejectUnknownKeys, singleModelDocument, VERSION_PATTERN } from "../core/state/strict-read";
 import { checkControlSpec, checkControlValues, expectQuantity } from "../core/state/control-read";
 import { TRAJECTORY_MODEL_NAME, TRAJECTORY_STATE_FORMAT, TRAJECTORY_STATE_VERSION, type SimulationSpec, type TrajectoryState } from "./format";
 import { checkJoint, checkPair } from "./joint";
@@ -36,17 +36,7 @@ export function trajectoryDocumentText(state: TrajectoryState): string {
 
 /** True when the input (text or parsed) is a trajectory state or a document holding one; never throws. */
 export function isTrajectoryInput(input: unknown): boolean {
-  let value = input;
-  if (typeof input === "string") {
-    try {
-      value = JSON.parse(input);
-    } catch {
-      return false;
-    }
-  }
-  if (!isRecord(value)) return false;
-  if (value.format === TRAJECTORY_STATE_FORMAT) return true;
-  return isRecord(value.state) && Object.values(value.state).some((m) => isRecord(m) && m.model_module === WIDGET_MODULE && m.model_name === TRAJECTORY_MODEL_NAME);
+  return holdsSingleModelState(input, STATE_KIND);
 }
 
 /** Reads a state document or a bare state, text or parsed. Shape only: see loadTrajectoryState. */
@@ -74,36 +64,15 @@ export function rebased<T>(path: string, fn: () => T): T {
 }
 
 function locate(input: unknown, source: string): { state: TrajectoryState; path: string } {
-  if (typeof input === "string" && input.length > MAX_STATE_TEXT_BYTES) {
-    throw new QuietframeError({ path: source, problem: `is more than ${MAX_STATE_TEXT_BYTES} characters of text`, allowed: "a state document of at most 5 MiB" });
-  }
-  const value = typeof input === "string" ? parseJsonText(input, source) : input;
-  const top = expectRecord(value, source, "a widget-state document or a trajectory state (a JSON object)");
-  if (Object.prototype.hasOwnProperty.call(top, "format")) return { state: checkTrajectoryState(top, source), path: source };
-  if (top.version_major !== 2) {
-    throw new QuietframeError({
-      path: `${source}.version_major`,
-      value: top.version_major,
-      problem: "is not a widget-state format this quietframe reads",
-      allowed: `2, or a bare state {"format": "${TRAJECTORY_STATE_FORMAT}", …}`,
-    });
-  }
-  const models = expectRecord(top.state, `${source}.state`, "an object of widget models keyed by model id");
-  const ours = Object.keys(models).filter((id) => {
-    const m = models[id];
-    return isRecord(m) && m.model_module === WIDGET_MODULE && m.model_name === TRAJECTORY_MODEL_NAME;
-  });
-  if (ours.length !== 1) {
-    throw new QuietframeError({
-      path: `${source}.state`,
-      problem: ours.length ? `holds ${ours.length} quietframe trajectory models` : "holds no quietframe trajectory model",
-      allowed: `exactly one model with model_module "${WIDGET_MODULE}" and model_name "${TRAJECTORY_MODEL_NAME}"`,
-    });
-  }
-  const id = ours[0];
-  const path = `${source}.state${/^[A-Za-z0-9_-]+$/.test(id) ? `.${id}` : `[${JSON.stringify(id)}]`}.state`;
-  return { state: checkTrajectoryState((models[id] as Record<string, unknown>).state, path), path };
+  return locateSingleModelState(input, source, STATE_KIND);
 }
+
+const STATE_KIND: SingleModelKind<TrajectoryState> = {
+  what: "trajectory",
+  format: TRAJECTORY_STATE_FORMAT,
+  modelName: TRAJECTORY_MODEL_NAME,
+  check: (input, path) => checkTrajectoryState(input, path),
+};
 
 /** Checks a trajectory state field by field and returns a fresh copy. */
 export function checkTrajectoryState(input: unknown, path: string): TrajectoryState {
