@@ -3,6 +3,8 @@
  * path of the offending field (e.g. `components[2].mass`), the value as they wrote it,
  * and what would have been accepted, so that a message can be acted on without reading code.
  */
+import { didYouMean } from "./nearest-name";
+
 export interface ProblemDetails {
   /** Dotted path of the field, e.g. `components.membrane.mass` or `grid.from`. */
   path: string;
@@ -12,6 +14,11 @@ export interface ProblemDetails {
   problem: string;
   /** What would have been accepted, e.g. "a mass such as \"40 kg\"" or "0 ≤ efficiency ≤ 1". */
   allowed?: string;
+  /**
+   * The names a refused name was checked against (component types, components, ports, …): the
+   * nearest one, when close enough to be a typo of `value`, is added to the problem.
+   */
+  choices?: readonly string[];
 }
 
 export class QuietframeError extends Error {
@@ -21,11 +28,12 @@ export class QuietframeError extends Error {
   readonly allowed: string | undefined;
 
   constructor(details: ProblemDetails) {
-    super(formatProblem(details));
+    const problem = typeof details.value === "string" && details.choices ? `${details.problem}${didYouMean(details.value, details.choices)}` : details.problem;
+    super(formatProblem({ ...details, problem }));
     this.name = "QuietframeError";
     this.path = details.path;
     this.value = details.value;
-    this.problem = details.problem;
+    this.problem = problem;
     this.allowed = details.allowed;
   }
 }

@@ -71,7 +71,7 @@ function writable(path: string, action: () => void): void {
 export function extensionCommand(args: string[], io: CliIo): number {
   const [sub, ...rest] = args;
   if (sub !== "install" && sub !== "remove") {
-    throw new QuietframeError({ path: "extension", value: sub ?? "", problem: "is not an extension subcommand", allowed: "install, remove" });
+    throw new QuietframeError({ path: "extension", value: sub ?? "", problem: "is not an extension subcommand", allowed: "install, remove", choices: ["install", "remove"] });
   }
   const { values } = parseOptions(`extension ${sub}`, rest, { "sys-prefix": { type: "boolean" }, user: { type: "boolean" }, prefix: { type: "string" }, python: { type: "string" } }, false);
   const where = { sysPrefix: values["sys-prefix"], user: values.user, prefix: values.prefix, python: values.python };

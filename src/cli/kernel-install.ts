@@ -16,7 +16,7 @@ export const KERNEL_USAGE = `  quietframe kernel install [--user | --prefix DIR]
 export function kernelCommand(args: string[], io: CliIo): number {
   const [sub, ...rest] = args;
   if (sub !== "install") {
-    throw new QuietframeError({ path: "kernel", value: sub ?? "", problem: "is not a kernel subcommand", allowed: "install" });
+    throw new QuietframeError({ path: "kernel", value: sub ?? "", problem: "is not a kernel subcommand", allowed: "install", choices: ["install"] });
   }
   const { values } = parseOptions("kernel install", rest, { user: { type: "boolean" }, prefix: { type: "string" }, python: { type: "string" } }, false);
   if (values.user && values.prefix !== undefined)

@@ -5,7 +5,7 @@
  */
 import { parseArgs, type ParseArgsConfig } from "node:util";
 import { QuietframeError } from "../errors";
-import { didYouMean } from "./suggest";
+import { didYouMean } from "../nearest-name";
 
 type OptionSpecs = NonNullable<ParseArgsConfig["options"]>;
 type Parsed<O extends OptionSpecs> = ReturnType<typeof parseArgs<{ args: string[]; options: O; allowPositionals: true; strict: true }>>;

@@ -14,7 +14,7 @@ import { QUIETFRAME_VERSION } from "../version";
 import { gridFromOptions } from "./grid-options";
 import { parseOptions } from "./options";
 import { reachLines } from "./reach-lines";
-import { didYouMean, withSuggestions } from "./suggest";
+import { didYouMean } from "../nearest-name";
 import { RENDER_USAGE, renderCommand, reportCommand } from "./render";
 import { KERNEL_USAGE, kernelCommand } from "./kernel-install";
 import { EXTENSION_USAGE, extensionCommand } from "./extension-install";
@@ -118,7 +118,7 @@ export function runCli(argv: string[], io: CliIo): number {
 /** User-facing problems become messages and an exit status; anything else is a bug and is rethrown. */
 function reportFailure(e: unknown, io: CliIo): number {
   if (e instanceof QuietframeError || e instanceof QuietframeErrors) {
-    io.err(`quietframe: ${withSuggestions(e).message.split("\n").join("\nquietframe: ")}\n`);
+    io.err(`quietframe: ${e.message.split("\n").join("\nquietframe: ")}\n`);
     return 1;
   }
   throw e;
@@ -219,7 +219,7 @@ function typesCommand(args: string[], io: CliIo): number {
     return 0;
   }
   const kind = COMPONENT_KINDS.get(type);
-  if (!kind) throw new QuietframeError({ path: "type", value: type, problem: "is not a known component type", allowed: [...COMPONENT_KINDS.keys()].join(", ") });
+  if (!kind) throw new QuietframeError({ path: "type", value: type, problem: "is not a known component type", allowed: [...COMPONENT_KINDS.keys()].join(", "), choices: [...COMPONENT_KINDS.keys()] });
   io.out(`${kind.type}: ${kind.summary}\n\nparameters:\n`);
   for (const p of kind.params) {
     const dflt = "default" in p && p.default !== undefined ? ` (default ${JSON.stringify(p.default)})` : p.optional ? " (optional)" : " (required)";

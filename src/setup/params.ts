@@ -36,7 +36,7 @@ export function resolveParams(kind: ComponentKind<unknown>, raw: Record<string, 
 
 function resolveChoice(spec: ChoiceParam, input: unknown, path: string): string {
   if (typeof input !== "string" || !spec.choices.includes(input)) {
-    throw new QuietframeError({ path, value: input, problem: "is not one of the choices", allowed: spec.choices.map((c) => `"${c}"`).join(" or ") });
+    throw new QuietframeError({ path, value: input, problem: "is not one of the choices", allowed: spec.choices.map((c) => `"${c}"`).join(" or "), choices: spec.choices });
   }
   return input;
 }

@@ -2,6 +2,7 @@
  * Pass 2 of the pipeline: a parsed set-up description checked and resolved — units to SI,
  * ports to links, ranges and cross-parameter rules — with errors that name every field at fault.
  */
+import { didYouMean } from "../nearest-name";
 import { QuietframeError, QuietframeErrors } from "../errors";
 import { componentKind, COMPONENT_KINDS } from "../components/registry";
 import type { ComponentKind, PortSpec, ResolvedComponent } from "../components/types";
@@ -165,6 +166,7 @@ function resolveComponent(entry: unknown, i: number, kinds: Map<string, Componen
       value: obj.type,
       problem: "is not a known component type",
       allowed: [...COMPONENT_KINDS.keys()].join(", "),
+      choices: [...COMPONENT_KINDS.keys()],
     });
   }
   const resolved = resolveComponentParams(name, kind, obj.params);
@@ -246,7 +248,7 @@ function resolvePort(text: string, path: string, kinds: ReadonlyMap<string, Comp
   const port = dot > 0 ? text.slice(dot + 1) : "";
   const kind = kinds.get(component);
   if (!kind) {
-    throw new QuietframeError({ path, value: text, problem: `no component named '${component}'`, allowed: [...kinds.keys()].join(", ") });
+    throw new QuietframeError({ path, value: text, problem: `no component named '${component}'${didYouMean(component, [...kinds.keys()])}`, allowed: [...kinds.keys()].join(", ") });
   }
   const spec = kind.ports.find((p) => p.name === port);
   if (!spec) {
@@ -255,6 +257,7 @@ function resolvePort(text: string, path: string, kinds: ReadonlyMap<string, Comp
       value: text,
       problem: `'${component}' (${kind.type}) has no port '${port}'`,
       allowed: kind.ports.map((p) => `${component}.${p.name}`).join(", ") || "none (it has no ports)",
+      choices: kind.ports.map((p) => `${component}.${p.name}`),
     });
   }
   return { ref: { component, port }, spec };
@@ -270,6 +273,7 @@ function resolveReadout(input: unknown, kinds: ReadonlyMap<string, ComponentKind
         value: name,
         problem: "is not a detector of this set-up",
         allowed: detectors.length ? detectors.join(", ") : "none: add a homodyne detector",
+        choices: detectors,
       });
     }
     if (list.indexOf(name) !== i) {

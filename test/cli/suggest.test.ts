@@ -3,7 +3,7 @@ import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { runCli, runCliAsync } from "../../src/cli/run";
-import { editDistance, nearestName } from "../../src/cli/suggest";
+import { editDistance, nearestName } from "../../src/nearest-name";
 import { cavitySetup, component } from "../setup/fixtures";
 
 /** "Did you mean …" for mistyped options, commands, component types and components, and our own option messages. */

@@ -1,8 +1,8 @@
 /**
- * "Did you mean …": the nearest known name to a mistyped one, by edit distance, for unknown
- * options, commands, component types and component names in the CLI's messages.
+ * "Did you mean …": the nearest known name to a mistyped one, by edit distance. QuietframeError
+ * adds it to any problem that refuses a name against a list of choices (component types,
+ * components, ports, detectors, choice parameters, commands and options).
  */
-import { QuietframeError, QuietframeErrors } from "../errors";
 
 /**
  * Edit distance with adjacent transpositions (optimal string alignment): insertions,
@@ -50,26 +50,4 @@ export function nearestName(word: string, candidates: readonly string[]): string
 export function didYouMean(word: string, candidates: readonly string[]): string {
   const near = nearestName(word, candidates);
   return near === undefined ? "" : ` (did you mean "${near}"?)`;
-}
-
-/**
- * Adds the nearest name to problems that refuse a name and list the names allowed (an unknown
- * component type, component, port or detector): the refused name is the one quoted in the
- * problem ("no component named 'x'") or the value. Other errors pass unchanged.
- */
-export function withSuggestions(e: QuietframeError | QuietframeErrors): QuietframeError | QuietframeErrors {
-  if (e instanceof QuietframeErrors) return new QuietframeErrors(e.problems.map((p) => withSuggestion(p)));
-  return withSuggestion(e);
-}
-
-function withSuggestion(e: QuietframeError): QuietframeError {
-  const names = e.allowed
-    ?.split(/,\s*|\s+or\s+/)
-    .map((n) => n.trim().replace(/^"(.*)"$/, "$1"))
-    .filter((n) => n.length > 0);
-  if (!names || names.length === 0 || !names.every((n) => /^[\w.-]+$/.test(n))) return e;
-  const refused = /named '([^']+)'/.exec(e.problem)?.[1] ?? (typeof e.value === "string" ? e.value : undefined);
-  if (refused === undefined || names.includes(refused)) return e;
-  const hint = didYouMean(refused, names);
-  return hint ? new QuietframeError({ path: e.path, value: e.value, problem: `${e.problem}${hint}`, allowed: e.allowed }) : e;
 }
