@@ -42,6 +42,7 @@ const UNIT_FOLDERS = [
   "reach",
   "reference",
   "setup",
+  "sweep",
   "timedomain",
   "tolerance",
   "units",

@@ -152,7 +152,8 @@ function noiseCurves(setup: SetupDescription, figure: FigureSpec, grid: GridText
   return { frequencies: Array.from(frequencies), before: plainArray(before.curve), after: plainArray(after.curve), unit: problem.noiseUnit };
 }
 
-function spreadAnswer(r: SpreadResult): SpreadAnswer {
+/** A spread's result as the widget's answer (also what a merged sweep of samples becomes). */
+export function spreadAnswer(r: SpreadResult): SpreadAnswer {
   const d = r.distribution;
   return {
     kind: "spread",

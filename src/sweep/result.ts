@@ -1,0 +1,40 @@
+/**
+ * A sweep's assembled result — a tolerance map or a Monte Carlo spread, exactly what the
+ * engine's own calls return — with the sweep's fingerprint and a fingerprint of the result's
+ * numbers. The merge of chunks and the local run on the worker pool both produce this, and
+ * give the same bits.
+ */
+import type { SpreadResult } from "../design/spread";
+import type { ToleranceMap, ToleranceMapSpec } from "../tolerance";
+import { arraysDigest } from "./digest";
+import type { SweepDescription } from "./format";
+
+export interface SweepResult {
+  readonly description: SweepDescription;
+  /** The sweep's fingerprint (of its description and the quietframe version). */
+  readonly sweep: string;
+  readonly outcome: { readonly kind: "grid"; readonly spec: ToleranceMapSpec; readonly map: ToleranceMap } | { readonly kind: "samples"; readonly spread: SpreadResult };
+  /** "sha256:…" over every number of the result (figures, statuses, bands). */
+  readonly fingerprint: string;
+}
+
+export function sweepResult(description: SweepDescription, sweep: string, outcome: SweepResult["outcome"]): SweepResult {
+  return { description, sweep, outcome, fingerprint: outcomeDigest(outcome) };
+}
+
+function outcomeDigest(outcome: SweepResult["outcome"]): string {
+  if (outcome.kind === "grid")
+    return arraysDigest([
+      ["values", outcome.map.values],
+      ["status", outcome.map.status],
+    ]);
+  const s = outcome.spread;
+  const bands = s.bands
+    ? ([
+        ["p5", s.bands.p5],
+        ["median", s.bands.median],
+        ["p95", s.bands.p95],
+      ] as const)
+    : [];
+  return arraysDigest([["values", s.values], ["nominal", Float64Array.of(s.nominal)], ...bands]);
+}
