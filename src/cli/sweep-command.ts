@@ -6,7 +6,6 @@
 import { readFileSync } from "node:fs";
 import { dirname, join, resolve } from "node:path";
 import { QuietframeError } from "../errors";
-import { didYouMean } from "../nearest-name";
 import { parseJsonText } from "../setup/parse-json";
 import { loadSetupFile } from "../setup/load-file";
 import {
@@ -74,7 +73,7 @@ export async function sweepCommand(args: string[], io: CliIo): Promise<number> {
     case "local":
       return localCommand(rest, io);
     default:
-      throw new QuietframeError({ path: "sweep", value: sub ?? "", problem: `is not a sweep subcommand${sub === undefined ? "" : didYouMean(sub, SUBCOMMANDS)}`, allowed: SUBCOMMANDS.join(", ") });
+      throw new QuietframeError({ path: "sweep", value: sub ?? "", problem: "is not a sweep subcommand", allowed: SUBCOMMANDS.join(", "), choices: SUBCOMMANDS });
   }
 }
 
@@ -169,7 +168,7 @@ function slurmCommand(sub: "script" | "submit", args: string[], io: CliIo): numb
   const request: SlurmRequest = {
     time: values.time ?? DEFAULT_REQUEST.time,
     mem: values.mem ?? DEFAULT_REQUEST.mem,
-    concurrency: values.concurrency === undefined ? DEFAULT_REQUEST.concurrency : /^\d+$/.test(values.concurrency) ? Number(values.concurrency) : NaN,
+    concurrency: values.concurrency === undefined ? DEFAULT_REQUEST.concurrency : wholeNumber(values.concurrency, "--concurrency", "tasks running at once"),
     ...(values.partition === undefined ? {} : { partition: values.partition }),
     ...(values.account === undefined ? {} : { account: values.account }),
   };
@@ -190,14 +189,18 @@ function slurmCommand(sub: "script" | "submit", args: string[], io: CliIo): numb
 async function localCommand(args: string[], io: CliIo): Promise<number> {
   const { values, positionals } = parseOptions("sweep local", args, { output: { type: "string", short: "o" }, threads: { type: "string" } });
   if (positionals.length !== 1) throw new QuietframeError({ path: "<sweep.json>", value: positionals, problem: "takes one sweep file", allowed: "quietframe sweep local <sweep.json>" });
-  const workers = values.threads === undefined ? undefined : /^\d+$/.test(values.threads) ? Number(values.threads) : NaN;
+  const workers = values.threads === undefined ? undefined : wholeNumber(values.threads, "--threads", "worker threads");
   const output = values.output ?? "merged.json";
-  const result = await runSweepLocally(readSweepFile(positionals[0]), { workers }).catch((e: unknown) => {
-    throw e instanceof QuietframeError && e.path === "options.workers" ? new QuietframeError({ path: "--threads", value: values.threads, problem: e.problem, allowed: e.allowed }) : e;
-  });
+  const result = await runSweepLocally(readSweepFile(positionals[0]), { workers });
   writeSweepState(output, result);
   io.out(`wrote ${output}\nsweep  ${result.sweep}\nresult ${result.fingerprint}\n`);
   return 0;
+}
+
+/** An option's whole number ≥ 1, or a QuietframeError naming the option and the text given. */
+function wholeNumber(text: string, option: string, what: string): number {
+  if (!/^\d+$/.test(text) || Number(text) < 1) throw new QuietframeError({ path: option, value: text, problem: `is not a usable number of ${what}`, allowed: "an integer ≥ 1" });
+  return Number(text);
 }
 
 /** What runs quietframe on a node: this Node and the built CLI, as absolute paths (the sources' runs use the build). */
