@@ -9,6 +9,7 @@ import { QuietframeError } from "../errors";
 import { parseJsonText } from "../setup/parse-json";
 import { loadSetupFile } from "../setup/load-file";
 import {
+  arrayList,
   DEFAULT_REQUEST,
   markFailed,
   mergeSweep,
@@ -176,13 +177,13 @@ function slurmCommand(sub: "script" | "submit", args: string[], io: CliIo): numb
     const written = writeSlurmScripts(dir, request, cliCommand(), queuedTasks(dir));
     io.out(
       written.chunkScript
-        ? `${written.chunkScript} (array over chunks of ${written.chunks.length} to run)\n${written.mergeScript}\nsubmit: sbatch --parsable ${written.chunkScript}, then sbatch --dependency=afterok:<its id> ${written.mergeScript}\n`
+        ? `${written.chunkScript} (array over chunks ${arrayList(written.chunks)})\n${written.mergeScript}\nsubmit: sbatch --parsable ${written.chunkScript}, then sbatch --dependency=afterok:<its id> ${written.mergeScript}\n`
         : `every chunk is done, running or pending: nothing to run\n${written.mergeScript}\n`,
     );
     return 0;
   }
   const s = submitSweep(dir, request, cliCommand());
-  io.out(`${s.array ? `array job ${s.array}: chunks ${s.chunks.join(",")}\n` : "no chunk to run\n"}merge job ${s.merge}${s.array ? ` (after job ${s.array} succeeds)` : ""}\n`);
+  io.out(`${s.array ? `array job ${s.array}: chunks ${arrayList(s.chunks)}\n` : "no chunk to run\n"}merge job ${s.merge}${s.array ? ` (after job ${s.array} succeeds)` : ""}\n`);
   return 0;
 }
 
