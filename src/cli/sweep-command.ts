@@ -1,5 +1,5 @@
 /**
- * `quietframe sweep`: a large map or Monte Carlo from one sweep file, run on this machine
+ * `quietframe sweep`: a large map, Monte Carlo or optimization from one sweep file, run on this machine
  * (local) or cut into chunks (plan) that a scheduler runs one by one (run), then checked and
  * assembled (merge); with status, Slurm scripts (script) and submission (submit).
  */
@@ -29,13 +29,13 @@ import { parseOptions } from "./options";
 import { writeSweepState } from "./sweep-state";
 
 export const SWEEP_USAGE = `  quietframe sweep plan <sweep.json> <dir>
-      Checks a sweep file (docs/sweeps.md: a set-up, a grid of two parameters or seeded samples,
-      a figure, a chunk size) and lays out <dir> for its chunks.
+      Checks a sweep file (docs/sweeps.md: a set-up, a grid of two parameters, seeded samples or
+      optimizer starts, a figure, a chunk size) and lays out <dir> for its chunks.
   quietframe sweep run <dir> [--chunk K]
       Computes chunk K (default: $SLURM_ARRAY_TASK_ID) into <dir>/chunks, written whole or not at all.
   quietframe sweep merge <dir> [-o FILE]
       Checks that every chunk is there, whole and of this sweep, and writes the result (default
-      <dir>/merged.json): a tolerance-map state or a design spread state, with the sweep's fingerprint.
+      <dir>/merged.json): a tolerance-map state, or a design state (spread or optimum), with the sweep's fingerprint.
   quietframe sweep status <dir> [--format text|json]
       Which chunks are done, running, pending, failed or missing (chunk files, and squeue where Slurm is).
   quietframe sweep script <dir> [--time T] [--mem M] [--concurrency N] [--partition P] [--account A]
@@ -107,7 +107,7 @@ function planCommand(args: string[], io: CliIo): number {
     throw new QuietframeError({ path: "<arguments>", value: positionals, problem: "needs a sweep file and a directory", allowed: "quietframe sweep plan <sweep.json> <dir>" });
   const dir = planSweep(readSweepFile(positionals[0]), positionals[1]);
   const s = dir.sweep;
-  const unit = s.work.kind === "grid" ? "rows" : "samples";
+  const unit = s.work.kind === "grid" ? "rows" : s.work.kind;
   io.out(`planned ${s.chunks} chunks of up to ${s.chunkSize} ${unit} (${s.items} ${unit} in all) in ${dir.dir}\nsweep ${s.fingerprint}\n`);
   return 0;
 }

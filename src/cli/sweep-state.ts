@@ -1,11 +1,11 @@
 /**
  * A sweep's result as the widget state users open: a map as a tolerance-map state, a Monte
- * Carlo as a design-widget spread answer, each carrying the sweep's fingerprint and its
+ * Carlo as a design-widget spread answer, an optimization as its optimum answer, each carrying the sweep's fingerprint and its
  * result's. The merge and the local run write it through here, so the two files are the same.
  */
 import type { SweepResult } from "../sweep";
 import { atomicWrite } from "../sweep/atomic-write";
-import { spreadAnswer } from "../../widgets/design/answer";
+import { optimumAnswer, spreadAnswer } from "../../widgets/design/answer";
 import { designDocumentText, designState } from "../../widgets/design/document";
 import { toleranceWidgetState } from "../../widgets/tolerance/model";
 
@@ -19,7 +19,13 @@ export function sweepStateText(result: SweepResult): string {
     const state = { ...toleranceWidgetState(d.setup, o.spec, o.map, title === undefined ? {} : { title }), sweep };
     return `${JSON.stringify(state, null, 2)}\n`;
   }
-  if (d.vary.kind !== "samples") throw new Error("internal: a spread from a grid sweep");
+  if (o.kind === "starts") {
+    if (d.vary.kind !== "starts") throw new Error("internal: an optimum from another sweep kind");
+    const { kind: _kind, ...options } = d.vary;
+    const question = { kind: "optimum" as const, ...options };
+    return designDocumentText(designState(d.setup, d.figure, question, optimumAnswer(d.setup, d.figure, d.grid, o.optimum), { grid: d.grid, title, sweep }));
+  }
+  if (d.vary.kind !== "samples") throw new Error("internal: a spread from another sweep kind");
   const v = d.vary;
   const question = { kind: "spread" as const, uncertain: v.uncertain, samples: o.spread.samples, seed: o.spread.seed, ...(v.target === undefined ? {} : { target: v.target }) };
   const state = designState(d.setup, d.figure, question, spreadAnswer(o.spread), { grid: d.grid, title, sweep });

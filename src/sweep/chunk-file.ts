@@ -7,6 +7,7 @@
 import { endianness } from "node:os";
 import { QuietframeError } from "../errors";
 import type { SampleOutcomes } from "../design/spread";
+import type { StartOutcome, StartReport } from "../design/optimize";
 import type { RowResult } from "../tolerance/evaluate";
 import type { ChunkRange } from "./chunks";
 import { canonicalJson, sha256 } from "./digest";
@@ -26,7 +27,13 @@ export interface SampleChunkResult {
   readonly part: SampleOutcomes;
 }
 
-export type ChunkResult = GridChunkResult | SampleChunkResult;
+/** Optimizer starts range.from … range.to − 1, in order. */
+export interface StartChunkResult {
+  readonly kind: "starts";
+  readonly outcomes: readonly StartOutcome[];
+}
+
+export type ChunkResult = GridChunkResult | SampleChunkResult | StartChunkResult;
 
 /** The chunk file name of chunk k: zero-padded so that a listing sorts in chunk order. */
 export function chunkFileName(chunk: number): string {
@@ -45,9 +52,11 @@ export function chunkFileText(sweep: string, range: ChunkRange, result: ChunkRes
 export interface ChunkExpectation {
   readonly sweep: string;
   readonly range: ChunkRange;
-  /** Cells per row (grid) or curve points per sample (samples, 0 without curves). */
+  /** Cells per row (grid), curve points per sample (samples, 0 without curves) or parameters (starts). */
   readonly width: number;
   readonly kind: ChunkResult["kind"];
+  /** Starts: the parameters' targets, in order. */
+  readonly targets?: readonly string[];
 }
 
 /** Reads and checks chunk file text; every refusal is a QuietframeError whose path is `name`. */
@@ -90,6 +99,20 @@ function encodeResult(result: ChunkResult): unknown {
     });
     return { kind: "grid", rows: rows.map((r): EncodedRow => ({ unstable: r.unstable, invalid: r.invalid, messages: r.messages })), values: base64(values), status: base64(status) };
   }
+  if (result.kind === "starts") {
+    return {
+      kind: "starts",
+      outcomes: result.outcomes.map(({ report: r, best }) => ({
+        status: r.status,
+        evaluations: r.evaluations,
+        message: r.message ?? null,
+        // The start's values in the parameters' order, its figure, and the best point with its cost: as doubles.
+        start: base64(Float64Array.from(Object.values(r.start))),
+        figure: base64(Float64Array.of(r.figure)),
+        best: best ? base64(Float64Array.of(best.f, ...best.u)) : null,
+      })),
+    };
+  }
   const p = result.part;
   return {
     kind: "samples",
@@ -115,6 +138,7 @@ function decodeResult(raw: unknown, expected: ChunkExpectation): ChunkResult | u
       rows: rows.map((row, k) => ({ unstable: row.unstable, invalid: row.invalid, messages: row.messages, values: values.slice(k * w, (k + 1) * w), status: status.slice(k * w, (k + 1) * w) })),
     };
   }
+  if (r.kind === "starts") return decodeStarts(r.outcomes, count, expected);
   const values = doubles(r.values, count);
   const status = bytes(r.status, count);
   const curves = doubles(r.curves, count * expected.width);
@@ -122,6 +146,36 @@ function decodeResult(raw: unknown, expected: ChunkExpectation): ChunkResult | u
   const failure = r.firstFailure as { sample: number; message: string | null } | null;
   const firstFailure = failure ? { sample: failure.sample, ...(failure.message === null ? {} : { message: failure.message }) } : undefined;
   return { kind: "samples", part: { from: expected.range.from, values, status, curves, ...(firstFailure ? { firstFailure } : {}) } };
+}
+
+interface EncodedStart {
+  readonly status: StartReport["status"];
+  readonly evaluations: number;
+  readonly message: string | null;
+  readonly start: string;
+  readonly figure: string;
+  readonly best: string | null;
+}
+
+function decodeStarts(raw: unknown, count: number, expected: ChunkExpectation): StartChunkResult | undefined {
+  const targets = expected.targets ?? [];
+  if (!Array.isArray(raw) || raw.length !== count || targets.length !== expected.width) return undefined;
+  const outcomes: StartOutcome[] = [];
+  for (const o of raw as EncodedStart[]) {
+    const start = doubles(o?.start, expected.width);
+    const figure = doubles(o?.figure, 1);
+    const best = o?.best === null ? null : doubles(o?.best, expected.width + 1);
+    if (!start || !figure || best === undefined || !Number.isInteger(o.evaluations)) return undefined;
+    const report: StartReport = {
+      start: Object.fromEntries(targets.map((t, k) => [t, start[k]])),
+      status: o.status,
+      figure: figure[0],
+      evaluations: o.evaluations,
+      ...(o.message === null ? {} : { message: o.message }),
+    };
+    outcomes.push(best ? { report, best: { f: best[0], u: best.slice(1) } } : { report });
+  }
+  return { kind: "starts", outcomes };
 }
 
 function base64(a: Float64Array | Uint8Array): string {

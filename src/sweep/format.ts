@@ -9,12 +9,13 @@ import type { FigureSpec } from "../figures/spec";
 import type { SetupDescription } from "../setup/format";
 import type { ToleranceAxisSpec } from "../tolerance/spec";
 import type { UncertaintySpec } from "../design/uncertainty";
+import type { OptimizeParameter } from "../design/optimize";
 
 export const SWEEP_FORMAT = "quietframe.sweep";
 export const SWEEP_VERSION = 1;
 
 /** The kinds of variation a sweep knows. */
-export const VARY_KINDS = ["grid", "samples"] as const;
+export const VARY_KINDS = ["grid", "samples", "starts"] as const;
 export type VaryKind = (typeof VARY_KINDS)[number];
 
 /** Two parameters over a grid of values: a tolerance map, cut into chunks of rows. */
@@ -39,7 +40,22 @@ export interface SampleVariation {
   target?: string | number;
 }
 
-export type Variation = GridVariation | SampleVariation;
+/** Optimizer starts: the current values, then seeded random points; a chunk is a block of starts. */
+export interface StartVariation {
+  kind: "starts";
+  /** Parameters to optimize, as for `quietframe optimize` ({ target, min?, max? }). */
+  parameters: OptimizeParameter[];
+  /** Number of starts, 1 … 100 (default 4). */
+  starts?: number;
+  /** Seed of the random starts, 0 … 2³²−1 (default 1). */
+  seed?: number;
+  /** Evaluations allowed per start (default 400 + 200 × the number of parameters). */
+  maxEvaluationsPerStart?: number;
+  /** Convergence: simplex size in the unit box (default 1e-10). */
+  tolerance?: number;
+}
+
+export type Variation = GridVariation | SampleVariation | StartVariation;
 
 /** What a sweep keeps besides one figure per cell or sample. */
 export interface KeepSpec {
@@ -63,7 +79,7 @@ export interface SweepDescription {
   grid?: { from: string | number; to: string | number; points?: number };
   keep?: KeepSpec;
   /**
-   * Rows (grid) or samples (samples) per chunk, an integer ≥ 1. Default: as many as give at
+   * Rows (grid), samples (samples) or starts (starts) per chunk, an integer ≥ 1. Default: as many as give at
    * most DEFAULT_CHUNKS chunks.
    */
   chunkSize?: number;
@@ -72,6 +88,7 @@ export interface SweepDescription {
 export const SWEEP_KEYS = ["format", "version", "name", "setup", "vary", "figure", "grid", "keep", "chunkSize"] as const;
 export const GRID_VARY_KEYS = ["kind", "x", "y"] as const;
 export const SAMPLE_VARY_KEYS = ["kind", "uncertain", "samples", "seed", "target"] as const;
+export const START_VARY_KEYS = ["kind", "parameters", "starts", "seed", "maxEvaluationsPerStart", "tolerance"] as const;
 export const KEEP_KEYS = ["curves"] as const;
 
 /** Chunks a sweep is cut into when it does not say its chunk size. */

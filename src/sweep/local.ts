@@ -1,9 +1,11 @@
 /**
  * The same sweep run on this machine's worker pool, without chunks or a scheduler: the map
- * through toleranceMap, the samples through spreadAnalysisOnThreads. Gives the bits of the
- * merged chunks (tests compare the two). Node only.
+ * through toleranceMap, the samples through spreadAnalysisOnThreads, the optimizer starts
+ * through optimizeDesign (in this thread). Gives the bits of the merged chunks (tests compare
+ * the two). Node only.
  */
 import { spreadAnalysisOnThreads } from "../design/spread-threads";
+import { optimizeDesign } from "../design/optimize";
 import { toleranceMap } from "../tolerance/map";
 import { gridSpec } from "./grid-spec";
 import { resolveSweep } from "./resolve";
@@ -21,6 +23,12 @@ export async function runSweepLocally(description: unknown, options: LocalSweepO
     const spec = gridSpec(d);
     const map = await toleranceMap(d.setup, spec, { workers: options.workers });
     return sweepResult(d, sweep.fingerprint, { kind: "grid", spec, map });
+  }
+  if (d.vary.kind === "starts") {
+    // The engine has no worker pool for optimizer starts: one optimizeDesign call runs them all in this thread.
+    const v = d.vary;
+    const options = { starts: v.starts, seed: v.seed, maxEvaluationsPerStart: v.maxEvaluationsPerStart, tolerance: v.tolerance, grid: d.grid };
+    return sweepResult(d, sweep.fingerprint, { kind: "starts", optimum: optimizeDesign(d.setup, d.figure, v.parameters, options) });
   }
   const v = d.vary;
   const spread = await spreadAnalysisOnThreads(d.setup, d.figure, v.uncertain, {

@@ -9,6 +9,7 @@ import { readFileSync } from "node:fs";
 import { relative } from "node:path";
 import { QuietframeError, QuietframeErrors } from "../errors";
 import { finishSpread, type SampleOutcomes } from "../design/spread";
+import { finishOptimize, type StartOutcome } from "../design/optimize";
 import { RowCollector } from "../tolerance/run";
 import { readChunkText, type ChunkExpectation, type ChunkResult } from "./chunk-file";
 import { gridSpec } from "./grid-spec";
@@ -54,8 +55,10 @@ export function readChunk(dir: SweepDir, chunk: number): ChunkResult | Quietfram
 
 function chunkExpectation(dir: SweepDir, chunk: number): ChunkExpectation {
   const work = dir.sweep.work;
-  const width = work.kind === "grid" ? work.rowLength : (work.plan.frequencies?.length ?? 0);
-  return { sweep: dir.sweep.fingerprint, range: dir.range(chunk), width, kind: work.kind };
+  const base = { sweep: dir.sweep.fingerprint, range: dir.range(chunk) };
+  if (work.kind === "grid") return { ...base, kind: "grid", width: work.rowLength };
+  if (work.kind === "samples") return { ...base, kind: "samples", width: work.plan.frequencies?.length ?? 0 };
+  return { ...base, kind: "starts", width: work.plan.params.length, targets: work.plan.params.map((p) => p.target) };
 }
 
 /** Checks every chunk and assembles the sweep's result. */
@@ -73,6 +76,15 @@ export function mergeSweep(dir: SweepDir): SweepResult {
     });
     const map = collector.finish(work.plan, work.figure, started, 1);
     return sweepResult(sweep.description, sweep.fingerprint, { kind: "grid", spec: gridSpec(sweep.description), map });
+  }
+  if (work.kind === "starts") {
+    const outcomes: StartOutcome[] = results.flatMap((r) => {
+      if (r.kind !== "starts") throw new Error("internal: another chunk kind in a starts sweep");
+      return [...r.outcomes];
+    });
+    // The starts ran in other processes: their evaluations count, as in one optimizeDesign call.
+    const elsewhere = outcomes.reduce((sum, o) => sum + o.report.evaluations, 0);
+    return sweepResult(sweep.description, sweep.fingerprint, { kind: "starts", optimum: finishOptimize(work.plan, outcomes, elsewhere) });
   }
   const parts: SampleOutcomes[] = results.map((r) => {
     if (r.kind !== "samples") throw new Error("internal: a grid chunk in a samples sweep");

@@ -7,6 +7,7 @@
  */
 import { QuietframeError, QuietframeErrors } from "../errors";
 import { planSpread, type SpreadPlan } from "../design/spread";
+import { planOptimize, type OptimizePlan } from "../design/optimize";
 import type { FigureSpec } from "../figures/spec";
 import { expectObject } from "../figures/spec";
 import type { SetupDescription } from "../setup/format";
@@ -20,12 +21,14 @@ import {
   GRID_VARY_KEYS,
   KEEP_KEYS,
   SAMPLE_VARY_KEYS,
+  START_VARY_KEYS,
   SWEEP_FORMAT,
   SWEEP_KEYS,
   SWEEP_VERSION,
   VARY_KINDS,
   type GridVariation,
   type SampleVariation,
+  type StartVariation,
   type SweepDescription,
 } from "./format";
 
@@ -45,11 +48,17 @@ export interface SampleWork {
   readonly plan: SpreadPlan;
 }
 
+/** An optimization resolved: its starts drawn, each to run on its own. */
+export interface StartWork {
+  readonly kind: "starts";
+  readonly plan: OptimizePlan;
+}
+
 export interface ResolvedSweep {
   /** A checked copy of the description, chunk size written in. */
   readonly description: SweepDescription;
-  readonly work: GridWork | SampleWork;
-  /** Rows of the map or samples. */
+  readonly work: GridWork | SampleWork | StartWork;
+  /** Rows of the map, samples or starts. */
   readonly items: number;
   readonly chunkSize: number;
   readonly chunks: number;
@@ -79,7 +88,7 @@ export function resolveSweep(input: unknown): ResolvedSweep {
   }
   const grid = d.grid as SweepDescription["grid"];
   const figure = d.figure as FigureSpec;
-  let work: GridWork | SampleWork;
+  let work: GridWork | SampleWork | StartWork;
   let items: number;
   if (vary.kind === "grid") {
     const v = expectObject(vary, "vary", GRID_VARY_KEYS) as unknown as GridVariation;
@@ -89,6 +98,13 @@ export function resolveSweep(input: unknown): ResolvedSweep {
     const { plan, figure: info } = rebased(() => resolveToleranceSpec(setup, spec), gridPath);
     work = { kind: "grid", spec, plan, figure: info, rowLength: plan.x.written.length };
     items = plan.y.written.length;
+  } else if (vary.kind === "starts") {
+    const v = expectObject(vary, "vary", START_VARY_KEYS) as unknown as StartVariation;
+    if (keep.curves !== undefined) throw new QuietframeError({ path: "keep.curves", value: keep.curves, problem: "applies to samples only", allowed: "no keep.curves with vary.kind starts" });
+    const options = { starts: v.starts, seed: v.seed, maxEvaluationsPerStart: v.maxEvaluationsPerStart, tolerance: v.tolerance, grid };
+    const plan = rebased(() => planOptimize(setup, figure, v.parameters, options), startPath);
+    work = { kind: "starts", plan };
+    items = plan.starts;
   } else {
     const v = expectObject(vary, "vary", SAMPLE_VARY_KEYS) as unknown as SampleVariation;
     if (!Array.isArray(v.uncertain) || v.uncertain.length === 0) {
@@ -122,7 +138,7 @@ function checkSetup(setup: unknown): SetupDescription {
 function checkChunkSize(value: unknown, items: number): number {
   if (value === undefined) return Math.ceil(items / DEFAULT_CHUNKS);
   if (typeof value !== "number" || !Number.isInteger(value) || value < 1 || value > items) {
-    throw new QuietframeError({ path: "chunkSize", value, problem: "is not a usable chunk size", allowed: `an integer from 1 to ${items} (rows or samples per chunk)` });
+    throw new QuietframeError({ path: "chunkSize", value, problem: "is not a usable chunk size", allowed: `an integer from 1 to ${items} (rows, samples or starts per chunk)` });
   }
   return value;
 }
@@ -139,6 +155,14 @@ function samplePath(p: string): string {
   if (/^options\.(samples|seed)$/.test(p)) return `vary.${p.slice("options.".length)}`;
   if (p === "options.grid" || /^options\.grid\./.test(p)) return p.slice("options.".length);
   if (/^(uncertain|target)(?=$|[.[])/.test(p)) return `vary.${p}`;
+  if (/^(figure|grid)(?=$|[.[])/.test(p)) return p;
+  return `setup.${p}`;
+}
+
+/** Where an optimization error lies in the sweep file. */
+function startPath(p: string): string {
+  if (/^options\.(starts|seed|maxEvaluationsPerStart|tolerance)$/.test(p)) return `vary.${p.slice("options.".length)}`;
+  if (/^parameters(?=$|[.[])/.test(p)) return `vary.${p}`;
   if (/^(figure|grid)(?=$|[.[])/.test(p)) return p;
   return `setup.${p}`;
 }

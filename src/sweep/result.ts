@@ -1,10 +1,11 @@
 /**
- * A sweep's assembled result — a tolerance map or a Monte Carlo spread, exactly what the
+ * A sweep's assembled result — a tolerance map, a Monte Carlo spread or an optimum, exactly what the
  * engine's own calls return — with the sweep's fingerprint and a fingerprint of the result's
  * numbers. The merge of chunks and the local run on the worker pool both produce this, and
  * give the same bits.
  */
 import type { SpreadResult } from "../design/spread";
+import type { OptimizeResult } from "../design/optimize";
 import type { ToleranceMap, ToleranceMapSpec } from "../tolerance";
 import { arraysDigest } from "./digest";
 import type { SweepDescription } from "./format";
@@ -13,8 +14,11 @@ export interface SweepResult {
   readonly description: SweepDescription;
   /** The sweep's fingerprint (of its description and the quietframe version). */
   readonly sweep: string;
-  readonly outcome: { readonly kind: "grid"; readonly spec: ToleranceMapSpec; readonly map: ToleranceMap } | { readonly kind: "samples"; readonly spread: SpreadResult };
-  /** "sha256:…" over every number of the result (figures, statuses, bands). */
+  readonly outcome:
+    | { readonly kind: "grid"; readonly spec: ToleranceMapSpec; readonly map: ToleranceMap }
+    | { readonly kind: "samples"; readonly spread: SpreadResult }
+    | { readonly kind: "starts"; readonly optimum: OptimizeResult };
+  /** "sha256:…" over every number of the result (figures, statuses, bands, starts and optimum). */
   readonly fingerprint: string;
 }
 
@@ -28,6 +32,15 @@ function outcomeDigest(outcome: SweepResult["outcome"]): string {
       ["values", outcome.map.values],
       ["status", outcome.map.status],
     ]);
+  if (outcome.kind === "starts") {
+    const o = outcome.optimum;
+    return arraysDigest([
+      ["starts", Float64Array.from(o.starts, (r) => r.figure)],
+      ["evaluations", Float64Array.from(o.starts, (r) => r.evaluations)],
+      ["current", Float64Array.of(o.current)],
+      ["optimum", Float64Array.from(o.optimum ? [o.optimum.figure, ...o.optimum.values.map((v) => v.value)] : [])],
+    ]);
+  }
   const s = outcome.spread;
   const bands = s.bands
     ? ([

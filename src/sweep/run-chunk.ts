@@ -1,20 +1,21 @@
 /**
  * Computes one chunk of a planned sweep and writes its result atomically: the rows of a map
  * with the code every tolerance-map worker runs (evaluateRow), the samples of a Monte Carlo
- * with the code every spread worker runs (evaluateSamples), so a chunk has the bits the same
- * items get on the local worker pool. While it runs, a `.started` marker says where (host,
+ * with the code every spread worker runs (evaluateSamples), the optimizer starts with the code
+ * optimizeDesign runs for each (runStart), so a chunk has the bits the same items get locally. While it runs, a `.started` marker says where (host,
  * process, Slurm task); a failure leaves a `.failed` marker with the reason; the result file
  * appears only whole. Node only.
  */
 import { rmSync } from "node:fs";
 import { hostname } from "node:os";
 import { evaluateSamples, type SampleOutcomes } from "../design/spread";
+import { runStart, type StartOutcome } from "../design/optimize";
 import { logGrid } from "../setup/grid";
 import { evaluateRow, type RowResult } from "../tolerance/evaluate";
 import { atomicWrite } from "./atomic-write";
 import { chunkFileText, type ChunkResult } from "./chunk-file";
 import type { ChunkRange } from "./chunks";
-import type { GridWork, SampleWork } from "./resolve";
+import type { GridWork, SampleWork, StartWork } from "./resolve";
 import type { SweepDir } from "./sweep-dir";
 
 /** What the `.started` marker holds. */
@@ -38,7 +39,12 @@ export async function runChunk(dir: SweepDir, chunk: number, env: NodeJS.Process
   atomicWrite(dir.startedPath(chunk), `${JSON.stringify(marker)}\n`);
   try {
     const work = dir.sweep.work;
-    const result: ChunkResult = work.kind === "grid" ? { kind: "grid", rows: await gridRows(work, range) } : { kind: "samples", part: await samples(work, range) };
+    const result: ChunkResult =
+      work.kind === "grid"
+        ? { kind: "grid", rows: await gridRows(work, range) }
+        : work.kind === "samples"
+          ? { kind: "samples", part: await samples(work, range) }
+          : { kind: "starts", outcomes: await starts(work, range) };
     atomicWrite(dir.chunkPath(chunk), chunkFileText(dir.sweep.fingerprint, range, result));
   } catch (e) {
     markFailed(dir, chunk, e instanceof Error ? e.message : String(e));
@@ -85,6 +91,15 @@ async function samples(work: SampleWork, range: ChunkRange): Promise<SampleOutco
     await yieldToEventLoop();
   }
   return { from: range.from, values, status, curves, ...(firstFailure ? { firstFailure } : {}) };
+}
+
+async function starts(work: StartWork, range: ChunkRange): Promise<StartOutcome[]> {
+  const outcomes: StartOutcome[] = [];
+  for (let s = range.from; s < range.to; s++) {
+    outcomes.push(runStart(work.plan, s));
+    await yieldToEventLoop();
+  }
+  return outcomes;
 }
 
 function yieldToEventLoop(): Promise<void> {

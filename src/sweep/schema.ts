@@ -32,7 +32,8 @@ export function sweepJsonSchema(): Schema {
     $schema: "https://json-schema.org/draft/2020-12/schema",
     $id: SWEEP_SCHEMA_ID,
     title: "quietframe sweep",
-    description: "A large computation over one set-up — a tolerance map over two parameters or a seeded Monte Carlo over uncertain ones — cut into chunks that run locally or as Slurm array jobs.",
+    description:
+      "A large computation over one set-up — a tolerance map over two parameters, a seeded Monte Carlo over uncertain ones or an optimization from many starts — cut into chunks that run locally or as Slurm array jobs.",
     type: "object",
     properties: {
       format: { const: SWEEP_FORMAT, description: "Marks the file as a quietframe sweep." },
@@ -77,6 +78,29 @@ export function sweepJsonSchema(): Schema {
             required: ["kind", "uncertain"],
             additionalProperties: false,
           },
+          {
+            type: "object",
+            description: "Optimizer starts: the current values, then seeded random points; a chunk is a block of starts.",
+            properties: {
+              kind: { const: "starts" },
+              parameters: {
+                type: "array",
+                minItems: 1,
+                items: {
+                  type: "object",
+                  properties: { target: { type: "string", description: '"component.parameter".' }, min: VALUE, max: VALUE },
+                  required: ["target"],
+                  additionalProperties: false,
+                },
+              },
+              starts: { type: "integer", minimum: 1, maximum: 100, description: "Number of starts (default 4)." },
+              seed: { type: "integer", minimum: 0, maximum: 4294967295, description: "Seed of the random starts (default 1)." },
+              maxEvaluationsPerStart: { type: "integer", minimum: 10, description: "Evaluations allowed per start." },
+              tolerance: { type: "number", exclusiveMinimum: 0, exclusiveMaximum: 0.1, description: "Convergence: simplex size in the unit box." },
+            },
+            required: ["kind", "parameters"],
+            additionalProperties: false,
+          },
         ],
       },
       figure: {
@@ -97,7 +121,7 @@ export function sweepJsonSchema(): Schema {
         properties: { curves: { type: "boolean", description: "Samples only: keep each sample's total noise over the grid for percentile bands (default true)." } },
         additionalProperties: false,
       },
-      chunkSize: { type: "integer", minimum: 1, description: `Rows (grid) or samples per chunk; default: as many as give at most ${DEFAULT_CHUNKS} chunks.` },
+      chunkSize: { type: "integer", minimum: 1, description: `Rows (grid), samples or starts per chunk; default: as many as give at most ${DEFAULT_CHUNKS} chunks.` },
     },
     required: ["format", "version", "setup", "vary", "figure"],
     additionalProperties: false,

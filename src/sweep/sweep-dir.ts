@@ -17,6 +17,7 @@ import { atomicWrite, unwritable } from "./atomic-write";
 import { chunkFileName } from "./chunk-file";
 import { chunkRange, type ChunkRange } from "./chunks";
 import { resolveSweep, type ResolvedSweep } from "./resolve";
+import type { VaryKind } from "./format";
 
 export const PLAN_FORMAT = "quietframe.sweep-plan";
 
@@ -26,7 +27,7 @@ export interface PlanSummary {
   readonly quietframe: string;
   readonly sweep: string;
   readonly name: string | null;
-  readonly kind: "grid" | "samples";
+  readonly kind: VaryKind;
   readonly items: number;
   readonly chunkSize: number;
   readonly chunks: number;

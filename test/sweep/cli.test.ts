@@ -9,7 +9,7 @@ import { join } from "node:path";
 import { afterAll, describe, expect, it } from "vitest";
 import { runCliAsync } from "../../src/cli/run";
 import { kindOf } from "../../widgets/registry";
-import { gridSweep, sampleSweep, scratch } from "./helpers";
+import { gridSweep, sampleSweep, scratch, startSweep } from "./helpers";
 
 const tmp = scratch();
 afterAll(tmp.cleanup);
@@ -25,6 +25,7 @@ describe("quietframe sweep", () => {
   it.each([
     ["grid", gridSweep, "tolerance"],
     ["samples", sampleSweep, "design"],
+    ["starts", startSweep, "design"],
   ] as const)("%s: plan, run every chunk, status, merge; the merged file is the local run's, a %s state, and renders", async (label, make, kind) => {
     const root = tmp.make(`cli-${label}`);
     const file = join(root, "sweep.json");
@@ -35,7 +36,7 @@ describe("quietframe sweep", () => {
 
     const plan = await cli("sweep", "plan", file, dir);
     expect(plan.err).toBe("");
-    expect(plan.out).toMatch(/^planned \d+ chunks of up to \d+ (rows|samples)/);
+    expect(plan.out).toMatch(/^planned \d+ chunks of up to \d+ (rows|samples|starts)/);
 
     const before = await cli("sweep", "status", dir);
     expect(before.out).toMatch(/: \d+ chunks: 0 done, 0 running, 0 pending, 0 failed, (\d+) missing/);

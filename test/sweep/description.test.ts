@@ -11,7 +11,7 @@ import { QuietframeError, QuietframeErrors } from "../../src/errors";
 import { setupJsonSchema } from "../../src/setup/schema";
 import { resolveSweep, sweepJsonSchema, type SweepDescription } from "../../src/sweep";
 import { readSweepFile } from "../../src/cli/sweep-command";
-import { gridSweep, sampleSweep, squeezed } from "./helpers";
+import { gridSweep, sampleSweep, squeezed, startSweep } from "./helpers";
 
 const ROOT = join(__dirname, "..", "..");
 
@@ -50,16 +50,28 @@ describe("resolveSweep refuses bad input by field", () => {
     expect(e.allowed).toBe("an integer from 2 to 100000");
   });
 
+  it("an unknown parameter to optimize names vary.parameters[k].target, a start count out of range vary.starts", () => {
+    const d = startSweep();
+    if (d.vary.kind !== "starts") throw new Error("not a starts sweep");
+    const e = refusal({ ...d, vary: { ...d.vary, parameters: [d.vary.parameters[0], { target: "cavity.inputCouplng" }] } });
+    expect(e.path).toBe("vary.parameters[1].target");
+    expect(e.value).toBe("cavity.inputCouplng");
+    const starts = refusal({ ...d, vary: { ...d.vary, starts: 101 } });
+    expect(starts.path).toBe("vary.starts");
+    expect(starts.allowed).toBe("an integer from 1 to 100");
+    expect(refusal({ ...d, vary: { ...d.vary, tolerance: 1 } }).path).toBe("vary.tolerance");
+  });
+
   it("a mistyped variation kind names vary.kind and suggests the nearest", () => {
     const d = gridSweep();
     const e = refusal({ ...d, vary: { ...d.vary, kind: "gird" } });
     expect(e.path).toBe("vary.kind");
     expect(e.problem).toContain('did you mean "grid"');
-    expect(e.allowed).toBe("grid or samples");
+    expect(e.allowed).toBe("grid or samples or starts");
   });
 
   it("chunk sizes outside 1 … items name chunkSize and the range", () => {
-    expect(refusal(gridSweep({ chunkSize: 0 })).allowed).toBe("an integer from 1 to 5 (rows or samples per chunk)");
+    expect(refusal(gridSweep({ chunkSize: 0 })).allowed).toBe("an integer from 1 to 5 (rows, samples or starts per chunk)");
     expect(refusal(gridSweep({ chunkSize: 6 })).path).toBe("chunkSize");
     expect(refusal(sampleSweep({ chunkSize: 2.5 })).value).toBe(2.5);
   });
@@ -106,7 +118,7 @@ describe("the sweep file's JSON Schema", () => {
   const validate = ajv.compile(sweepJsonSchema());
 
   it("accepts the test sweeps and the example sweep files, which the checks accept too", () => {
-    for (const d of [gridSweep(), sampleSweep()]) expect(validate(d), JSON.stringify(validate.errors)).toBe(true);
+    for (const d of [gridSweep(), sampleSweep(), startSweep()]) expect(validate(d), JSON.stringify(validate.errors)).toBe(true);
     for (const file of ["membrane-map.sweep.json", "membrane-spread.sweep.json"]) {
       const path = join(ROOT, "examples", "sweeps", file);
       expect(validate(JSON.parse(readFileSync(path, "utf8"))), JSON.stringify(validate.errors)).toBe(true);

@@ -54,6 +54,30 @@ export function sampleSweep(extra: Partial<SweepDescription> = {}): SweepDescrip
   };
 }
 
+/** Five optimizer starts over squeezing and input coupling, two per chunk (3 chunks). */
+export function startSweep(extra: Partial<SweepDescription> = {}): SweepDescription {
+  return {
+    format: "quietframe.sweep",
+    version: 1,
+    name: "membrane-optimum",
+    setup: squeezed,
+    vary: {
+      kind: "starts",
+      parameters: [
+        { target: "squeezer.squeezing", min: "-15 dB", max: "-3 dB" },
+        { target: "cavity.inputCoupling", min: "70 %", max: "99 %" },
+      ],
+      starts: 5,
+      seed: 7,
+      maxEvaluationsPerStart: 150,
+    },
+    figure: { kind: "margin-at", frequency: "1.16 MHz" },
+    grid: { from: "1.1 MHz", to: "1.3 MHz", points: 24 },
+    chunkSize: 2,
+    ...extra,
+  };
+}
+
 /** A fresh temporary directory; `cleanup` removes every one made. */
 export function scratch(): { make: (label: string) => string; cleanup: () => void } {
   const made: string[] = [];

@@ -12,7 +12,7 @@ import { QuietframeError, QuietframeErrors } from "../../src/errors";
 import { mergeSweep, openSweepDir, planSweep, runChunk, runSweepLocally, type SweepDescription, type SweepDir, type SweepResult } from "../../src/sweep";
 import { sweepStateText } from "../../src/cli/sweep-state";
 import { loadWidgetState } from "../../widgets/registry";
-import { gridSweep, sampleSweep, scratch } from "./helpers";
+import { gridSweep, sampleSweep, scratch, startSweep } from "./helpers";
 
 const tmp = scratch();
 afterAll(tmp.cleanup);
@@ -40,6 +40,7 @@ const bytes = (a: Float64Array | Uint8Array) => Buffer.from(a.buffer, a.byteOffs
 describe.each([
   ["grid", gridSweep],
   ["samples", sampleSweep],
+  ["starts", startSweep],
 ] as const)("a %s sweep", (label, make) => {
   let dir: SweepDir;
   let merged: SweepResult;
@@ -66,6 +67,16 @@ describe.each([
       expect(m.evaluations).toBe(l.evaluations);
       expect(bytes(m.bands!.p95)).toBe(bytes(l.bands!.p95));
       expect(m.distribution).toEqual(l.distribution);
+    } else if (merged.outcome.kind === "starts" && local.outcome.kind === "starts") {
+      const m = merged.outcome.optimum;
+      const l = local.outcome.optimum;
+      expect(m.status).toBe("ok");
+      expect(m.starts).toEqual(l.starts);
+      expect(bytes(Float64Array.from(m.starts, (s) => s.figure))).toBe(bytes(Float64Array.from(l.starts, (s) => s.figure)));
+      expect(m.optimum).toEqual(l.optimum);
+      expect(bytes(Float64Array.of(m.optimum!.figure, ...m.optimum!.values.map((v) => v.value)))).toBe(bytes(Float64Array.of(l.optimum!.figure, ...l.optimum!.values.map((v) => v.value))));
+      expect(m.evaluations).toBe(l.evaluations);
+      expect(m.message).toBe(l.message);
     } else throw new Error("different kinds");
     expect(sweepStateText(merged)).toBe(sweepStateText(local));
   });
@@ -73,6 +84,7 @@ describe.each([
   it("opens in its widget kind with the sweep's fingerprint in its state", () => {
     const { kind, loaded } = loadWidgetState(sweepStateText(merged), "merged.json");
     expect(kind.name).toBe(label === "grid" ? "tolerance" : "design");
+    if (label !== "grid") expect((loaded.state as { answer: { kind: string } }).answer.kind).toBe(label === "samples" ? "spread" : "optimum");
     const state = loaded.state as { sweep?: { fingerprint: string; result: string } };
     expect(state.sweep).toEqual({ fingerprint: merged.sweep, result: merged.fingerprint });
     // A design answer is checked against its stored fingerprint (not computed again: that would be the whole sweep).
@@ -94,8 +106,8 @@ describe.each([
     for (let k = 0; k < copy.sweep.chunks; k++) copyFileSync(dir.chunkPath(k), copy.chunkPath(k));
     const text = readFileSync(copy.chunkPath(0), "utf8");
     writeFileSync(copy.chunkPath(0), text.slice(0, Math.floor(text.length / 2)));
-    // One character of the base64 figures changed: still JSON, still the right shape, not the same numbers.
-    const damaged = readFileSync(copy.chunkPath(2), "utf8").replace(/"values":"(.)/, (_m, c: string) => `"values":"${c === "A" ? "B" : "A"}`);
+    // One character of the base64 figures (of a start's values) changed: still JSON, still the right shape, not the same numbers.
+    const damaged = readFileSync(copy.chunkPath(2), "utf8").replace(/"(values|start)":"(.)/, (_m, field: string, c: string) => `"${field}":"${c === "A" ? "B" : "A"}`);
     writeFileSync(copy.chunkPath(2), damaged);
     const problems = refusals(copy);
     expect(problems.map((p) => p.path.replace(/^.*chunks\//, ""))).toEqual(["chunk-000000.json", "chunk-000002.json"]);

@@ -115,7 +115,8 @@ export function rankingAnswer(r: Ranking): RankingAnswer {
   };
 }
 
-function optimumAnswer(setup: SetupDescription, figure: FigureSpec, grid: GridText | undefined, r: OptimizeResult): OptimumAnswer {
+/** An optimization's result as the widget's answer (also what a merged sweep of starts becomes). */
+export function optimumAnswer(setup: SetupDescription, figure: FigureSpec, grid: GridText | undefined, r: OptimizeResult): OptimumAnswer {
   return {
     kind: "optimum",
     figure: figureLabel(r.figure),
