@@ -12,6 +12,7 @@ import { evaluateSamples, type SampleOutcomes } from "../design/spread";
 import { runStart, type StartOutcome } from "../design/optimize";
 import { logGrid } from "../setup/grid";
 import { evaluateRow, type RowResult } from "../tolerance/evaluate";
+import { yieldToEventLoop } from "../tolerance/run";
 import { atomicWrite } from "./atomic-write";
 import { chunkFileText, type ChunkResult } from "./chunk-file";
 import type { ChunkRange } from "./chunks";
@@ -100,8 +101,4 @@ async function starts(work: StartWork, range: ChunkRange): Promise<StartOutcome[
     await yieldToEventLoop();
   }
   return outcomes;
-}
-
-function yieldToEventLoop(): Promise<void> {
-  return new Promise((resolve) => setImmediate(resolve));
 }

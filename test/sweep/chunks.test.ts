@@ -4,7 +4,7 @@
  * Atomic write: the target is either absent or whole, no temporary file is left behind, and a
  * directory that cannot be written is named.
  */
-import { existsSync, readdirSync, readFileSync, writeFileSync } from "node:fs";
+import { chmodSync, existsSync, readdirSync, readFileSync, writeFileSync } from "node:fs";
 import { join } from "node:path";
 import fc from "fast-check";
 import { afterAll, describe, expect, it } from "vitest";
@@ -71,6 +71,26 @@ describe("atomicWrite", () => {
     expect(e.path).toBe(file);
     expect(e.problem).toBe("is not a directory");
     expect(readdirSync(dir)).toEqual(["plain-file"]);
+  });
+
+  it("into a directory without write permission: a QuietframeError naming it, and nothing written", () => {
+    const dir = tmp.make("atomic-denied");
+    // Root may write anywhere, so as root the write is tried with the effective user "nobody"; otherwise the directory is made read-only.
+    const asRoot = process.getuid?.() === 0;
+    if (!asRoot) chmodSync(dir, 0o500);
+    let error: unknown;
+    try {
+      if (asRoot) process.seteuid!(65534);
+      atomicWrite(join(dir, "chunk-000000.json"), "text");
+    } catch (e) {
+      error = e;
+    } finally {
+      if (asRoot) process.seteuid!(0);
+      else chmodSync(dir, 0o700);
+    }
+    expect(error).toBeInstanceOf(QuietframeError);
+    expect((error as QuietframeError).message).toBe(`${dir}: cannot be written (no permission); allowed: a directory this user can write`);
+    expect(readdirSync(dir)).toEqual([]);
   });
 
   it("planning into a directory under a file names that directory", () => {
