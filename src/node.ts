@@ -1,7 +1,7 @@
 /**
  * quietframe for Node: everything of the browser-safe main entry, plus what needs the
  * platform — tolerance maps and Monte Carlo spreads on worker threads, reading set-up files, and
- * sweeps (chunked maps and spreads for a cluster's scheduler).
+ * sweeps (maps, spreads and optimizer starts in chunks for a cluster's scheduler).
  */
 export * from "./index";
 export { toleranceMap, TolerancePool } from "./tolerance/node";
