@@ -1,9 +1,11 @@
 #!/usr/bin/env bash
 # Makes sure the Debian packages that the notebook and browser suites drive are installed:
 # the real Jupyter clients (nbconvert/nbclient, nbformat, jupyter-client, ipykernel, the
-# classic notebook server, the kernel conformance tests), Chromium, and NumPy for the bench
-# row that compares the engine with the same algebra written in NumPy. The suites test
-# against these outside programs on purpose, so they come from the distribution, not npm.
+# classic notebook server, the kernel conformance tests), Chromium, NumPy for the bench
+# row that compares the engine with the same algebra written in NumPy, and Slurm with munge
+# for the sweep suite, which starts a single-node Slurm of its own (it starts no daemon here).
+# The suites test against these outside programs on purpose, so they come from the
+# distribution, not npm.
 #
 # Idempotent and silent when everything is present. Installs only what is missing, as root
 # or through passwordless sudo; otherwise stops and names the packages to install. Then makes
@@ -22,6 +24,8 @@ PACKAGES=(
   jupyter-notebook
   chromium
   python3-numpy
+  slurm-wlm
+  munge
 )
 
 if ! command -v dpkg-query >/dev/null 2>&1; then

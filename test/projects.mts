@@ -24,6 +24,7 @@ export const INTEGRATION_FILES: Readonly<Record<string, string>> = {
   "test/kernel/widget-protocol.test.ts": "Debian's jupyter_client as a widget front-end of the built kernel",
   "test/live/notebooks-live.test.ts": "Debian's nbconvert with the quietframe kernel",
   "test/notebooks/notebooks.test.ts": "Debian's nbconvert with the tslab kernel",
+  "test/sweep/slurm.test.ts": "starts Debian's Slurm and munge daemons (as root) and runs the built CLI in array jobs",
   "test/timedomain/browser-bits.test.ts": "headless Chromium",
 };
 
@@ -42,6 +43,7 @@ const UNIT_FOLDERS = [
   "reach",
   "reference",
   "setup",
+  "sweep",
   "timedomain",
   "tolerance",
   "units",

@@ -23,6 +23,7 @@ import { optimizeCommand } from "./optimize-command";
 import { rankCommand } from "./rank-command";
 import { solveCommand } from "./solve-command";
 import { spreadCommand } from "./spread-command";
+import { SWEEP_USAGE, sweepCommand } from "./sweep-command";
 
 export type { CliIo } from "./io";
 
@@ -41,15 +42,16 @@ usage:
       Validates a set-up and reports its size and stability.
   quietframe types [type]
       Lists component types, or one type's parameters and ports.
-${DESIGN_USAGE}${RENDER_USAGE}${KERNEL_USAGE}${EXTENSION_USAGE}`;
+${DESIGN_USAGE}${SWEEP_USAGE}${RENDER_USAGE}${KERNEL_USAGE}${EXTENSION_USAGE}`;
 
 /** Every command word, for "did you mean" on a mistyped one. */
-const COMMANDS = ["eval", "summary", "check", "types", "rank", "solve", "optimize", "spread", "render", "report", "kernel", "help"];
+const COMMANDS = ["eval", "summary", "check", "types", "rank", "solve", "optimize", "spread", "sweep", "render", "report", "kernel", "help"];
 
-/** Commands that render figures (Vega renders asynchronously); runCliAsync runs them. */
+/** Commands that render figures (Vega renders asynchronously) or run worker threads and chunks; runCliAsync runs them. */
 const ASYNC_COMMANDS: Readonly<Record<string, (args: string[], io: CliIo) => Promise<number>>> = {
   render: renderCommand,
   report: reportCommand,
+  sweep: sweepCommand,
 };
 
 /** Runs any CLI command, including render and report; resolves to the exit code. */
@@ -104,7 +106,8 @@ export function runCli(argv: string[], io: CliIo): number {
         return 0;
       case "render":
       case "report":
-        io.err(`quietframe: '${command}' renders asynchronously; call runCliAsync\n`);
+      case "sweep":
+        io.err(`quietframe: '${command}' runs asynchronously; call runCliAsync\n`);
         return 2;
       default:
         io.err(`quietframe: unknown command '${command}'${didYouMean(command, COMMANDS)}\n\n${USAGE}`);

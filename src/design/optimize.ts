@@ -5,7 +5,7 @@ import type { SetupDescription } from "../setup/format";
 import { GaussianSource } from "../timedomain/random";
 import { minimizeInBox } from "./nelder-mead";
 import { designParameter, shownValue, type DesignParameter } from "./parameters";
-import { designProblem, merit, valueOfLevel, type DesignFigure, type DesignGrid } from "./problem";
+import { designProblem, merit, valueOfLevel, type DesignFigure, type DesignGrid, type DesignProblem } from "./problem";
 import { defaultRange, fromUnit, givenRange, toUnit, type RangeEnd, type SearchRange } from "./search-range";
 
 /**
@@ -73,6 +73,42 @@ const ON_BOUND = 1e-6;
 
 /** Maximizes the figure (minimizes it for the noise) over the given parameters. */
 export function optimizeDesign(setup: SetupDescription | string, figure: FigureSpec, parameters: readonly OptimizeParameter[], options: OptimizeOptions = {}): OptimizeResult {
+  const plan = planOptimize(setup, figure, parameters, options);
+  const outcomes: StartOutcome[] = [];
+  for (let s = 0; s < plan.starts; s++) {
+    if (s > 0) options.onProgress?.(s, plan.starts);
+    outcomes.push(runStart(plan, s));
+  }
+  options.onProgress?.(plan.starts, plan.starts);
+  return finishOptimize(plan, outcomes);
+}
+
+/**
+ * An optimization laid out before any start runs: the problem, the parameters and their
+ * ranges, the figure at the current values, and every start's point in the unit box (the
+ * current values, then seeded random points drawn here in start order). Each start then runs
+ * on its own (runStart), so where a start runs changes no bit; finishOptimize assembles them.
+ */
+export interface OptimizePlan {
+  readonly problem: DesignProblem;
+  readonly params: readonly DesignParameter[];
+  readonly ranges: readonly SearchRange[];
+  readonly starts: number;
+  readonly maxEvaluations: number;
+  readonly tolerance: number;
+  /** The figure at the current values (NaN when they give none). */
+  readonly current: number;
+  readonly startPoints: readonly Float64Array[];
+}
+
+/** One start's report and, unless it had no value, the best point it reached (unit box) and its cost (−merit). */
+export interface StartOutcome {
+  readonly report: StartReport;
+  readonly best?: { readonly u: Float64Array; readonly f: number };
+}
+
+/** Checks everything, evaluates the figure at the current values and draws every start. */
+export function planOptimize(setup: SetupDescription | string, figure: FigureSpec, parameters: readonly OptimizeParameter[], options: Omit<OptimizeOptions, "onProgress"> = {}): OptimizePlan {
   const problem = designProblem(setup, figure, options.grid);
   if (!Array.isArray(parameters) || parameters.length === 0) {
     throw new QuietframeError({ path: "parameters", value: parameters, problem: "names no parameter to optimize", allowed: 'one or more { target: "component.parameter", min?, max? }' });
@@ -97,37 +133,54 @@ export function optimizeDesign(setup: SetupDescription | string, figure: FigureS
   const tolerance = options.tolerance ?? 1e-10;
   if (!(tolerance > 0 && tolerance < 0.1))
     throw new QuietframeError({ path: "options.tolerance", value: options.tolerance, problem: "is not a usable tolerance", allowed: "0 < tolerance < 0.1 (unit-box coordinates)" });
+  const currentOutcome = problem.evaluate({}, []);
+  const current = currentOutcome.status === CellStatus.ok ? currentOutcome.value : NaN;
+  // The seeded generator serves the random starts only, in start order: drawing them all here gives the same points.
+  const random = new GaussianSource(seed);
+  const startPoints: Float64Array[] = [];
+  for (let s = 0; s < starts; s++) {
+    const u0 = new Float64Array(n);
+    for (let k = 0; k < n; k++) u0[k] = s === 0 ? clampUnit(toUnit(ranges[k], params[k].value)) : random.uniform();
+    startPoints.push(u0);
+  }
+  return { problem, params, ranges, starts, maxEvaluations, tolerance, current, startPoints };
+}
 
-  const valuesOf = (u: Float64Array): Record<string, number> => Object.fromEntries(params.map((p, k) => [p.target, fromUnit(ranges[k], u[k])]));
-  const messages = new Map<string, string>();
+function valuesOf(plan: Pick<OptimizePlan, "params" | "ranges">, u: Float64Array): Record<string, number> {
+  return Object.fromEntries(plan.params.map((p, k) => [p.target, fromUnit(plan.ranges[k], u[k])]));
+}
+
+/** Runs start `s` of the plan: bounded Nelder–Mead from its point; a start without a value is reported with the reason. */
+export function runStart(plan: OptimizePlan, s: number): StartOutcome {
+  const { problem, params } = plan;
+  let lastMessage: string | undefined;
   const cost = (u: Float64Array): number => {
-    const outcome = problem.evaluate(valuesOf(u), params);
-    if (outcome.status !== CellStatus.ok && outcome.message) messages.set("last", outcome.message);
+    const outcome = problem.evaluate(valuesOf(plan, u), params);
+    if (outcome.status !== CellStatus.ok && outcome.message) lastMessage = outcome.message;
     const m = merit(problem.figure, outcome);
     return m === -Infinity ? Infinity : -m;
   };
-  const currentOutcome = problem.evaluate({}, []);
-  const current = currentOutcome.status === CellStatus.ok ? currentOutcome.value : NaN;
+  const u0 = plan.startPoints[s];
+  const before = problem.evaluations;
+  const f0 = cost(u0);
+  const start = valuesOf(plan, u0);
+  if (f0 === Infinity) return { report: { start, status: "infeasible-start", figure: NaN, evaluations: problem.evaluations - before, message: lastMessage } };
+  const run = minimizeInBox(cost, u0, { xTolerance: plan.tolerance, maxEvaluations: plan.maxEvaluations });
+  return {
+    report: { start, status: run.converged ? "converged" : "budget-spent", figure: figureOf(problem.figure, -run.f), evaluations: problem.evaluations - before },
+    best: { u: run.u, f: run.f },
+  };
+}
 
-  const random = new GaussianSource(seed);
-  const reports: StartReport[] = [];
+/**
+ * The result from every start's outcome, in start order; `evaluatedElsewhere`: evaluations the
+ * starts made in other threads or processes (they count as evaluations too).
+ */
+export function finishOptimize(plan: OptimizePlan, outcomes: readonly StartOutcome[], evaluatedElsewhere = 0): OptimizeResult {
+  const { problem, params, ranges, starts, current } = plan;
+  const reports = outcomes.map((o) => o.report);
   let best: { u: Float64Array; f: number } | undefined;
-  for (let s = 0; s < starts; s++) {
-    if (s > 0) options.onProgress?.(s, starts);
-    const u0 = new Float64Array(n);
-    for (let k = 0; k < n; k++) u0[k] = s === 0 ? clampUnit(toUnit(ranges[k], params[k].value)) : random.uniform();
-    const before = problem.evaluations;
-    const f0 = cost(u0);
-    const start = valuesOf(u0);
-    if (f0 === Infinity) {
-      reports.push({ start, status: "infeasible-start", figure: NaN, evaluations: problem.evaluations - before, message: messages.get("last") });
-      continue;
-    }
-    const run = minimizeInBox(cost, u0, { xTolerance: tolerance, maxEvaluations });
-    reports.push({ start, status: run.converged ? "converged" : "budget-spent", figure: figureOf(problem.figure, -run.f), evaluations: problem.evaluations - before });
-    if (!best || run.f < best.f) best = { u: run.u, f: run.f };
-  }
-  options.onProgress?.(starts, starts);
+  for (const o of outcomes) if (o.best && (!best || o.best.f < best.f)) best = o.best;
   if (!best) {
     const reasons = [...new Set(reports.map((r) => r.message ?? "no value"))];
     return {
@@ -135,7 +188,7 @@ export function optimizeDesign(setup: SetupDescription | string, figure: FigureS
       status: "infeasible",
       current,
       starts: reports,
-      evaluations: problem.evaluations,
+      evaluations: problem.evaluations + evaluatedElsewhere,
       message: `every start (${starts}) has no value for the figure: ${reasons.join("; ")}`,
     };
   }
@@ -147,13 +200,13 @@ export function optimizeDesign(setup: SetupDescription | string, figure: FigureS
     return { target: p.target, value, shown: shownValue(value, p), range: [r.lo, r.hi] as const, onBound: end ? { end, kind: end === "low" ? r.loEnd : r.hiEnd } : undefined };
   });
   // The figure evaluated once more at the optimum: its own bits, not a value back from the dB scale.
-  const final = problem.evaluate(valuesOf(bestU), params);
+  const final = problem.evaluate(valuesOf(plan, bestU), params);
   const optimumFigure = final.status === CellStatus.ok ? final.value : figureOf(problem.figure, -best.f);
   const onBounds = values.filter((v) => v.onBound);
   const message =
     `best ${problem.figure.label}: ${optimumFigure.toPrecision(6)}${problem.figure.unit ? ` ${problem.figure.unit}` : ""} at ${values.map((v) => `${v.target} = ${v.shown}`).join(", ")}` +
     (onBounds.length ? `; on a bound: ${onBounds.map((v) => `${v.target} (${v.onBound!.end} end, ${v.onBound!.kind})`).join(", ")}` : "");
-  return { figure: problem.figure, status: "ok", current, optimum: { values, figure: optimumFigure }, starts: reports, evaluations: problem.evaluations, message };
+  return { figure: problem.figure, status: "ok", current, optimum: { values, figure: optimumFigure }, starts: reports, evaluations: problem.evaluations + evaluatedElsewhere, message };
 }
 
 function figureOf(figure: DesignFigure, meritValue: number): number {

@@ -162,8 +162,8 @@ function axisResult(a: ResolvedAxis): ToleranceAxis {
   return { target: a.target, scale: a.scale, values: Float64Array.from(a.values), written: [...a.written], unit: a.unit };
 }
 
-/** Lets timers, messages and abort events run between rows. */
-function yieldToEventLoop(): Promise<void> {
+/** Lets timers, messages, signals and abort events run between rows (also between a sweep chunk's items). */
+export function yieldToEventLoop(): Promise<void> {
   return new Promise((resolve) => (typeof setImmediate === "function" ? setImmediate(resolve) : setTimeout(resolve, 0)));
 }
 

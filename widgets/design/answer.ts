@@ -115,7 +115,8 @@ export function rankingAnswer(r: Ranking): RankingAnswer {
   };
 }
 
-function optimumAnswer(setup: SetupDescription, figure: FigureSpec, grid: GridText | undefined, r: OptimizeResult): OptimumAnswer {
+/** An optimization's result as the widget's answer (also what a merged sweep of starts becomes). */
+export function optimumAnswer(setup: SetupDescription, figure: FigureSpec, grid: GridText | undefined, r: OptimizeResult): OptimumAnswer {
   return {
     kind: "optimum",
     figure: figureLabel(r.figure),
@@ -152,7 +153,8 @@ function noiseCurves(setup: SetupDescription, figure: FigureSpec, grid: GridText
   return { frequencies: Array.from(frequencies), before: plainArray(before.curve), after: plainArray(after.curve), unit: problem.noiseUnit };
 }
 
-function spreadAnswer(r: SpreadResult): SpreadAnswer {
+/** A spread's result as the widget's answer (also what a merged sweep of samples becomes). */
+export function spreadAnswer(r: SpreadResult): SpreadAnswer {
   const d = r.distribution;
   return {
     kind: "spread",

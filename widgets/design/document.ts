@@ -16,10 +16,16 @@ import { checkGrid, checkQuestion, withDefined } from "./question-read";
  * computes it again from the question and compares fingerprints (loadDesignState).
  */
 
-const STATE_KEYS = ["format", "version", "quietframe", "setup", "figure", "grid", "question", "title", "answer", "fingerprint"] as const;
+const STATE_KEYS = ["format", "version", "quietframe", "setup", "figure", "grid", "question", "title", "answer", "fingerprint", "sweep"] as const;
 
 /** A new state: the question, its answer and the answer's fingerprint. */
-export function designState(setup: SetupDescription, figure: FigureSpec, question: DesignQuestion, answer: DesignAnswer, options: { grid?: GridText; title?: string } = {}): DesignState {
+export function designState(
+  setup: SetupDescription,
+  figure: FigureSpec,
+  question: DesignQuestion,
+  answer: DesignAnswer,
+  options: { grid?: GridText; title?: string; sweep?: DesignState["sweep"] } = {},
+): DesignState {
   return withDefined({
     format: DESIGN_STATE_FORMAT,
     version: DESIGN_STATE_VERSION,
@@ -31,6 +37,7 @@ export function designState(setup: SetupDescription, figure: FigureSpec, questio
     title: options.title,
     answer,
     fingerprint: answerFingerprint(answer),
+    sweep: options.sweep && { ...options.sweep },
   });
 }
 
@@ -69,6 +76,11 @@ export interface LoadedDesignState {
 /** Reads a state and computes its answer again from the question; errors name the field in the file. */
 export function loadDesignState(input: unknown, source = "state"): LoadedDesignState {
   const { state, path } = locate(input, source);
+  if (state.sweep) {
+    // A sweep's answer: computing it again is the whole sweep, so its stored numbers are checked against its fingerprint instead.
+    const recomputedFingerprint = answerFingerprint(state.answer);
+    return { state, recomputedFingerprint, fingerprintMatches: recomputedFingerprint === state.fingerprint };
+  }
   const answer = rebasedErrors(
     (p) => `${path}.${fieldOfState(p)}`,
     () => computeAnswer(state.setup, state.figure, state.question, state.grid),
@@ -129,5 +141,17 @@ export function checkDesignState(input: unknown, path: string): DesignState {
     title: o.title as string | undefined,
     answer: checkAnswer(o.answer, `${path}.answer`, question.kind),
     fingerprint: o.fingerprint,
+    sweep: checkSweepMark(o.sweep, `${path}.sweep`),
   });
+}
+
+function checkSweepMark(input: unknown, path: string): DesignState["sweep"] {
+  if (input === undefined) return undefined;
+  const o = expectRecord(input, path, '{ "fingerprint": "sha256:…", "result": "sha256:…" }');
+  rejectUnknownKeys(o, ["fingerprint", "result"], path, "a sweep's mark");
+  for (const key of ["fingerprint", "result"] as const) {
+    if (typeof o[key] !== "string" || !FINGERPRINT_PATTERN.test(o[key]))
+      throw new QuietframeError({ path: `${path}.${key}`, value: o[key], problem: "is not a sweep fingerprint", allowed: '"sha256:" followed by 64 lowercase hex digits' });
+  }
+  return { fingerprint: o.fingerprint as string, result: o.result as string };
 }

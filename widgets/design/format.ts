@@ -173,4 +173,10 @@ export interface DesignState {
   answer: DesignAnswer;
   /** "sha256:<hex>" of the answer's numbers (see fingerprint.ts). */
   fingerprint: string;
+  /**
+   * Present on an answer merged from a sweep's chunks (`quietframe sweep`): the sweep's
+   * fingerprint and that of its result's numbers. Such an answer is not computed again on
+   * loading (that would be the whole sweep); its numbers are checked against `fingerprint`.
+   */
+  sweep?: { readonly fingerprint: string; readonly result: string };
 }

@@ -17,6 +17,7 @@ import { createExplorerState } from "../explorer/model";
 import type { ExplorerState } from "../explorer/format";
 import type { ControlSpec } from "../core/controls/control-spec";
 import { parseUntrustedJson } from "../core/state/state-text";
+import { FINGERPRINT_PATTERN } from "../core/state/strict-read";
 
 /**
  * The tolerance-map widget's model: a finished map as plain JSON (it travels inside the
@@ -63,6 +64,12 @@ export interface ToleranceSettings {
   labels?: Record<string, string>;
 }
 
+/** Where a map computed as a sweep (`quietframe sweep`) came from: the sweep's fingerprint and that of the map's numbers. */
+export interface SweepMark {
+  readonly fingerprint: string;
+  readonly result: string;
+}
+
 export interface ToleranceWidgetState {
   format: typeof TOLERANCE_STATE_FORMAT;
   version: number;
@@ -71,6 +78,8 @@ export interface ToleranceWidgetState {
   spec: ToleranceMapSpec;
   settings: ToleranceSettings;
   map: ToleranceMapData;
+  /** Present on a map merged from a sweep's chunks (or run as a sweep on one machine). */
+  sweep?: SweepMark;
 }
 
 /** Encodes a figure for JSON (which has no NaN or infinity). */
@@ -137,6 +146,15 @@ export function loadToleranceState(text: string): ToleranceWidgetState {
   }
   if (!s.setup || !Array.isArray(s.setup.components)) {
     throw new QuietframeError({ path: "state.setup", problem: "is missing", allowed: "a set-up description" });
+  }
+  const mark = s.sweep as Partial<SweepMark> | undefined;
+  if (mark !== undefined && (typeof mark !== "object" || mark === null || !FINGERPRINT_PATTERN.test(String(mark.fingerprint)) || !FINGERPRINT_PATTERN.test(String(mark.result)))) {
+    throw new QuietframeError({
+      path: "state.sweep",
+      value: mark,
+      problem: "is not a sweep's mark",
+      allowed: '{ "fingerprint": "sha256:…", "result": "sha256:…" } as `quietframe sweep merge` writes it',
+    });
   }
   return { ...(s as ToleranceWidgetState), settings: s.settings ?? {}, map: { ...m, messages: Array.isArray(m.messages) ? m.messages : [] } };
 }
