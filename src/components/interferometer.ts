@@ -8,7 +8,7 @@ import type { ModeInfo } from "../network/model";
 import { strainSql } from "../reference/limits";
 import { wireBody } from "../physics/mechanics";
 import { opticalAngularFrequency, pushOnBody } from "../physics/optomechanics";
-import { type QuadratureFactor, type SignalRecyclingLoop, signalRecyclingLoop, springIsRestoring } from "../physics/signal-recycling";
+import { type QuadratureFactor, type SignalRecyclingLoop, signalRecyclingLoop, signalRecyclingLoopFromPole, springIsRestoring } from "../physics/signal-recycling";
 import { maybeNum, num, type ComponentKind, type MechanicalBody, type ResolvedComponent, type SignalReference } from "./types";
 
 /**
@@ -70,7 +70,9 @@ import { maybeNum, num, type ComponentKind, type MechanicalBody, type ResolvedCo
  * arm length: `lengthControl: "servo"` declares one. A servo that reads the readout acts on
  * signal and noise alike, so the noise referred to strain is the one computed here; the
  * engine then accepts the growing modes and names them in the stability summary. Without a
- * mirror (srmTransmission absent) the component is exactly the one above.
+ * mirror (srmTransmission absent) the component is exactly the one above. The same loop can be
+ * given by the arm mode it leaves: signalBandwidth ε and signalDetuning λ, with
+ * ρe^{2iφ} = (1 − w)/(1 + w), w = (ε − γ_0 − iλ)/γ_in (see signalRecyclingLoopFromPole).
  *
  * Validity: single-mode arms (frequencies and γ well below the free spectral range c/2L),
  * T = 4Lγ/c < 1, a signal-recycling cavity short against c/Ω, and radiation-pressure physics
@@ -140,6 +142,20 @@ export const interferometer: ComponentKind<InterferometerHandle> = {
       optional: true,
     },
     {
+      name: "signalBandwidth",
+      kind: "frequency",
+      doc: 'Instead of srmTransmission and srDetuning: the half-width ε/2π of the signal-recycled arm mode, e.g. "400 Hz"; must exceed the arm-loss part εc/(8πL).',
+      optional: true,
+      min: 0,
+      minExclusive: true,
+    },
+    {
+      name: "signalDetuning",
+      kind: "frequency",
+      doc: 'With signalBandwidth: the detuning λ/2π of the signal-recycled arm mode (sign as a cavity\'s detuning), e.g. "-100 Hz"; 0 is tuned.',
+      optional: true,
+    },
+    {
       name: "lengthControl",
       kind: "choice",
       doc: '"servo": a control loop reading the dark port holds the arm length, so growing optical-spring modes are accepted (it changes signal and noise alike, not the noise referred to strain); "none": growing modes are an error.',
@@ -172,6 +188,32 @@ export const interferometer: ComponentKind<InterferometerHandle> = {
         allowed: `0 ≤ opticalLoss < 4Lγ/c = ${round(transmission)} for these arms`,
       });
     }
+    const mirror = c.given.has("srmTransmission") || c.given.has("srDetuning");
+    const pole = c.given.has("signalBandwidth") || c.given.has("signalDetuning");
+    if (mirror && pole) {
+      throw new QuietframeError({
+        path: `${c.path}.${c.given.has("signalBandwidth") ? "signalBandwidth" : "signalDetuning"}`,
+        problem: "signal recycling is described twice: by the mirror (srmTransmission, srDetuning) and by the arm mode (signalBandwidth, signalDetuning)",
+        allowed: "one description: srmTransmission with srDetuning, or signalBandwidth with signalDetuning",
+      });
+    }
+    if (c.given.has("signalDetuning") && !c.given.has("signalBandwidth")) {
+      throw new QuietframeError({
+        path: `${c.path}.signalDetuning`,
+        value: c.raw.signalDetuning,
+        problem: "a signal detuning needs the signal bandwidth beside it",
+        allowed: 'signalBandwidth (e.g. "400 Hz") beside signalDetuning',
+      });
+    }
+    if (c.given.has("signalBandwidth") && !(2 * Math.PI * num(c, "signalBandwidth") > (eps * SPEED_OF_LIGHT) / (4 * L))) {
+      const floor = (eps * SPEED_OF_LIGHT) / (8 * Math.PI * L);
+      throw new QuietframeError({
+        path: `${c.path}.signalBandwidth`,
+        value: c.raw.signalBandwidth,
+        problem: `is not above the arms' own loss width εc/(8πL) = ${round(floor)} Hz: no signal-recycling mirror narrows the arms that far`,
+        allowed: `signalBandwidth > ${round(floor)} Hz for this arm loss`,
+      });
+    }
     if (c.given.has("srDetuning") && !c.given.has("srmTransmission")) {
       throw new QuietframeError({
         path: `${c.path}.srDetuning`,
@@ -194,7 +236,6 @@ export const interferometer: ComponentKind<InterferometerHandle> = {
     const lossColumn = builder.addInputs(c.name, ["arm loss (amplitude)", "arm loss (phase)"], [1, 0, 0, 1], "loss", `${c.name}: arm loss`);
     const G = omega0 / L;
     const gammaIn = gamma - gammaLoss;
-    const srm = maybeNum(c, "srmTransmission");
     return {
       optical,
       body,
@@ -206,7 +247,7 @@ export const interferometer: ComponentKind<InterferometerHandle> = {
       gammaLoss,
       coupling: G * abar * body.xScale,
       signalGain: G * abar * L,
-      ...(srm === undefined ? {} : { recycling: signalRecyclingLoop(srm, maybeNum(c, "srDetuning") ?? 0, Math.sqrt(2 * gammaIn)) }),
+      ...optionalLoop(c, gammaIn, gammaLoss),
     };
   },
   wire: ({ builder, handle: h, inputs }) => {
@@ -238,12 +279,13 @@ export const interferometer: ComponentKind<InterferometerHandle> = {
     return { out };
   },
   instabilityHint: (c) => {
-    const srm = maybeNum(c, "srmTransmission");
-    const phi = maybeNum(c, "srDetuning") ?? 0;
-    if (srm === undefined || srm === 1) return undefined;
-    const restoring = springIsRestoring(signalRecyclingLoop(srm, phi, 1));
+    const gamma = 2 * Math.PI * num(c, "armBandwidth");
+    const gammaLoss = (num(c, "opticalLoss") * SPEED_OF_LIGHT) / (4 * num(c, "armLength"));
+    const loop = optionalLoop(c, gamma - gammaLoss, gammaLoss).recycling;
+    const restoring = loop && springIsRestoring(loop);
     if (restoring === undefined) return undefined;
-    const detuned = `interferometer '${c.name}' has detuned signal recycling (φ = ${round((phi * 180) / Math.PI)}°)`;
+    const how = c.given.has("signalDetuning") ? `signal detuning ${round(num(c, "signalDetuning"))} Hz` : `φ = ${round(((maybeNum(c, "srDetuning") ?? 0) * 180) / Math.PI)}°`;
+    const detuned = `interferometer '${c.name}' has detuned signal recycling (${how})`;
     const servo =
       c.values.lengthControl === "servo" ? "" : '; a servo on the arm length holds it in practice: declare one with lengthControl: "servo" (the noise referred to strain does not depend on it)';
     return restoring
@@ -295,6 +337,15 @@ export function strainSignalReference(mass: number, armLength: number): SignalRe
     ],
     curves: [{ id: "sql", label: "SQL (strain, 8ħ/(mΩ²L²))", psd: (omega) => strainSql(mass, armLength, omega) }],
   };
+}
+
+/** The signal-recycling loop from whichever description the component has, if any. */
+function optionalLoop(c: ResolvedComponent, gammaIn: number, gammaLoss: number): { recycling?: SignalRecyclingLoop } {
+  const srm = maybeNum(c, "srmTransmission");
+  if (srm !== undefined) return { recycling: signalRecyclingLoop(srm, maybeNum(c, "srDetuning") ?? 0, Math.sqrt(2 * gammaIn)) };
+  const bandwidth = maybeNum(c, "signalBandwidth");
+  if (bandwidth === undefined) return {};
+  return { recycling: signalRecyclingLoopFromPole(2 * Math.PI * bandwidth, 2 * Math.PI * (maybeNum(c, "signalDetuning") ?? 0), gammaIn, gammaLoss) };
 }
 
 /** A complex factor acting on both quadratures of a field: (q1 + i q2) → z (q1 + i q2). */

@@ -18,6 +18,7 @@
  * narrows), φ = 90° tuned resonant sideband extraction (it widens); ρ = 0 is no mirror.
  */
 import { unitPhasor } from "../network/linear-form";
+import { hypot } from "../numeric/portable-math";
 
 /** A complex number [re, im], acting on a quadrature pair (q1, q2) as the rotation-and-scale it is. */
 export type QuadratureFactor = readonly [number, number];
@@ -36,10 +37,29 @@ export interface SignalRecyclingLoop {
  * φ (rad) and arm coupling k = √(2γ_in) (√(rad/s)).
  */
 export function signalRecyclingLoop(transmission: number, detuning: number, k: number): SignalRecyclingLoop {
-  const tau = Math.sqrt(transmission);
-  const rho = Math.sqrt(1 - transmission);
-  const one = unitPhasor(detuning);
-  const two = unitPhasor(2 * detuning);
+  return loopOf(Math.sqrt(transmission), Math.sqrt(1 - transmission), unitPhasor(detuning), unitPhasor(2 * detuning), k);
+}
+
+/**
+ * The same loop described by the arm mode it leaves behind: signal bandwidth ε and signal
+ * detuning λ (rad/s, λ in the convention of a cavity's Δ), for arms of coupling half-width
+ * γ_in and loss half-width γ_0. The arm mode's complex rate −γ_0 − γ_in(1 − ρe^{2iφ})/(1 + ρe^{2iφ})
+ * equals −ε + iλ, so ρe^{2iφ} = (1 − w)/(1 + w) with w = (ε − γ_0 − iλ)/γ_in; equivalently
+ * ε = γ_0 + γ_in(1 − ρ²)/D and λ = 2γ_in ρ sin 2φ/D, D = 1 + 2ρ cos 2φ + ρ² (the signal-recycled
+ * interferometer as one detuned cavity, as Buonanno & Chen, Phys. Rev. D 65, 042001 (2002) describe
+ * it; exact here, the recycling cavity being short). Needs ε > γ_0 (then ρ < 1).
+ */
+export function signalRecyclingLoopFromPole(bandwidth: number, detuningRate: number, gammaIn: number, gammaLoss: number): SignalRecyclingLoop {
+  const w: QuadratureFactor = [(bandwidth - gammaLoss) / gammaIn, -detuningRate / gammaIn];
+  const q = divide([1 - w[0], -w[1]], [1 + w[0], w[1]]);
+  const rho = hypot(q[0], q[1]);
+  const two: QuadratureFactor = rho === 0 ? [1, 0] : [q[0] / rho, q[1] / rho];
+  // e^{iφ} as the principal square root of e^{2iφ} (φ and φ + π give the same spectra).
+  const one: QuadratureFactor = [Math.sqrt((1 + two[0]) / 2), (two[1] < 0 ? -1 : 1) * Math.sqrt((1 - two[0]) / 2)];
+  return loopOf(Math.sqrt(1 - rho * rho), rho, one, two, Math.sqrt(2 * gammaIn));
+}
+
+function loopOf(tau: number, rho: number, one: QuadratureFactor, two: QuadratureFactor, k: number): SignalRecyclingLoop {
   const denominator: QuadratureFactor = [1 + rho * two[0], rho * two[1]];
   return {
     arrivingInput: divide([tau * one[0], tau * one[1]], denominator),
@@ -61,7 +81,7 @@ export function springIsRestoring(loop: SignalRecyclingLoop): boolean | undefine
   return v > 0;
 }
 
-function divide(a: QuadratureFactor, b: QuadratureFactor): QuadratureFactor {
+function divide(a: QuadratureFactor, b: QuadratureFactor): [number, number] {
   const d = b[0] * b[0] + b[1] * b[1];
   return [(a[0] * b[0] + a[1] * b[1]) / d, (a[1] * b[0] - a[0] * b[1]) / d];
 }

@@ -156,6 +156,66 @@ describe("signal recycling against Buonanno & Chen 2001", () => {
   });
 });
 
+describe("signal recycling described by the arm mode: signal bandwidth and detuning", () => {
+  /**
+   * The signal-recycled interferometer as one detuned cavity (Buonanno & Chen, Phys. Rev. D 65,
+   * 042001 (2002), Sec. II, from memory): half-width ε = γ(1 − ρ²)/D and detuning
+   * λ = 2ργ sin 2φ/D with D = 1 + ρ² + 2ρ cos 2φ (lossless arms, γ the arm half-width); with
+   * arm loss, ε gains the loss part γ_0 and γ becomes the coupling part γ_in (derived the same way).
+   */
+  function pole(T: number, phi: number, gammaIn: number, gammaLoss = 0): { bandwidth: number; detuning: number } {
+    const rho = Math.sqrt(1 - T);
+    const d = 1 + rho * rho + 2 * rho * Math.cos(2 * phi);
+    return { bandwidth: (gammaLoss + (gammaIn * (1 - rho * rho)) / d) / (2 * Math.PI), detuning: (2 * rho * gammaIn * Math.sin(2 * phi)) / d / (2 * Math.PI) };
+  }
+
+  it.each([
+    [0.19, Math.PI / 2 - 0.47, 0],
+    [0.033, 0.3, Math.PI / 3],
+    [0.19, 0, 0],
+  ])("T = %f, φ = %f rad as (ε, λ) gives BC 2001's S_h at ζ = %f rad", (T, phi, zeta) => {
+    const p = pole(T, phi, GAMMA);
+    const detuned = p.detuning !== 0;
+    const s = srSetup({ theta: Math.PI / 2 - zeta, control: detuned ? "servo" : "none", extra: { signalBandwidth: `${p.bandwidth} Hz`, signalDetuning: `${p.detuning} Hz` } });
+    const b = evaluate(prepare(loadSetup(s)), GRID).budget;
+    expectAllClose(
+      b.total,
+      Array.from(b.frequencies, (f) => bcNoise(f, T, phi, zeta, I_SQL)),
+      1e-9,
+      "S_h",
+    );
+  });
+
+  it("with arm loss (100 ppm), (ε, λ) with the loss part added gives the same budget as the mirror", () => {
+    const loss = 100e-6;
+    const gammaLoss = (loss * SPEED_OF_LIGHT) / (4 * L);
+    const [T, phi] = [0.1, 1.2];
+    const p = pole(T, phi, GAMMA - gammaLoss, gammaLoss);
+    const mirror = evaluate(prepare(loadSetup(srSetup({ T, phi, control: "servo", extra: { opticalLoss: loss } }))), GRID).budget;
+    const mode = evaluate(prepare(loadSetup(srSetup({ control: "servo", extra: { opticalLoss: loss, signalBandwidth: `${p.bandwidth} Hz`, signalDetuning: `${p.detuning} Hz` } }))), GRID).budget;
+    expectAllClose(mode.total, mirror.total, 1e-9, "S_h");
+  });
+
+  it("refuses two descriptions at once, a detuning alone, and a bandwidth below the arm-loss width", () => {
+    const refusal = (extra: Record<string, string | number>, T?: number) => {
+      try {
+        loadSetup(srSetup({ T, extra }));
+      } catch (e) {
+        if (e instanceof QuietframeError) return e;
+        if (e instanceof QuietframeErrors && e.problems.length === 1) return e.problems[0];
+        throw e;
+      }
+      throw new Error("expected a QuietframeError");
+    };
+    expect(refusal({ signalBandwidth: "300 Hz" }, 0.2).message).toContain("described twice");
+    expect(refusal({ signalDetuning: "30 Hz" }).path).toBe("components.ifo.signalDetuning");
+    const narrow = refusal({ opticalLoss: 1e-3, signalBandwidth: "1 Hz" });
+    expect(narrow.path).toBe("components.ifo.signalBandwidth");
+    // εc/(8πL) = 1e-3 × 299792458 / (8π × 4000 m) = 2.982 Hz
+    expect(narrow.message).toMatch(/arms' own loss width .* = 2\.982 Hz/);
+  });
+});
+
 describe("optical-spring resonances are the zeros of BC's M", () => {
   let math: MathJs;
   beforeAll(async () => {
