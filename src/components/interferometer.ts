@@ -12,8 +12,8 @@ import { type QuadratureFactor, type SignalRecyclingLoop, signalRecyclingLoop, s
 import { maybeNum, num, type ComponentKind, type MechanicalBody, type ResolvedComponent, type SignalReference } from "./types";
 
 /**
- * Tuned Michelson interferometer with a Fabry–Perot cavity in each arm and no signal
- * recycling, seen from its dark port, in the two-photon picture.
+ * Michelson interferometer with a Fabry–Perot cavity in each arm and an optional
+ * signal-recycling mirror, seen from its dark port, in the two-photon picture.
  *
  * Only the antisymmetric (differential) degrees of freedom talk to the dark port, so the
  * component is built from two modes of the engine:
