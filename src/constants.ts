@@ -12,8 +12,9 @@ export const PLANCK_H = 6.62607015e-34;
 /**
  * Reduced Planck constant ħ = h/2π, in J s.
  * CODATA 2018 value 1.054 571 817... × 10⁻³⁴ J s. CODATA prints it truncated (the "..."),
- * so it sits just below h/2π (by 6.5e-10 relative); we keep the published digits so
- * results compare digit-for-digit with hand calculations that use the tabulated ħ.
+ * so it sits just below h/2π = 1.054 571 817 646… × 10⁻³⁴ J s (relative offset 6.13e-10); we
+ * keep the published digits so results compare digit-for-digit with hand calculations that
+ * use the tabulated ħ.
  */
 export const HBAR = 1.054571817e-34;
 
@@ -27,6 +28,13 @@ export const SPEED_OF_LIGHT = 299792458;
 export const GRAVITATIONAL_CONSTANT = 6.6743e-11;
 
 /**
+ * Nominal solar mass parameter GM☉, in m³ s⁻² (exact by definition: IAU 2015 Resolution B3,
+ * 1.327 124 4 × 10²⁰ m³ s⁻²). Astrophysical formulas that need G·M use this directly: the
+ * product is known far better than G or M☉ alone.
+ */
+export const SOLAR_MASS_PARAMETER = 1.3271244e20;
+
+/**
  * Solar mass M☉, in kg: 1.98847 × 10³⁰ kg.
  *
  * Not a CODATA or IAU-defined constant. The IAU (2015 Resolution B3) fixes only the
@@ -34,7 +42,7 @@ export const GRAVITATIONAL_CONSTANT = 6.6743e-11;
  * product divided by G, and so is only as good as G (≈ 2e-5). This is the commonly
  * quoted value (1.98847 ± 0.00007) × 10³⁰ kg, which equals GM☉ / G with the CODATA 2014
  * G; with the CODATA 2018 G above it would be 1.98841 × 10³⁰ kg (3e-5 lower). Where
- * precision matters, work with GM☉ directly.
+ * precision matters, work with GM☉ directly (SOLAR_MASS_PARAMETER, as the reach does).
  */
 export const SOLAR_MASS = 1.98847e30;
 

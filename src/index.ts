@@ -26,6 +26,15 @@ export { assemble, type AssembledSetup } from "./setup/assemble";
 export type { StateSpaceModel, ModeInfo, NoiseGroup } from "./network/model";
 export { noiseBudget, type NoiseBudget, type BudgetTerm, type ReferenceSpectrum } from "./engine/budget";
 export { budgetByMechanism, type MechanismBudget, type MechanismTerm } from "./engine/mechanisms";
+export {
+  designFilterCavities,
+  filterShortfall,
+  type FilterDesign,
+  type FilterCavityDesign,
+  type FilterOptions,
+  type FilterShortfall,
+  type FilteredInterferometer,
+} from "./physics/filter-design";
 export { outputSpectra, signalResponse, inputTransfer, type ComplexSeries } from "./engine/spectra";
 export { analyzeStability, UnstableSetupError, type StabilityReport, type Eigenmode } from "./engine/stability";
 export { stationaryCovariance, uncertaintyMargin, diffusionMatrix, checkPhysicality, type PhysicalityReport } from "./engine/covariance";

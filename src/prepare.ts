@@ -86,7 +86,7 @@ function checked(resolved: ResolvedSetup): PreparedSetup {
   const assembled = assemble(resolved);
   const stability = requireNoGrowingModes(assembled, analyzeStability(assembled));
   const warnings: string[] = [];
-  if (stability.undamped.length > 0) warnings.push(stability.summary);
+  if (stability.undamped.length > 0 || stability.held.length > 0) warnings.push(stability.summary);
   const physicality = stability.stable ? checkPhysicality(assembled.model) : undefined;
   if (physicality && !physicality.physical) warnings.push(physicality.summary);
   return { setup: resolved, assembled, stability, physicality, cautions: assembled.cautions, warnings };

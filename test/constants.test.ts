@@ -1,5 +1,5 @@
 import { beforeAll, describe, expect, it } from "vitest";
-import { BOHR_MAGNETON, BOLTZMANN, GRAVITATIONAL_CONSTANT, HBAR, PLANCK_H, SOLAR_MASS, SPEED_OF_LIGHT } from "../src/constants";
+import { BOHR_MAGNETON, BOLTZMANN, GRAVITATIONAL_CONSTANT, HBAR, PLANCK_H, SOLAR_MASS, SOLAR_MASS_PARAMETER, SPEED_OF_LIGHT } from "../src/constants";
 import { loadMathjs, type MathJs } from "./helpers/mathjs";
 
 function relErr(a: number, b: number): number {
@@ -32,6 +32,9 @@ describe("published values", () => {
   });
   it("Bohr magneton = 9.274 010 0783e-24 J/T (CODATA 2018)", () => {
     expect(BOHR_MAGNETON).toBe(9.2740100783e-24);
+  });
+  it("nominal solar mass parameter GM☉ = 1.327 124 4e20 m^3 s^-2 (IAU 2015 Resolution B3, exact by definition)", () => {
+    expect(SOLAR_MASS_PARAMETER).toBe(1.3271244e20);
   });
   it("solar mass = 1.98847e30 kg (commonly quoted value, from memory; not a CODATA/IAU constant)", () => {
     expect(SOLAR_MASS).toBe(1.98847e30);
@@ -66,6 +69,9 @@ describe("internal consistency", () => {
     const full = PLANCK_H / (2 * Math.PI);
     expect(full - HBAR).toBeGreaterThanOrEqual(0);
     expect(full - HBAR).toBeLessThan(1e-43); // one unit in the 10th digit
+    // The offset the comment in src/constants.ts states: (h/2π − ħ)/(h/2π) = 6.13e-10 to three digits
+    // (h/2π = 1.054 571 817 646…e-34 from the exact h).
+    expect(Number(((full - HBAR) / full).toPrecision(3))).toBe(6.13e-10);
   });
 
   it("μB = eħ/(2 mₑ) with e = 1.602 176 634e-19 C (exact, 2019 SI) and mₑ = 9.109 383 7015e-31 kg (CODATA 2018)", () => {
@@ -80,5 +86,10 @@ describe("internal consistency", () => {
     // The kg value is GM☉/G and inherits G's uncertainty (2.2e-5, CODATA 2018) and the
     // 3e-5 shift of G between CODATA 2014 and 2018; 1e-4 covers that, a typo would not pass.
     expect(relErr(SOLAR_MASS * GRAVITATIONAL_CONSTANT, 1.3271244e20)).toBeLessThan(1e-4);
+  });
+
+  it("G × SOLAR_MASS sits 3.0e-5 above GM☉: why the reach uses SOLAR_MASS_PARAMETER directly", () => {
+    // 6.6743e-11 × 1.98847e30 = 1.327164…e20 against the nominal 1.3271244e20 (IAU 2015 B3).
+    expect(Number(((SOLAR_MASS * GRAVITATIONAL_CONSTANT) / SOLAR_MASS_PARAMETER - 1).toPrecision(2))).toBe(3.0e-5);
   });
 });

@@ -1,9 +1,9 @@
 import { QuietframeError } from "../errors";
 import { laserPowerCautions } from "../safety/cautions";
 import { formatQuantity } from "../units";
-import { combine, type Field } from "../network/linear-form";
 import type { ModeInfo } from "../network/model";
 import { cavityInputPower, intracavityPhotons, opticalAngularFrequency, pushOnBody, zeroPointDisplacement } from "../physics/optomechanics";
+import { wireOpticalMode } from "../physics/optical-mode";
 import { maybeNum, num, type ComponentKind, type MechanicalBody, type ResolvedComponent } from "./types";
 
 interface CavityHandle {
@@ -91,27 +91,14 @@ export const cavity: ComponentKind<CavityHandle> = {
     const delta = 2 * Math.PI * num(c, "detuning");
     const kIn = kappa * num(c, "inputCoupling");
     const k0 = kappa - kIn;
-    const { x: a1, p: a2 } = handle.mode;
-    builder.couple(a1, a1, -kappa / 2);
-    builder.couple(a2, a2, -kappa / 2);
-    builder.couple(a1, a2, -delta);
-    builder.couple(a2, a1, delta);
-    const field: Field = inputs.in;
-    builder.drive(a1, field.amplitude, Math.sqrt(kIn));
-    builder.drive(a2, field.phase, Math.sqrt(kIn));
-    builder.drive(a1, builder.input(handle.lossColumn), Math.sqrt(k0));
-    builder.drive(a2, builder.input(handle.lossColumn + 1), Math.sqrt(k0));
-
+    const rates = { halfWidth: kappa / 2, detuning: delta, inputCoupling: Math.sqrt(kIn), lossCoupling: Math.sqrt(k0) };
+    const out = wireOpticalMode(builder, handle.mode, rates, inputs.in, handle.lossColumn);
     const body = bodies.mechanics;
     if (body) {
       const g = quadratureCoupling(c, body, kappa, delta, kIn);
-      pushOnBody(builder, body, builder.state(a1), g);
-      builder.couple(a2, body.mode.x, g);
+      pushOnBody(builder, body, builder.state(handle.mode.x), g);
+      builder.couple(handle.mode.p, body.mode.x, g);
     }
-    const out: Field = {
-      amplitude: combine(1, field.amplitude, -Math.sqrt(kIn), builder.state(a1)),
-      phase: combine(1, field.phase, -Math.sqrt(kIn), builder.state(a2)),
-    };
     return { out };
   },
   instabilityHint: (c) => {

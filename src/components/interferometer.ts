@@ -3,16 +3,17 @@ import { QuietframeError } from "../errors";
 import { laserPowerCautions } from "../safety/cautions";
 import { formatQuantity } from "../units";
 import type { NetworkBuilder } from "../network/builder";
-import { combine, type Field } from "../network/linear-form";
+import { combine, combineFields, type Field } from "../network/linear-form";
 import type { ModeInfo } from "../network/model";
 import { strainSql } from "../reference/limits";
 import { wireBody } from "../physics/mechanics";
 import { opticalAngularFrequency, pushOnBody } from "../physics/optomechanics";
-import { num, type ComponentKind, type MechanicalBody, type ResolvedComponent, type SignalReference } from "./types";
+import { type QuadratureFactor, type SignalRecyclingLoop, signalRecyclingLoop, signalRecyclingLoopFromPole, springIsRestoring } from "../physics/signal-recycling";
+import { maybeNum, num, type ComponentKind, type MechanicalBody, type ResolvedComponent, type SignalReference } from "./types";
 
 /**
- * Tuned Michelson interferometer with a Fabry–Perot cavity in each arm and no signal
- * recycling, seen from its dark port, in the two-photon picture.
+ * Michelson interferometer with a Fabry–Perot cavity in each arm and an optional
+ * signal-recycling mirror, seen from its dark port, in the two-photon picture.
  *
  * Only the antisymmetric (differential) degrees of freedom talk to the dark port, so the
  * component is built from two modes of the engine:
@@ -57,8 +58,25 @@ import { num, type ComponentKind, type MechanicalBody, type ResolvedComponent, t
  * γ_in = γ − γ_0; the unsqueezed phase readout is then S_h = (h_SQL²/2)(K + 1/(ηK)),
  * η = 1 − εc/(4Lγ) (the same as a detector of efficiency η after a lossless interferometer).
  *
+ * Signal recycling (optional): a mirror of power transmission T_s at the dark port, with the
+ * one-way detuning phase φ of the short cavity it forms with the arms' input mirrors
+ * (src/physics/signal-recycling.ts; the convention of Buonanno & Chen, Phys. Rev. D 64,
+ * 042006 (2001): φ = 0 tuned signal recycling, φ = 90° tuned resonant sideband extraction).
+ * The mirror closes a loop around the arm mode, so the light entering the arms is
+ * e = α a + β d and the dark-port output b = ρ' a + λ d. A detuned mirror (sin 2φ ≠ 0)
+ * turns the arm mode's response to ΔL into a force on ΔL: the optical spring. For free test
+ * masses one of its resonances always grows (restoring for 0 < φ < 90°, anti-damped by the
+ * light's delay; anti-restoring for 90° < φ < 180°), so such a set-up needs a servo on the
+ * arm length: `lengthControl: "servo"` declares one. A servo that reads the readout acts on
+ * signal and noise alike, so the noise referred to strain is the one computed here; the
+ * engine then accepts the growing modes and names them in the stability summary. Without a
+ * mirror (srmTransmission absent) the component is exactly the one above. The same loop can be
+ * given by the arm mode it leaves: signalBandwidth ε and signalDetuning λ, with
+ * ρe^{2iφ} = (1 − w)/(1 + w), w = (ε − γ_0 − iλ)/γ_in (see signalRecyclingLoopFromPole).
+ *
  * Validity: single-mode arms (frequencies and γ well below the free spectral range c/2L),
- * T = 4Lγ/c < 1, and radiation-pressure physics linearized around a locked, tuned carrier.
+ * T = 4Lγ/c < 1, a signal-recycling cavity short against c/Ω, and radiation-pressure physics
+ * linearized around a locked carrier.
  */
 interface InterferometerHandle {
   readonly optical: ModeInfo;
@@ -74,11 +92,13 @@ interface InterferometerHandle {
   readonly coupling: number;
   /** dd2/dt per unit strain: G ā L. */
   readonly signalGain: number;
+  /** The signal-recycling loop, when there is a mirror. */
+  readonly recycling?: SignalRecyclingLoop;
 }
 
 export const interferometer: ComponentKind<InterferometerHandle> = {
   type: "interferometer",
-  summary: "Tuned Michelson with arm cavities (no signal recycling), dark-port light in and out, strain signal.",
+  summary: "Michelson with arm cavities and optional (detuned) signal recycling, dark-port light in and out, strain signal.",
   params: [
     { name: "mass", kind: "mass", doc: 'Mass m of each of the four test masses, e.g. "40 kg".', min: 0, minExclusive: true },
     { name: "armLength", kind: "length", doc: 'Arm length L, e.g. "4 km".', min: 0, minExclusive: true },
@@ -106,6 +126,42 @@ export const interferometer: ComponentKind<InterferometerHandle> = {
       max: 1,
       maxExclusive: true,
     },
+    {
+      name: "srmTransmission",
+      kind: "fraction",
+      doc: "Power transmission T_s of a signal-recycling mirror at the dark port (e.g. 0.2); absent: no mirror. 1 is a mirror that reflects nothing.",
+      optional: true,
+      min: 0,
+      minExclusive: true,
+      max: 1,
+    },
+    {
+      name: "srDetuning",
+      kind: "angle",
+      doc: 'One-way detuning phase φ of the signal-recycling cavity (needs srmTransmission; default 0): 0 = tuned signal recycling, 90 deg = tuned resonant sideband extraction, between them an optical spring, e.g. "80 deg".',
+      optional: true,
+    },
+    {
+      name: "signalBandwidth",
+      kind: "frequency",
+      doc: 'Instead of srmTransmission and srDetuning: the half-width ε/2π of the signal-recycled arm mode, e.g. "400 Hz"; must exceed the arm-loss part εc/(8πL).',
+      optional: true,
+      min: 0,
+      minExclusive: true,
+    },
+    {
+      name: "signalDetuning",
+      kind: "frequency",
+      doc: 'With signalBandwidth: the detuning λ/2π of the signal-recycled arm mode (sign as a cavity\'s detuning), e.g. "-100 Hz"; 0 is tuned.',
+      optional: true,
+    },
+    {
+      name: "lengthControl",
+      kind: "choice",
+      doc: '"servo": a control loop reading the dark port holds the arm length, so growing optical-spring modes are accepted (it changes signal and noise alike, not the noise referred to strain); "none": growing modes are an error.',
+      choices: ["none", "servo"],
+      default: "none",
+    },
   ],
   ports: [
     { name: "in", kind: "optical-in", doc: "Light entering the dark port (vacuum, squeezed light, one arm of an entangled source)." },
@@ -132,6 +188,40 @@ export const interferometer: ComponentKind<InterferometerHandle> = {
         allowed: `0 ≤ opticalLoss < 4Lγ/c = ${round(transmission)} for these arms`,
       });
     }
+    const mirror = c.given.has("srmTransmission") || c.given.has("srDetuning");
+    const pole = c.given.has("signalBandwidth") || c.given.has("signalDetuning");
+    if (mirror && pole) {
+      throw new QuietframeError({
+        path: `${c.path}.${c.given.has("signalBandwidth") ? "signalBandwidth" : "signalDetuning"}`,
+        problem: "signal recycling is described twice: by the mirror (srmTransmission, srDetuning) and by the arm mode (signalBandwidth, signalDetuning)",
+        allowed: "one description: srmTransmission with srDetuning, or signalBandwidth with signalDetuning",
+      });
+    }
+    if (c.given.has("signalDetuning") && !c.given.has("signalBandwidth")) {
+      throw new QuietframeError({
+        path: `${c.path}.signalDetuning`,
+        value: c.raw.signalDetuning,
+        problem: "a signal detuning needs the signal bandwidth beside it",
+        allowed: 'signalBandwidth (e.g. "400 Hz") beside signalDetuning',
+      });
+    }
+    if (c.given.has("signalBandwidth") && !(2 * Math.PI * num(c, "signalBandwidth") > (eps * SPEED_OF_LIGHT) / (4 * L))) {
+      const floor = (eps * SPEED_OF_LIGHT) / (8 * Math.PI * L);
+      throw new QuietframeError({
+        path: `${c.path}.signalBandwidth`,
+        value: c.raw.signalBandwidth,
+        problem: `is not above the arms' own loss width εc/(8πL) = ${round(floor)} Hz: no signal-recycling mirror narrows the arms that far`,
+        allowed: `signalBandwidth > ${round(floor)} Hz for this arm loss`,
+      });
+    }
+    if (c.given.has("srDetuning") && !c.given.has("srmTransmission")) {
+      throw new QuietframeError({
+        path: `${c.path}.srDetuning`,
+        value: c.raw.srDetuning,
+        problem: "a signal-recycling detuning needs a signal-recycling mirror",
+        allowed: "srmTransmission (e.g. 0.2) beside srDetuning, or no srDetuning",
+      });
+    }
   },
   allocate: (builder, c) => {
     const mass = num(c, "mass");
@@ -145,6 +235,7 @@ export const interferometer: ComponentKind<InterferometerHandle> = {
     const body = differentialBody(builder, c, mass / 4, gamma);
     const lossColumn = builder.addInputs(c.name, ["arm loss (amplitude)", "arm loss (phase)"], [1, 0, 0, 1], "loss", `${c.name}: arm loss`);
     const G = omega0 / L;
+    const gammaIn = gamma - gammaLoss;
     return {
       optical,
       body,
@@ -152,10 +243,11 @@ export const interferometer: ComponentKind<InterferometerHandle> = {
       mass,
       armLength: L,
       gamma,
-      gammaIn: gamma - gammaLoss,
+      gammaIn,
       gammaLoss,
       coupling: G * abar * body.xScale,
       signalGain: G * abar * L,
+      ...optionalLoop(c, gammaIn, gammaLoss),
     };
   },
   wire: ({ builder, handle: h, inputs }) => {
@@ -165,8 +257,12 @@ export const interferometer: ComponentKind<InterferometerHandle> = {
     builder.couple(d1, d1, -h.gamma);
     builder.couple(d2, d2, -h.gamma);
     const field: Field = inputs.in;
-    builder.drive(d1, field.amplitude, kIn);
-    builder.drive(d2, field.phase, kIn);
+    const arm: Field = { amplitude: builder.state(d1), phase: builder.state(d2) };
+    // Light entering the arms: the dark-port input, or with a signal-recycling mirror its
+    // transmitted part plus the recycled arm output.
+    const entering = h.recycling ? addFields(times(h.recycling.arrivingInput, field), times(h.recycling.recycled, arm)) : field;
+    builder.drive(d1, entering.amplitude, kIn);
+    builder.drive(d2, entering.phase, kIn);
     builder.drive(d1, builder.input(h.lossColumn), kLoss);
     builder.drive(d2, builder.input(h.lossColumn + 1), kLoss);
 
@@ -174,12 +270,29 @@ export const interferometer: ComponentKind<InterferometerHandle> = {
     pushOnBody(builder, h.body, builder.state(d1), h.coupling);
     builder.couple(d2, h.body.mode.x, h.coupling);
 
-    const out: Field = {
-      amplitude: combine(1, field.amplitude, -kIn, builder.state(d1)),
-      phase: combine(1, field.phase, -kIn, builder.state(d2)),
-    };
+    const out: Field = h.recycling
+      ? addFields(times(h.recycling.reflected, field), times(h.recycling.leaving, arm))
+      : {
+          amplitude: combine(1, field.amplitude, -kIn, builder.state(d1)),
+          phase: combine(1, field.phase, -kIn, builder.state(d2)),
+        };
     return { out };
   },
+  instabilityHint: (c) => {
+    const gamma = 2 * Math.PI * num(c, "armBandwidth");
+    const gammaLoss = (num(c, "opticalLoss") * SPEED_OF_LIGHT) / (4 * num(c, "armLength"));
+    const loop = optionalLoop(c, gamma - gammaLoss, gammaLoss).recycling;
+    const restoring = loop && springIsRestoring(loop);
+    if (restoring === undefined) return undefined;
+    const how = c.given.has("signalDetuning") ? `signal detuning ${round(num(c, "signalDetuning"))} Hz` : `φ = ${round(((maybeNum(c, "srDetuning") ?? 0) * 180) / Math.PI)}°`;
+    const detuned = `interferometer '${c.name}' has detuned signal recycling (${how})`;
+    const servo =
+      c.values.lengthControl === "servo" ? "" : '; a servo on the arm length holds it in practice: declare one with lengthControl: "servo" (the noise referred to strain does not depend on it)';
+    return restoring
+      ? `${detuned}: its optical spring is restoring and the light's delayed response anti-damps it, so the spring resonance grows${servo}`
+      : `${detuned}: its optical spring is anti-restoring (negative rigidity) and pulls the test masses statically away${servo}`;
+  },
+  heldByControl: (c) => c.values.lengthControl === "servo",
   signals: ["strain"],
   applySignal: (builder, h) => builder.driveBySignal(h.optical.p, h.signalGain),
   signalReference: (h) => strainSignalReference(h.mass, h.armLength),
@@ -224,6 +337,24 @@ export function strainSignalReference(mass: number, armLength: number): SignalRe
     ],
     curves: [{ id: "sql", label: "SQL (strain, 8ħ/(mΩ²L²))", psd: (omega) => strainSql(mass, armLength, omega) }],
   };
+}
+
+/** The signal-recycling loop from whichever description the component has, if any. */
+function optionalLoop(c: ResolvedComponent, gammaIn: number, gammaLoss: number): { recycling?: SignalRecyclingLoop } {
+  const srm = maybeNum(c, "srmTransmission");
+  if (srm !== undefined) return { recycling: signalRecyclingLoop(srm, maybeNum(c, "srDetuning") ?? 0, Math.sqrt(2 * gammaIn)) };
+  const bandwidth = maybeNum(c, "signalBandwidth");
+  if (bandwidth === undefined) return {};
+  return { recycling: signalRecyclingLoopFromPole(2 * Math.PI * bandwidth, 2 * Math.PI * (maybeNum(c, "signalDetuning") ?? 0), gammaIn, gammaLoss) };
+}
+
+/** A complex factor acting on both quadratures of a field: (q1 + i q2) → z (q1 + i q2). */
+function times(z: QuadratureFactor, f: Field): Field {
+  return { amplitude: combine(z[0], f.amplitude, -z[1], f.phase), phase: combine(z[1], f.amplitude, z[0], f.phase) };
+}
+
+function addFields(f: Field, g: Field): Field {
+  return combineFields(1, f, 1, g);
 }
 
 /** Four significant digits for messages. */

@@ -101,6 +101,13 @@ export interface ComponentKind<H = unknown> {
   /** A sentence on how this component can make a set-up unstable, used in stability messages. */
   readonly instabilityHint?: (c: ResolvedComponent) => string | undefined;
   /**
+   * True when the user declared a control loop that holds this component's growing modes (an
+   * interferometer's arm-length servo). A loop that reads the readout acts on signal and noise
+   * alike, so spectra referred to the signal stay as computed; growing modes that live only in
+   * such components are reported, not refused.
+   */
+  readonly heldByControl?: (c: ResolvedComponent) => boolean;
+  /**
    * Safety cautions (laser power, cryogenics, magnetic fields), repeated in summaries; one
    * sentence each (see src/safety/cautions.ts). `bodies` are the linked bodies, as in wire,
    * for hazards implied through a body (a measurement rate needs its mass and frequency).

@@ -146,6 +146,15 @@ function lazyReference(curve: ReferenceCurve, omegas: Float64Array, factors: Flo
   };
 }
 
+/** Several detectors whose noise matrix cannot be inverted: two of them see exactly the same noise. */
+export function singularCombinationError(): QuietframeError {
+  return new QuietframeError({
+    path: "readout",
+    problem: "the combined outputs have a singular noise matrix (two detectors see exactly the same noise)",
+    allowed: "detectors with independent noise (each homodyne efficiency below 1, or different light)",
+  });
+}
+
 /**
  * The non-zero entries N_ij of every group, listed once in the order the sums visit them
  * (group by group; within a group, i then j over its columns), with where each group starts.
@@ -266,13 +275,7 @@ class OptimalCombination implements SignalReferral {
     try {
       complexLuFactor(sRe, sIm, p, this.piv);
     } catch (e) {
-      if (e instanceof SingularMatrixError) {
-        throw new QuietframeError({
-          path: "readout",
-          problem: "the combined outputs have a singular noise matrix (two detectors see exactly the same noise)",
-          allowed: "detectors with independent noise (each homodyne efficiency below 1, or different light)",
-        });
-      }
+      if (e instanceof SingularMatrixError) throw singularCombinationError();
       throw e;
     }
     complexLuSolve(sRe, sIm, p, this.piv, wRe, wIm, 1);

@@ -21,11 +21,11 @@
  * side by side. Noise that reaches the readout only one way (a thermal bath, detection vacuum)
  * is one mechanism and is not listed: the budget shows it whole.
  */
-import { QuietframeError } from "../errors";
 import { complexLuFactor, complexLuSolve } from "../linalg/complex-lu";
 import { SingularMatrixError } from "../linalg/singular-error";
 import type { NoiseCategory, NoiseGroup, StateSpaceModel } from "../network/model";
 import type { AssembledSetup } from "../setup/assemble";
+import { singularCombinationError } from "./budget";
 import { TransferEvaluator } from "./transfer";
 
 /** One light source's budget terms split by mechanism; each part is a one-sided PSD in (unit)²/Hz. */
@@ -398,13 +398,7 @@ class ReadoutWeights {
     try {
       complexLuFactor(sRe, sIm, p, this.piv);
     } catch (e) {
-      if (e instanceof SingularMatrixError) {
-        throw new QuietframeError({
-          path: "readout",
-          problem: "the combined outputs have a singular noise matrix (two detectors see exactly the same noise)",
-          allowed: "detectors with independent noise (each homodyne efficiency below 1, or different light)",
-        });
-      }
+      if (e instanceof SingularMatrixError) throw singularCombinationError();
       throw e;
     }
     complexLuSolve(sRe, sIm, p, this.piv, wRe, wIm, 1);

@@ -24,6 +24,12 @@ export interface StabilityReport {
   readonly stable: boolean;
   /** Modes that grow: spectra of such a set-up mean nothing. */
   readonly growing: readonly Eigenmode[];
+  /**
+   * Modes that grow but live only in components whose declared control loop holds them (an
+   * interferometer's arm-length servo): spectra referred to the signal are defined, a
+   * stationary covariance without the loop is not.
+   */
+  readonly held: readonly Eigenmode[];
   /** Modes that neither grow nor decay (a free mass): spectra at f > 0 exist, a stationary covariance does not. */
   readonly undamped: readonly Eigenmode[];
   /** Plain-language summary. */
@@ -41,23 +47,53 @@ export function analyzeStability(assembled: AssembledSetup): StabilityReport {
   let scale = 0;
   for (let i = 0; i < n; i++) scale = Math.max(scale, hypot(re[i], im[i]));
   const growing: Eigenmode[] = [];
+  const held: Eigenmode[] = [];
   const undamped: Eigenmode[] = [];
+  const controlled = heldComponents(assembled);
   for (let i = 0; i < n; i++) {
     if (im[i] < 0) continue; // report each complex pair once
     const resolution = RELATIVE_RESOLUTION * hypot(re[i], im[i]) + 1e-14 * scale;
-    if (re[i] > resolution) growing.push(describeMode(assembled, re[i], im[i]));
-    else if (re[i] >= -resolution) undamped.push(describeMode(assembled, re[i], im[i]));
+    if (re[i] > resolution) {
+      const mode = describeMode(assembled, re[i], im[i]);
+      (controlled.size > 0 && mainOwners(mode).every((o) => controlled.has(o)) ? held : growing).push(mode);
+    } else if (re[i] >= -resolution) undamped.push(describeMode(assembled, re[i], im[i]));
   }
-  if (growing.length === 0 && undamped.length > 0 && everyModeDissipates(assembled)) {
+  if (growing.length === 0 && held.length === 0 && undamped.length > 0 && everyModeDissipates(assembled)) {
     // A high-Q mode (Q ≳ 1e9) or a slow one beside a fast cavity decays more slowly than the
     // eigenvalues resolve. When every mode has damping of its own, no exactly undamped normal
     // mode can form, so such a mode is weakly damped, not undamped: the stationary state exists.
     const slowest = undamped.reduce((a, b) => (b.frequency < a.frequency ? b : a));
     const summary = `stable: every mode decays (each has damping of its own; the slowest decay, near ${slowest.frequency.toPrecision(4)} Hz, ` + `is below what the eigenvalues resolve)`;
-    return { stable: true, growing, undamped: [], summary };
+    return { stable: true, growing, held, undamped: [], summary };
   }
-  const stable = growing.length === 0 && undamped.length === 0;
-  return { stable, growing, undamped, summary: summarize(assembled, growing, undamped) };
+  const stable = growing.length === 0 && undamped.length === 0 && held.length === 0;
+  let summary = summarize(assembled, growing, undamped);
+  if (held.length > 0) summary = growing.length === 0 && undamped.length === 0 ? heldSummary(assembled, held) : `${summary}; ${heldSummary(assembled, held)}`;
+  return { stable, growing, held, undamped, summary };
+}
+
+/** Names of the components whose declared control loop holds their growing modes. */
+function heldComponents(assembled: AssembledSetup): Set<string> {
+  const { components, kinds } = assembled.setup;
+  return new Set(components.filter((c) => kinds.get(c.name)!.heldByControl?.(c) === true).map((c) => c.name));
+}
+
+function heldSummary(assembled: AssembledSetup, held: readonly Eigenmode[]): string {
+  const modes = held.map(
+    (m) =>
+      `${describeGrowth(m)} in ${mainOwners(m)
+        .map((o) => `'${o}'`)
+        .join(", ")}`,
+  );
+  return (
+    `controlled: growing modes held by the declared control loop: ${modes.join("; ")} (spectra referred to the signal do not depend on the loop; ` +
+    `a stationary state needs it)${likelyCause(assembled, held)}`
+  );
+}
+
+function describeGrowth(m: Eigenmode): string {
+  const kind = m.frequency > 0 ? `a mode at ${m.frequency.toPrecision(4)} Hz` : "a non-oscillating mode";
+  return `${kind} grows at ${m.rate.toPrecision(3)} /s (e-folding time ${(1 / m.rate).toPrecision(3)} s)`;
 }
 
 /**
@@ -123,16 +159,19 @@ function summarize(assembled: AssembledSetup, growing: Eigenmode[], undamped: Ei
       .sort((a, b) => b[1] - a[1])
       .map(([o, w]) => `'${o}' ${(100 * w).toFixed(0)}%`)
       .join(", ");
-    const kind = m.frequency > 0 ? `a mode at ${m.frequency.toPrecision(4)} Hz` : "a non-oscillating mode";
-    return `${kind} grows at ${m.rate.toPrecision(3)} /s (e-folding time ${(1 / m.rate).toPrecision(3)} s), living in ${where}`;
+    return `${describeGrowth(m)}, living in ${where}`;
   });
-  const involved = new Set(growing.flatMap((m) => mainOwners(m)));
+  return `unstable: ${parts.join("; ")}${likelyCause(assembled, growing)}`;
+}
+
+/** "; likely cause: …" from the instability hints of the components the modes live in (or probe). */
+function likelyCause(assembled: AssembledSetup, modes: readonly Eigenmode[]): string {
+  const involved = new Set(modes.flatMap((m) => mainOwners(m)));
   const hints = assembled.setup.components
     .filter((c) => involved.has(c.name) || assembled.setup.mechanical.some((l) => l.probe.component === c.name && involved.has(l.body)))
     .map((c) => assembled.setup.kinds.get(c.name)!.instabilityHint?.(c))
     .filter((h): h is string => h !== undefined);
-  const why = hints.length ? `; likely cause: ${hints.join("; ")}` : "";
-  return `unstable: ${parts.join("; ")}${why}`;
+  return hints.length ? `; likely cause: ${hints.join("; ")}` : "";
 }
 
 function mainOwners(m: Eigenmode): string[] {

@@ -1,4 +1,4 @@
-import { GRAVITATIONAL_CONSTANT, SOLAR_MASS, SPEED_OF_LIGHT } from "../constants";
+import { SOLAR_MASS_PARAMETER, SPEED_OF_LIGHT } from "../constants";
 import type { NoiseBudget } from "../engine/budget";
 import { QuietframeError } from "../errors";
 import { exp, expm1, log, pow } from "../numeric/portable-math";
@@ -66,16 +66,16 @@ export function chirpMass(m1: number, m2: number): number {
   return pow(m1 * m2, 3 / 5) / pow(m1 + m2, 1 / 5);
 }
 
-/** Gravitational-wave frequency at the innermost stable circular orbit, c³/(6^(3/2) π G M) in Hz; M in solar masses. */
+/** Gravitational-wave frequency at the innermost stable circular orbit, c³/(6^(3/2) π G M) in Hz; M in solar masses, G M☉ the IAU nominal GM☉. */
 export function iscoFrequency(totalMass: number): number {
   const c = SPEED_OF_LIGHT;
-  return (c * c * c) / (6 * Math.sqrt(6) * Math.PI * GRAVITATIONAL_CONSTANT * totalMass * SOLAR_MASS);
+  return (c * c * c) / (6 * Math.sqrt(6) * Math.PI * totalMass * SOLAR_MASS_PARAMETER);
 }
 
-/** A in |h(f)| = A f^(−7/6)/D: √(5/24) π^(−2/3) c (G Mc/c³)^(5/6), in m·s^(−1/6); Mc in solar masses. */
+/** A in |h(f)| = A f^(−7/6)/D: √(5/24) π^(−2/3) c (G Mc/c³)^(5/6), in m·s^(−1/6); Mc in solar masses, G M☉ the IAU nominal GM☉. */
 export function inspiralAmplitude(chirpMassSolar: number): number {
   const c = SPEED_OF_LIGHT;
-  const timeScale = (GRAVITATIONAL_CONSTANT * chirpMassSolar * SOLAR_MASS) / (c * c * c);
+  const timeScale = (chirpMassSolar * SOLAR_MASS_PARAMETER) / (c * c * c);
   return Math.sqrt(5 / 24) * pow(Math.PI, -2 / 3) * c * pow(timeScale, 5 / 6);
 }
 

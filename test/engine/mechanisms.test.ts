@@ -182,6 +182,14 @@ describe("budget by mechanism: tuned interferometer (Kimble et al. 2001)", () =>
     expectAddsUp(budget, t);
   });
 
+  it("detuned signal recycling held by a servo: the parts still add up to the budget (the optical spring mixes the paths)", () => {
+    const description = ifo({ name: "light", type: "squeezed", params: { r: 1, angle: "60 deg" } }, "80 deg", { srmTransmission: "0.2", srDetuning: "70 deg", lengthControl: "servo" });
+    const { budget, split } = run(description);
+    const t = only(split, "light");
+    expect(t.correlation.some((c) => c < 0)).toBe(true);
+    expectAddsUp(budget, t);
+  });
+
   it("arm loss is light too: its vacuum enters both paths and is split on its own", () => {
     const { budget, split } = run(ifo({ name: "light", type: "vacuum" }, "90 deg", { opticalLoss: "1e-3" }));
     const loss = only(split, "ifo");

@@ -19,6 +19,20 @@ import { EXAMPLE_FILES, errorDefect, exampleObject, problemsOf } from "./support
 
 /** Small invented set-ups for the component kinds the examples do not use. */
 const SMALL_SETUPS: Record<string, SetupDescription> = {
+  "squeezed light through a filter cavity into an interferometer": setup(
+    [
+      { name: "light", type: "squeezed", params: { squeezing: "-10 dB", angle: "90 deg" } },
+      { name: "filter", type: "filter-cavity", params: { length: "300 m", detuning: "-40 Hz", inputTransmission: 60e-6, roundTripLoss: 1e-6 } },
+      { name: "ifo", type: "interferometer", params: { mass: "40 kg", armLength: "4 km", armBandwidth: "100 Hz", power: "800 kW" } },
+      { name: "detector", type: "homodyne", params: { angle: "90 deg", efficiency: "95 %" } },
+    ],
+    [
+      ["light.out", "filter.in"],
+      ["filter.out", "ifo.in"],
+      ["ifo.out", "detector.in"],
+    ],
+    { signal: { kind: "strain", on: "ifo" }, grid: { from: "5 Hz", to: "5 kHz", points: 9 } },
+  ),
   "entangled light on a probed oscillator": setup(
     [
       { name: "epr", type: "entangled-source", params: { squeezing: "-10 dB", efficiency1: "95 %", efficiency2: "95 %", bandwidth: "5 MHz" } },
