@@ -12,11 +12,23 @@ export interface LoadOptions {
   widget?: number;
 }
 
+/** A field of a saved state that the fingerprint does not cover, and why it cannot change the numbers. */
+export interface UncheckedField {
+  /** Path of the field in the input, e.g. "state.setup.components[1].params.temperature". */
+  readonly path: string;
+  readonly reason: string;
+}
+
 /** A saved state, strictly read and (for kinds that compute) recomputed. */
 export interface LoadedWidget<S = unknown> {
   readonly state: S;
-  /** For states that record the fingerprint of their numbers: the stored one, this quietframe's, and who wrote the state. */
-  readonly fingerprint?: { readonly stored: string; readonly recomputed: string; readonly writtenBy: string };
+  /**
+   * For kinds that recompute their numbers: the stored fingerprint (null when the state records
+   * none, e.g. one written before its kind had one), this quietframe's, and who wrote the state.
+   */
+  readonly fingerprint?: { readonly stored: string | null; readonly recomputed: string; readonly writtenBy: string };
+  /** Fields the fingerprint does not cover because they cannot change the numbers; `render --strict` lists them. */
+  readonly unchecked?: readonly UncheckedField[];
   /** Warnings of the recomputation (not errors: the widget shows them with its figure). */
   readonly warnings: readonly string[];
   /** Safety cautions of the set-up at the state's values. */

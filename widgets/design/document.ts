@@ -2,7 +2,7 @@
 import { QuietframeError, QUIETFRAME_VERSION, type FigureSpec, type SetupDescription } from "../../src/index";
 import { holdsSingleModelState, locateSingleModelState, type SingleModelKind } from "../core/state/single-model-read";
 import type { JupyterWidgetStateDocument } from "../core/state/widget-state";
-import { copyJson, expectRecord, FINGERPRINT_PATTERN, modelIdOf, rebasedErrors, rejectUnknownKeys, singleModelDocument, VERSION_PATTERN } from "../core/state/strict-read";
+import { copyJson, expectFingerprint, expectRecord, modelIdOf, rebasedErrors, rejectUnknownKeys, singleModelDocument, VERSION_PATTERN } from "../core/state/strict-read";
 import { computeAnswer } from "./answer";
 import { checkAnswer } from "./answer-read";
 import { answerFingerprint } from "./fingerprint";
@@ -116,8 +116,7 @@ export function checkDesignState(input: unknown, path: string): DesignState {
   const question = checkQuestion(o.question, `${path}.question`);
   if (o.title !== undefined && (typeof o.title !== "string" || o.title.length > 200))
     throw new QuietframeError({ path: `${path}.title`, value: o.title, problem: "must be text of at most 200 characters", allowed: "plain text" });
-  if (typeof o.fingerprint !== "string" || !FINGERPRINT_PATTERN.test(o.fingerprint))
-    throw new QuietframeError({ path: `${path}.fingerprint`, value: o.fingerprint, problem: "is not an answer fingerprint", allowed: '"sha256:" followed by 64 lowercase hex digits' });
+  const fingerprint = expectFingerprint(o.fingerprint, `${path}.fingerprint`, "answer's numbers");
   return withDefined({
     format: DESIGN_STATE_FORMAT,
     version,
@@ -128,6 +127,6 @@ export function checkDesignState(input: unknown, path: string): DesignState {
     question,
     title: o.title as string | undefined,
     answer: checkAnswer(o.answer, `${path}.answer`, question.kind),
-    fingerprint: o.fingerprint,
+    fingerprint,
   });
 }

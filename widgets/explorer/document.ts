@@ -3,7 +3,7 @@ import { QuietframeError, loadSetup, QUIETFRAME_VERSION, type SetupDescription }
 import { computeExplorer, type ExplorerComputation } from "./model";
 import { EXPLORER_MODEL_NAME, EXPLORER_STATE_FORMAT, EXPLORER_STATE_VERSION, type ExplorerSettings, type ExplorerState } from "./format";
 import { WIDGET_MODULE, type JupyterWidgetStateDocument } from "../core/state/widget-state";
-import { copyJson, expectArray, expectRecord, FINGERPRINT_PATTERN, isRecord, modelIdOf, rebasedErrors, rejectUnknownKeys, singleModelDocument, VERSION_PATTERN } from "../core/state/strict-read";
+import { copyJson, expectArray, expectFingerprint, expectRecord, isRecord, modelIdOf, rebasedErrors, rejectUnknownKeys, singleModelDocument, VERSION_PATTERN } from "../core/state/strict-read";
 import { parseStateText } from "../core/state/state-text";
 import { checkControlSpec, checkControlValues, expectString, expectWord } from "../core/state/control-read";
 
@@ -138,10 +138,7 @@ function checkState(input: unknown, path: string): ExplorerState {
   const controls = expectArray(obj.controls, `${path}.controls`, "an array of controls (may be empty)").map((c, i) => checkControlSpec(c, `${path}.controls[${i}]`));
   const values = checkControlValues(obj.values, `${path}.values`);
   const settings = checkSettings(obj.settings, `${path}.settings`);
-  const fingerprint = obj.fingerprint;
-  if (typeof fingerprint !== "string" || !FINGERPRINT_PATTERN.test(fingerprint)) {
-    throw new QuietframeError({ path: `${path}.fingerprint`, value: fingerprint, problem: "is not a curve fingerprint", allowed: '"sha256:" followed by 64 lowercase hex digits' });
-  }
+  const fingerprint = expectFingerprint(obj.fingerprint, `${path}.fingerprint`, "curves");
   return { format: EXPLORER_STATE_FORMAT, version, quietframe, setup, controls, values, settings, fingerprint };
 }
 

@@ -2,7 +2,7 @@
 import { QuietframeError, QUIETFRAME_VERSION, type SetupDescription } from "../../src/index";
 import { holdsSingleModelState, locateSingleModelState, type SingleModelKind } from "../core/state/single-model-read";
 import type { JupyterWidgetStateDocument } from "../core/state/widget-state";
-import { copyJson, expectArray, expectRecord, FINGERPRINT_PATTERN, modelIdOf, rebasedErrors, rejectUnknownKeys, singleModelDocument, VERSION_PATTERN } from "../core/state/strict-read";
+import { copyJson, expectArray, expectFingerprint, expectRecord, modelIdOf, rebasedErrors, rejectUnknownKeys, singleModelDocument, VERSION_PATTERN } from "../core/state/strict-read";
 import { checkControlSpec, checkControlValues, expectQuantity } from "../core/state/control-read";
 import { TRAJECTORY_MODEL_NAME, TRAJECTORY_STATE_FORMAT, TRAJECTORY_STATE_VERSION, type SimulationSpec, type TrajectoryState } from "./format";
 import { checkJoint, checkPair } from "./joint";
@@ -100,8 +100,7 @@ export function checkTrajectoryState(input: unknown, path: string): TrajectorySt
   const pair = checkPair(o.pair, `${path}.pair`);
   if (o.title !== undefined && (typeof o.title !== "string" || o.title.length > 200))
     throw new QuietframeError({ path: `${path}.title`, value: o.title, problem: "must be text of at most 200 characters", allowed: "plain text" });
-  if (typeof o.fingerprint !== "string" || !FINGERPRINT_PATTERN.test(o.fingerprint))
-    throw new QuietframeError({ path: `${path}.fingerprint`, value: o.fingerprint, problem: "is not a curve fingerprint", allowed: '"sha256:" followed by 64 lowercase hex digits' });
+  const fingerprint = expectFingerprint(o.fingerprint, `${path}.fingerprint`, "curves");
   return {
     format: TRAJECTORY_STATE_FORMAT,
     version,
@@ -113,7 +112,7 @@ export function checkTrajectoryState(input: unknown, path: string): TrajectorySt
     joint,
     pair,
     ...(o.title === undefined ? {} : { title: o.title as string }),
-    fingerprint: o.fingerprint,
+    fingerprint,
   };
 }
 
