@@ -71,6 +71,24 @@ describe("render --strict for every kind that recomputes its numbers", { timeout
     expect(r.out).toBe("");
   });
 
+  it("fields that cannot change the numbers: tampering them passes --strict, which names each with its reason", async () => {
+    const doc = readDoc("explorer-squeezed-membrane.json");
+    const state = modelState(doc) as { setup: { components: { name: string; params: Record<string, unknown> }[]; grid: { points: number } }; values: Record<string, unknown> };
+    expect(Object.keys(state.values)).toContain("membrane.temperature");
+    const membrane = state.setup.components.findIndex((c) => c.name === "membrane");
+    state.setup.components[membrane].params.temperature = "300 K";
+    state.setup.grid.points = 17;
+    const r = await render(writeState("overridden.json", doc), "-o", join(dir, "overridden.csv"), "--strict");
+    expect(r.code).toBe(0);
+    expect(r.err).toContain(
+      `--strict does not check overridden.json.state.${Object.keys(doc.state)[0]}.state.setup.components[${membrane}].params.temperature: the control value values["membrane.temperature"] replaces it`,
+    );
+    expect(r.err).toMatch(/--strict does not check \S+\.setup\.grid: the curves are computed on \S+\.settings\.grid/);
+    expect(r.err).toMatch(/--strict does not check \S+\.settings\.spectralDensity: /);
+    // Without --strict nothing is listed: the notes answer the question --strict asks.
+    expect((await render(writeState("overridden-plain.json", doc), "-o", join(dir, "overridden-plain.csv"))).err).not.toContain("does not check");
+  });
+
   it("a state written by another quietframe version: a warning naming both versions; --strict accepts it when the numbers agree", async () => {
     const doc = readDoc("entangled-two-beams.json");
     modelState(doc).quietframe = "0.0.9";
@@ -100,6 +118,6 @@ describe("render --strict for every kind that recomputes its numbers", { timeout
     delete modelState(doc).fingerprint;
     const r = await render(writeState("no-fingerprint.json", doc), "-o", join(dir, "nf.csv"));
     expect(r.code).toBe(1);
-    expect(r.err).toMatch(/fingerprint: is missing: the state records no fingerprint of its curves/);
+    expect(r.err).toMatch(/fingerprint: is missing: the state records no curve fingerprint/);
   });
 });

@@ -6,17 +6,13 @@
  * figure: render/kind-output.ts) and its view touches the DOM only once booted.
  */
 import type { FragmentParts, PageParts } from "./page/parts";
+import type { UncheckedField } from "./state/reproduction";
+
+export type { UncheckedField };
 
 /** Which of several widgets a document holds, where a kind's reader can choose (1-based). */
 export interface LoadOptions {
   widget?: number;
-}
-
-/** A field of a saved state that the fingerprint does not cover, and why it cannot change the numbers. */
-export interface UncheckedField {
-  /** Path of the field in the input, e.g. "state.setup.components[1].params.temperature". */
-  readonly path: string;
-  readonly reason: string;
 }
 
 /** A saved state, strictly read and (for kinds that compute) recomputed. */

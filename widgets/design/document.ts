@@ -116,7 +116,7 @@ export function checkDesignState(input: unknown, path: string): DesignState {
   const question = checkQuestion(o.question, `${path}.question`);
   if (o.title !== undefined && (typeof o.title !== "string" || o.title.length > 200))
     throw new QuietframeError({ path: `${path}.title`, value: o.title, problem: "must be text of at most 200 characters", allowed: "plain text" });
-  const fingerprint = expectFingerprint(o.fingerprint, `${path}.fingerprint`, "answer's numbers");
+  const fingerprint = expectFingerprint(o.fingerprint, `${path}.fingerprint`, "answer");
   return withDefined({
     format: DESIGN_STATE_FORMAT,
     version,

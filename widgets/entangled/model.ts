@@ -188,7 +188,7 @@ function checkStoredState(input: unknown, path: string): StoredEntangledState {
   // Version 1 states were written before the panel recorded a fingerprint.
   const known: readonly string[] = version === 1 ? STATE_KEYS : [...STATE_KEYS, "fingerprint"];
   for (const key of Object.keys(o)) if (!known.includes(key)) throw new QuietframeError({ path: `${path}.${key}`, problem: "is not a field of an entangled-panel state", allowed: known.join(", ") });
-  const fingerprint = o.fingerprint === undefined ? null : expectFingerprint(o.fingerprint, `${path}.fingerprint`, "numbers");
+  const fingerprint = o.fingerprint === undefined ? null : expectFingerprint(o.fingerprint, `${path}.fingerprint`, "panel");
   return {
     state: { format: ENTANGLED_STATE_FORMAT, version, quietframe: o.quietframe, squeeze: { unit: s.unit, value }, efficiency1, efficiency2, bandwidth, title: o.title },
     fingerprint,

@@ -2,7 +2,7 @@
 import type { LoadedWidget, WidgetKind } from "../core/kind";
 import { trajectoryView } from "./browser/view";
 import { trajectoryCsv } from "./csv";
-import { isTrajectoryInput, loadTrajectoryState } from "./document";
+import { isTrajectoryInput, loadTrajectoryState, trajectoryUncheckedFields } from "./document";
 import { trajectoryFigureSpec } from "./specs";
 import { TRAJECTORY_STATE_FORMAT, type TrajectoryState } from "./format";
 import { trajectoryFragment, trajectoryPageDocument } from "./fragment";
@@ -18,11 +18,12 @@ export const trajectoryKind: WidgetKind<LoadedTrajectory> = {
   recognises: isTrajectoryInput,
   load(input, source) {
     // The simulation runs again from the state (seed, step, duration, stored points, stop).
-    const { state, computation } = loadTrajectoryState(input, source);
+    const { state, computation, path } = loadTrajectoryState(input, source);
     return {
       state,
       computation,
       fingerprint: { stored: state.fingerprint, recomputed: computation.fingerprint, writtenBy: state.quietframe },
+      unchecked: trajectoryUncheckedFields(state, path),
       warnings: [],
       cautions: computation.cautions,
     };

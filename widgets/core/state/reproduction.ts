@@ -6,10 +6,17 @@
  */
 import { QuietframeError, QUIETFRAME_VERSION } from "../../../src/index";
 
+/** A field of a saved state that the fingerprint does not cover, and why it cannot change the numbers. */
+export interface UncheckedField {
+  /** Path of the field in the input, e.g. "state.setup.components[1].params.temperature". */
+  readonly path: string;
+  readonly reason: string;
+}
+
 /** The parts of a loaded state this check reads (see LoadedWidget in ../kind.ts). */
 export interface RecomputedState {
   readonly fingerprint?: { readonly stored: string | null; readonly recomputed: string; readonly writtenBy: string };
-  readonly unchecked?: readonly { readonly path: string; readonly reason: string }[];
+  readonly unchecked?: readonly UncheckedField[];
 }
 
 export interface ReproductionReport {
