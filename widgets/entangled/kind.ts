@@ -1,9 +1,8 @@
 /** The entangled-light panel as a widget kind (see core/kind.ts): the registry's entry for it. */
 import type { LoadedWidget, WidgetKind } from "../core/kind";
 import { entangledView } from "./browser/view";
-import { entangledCsv } from "./csv";
+import { entangledCsv, entangledFingerprint } from "./csv";
 import { isEntangledInput } from "./document";
-import { entangledFingerprint } from "./fingerprint";
 import { entangledFragment, entangledPageDocument } from "./fragment";
 import { computeEntangled, ENTANGLED_STATE_FORMAT, readEntangledState, type EntangledComputation, type EntangledState } from "./model";
 import { panelSpec } from "./specs";

@@ -20,7 +20,8 @@ import {
 import { parseUntrustedJson } from "../core/state/state-text";
 import { locateSingleModelState, type SingleModelKind } from "../core/state/single-model-read";
 import { expectFingerprint, VERSION_PATTERN } from "../core/state/strict-read";
-import { entangledFingerprint } from "./fingerprint";
+import { entangledFingerprint } from "./csv";
+import { ELLIPSE_SERIES, SPECTRUM_SERIES } from "./series-names";
 import { bandwidthLabel } from "./bandwidth";
 
 /**
@@ -237,8 +238,7 @@ export interface EntangledComputation {
   readonly ellipseExtent: number;
 }
 
-export const SPECTRUM_SERIES = { conditional: "Var(X1 | X2), arm 1 given arm 2", epr: "Var(X1 − X2)" } as const;
-export const ELLIPSE_SERIES = { vacuum: "vacuum", arm1: "arm 1 alone", arm2: "arm 2 alone", conditional: "arm 1 given X2 of arm 2" } as const;
+export { ELLIPSE_SERIES, SPECTRUM_SERIES };
 export const EPR_LABELS = { x: "Var(X1 − X2)", p: "Var(P1 + P2)", duan: "Duan sum" } as const;
 export const SPECTRUM_POINTS = 121;
 export const ELLIPSE_POINTS = 97;
