@@ -12,6 +12,8 @@ import { computeExplorer, createExplorerState } from "../../widgets/explorer/mod
 import { headlineSummary } from "../../widgets/explorer/summary";
 import { stateDocumentText } from "../../widgets/explorer/document";
 import type { ExplorerState } from "../../widgets/explorer/format";
+import { computeEntangled, loadEntangledState } from "../../widgets/entangled/model";
+import { parseTrajectoryState } from "../../widgets/trajectory/document";
 
 /**
  * A standalone page rendered by the CLI, opened from file:// in Debian's Chromium: the live
@@ -182,6 +184,22 @@ describe("standalone page in Chromium", () => {
     await page.locator(".qf-loader-load").click();
     expect(await page.locator(".qf-loader-alert").textContent()).toMatch(/^Not loaded: pasted state/);
     expect(await attribute("data-quietframe-fingerprint")).toBe(other.fingerprint);
+  });
+
+  it("opens a saved state of another kind in the loader: an entangled-light panel, then a trajectory run", { timeout: 120_000 }, async () => {
+    const panelText = readFileSync(join(ROOT, "examples", "states", "entangled-two-beams.json"), "utf8");
+    await page.locator(".qf-loader-text").fill(panelText);
+    await page.locator(".qf-loader-load").click();
+    await page.waitForSelector('.quietframe-entangled[data-quietframe-status="ready"]');
+    expect(await page.locator(".qf-loader-alert").isHidden()).toBe(true);
+    const panel = computeEntangled(loadEntangledState(panelText));
+    expect(await page.locator(".quietframe-entangled").getAttribute("data-duan-sum")).toBe(String(panel.duanSum));
+    const runText = readFileSync(join(ROOT, "examples", "states", "trajectory-cryogenic-membrane.json"), "utf8");
+    const stored = parseTrajectoryState(runText).fingerprint;
+    await page.locator(".qf-loader-text").fill(runText);
+    await page.locator(".qf-loader-load").click();
+    await page.waitForSelector(`.quietframe-trajectory[data-quietframe-fingerprint="${stored}"]`, { timeout: 110_000 });
+    expect(await page.locator(".quietframe-entangled").count()).toBe(0);
   });
 
   it("logged no console errors and asked for nothing outside the file", () => {

@@ -18,6 +18,8 @@ export const designKind: WidgetKind<LoadedWidget<DesignState>> = {
     return { state, fingerprint: { stored: state.fingerprint, recomputed: recomputedFingerprint, writtenBy: state.quietframe }, warnings: [], cautions: designCautions(state) };
   },
   figure: ({ state }) => ({ spec: designFigureSpec(state.answer), csv: designCsv(state.answer) }),
+  // The fragment carries the bare state; the view reads it (and documents) with the same reader.
+  stateText: ({ state }) => JSON.stringify(state),
   fragment: ({ state }, parts) => designFragment(state, parts),
   page: ({ state }, parts) => designPageDocument(state, parts),
   view: designView,

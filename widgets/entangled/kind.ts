@@ -2,7 +2,7 @@
 import type { LoadedWidget, WidgetKind } from "../core/kind";
 import { entangledView } from "./browser/view";
 import { entangledCsv, entangledFingerprint } from "./csv";
-import { isEntangledInput } from "./document";
+import { entangledDocumentText, isEntangledInput } from "./document";
 import { entangledFragment, entangledPageDocument } from "./fragment";
 import { computeEntangled, ENTANGLED_STATE_FORMAT, readEntangledState, type EntangledComputation, type EntangledState } from "./model";
 import { panelSpec } from "./specs";
@@ -29,6 +29,7 @@ export const entangledKind: WidgetKind<LoadedEntangled> = {
     };
   },
   figure: ({ state, computation }) => ({ spec: panelSpec(computation, state.title, state.bandwidth === null), csv: entangledCsv(computation) }),
+  stateText: ({ state, computation }) => entangledDocumentText(state, computation),
   fragment: ({ state, computation }, parts) => entangledFragment(state, parts, computation),
   page: ({ state, computation }, parts) => entangledPageDocument(state, parts, computation),
   view: entangledView,

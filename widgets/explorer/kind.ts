@@ -4,7 +4,7 @@ import type { LoadedWidget, WidgetKind } from "../core/kind";
 import { isRecord } from "../core/state/strict-read";
 import { WIDGET_MODULE } from "../core/state/widget-state";
 import { explorerView } from "./browser/view";
-import { explorerUncheckedFields, loadExplorerState } from "./document";
+import { explorerUncheckedFields, loadExplorerState, stateDocumentText } from "./document";
 import { explorerFigureSpec } from "./budget-spec";
 import { EXPLORER_MODEL_NAME, EXPLORER_STATE_FORMAT, type ExplorerState } from "./format";
 import { explorerFragment } from "./fragment";
@@ -35,6 +35,7 @@ export const explorerKind: WidgetKind<LoadedExplorer> = {
     };
   },
   figure: ({ state, computation }) => ({ spec: explorerFigureSpec(computation, state), csv: tableToCsv(computation.table) }),
+  stateText: ({ state }) => stateDocumentText(state),
   fragment: ({ state, computation }, parts) => explorerFragment(state, computation, parts),
   page: ({ state, computation }, parts) => explorerPage(state, computation, parts),
   view: explorerView,

@@ -2,7 +2,7 @@
 import type { LoadedWidget, WidgetKind } from "../core/kind";
 import { trajectoryView } from "./browser/view";
 import { trajectoryCsv } from "./csv";
-import { isTrajectoryInput, loadTrajectoryState, trajectoryUncheckedFields } from "./document";
+import { isTrajectoryInput, loadTrajectoryState, trajectoryDocumentText, trajectoryUncheckedFields } from "./document";
 import { trajectoryFigureSpec } from "./specs";
 import { TRAJECTORY_STATE_FORMAT, type TrajectoryState } from "./format";
 import { trajectoryFragment, trajectoryPageDocument } from "./fragment";
@@ -29,6 +29,7 @@ export const trajectoryKind: WidgetKind<LoadedTrajectory> = {
     };
   },
   figure: ({ state, computation }) => ({ spec: trajectoryFigureSpec(computation, state), csv: trajectoryCsv(computation.result, state.joint) }),
+  stateText: ({ state }) => trajectoryDocumentText(state),
   fragment: ({ state, computation }, parts) => trajectoryFragment(state, computation, parts),
   page: ({ state, computation }, parts) => trajectoryPageDocument(state, computation, parts),
   view: trajectoryView,
