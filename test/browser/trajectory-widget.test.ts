@@ -95,10 +95,11 @@ afterAll(async () => {
 });
 
 describe("trajectory widget in a page", () => {
-  it("reruns its state in the page to Node's fingerprint and draws four charts", async () => {
+  it("reruns its state in the page to Node's fingerprint and draws five charts", async () => {
     expect(await attr(FINGERPRINT_ATTRIBUTE)).toBe(state.fingerprint);
     expect(await pageState()).toEqual(state);
-    expect(await session.page.locator(`${W} .qf-charts canvas`).count()).toBe(4);
+    // Estimation error, variances, measurement record, log-negativity, Duan sums.
+    expect(await session.page.locator(`${W} .qf-charts canvas`).count()).toBe(5);
     expect(await session.page.locator(`${W} .qf-fallback`).isHidden()).toBe(true);
     expect(await session.page.locator(`${W} .qf-notice`).isHidden()).toBe(true);
     // The band is estimate ± √(conditional variance) of the run Node computes.
