@@ -1,4 +1,5 @@
 /** Every number of the entangled-light panel, as the labelled series its CSV and its fingerprint are written from. */
+import { csvField } from "../../src/index";
 import { seriesFingerprint } from "../core/state/series-fingerprint";
 import type { EntangledComputation } from "./model";
 import { ELLIPSE_SERIES, SPECTRUM_SERIES } from "./series-names";
@@ -66,17 +67,13 @@ export function entangledFingerprint(c: EntangledComputation): string {
  */
 export function entangledCsv(c: EntangledComputation): string {
   const [f, conditional, epr] = spectrum(c);
-  const lines = [[f.label, conditional.label, epr.label].map(quote).join(",")];
+  const lines = [[f.label, conditional.label, epr.label].map(csvField).join(",")];
   f.values.forEach((x, i) => lines.push([x, conditional.values[i], epr.values[i]].map(String).join(",")));
   lines.push("", "quantity,value");
-  for (const s of summary(c)) lines.push(`${quote(s.label)},${s.values[0]}`);
-  lines.push("", [quote(COVARIANCE), ...QUADRATURES].join(","));
+  for (const s of summary(c)) lines.push(`${csvField(s.label)},${s.values[0]}`);
+  lines.push("", [csvField(COVARIANCE), ...QUADRATURES].join(","));
   QUADRATURES.forEach((q, row) => lines.push([q, ...Array.from(c.covariance.subarray(4 * row, 4 * row + 4), String)].join(",")));
   lines.push("", "contour,point,X,P");
-  for (const k of contours(c)) k.x.forEach((x, i) => lines.push([quote(k.name), i, x, k.y[i]].join(",")));
+  for (const k of contours(c)) k.x.forEach((x, i) => lines.push([csvField(k.name), i, x, k.y[i]].join(",")));
   return `${lines.join("\n")}\n`;
-}
-
-function quote(text: string): string {
-  return /[",\n]/.test(text) ? `"${text.replace(/"/g, '""')}"` : text;
 }
