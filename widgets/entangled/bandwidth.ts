@@ -8,9 +8,10 @@ import { QuietframeError, formatQuantity, parseQuantity } from "../../src/index"
 export function parseBandwidth(text: string, path: string): number | null {
   const trimmed = text.trim();
   if (trimmed === "") return null;
-  const value = /^[-+]?(\d+\.?\d*|\.\d+)(e[-+]?\d+)?$/i.test(trimmed) ? Number(trimmed) : parseQuantity(trimmed, "frequency", path);
+  const bare = /^[-+]?(\d+\.?\d*|\.\d+)(e[-+]?\d+)?$/i.test(trimmed);
+  const value = bare ? Number(trimmed) : parseQuantity(trimmed, "frequency", path);
   if (!(value > 0)) {
-    throw new QuietframeError({ path, value: text, problem: "is not a positive linewidth", allowed: 'a frequency above 0 such as "5 MHz", or empty for a white source' });
+    throw new QuietframeError({ path, value: bare ? value : trimmed, problem: "is not a positive linewidth", allowed: 'a frequency above 0 such as "5 MHz", or empty for a white source' });
   }
   return value;
 }

@@ -104,11 +104,10 @@ export class EntangledPanelView {
     bw.addEventListener("change", () => {
       try {
         // "5 MHz", "5e6 Hz" or a bare number of hertz; empty for a white source.
-        const v = parseBandwidth(bw.value, "bandwidth");
+        const v = parseBandwidth(bw.value, "state.bandwidth");
         this.request((s) => ({ ...s, bandwidth: v }));
       } catch (e) {
-        this.alert.textContent = `Not applied: ${messageOf(e)}\nThe panel keeps the last valid values.`;
-        this.alert.hidden = false;
+        this.refuse(e);
       }
     });
     rows.push(el("label", { for: `${id}-bandwidth` }, ["source linewidth κ/2π"]), bw, el("output", {}, ["e.g. 5 MHz; empty: white source"]));
@@ -138,12 +137,17 @@ export class EntangledPanelView {
         this.alert.textContent = "";
         this.element.setAttribute(STATUS_ATTRIBUTE, "ready");
       } catch (e) {
-        this.alert.textContent = `Not applied: ${messageOf(e)}\nThe panel keeps the last valid values.`;
-        this.alert.hidden = false;
-        this.element.setAttribute(STATUS_ATTRIBUTE, "error");
+        this.refuse(e);
       }
     }
     this.running = false;
+  }
+
+  /** A value the model refuses: say why and keep the last valid state and charts. */
+  private refuse(e: unknown): void {
+    this.alert.textContent = `Not applied: ${messageOf(e)}\nThe panel keeps the last valid values.`;
+    this.alert.hidden = false;
+    this.element.setAttribute(STATUS_ATTRIBUTE, "error");
   }
 
   private async draw(c: EntangledComputation, state: EntangledState): Promise<void> {
