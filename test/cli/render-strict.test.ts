@@ -60,6 +60,11 @@ describe("render --strict for every kind that recomputes its numbers", { timeout
     ["entangled-two-beams.json", "the linewidth", (s) => (s.bandwidth = 5.1e6)],
     ["explorer-squeezed-membrane.json", "the settings' grid", (s) => ((s.settings as { grid: { points: number } }).grid.points = 400)],
     ["trajectory-cryogenic-membrane.json", "the seed", (s) => ((s.simulation as { seed: number }).seed += 1)],
+    [
+      "design-ranking-free-mass.json",
+      "the mirror's mass",
+      (s) => ((s.setup as { components: { name: string; params?: Record<string, unknown> }[] }).components.find((c) => c.name === "mirror")!.params!.mass = "120 g"),
+    ],
   ])("%s: tampering %s fails --strict and writes nothing", async (file, _what, tamper) => {
     const doc = readDoc(file);
     tamper(modelState(doc));
@@ -85,6 +90,8 @@ describe("render --strict for every kind that recomputes its numbers", { timeout
     );
     expect(r.err).toMatch(/--strict does not check \S+\.setup\.grid: the curves are computed on \S+\.settings\.grid/);
     expect(r.err).toMatch(/--strict does not check \S+\.settings\.spectralDensity: /);
+    const design = await render(join(STATES, "design-ranking-free-mass.json"), "-o", join(dir, "design-notes.csv"), "--strict");
+    expect(design.err).toMatch(/--strict does not check \S+\.state\.title: the figure's title, text only/);
     // Without --strict nothing is listed: the notes answer the question --strict asks.
     expect((await render(writeState("overridden-plain.json", doc), "-o", join(dir, "overridden-plain.csv"))).err).not.toContain("does not check");
   });

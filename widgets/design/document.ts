@@ -6,6 +6,8 @@ import { copyJson, expectFingerprint, expectRecord, modelIdOf, rebasedErrors, re
 import { computeAnswer } from "./answer";
 import { checkAnswer } from "./answer-read";
 import { answerFingerprint } from "./fingerprint";
+import type { UncheckedField } from "../core/state/reproduction";
+import { setupUncheckedFields } from "../core/state/unchecked-fields";
 import { DESIGN_MODEL_NAME, DESIGN_STATE_FORMAT, DESIGN_STATE_VERSION, type DesignAnswer, type DesignQuestion, type DesignState, type GridText } from "./format";
 import { checkGrid, checkQuestion, withDefined } from "./question-read";
 
@@ -64,6 +66,8 @@ export interface LoadedDesignState {
   readonly state: DesignState;
   readonly recomputedFingerprint: string;
   readonly fingerprintMatches: boolean;
+  /** Where the state sits in the input (for messages about its fields). */
+  readonly path: string;
 }
 
 /** Reads a state and computes its answer again from the question; errors name the field in the file. */
@@ -74,7 +78,12 @@ export function loadDesignState(input: unknown, source = "state"): LoadedDesignS
     () => computeAnswer(state.setup, state.figure, state.question, state.grid),
   );
   const recomputedFingerprint = answerFingerprint(answer);
-  return { state: { ...state, answer }, recomputedFingerprint, fingerprintMatches: recomputedFingerprint === state.fingerprint };
+  return { state: { ...state, answer }, recomputedFingerprint, fingerprintMatches: recomputedFingerprint === state.fingerprint, path };
+}
+
+/** The fields of a design state its fingerprint does not cover, each with the reason it cannot change the answer. */
+export function designUncheckedFields(state: DesignState, path: string): UncheckedField[] {
+  return [...setupUncheckedFields(state.setup, {}, path), ...(state.title === undefined ? [] : [{ path: `${path}.title`, reason: "the figure's title, text only" }])];
 }
 
 /**
