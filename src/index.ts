@@ -41,7 +41,7 @@ export { stationaryCovariance, uncertaintyMargin, diffusionMatrix, checkPhysical
 export * from "./engine/entanglement";
 export { logGrid, parseGrid, type FrequencyGridSpec } from "./setup/grid";
 export { headlineFigures, describeHeadline, type HeadlineFigures } from "./engine/headline";
-export { tabulateBudget, tableToCsv, type BudgetTable } from "./engine/tabulate";
+export { tabulateBudget, tableToCsv, csvField, type BudgetTable } from "./engine/tabulate";
 export * from "./reference/limits";
 export * as constants from "./constants";
 export { parseQuantity, formatQuantity, type QuantityKind } from "./units";

@@ -10,6 +10,7 @@ import { kindOutput, OUTPUT_FORMATS, type OutputFormat } from "../../widgets/cor
 import { explorerKind } from "../../widgets/explorer/kind";
 import { computeExplorer, createExplorerState } from "../../widgets/explorer/model";
 import { loadWidgetState } from "../../widgets/registry";
+import { checkReproduction } from "../../widgets/core/state/reproduction";
 import { notebookWidgets, pickNotebookWidget } from "./notebook-widgets";
 import { parseOptions } from "./options";
 import type { CliIo } from "./io";
@@ -27,8 +28,10 @@ export const RENDER_USAGE = `  quietframe render <state.json> -o <out.html|out.s
       runs again from its seed, a tolerance map, an entangled-light panel or a design answer
       computed again from its question) and writes its figure: a standalone interactive page
       (html), the chart (svg, png at --scale, default 2) or the plotted numbers (csv; not for
-      tolerance maps and entangled panels). Warns when the recomputed
-      curves differ from the stored fingerprint; --strict makes that an error.
+      tolerance maps). Warns when the recomputed numbers differ from the stored fingerprint,
+      when the state records none, or when another quietframe version wrote it; --strict
+      makes a difference or a missing fingerprint an error and lists the fields the
+      fingerprint does not cover, with the reason (docs/fingerprint.md).
       A saved notebook (.ipynb) works too: its widget outputs and live charts, in the order the
       notebook shows them (--widget N if several; the error lists them).
   quietframe report <setup.json> -o <report.html> [--control target[=min:max[:log|linear]]]... [--title T]
@@ -63,18 +66,10 @@ export async function renderCommand(args: string[], io: CliIo): Promise<number> 
   const which = widgetNumber(values.widget);
   const { kind, loaded } = inNotebook ? pickNotebookWidget(inNotebook, basename(input), which).load() : loadWidgetState(text, basename(input), { widget: which });
   const fingerprint = loaded.fingerprint;
-  if (fingerprint && fingerprint.recomputed !== fingerprint.stored) {
-    const message =
-      `the recomputed curves differ from the ones stored in ${input} ` + `(stored ${fingerprint.stored}, written by quietframe ${fingerprint.writtenBy}; recomputed ${fingerprint.recomputed})`;
-    if (values.strict)
-      throw new QuietframeError({
-        path: `${input}.fingerprint`,
-        value: fingerprint.stored,
-        problem: message,
-        allowed: "a state whose numbers this quietframe reproduces bit for bit (drop --strict to render anyway)",
-      });
-    io.err(`warning: ${message}\n`);
-  }
+  // Under --strict a doubt about the numbers is an error; the notes say what --strict leaves out and why.
+  const reproduction = checkReproduction(loaded, input, values.strict === true);
+  for (const w of reproduction.warnings) io.err(`warning: ${w}\n`);
+  for (const n of reproduction.notes) io.err(`note: ${n}\n`);
   for (const w of loaded.warnings) io.err(`warning: ${w}\n`);
   for (const c of loaded.cautions) io.err(`caution: ${c}\n`);
   // The page keeps the stored fingerprint, so it too can tell its reader about a mismatch.

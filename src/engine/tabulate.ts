@@ -40,7 +40,8 @@ export function tableToCsv(table: BudgetTable): string {
   return lines.join("\n") + "\n";
 }
 
-function csvField(s: string): string {
+/** One CSV field (RFC 4180): quoted when it holds a quote, a comma or a line break. */
+export function csvField(s: string): string {
   return /[",\n\r]/.test(s) ? `"${s.replace(/"/g, '""')}"` : s;
 }
 

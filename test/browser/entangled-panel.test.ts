@@ -142,6 +142,19 @@ describe("entangled panel in the live page", () => {
     expect(await numbers(0)).toEqual(before);
   });
 
+  it("the bandwidth field takes a frequency with its unit", async () => {
+    const panel = session.page.locator(PANEL).nth(0);
+    const before = await pageState(0);
+    await panel.locator(`input[data-target="bandwidth"]`).fill("5 MHz");
+    await panel.locator(`input[data-target="bandwidth"]`).dispatchEvent("change");
+    await session.page.waitForFunction(([selector, status]) => (globalThis as any).document.querySelector(selector).getAttribute(status) === "ready", [PANEL, STATUS_ATTRIBUTE] as const, {
+      timeout: WAIT_MS,
+    });
+    const want: EntangledState = { ...before, bandwidth: 5e6 };
+    expect(await pageState(0)).toEqual(want);
+    expect(await numbers(0)).toEqual(expected(want));
+  });
+
   it("the title is shown as text, never as markup", async () => {
     expect(await session.page.locator(`${PANEL} i`).count()).toBe(0);
   });

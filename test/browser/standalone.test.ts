@@ -12,6 +12,9 @@ import { computeExplorer, createExplorerState } from "../../widgets/explorer/mod
 import { headlineSummary } from "../../widgets/explorer/summary";
 import { stateDocumentText } from "../../widgets/explorer/document";
 import type { ExplorerState } from "../../widgets/explorer/format";
+import { computeEntangled, loadEntangledState } from "../../widgets/entangled/model";
+import { parseTrajectoryState } from "../../widgets/trajectory/document";
+import { loadWidgetState } from "../../widgets/registry";
 
 /**
  * A standalone page rendered by the CLI, opened from file:// in Debian's Chromium: the live
@@ -182,6 +185,37 @@ describe("standalone page in Chromium", () => {
     await page.locator(".qf-loader-load").click();
     expect(await page.locator(".qf-loader-alert").textContent()).toMatch(/^Not loaded: pasted state/);
     expect(await attribute("data-quietframe-fingerprint")).toBe(other.fingerprint);
+  });
+
+  /** The CSV a widget's CSV button saves, as the browser wrote it. */
+  async function downloadedCsv(widget: string): Promise<string> {
+    const [download] = await Promise.all([page.waitForEvent("download"), page.locator(`${widget} .qf-actions button`, { hasText: /^CSV$/ }).click()]);
+    return readFileSync((await download.path()) ?? "", "utf8");
+  }
+
+  /** The CSV `quietframe render` writes for a state (its kind's table of the recomputed numbers). */
+  function renderedCsv(text: string): string | undefined {
+    const { kind, loaded } = loadWidgetState(text, "state.json");
+    return kind.figure(loaded).csv;
+  }
+
+  it("opens a saved state of another kind in the loader: an entangled-light panel, then a trajectory run", { timeout: 120_000 }, async () => {
+    const panelText = readFileSync(join(ROOT, "examples", "states", "entangled-two-beams.json"), "utf8");
+    await page.locator(".qf-loader-text").fill(panelText);
+    await page.locator(".qf-loader-load").click();
+    await page.waitForSelector('.quietframe-entangled[data-quietframe-status="ready"]');
+    expect(await page.locator(".qf-loader-alert").isHidden()).toBe(true);
+    const panel = computeEntangled(loadEntangledState(panelText));
+    expect(await page.locator(".quietframe-entangled").getAttribute("data-duan-sum")).toBe(String(panel.duanSum));
+    // The page's CSV is the one `quietframe render` writes for the same state.
+    expect(await downloadedCsv(".quietframe-entangled")).toBe(renderedCsv(panelText));
+    const runText = readFileSync(join(ROOT, "examples", "states", "trajectory-cryogenic-membrane.json"), "utf8");
+    const stored = parseTrajectoryState(runText).fingerprint;
+    await page.locator(".qf-loader-text").fill(runText);
+    await page.locator(".qf-loader-load").click();
+    await page.waitForSelector(`.quietframe-trajectory[data-quietframe-fingerprint="${stored}"]`, { timeout: 110_000 });
+    expect(await page.locator(".quietframe-entangled").count()).toBe(0);
+    expect(await downloadedCsv(".quietframe-trajectory")).toBe(renderedCsv(runText));
   });
 
   it("logged no console errors and asked for nothing outside the file", () => {

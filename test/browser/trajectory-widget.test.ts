@@ -95,10 +95,11 @@ afterAll(async () => {
 });
 
 describe("trajectory widget in a page", () => {
-  it("reruns its state in the page to Node's fingerprint and draws four charts", async () => {
+  it("reruns its state in the page to Node's fingerprint and draws five charts", async () => {
     expect(await attr(FINGERPRINT_ATTRIBUTE)).toBe(state.fingerprint);
     expect(await pageState()).toEqual(state);
-    expect(await session.page.locator(`${W} .qf-charts canvas`).count()).toBe(4);
+    // Estimation error, variances, measurement record, log-negativity, Duan sums.
+    expect(await session.page.locator(`${W} .qf-charts canvas`).count()).toBe(5);
     expect(await session.page.locator(`${W} .qf-fallback`).isHidden()).toBe(true);
     expect(await session.page.locator(`${W} .qf-notice`).isHidden()).toBe(true);
     // The band is estimate ± √(conditional variance) of the run Node computes.
@@ -200,6 +201,34 @@ describe("trajectory widget in a page", () => {
     expect(replay.fingerprintMatches).toBe(true);
     expect(replay.computation.result.stepsTaken).toBe(taken);
     expect(replay.computation.result.stopped).toBe(true);
+  });
+
+  it("Stop stops even when a field was edited during the run: the edit is not started", async () => {
+    const before = await pageState();
+    const old = await attr(FINGERPRINT_ATTRIBUTE);
+    // A long run (400,000 steps of 0.05 ns), well under way.
+    await typeSetting("step", "0.05 ns");
+    await session.page.waitForFunction(
+      ([sel, p, r]) => {
+        const e = (globalThis as any).document.querySelector(sel);
+        return e.getAttribute(r) === "true" && Number(e.getAttribute(p)) > 0.001;
+      },
+      [W, TRAJECTORY_ATTRIBUTES.progress, TRAJECTORY_ATTRIBUTES.running] as const,
+      { timeout: WAIT_MS, polling: 50 },
+    );
+    // The reader types a new seed and presses Stop: leaving the field fires its change event first.
+    const seed = session.page.locator(`${W} input[data-target="simulation.seed"]`);
+    await seed.fill(String(before.simulation.seed + 1));
+    await session.page.locator(`${W} button.qf-stop`).click();
+    await waitSettled(old);
+    expect(await attr(TRAJECTORY_ATTRIBUTES.stopped)).toBe("true");
+    expect(Number(await attr(TRAJECTORY_ATTRIBUTES.stepsTaken))).toBeLessThan(400_000);
+    const stopped = await pageState();
+    expect(stopped.simulation.seed).toBe(before.simulation.seed);
+    expect(await seed.inputValue()).toBe(String(before.simulation.seed));
+    // Nothing starts afterwards.
+    await session.page.waitForTimeout(500);
+    expect(await attr(TRAJECTORY_ATTRIBUTES.running)).toBe("false");
   });
 
   it("Reset goes back to the state the widget was created with", async () => {

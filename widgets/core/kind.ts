@@ -6,6 +6,9 @@
  * figure: render/kind-output.ts) and its view touches the DOM only once booted.
  */
 import type { FragmentParts, PageParts } from "./page/parts";
+import type { UncheckedField } from "./state/reproduction";
+
+export type { UncheckedField };
 
 /** Which of several widgets a document holds, where a kind's reader can choose (1-based). */
 export interface LoadOptions {
@@ -15,8 +18,13 @@ export interface LoadOptions {
 /** A saved state, strictly read and (for kinds that compute) recomputed. */
 export interface LoadedWidget<S = unknown> {
   readonly state: S;
-  /** For states that record the fingerprint of their numbers: the stored one, this quietframe's, and who wrote the state. */
-  readonly fingerprint?: { readonly stored: string; readonly recomputed: string; readonly writtenBy: string };
+  /**
+   * For kinds that recompute their numbers: the stored fingerprint (null when the state records
+   * none, e.g. one written before its kind had one), this quietframe's, and who wrote the state.
+   */
+  readonly fingerprint?: { readonly stored: string | null; readonly recomputed: string; readonly writtenBy: string };
+  /** Fields the fingerprint does not cover because they cannot change the numbers; `render --strict` lists them. */
+  readonly unchecked?: readonly UncheckedField[];
   /** Warnings of the recomputation (not errors: the widget shows them with its figure). */
   readonly warnings: readonly string[];
   /** Safety cautions of the set-up at the state's values. */
@@ -36,18 +44,32 @@ export interface LiveWidget {
   dispose(): void;
 }
 
+/** A saved state of any kind, checked and ready to be put in a page as a new live widget. */
+export interface OpenedState {
+  /** Class of the kind's root element (WidgetView.className). */
+  readonly className: string;
+  /** Class of the JSON script the kind's view boots from (WidgetView.stateScriptClass). */
+  readonly stateScriptClass: string;
+  /** The state as the kind's "Download state" saves it. */
+  readonly stateText: string;
+}
+
 /** What the runtime offers a view while booting. */
 export interface BootContext {
   /** Boots the new widgets of every kind under root (a view that opens others, e.g. a cell's explorer). */
   boot(root: ParentNode): void;
   /** Disposes the live widgets of every kind inside slot, before the slot's content is replaced. */
   release(slot: Element): void;
+  /** Reads a saved state of any kind strictly and recomputes it (the registry finds its kind); errors name the field. */
+  open(text: string, source: string): OpenedState;
 }
 
 /** A kind's browser side. */
 export interface WidgetView {
   /** Class of the kind's root element in a page fragment. */
   readonly className: string;
+  /** Class of the JSON script inside that root which holds the state the view boots from. */
+  readonly stateScriptClass: string;
   /** Starts a live widget for each new element under root; returns those started. */
   boot(root: ParentNode, context: BootContext): readonly LiveWidget[];
   /** The live widgets, in boot order. */
@@ -71,6 +93,8 @@ export interface WidgetKind<L extends LoadedWidget = LoadedWidget> {
   /** Reads a saved state strictly (text or parsed) and recomputes it; errors name the field. */
   load(input: unknown, source: string, options?: LoadOptions): L;
   figure(loaded: L): FigureSource;
+  /** The state as the kind's "Download state" saves it (what its view boots from). */
+  stateText(loaded: L): string;
   /** The fragment a notebook output or page embeds (static fallback, state, bootstrap). */
   fragment(loaded: L, parts: FragmentParts): string;
   /** A complete standalone page. */

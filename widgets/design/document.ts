@@ -2,10 +2,12 @@
 import { QuietframeError, QUIETFRAME_VERSION, type FigureSpec, type SetupDescription } from "../../src/index";
 import { holdsSingleModelState, locateSingleModelState, type SingleModelKind } from "../core/state/single-model-read";
 import type { JupyterWidgetStateDocument } from "../core/state/widget-state";
-import { copyJson, expectRecord, FINGERPRINT_PATTERN, modelIdOf, rebasedErrors, rejectUnknownKeys, singleModelDocument, VERSION_PATTERN } from "../core/state/strict-read";
+import { copyJson, expectFingerprint, expectRecord, FINGERPRINT_PATTERN, modelIdOf, rebasedErrors, rejectUnknownKeys, singleModelDocument, VERSION_PATTERN } from "../core/state/strict-read";
 import { computeAnswer } from "./answer";
 import { checkAnswer } from "./answer-read";
 import { answerFingerprint } from "./fingerprint";
+import type { UncheckedField } from "../core/state/reproduction";
+import { setupUncheckedFields } from "../core/state/unchecked-fields";
 import { DESIGN_MODEL_NAME, DESIGN_STATE_FORMAT, DESIGN_STATE_VERSION, type DesignAnswer, type DesignQuestion, type DesignState, type GridText } from "./format";
 import { checkGrid, checkQuestion, withDefined } from "./question-read";
 
@@ -71,6 +73,8 @@ export interface LoadedDesignState {
   readonly state: DesignState;
   readonly recomputedFingerprint: string;
   readonly fingerprintMatches: boolean;
+  /** Where the state sits in the input (for messages about its fields). */
+  readonly path: string;
 }
 
 /** Reads a state and computes its answer again from the question; errors name the field in the file. */
@@ -79,14 +83,19 @@ export function loadDesignState(input: unknown, source = "state"): LoadedDesignS
   if (state.sweep) {
     // A sweep's answer: computing it again is the whole sweep, so its stored numbers are checked against its fingerprint instead.
     const recomputedFingerprint = answerFingerprint(state.answer);
-    return { state, recomputedFingerprint, fingerprintMatches: recomputedFingerprint === state.fingerprint };
+    return { state, recomputedFingerprint, fingerprintMatches: recomputedFingerprint === state.fingerprint, path };
   }
   const answer = rebasedErrors(
     (p) => `${path}.${fieldOfState(p)}`,
     () => computeAnswer(state.setup, state.figure, state.question, state.grid),
   );
   const recomputedFingerprint = answerFingerprint(answer);
-  return { state: { ...state, answer }, recomputedFingerprint, fingerprintMatches: recomputedFingerprint === state.fingerprint };
+  return { state: { ...state, answer }, recomputedFingerprint, fingerprintMatches: recomputedFingerprint === state.fingerprint, path };
+}
+
+/** The fields of a design state its fingerprint does not cover, each with the reason it cannot change the answer. */
+export function designUncheckedFields(state: DesignState, path: string): UncheckedField[] {
+  return [...setupUncheckedFields(state.setup, {}, path), ...(state.title === undefined ? [] : [{ path: `${path}.title`, reason: "the figure's title, text only" }])];
 }
 
 /**
@@ -128,8 +137,7 @@ export function checkDesignState(input: unknown, path: string): DesignState {
   const question = checkQuestion(o.question, `${path}.question`);
   if (o.title !== undefined && (typeof o.title !== "string" || o.title.length > 200))
     throw new QuietframeError({ path: `${path}.title`, value: o.title, problem: "must be text of at most 200 characters", allowed: "plain text" });
-  if (typeof o.fingerprint !== "string" || !FINGERPRINT_PATTERN.test(o.fingerprint))
-    throw new QuietframeError({ path: `${path}.fingerprint`, value: o.fingerprint, problem: "is not an answer fingerprint", allowed: '"sha256:" followed by 64 lowercase hex digits' });
+  const fingerprint = expectFingerprint(o.fingerprint, `${path}.fingerprint`, "answer");
   return withDefined({
     format: DESIGN_STATE_FORMAT,
     version,
@@ -140,7 +148,7 @@ export function checkDesignState(input: unknown, path: string): DesignState {
     question,
     title: o.title as string | undefined,
     answer: checkAnswer(o.answer, `${path}.answer`, question.kind),
-    fingerprint: o.fingerprint,
+    fingerprint,
     sweep: checkSweepMark(o.sweep, `${path}.sweep`),
   });
 }

@@ -3,7 +3,7 @@ import type { LoadedWidget, WidgetKind } from "../core/kind";
 import { designView } from "./browser/view";
 import { designCautions } from "./cautions";
 import { designCsv } from "./csv";
-import { isDesignInput, loadDesignState } from "./document";
+import { designUncheckedFields, isDesignInput, loadDesignState } from "./document";
 import { DESIGN_STATE_FORMAT, type DesignState } from "./format";
 import { designFragment, designPageDocument } from "./fragment";
 import { designFigureSpec } from "./specs";
@@ -14,10 +14,18 @@ export const designKind: WidgetKind<LoadedWidget<DesignState>> = {
   recognises: isDesignInput,
   load(input, source) {
     // The question is computed again (its seeds make that exact); the state keeps the stored fingerprint, so a page can tell a mismatch.
-    const { state, recomputedFingerprint } = loadDesignState(input, source);
-    return { state, fingerprint: { stored: state.fingerprint, recomputed: recomputedFingerprint, writtenBy: state.quietframe }, warnings: [], cautions: designCautions(state) };
+    const { state, recomputedFingerprint, path } = loadDesignState(input, source);
+    return {
+      state,
+      fingerprint: { stored: state.fingerprint, recomputed: recomputedFingerprint, writtenBy: state.quietframe },
+      unchecked: designUncheckedFields(state, path),
+      warnings: [],
+      cautions: designCautions(state),
+    };
   },
   figure: ({ state }) => ({ spec: designFigureSpec(state.answer), csv: designCsv(state.answer) }),
+  // The fragment carries the bare state; the view reads it (and documents) with the same reader.
+  stateText: ({ state }) => JSON.stringify(state),
   fragment: ({ state }, parts) => designFragment(state, parts),
   page: ({ state }, parts) => designPageDocument(state, parts),
   view: designView,

@@ -18,6 +18,11 @@ import {
   type TwoModeSqueezing,
 } from "../../src/index";
 import { parseUntrustedJson } from "../core/state/state-text";
+import { locateSingleModelState, type SingleModelKind } from "../core/state/single-model-read";
+import { expectFingerprint, VERSION_PATTERN } from "../core/state/strict-read";
+import { entangledFingerprint } from "./csv";
+import { ELLIPSE_SERIES, SPECTRUM_SERIES } from "./series-names";
+import { bandwidthLabel } from "./bandwidth";
 
 /**
  * The entangled-light panel's model: a two-mode squeezed source with per-arm losses and an
@@ -28,12 +33,16 @@ import { parseUntrustedJson } from "../core/state/state-text";
  * relative to the vacuum level of the same quantity.
  */
 export const ENTANGLED_STATE_FORMAT = "quietframe.entangled-panel";
-export const ENTANGLED_STATE_VERSION = 1;
+/** 2: the saved state carries the fingerprint of its numbers; 1 (read, never written): none. */
+export const ENTANGLED_STATE_VERSION = 2;
+/** The panel's model in a Jupyter widget-state document. */
+export const ENTANGLED_MODEL_NAME = "EntangledPanelModel";
 
 export type SqueezeUnit = "dB" | "r";
 
 export interface EntangledState {
   format: typeof ENTANGLED_STATE_FORMAT;
+  /** Format version the state was read as (1 or 2); new states are 2. */
   version: number;
   /** quietframe version that wrote the state. */
   quietframe: string;
@@ -99,13 +108,39 @@ export function createEntangledState(options: EntangledOptions = {}): EntangledS
   return checkEntangledState(raw, "options");
 }
 
-/** Parses and checks a saved state (object or JSON text); problems name the field. */
+/** Parses and checks a saved state (object or JSON text, bare or in a widget-state document); problems name the field. */
 export function loadEntangledState(input: unknown, source = "state"): EntangledState {
-  return checkEntangledState(typeof input === "string" ? parseUntrustedJson(input, source) : input, source);
+  return readEntangledState(input, source).state;
 }
 
+/** A saved state as read: the state, the fingerprint it stores (null for a version-1 state or none), and where it sits in the input. */
+export interface StoredEntangledState {
+  readonly state: EntangledState;
+  readonly fingerprint: string | null;
+}
+
+export function readEntangledState(input: unknown, source = "state"): StoredEntangledState & { readonly path: string } {
+  // Text is parsed into plain JSON data first (size limit, no prototype keys anywhere).
+  const value = typeof input === "string" ? parseUntrustedJson(input, source) : input;
+  const { state, path } = locateSingleModelState(value, source, STORED_KIND);
+  return { ...state, path };
+}
+
+const STORED_KIND: SingleModelKind<StoredEntangledState> = {
+  what: "entangled-panel",
+  format: ENTANGLED_STATE_FORMAT,
+  modelName: ENTANGLED_MODEL_NAME,
+  check: (input, path) => checkStoredState(input, path),
+};
+
+/** The bare state as saved: the current version, with the fingerprint of the numbers it gives. */
 export function entangledStateText(state: EntangledState): string {
-  return JSON.stringify(state, null, 1);
+  return JSON.stringify(savedEntangledState(state), null, 1);
+}
+
+/** The state as a saved document holds it: current version, fingerprint of its recomputed numbers. */
+export function savedEntangledState(state: EntangledState, computation: EntangledComputation = computeEntangled(state)): EntangledState & { fingerprint: string } {
+  return { ...state, version: ENTANGLED_STATE_VERSION, fingerprint: entangledFingerprint(computation) };
 }
 
 function finiteIn(value: unknown, path: string, min: number, max: number, what: string): number {
@@ -116,18 +151,28 @@ function finiteIn(value: unknown, path: string, min: number, max: number, what: 
 }
 
 function checkEntangledState(input: unknown, path: string): EntangledState {
+  return checkStoredState(input, path).state;
+}
+
+const STATE_KEYS = ["format", "version", "quietframe", "squeeze", "efficiency1", "efficiency2", "bandwidth", "title"] as const;
+
+function checkStoredState(input: unknown, path: string): StoredEntangledState {
   if (typeof input !== "object" || input === null || Array.isArray(input)) {
     throw new QuietframeError({ path, value: input, problem: "must be an object", allowed: `a saved entangled-panel state {"format": "${ENTANGLED_STATE_FORMAT}", …}` });
   }
   const o = input as Record<string, unknown>;
   if (o.format !== ENTANGLED_STATE_FORMAT) throw new QuietframeError({ path: `${path}.format`, value: o.format, problem: "is not an entangled-panel state", allowed: `"${ENTANGLED_STATE_FORMAT}"` });
-  if (o.version !== ENTANGLED_STATE_VERSION)
-    throw new QuietframeError({ path: `${path}.version`, value: o.version, problem: "is not a version this quietframe reads", allowed: String(ENTANGLED_STATE_VERSION) });
-  if (typeof o.quietframe !== "string") throw new QuietframeError({ path: `${path}.quietframe`, value: o.quietframe, problem: "must be a version string", allowed: 'e.g. "0.1.0"' });
+  const version = o.version;
+  if (version !== 1 && version !== ENTANGLED_STATE_VERSION)
+    throw new QuietframeError({ path: `${path}.version`, value: version, problem: "is not a version this quietframe reads", allowed: `1 or ${ENTANGLED_STATE_VERSION}` });
+  if (typeof o.quietframe !== "string" || !VERSION_PATTERN.test(o.quietframe))
+    throw new QuietframeError({ path: `${path}.quietframe`, value: o.quietframe, problem: "must be a version string", allowed: `a quietframe version such as "${QUIETFRAME_VERSION}"` });
   const sq = o.squeeze;
   if (typeof sq !== "object" || sq === null || Array.isArray(sq))
     throw new QuietframeError({ path: `${path}.squeeze`, value: sq, problem: "must be an object", allowed: '{"unit": "dB" | "r", "value": number}' });
   const s = sq as Record<string, unknown>;
+  for (const key of Object.keys(s))
+    if (key !== "unit" && key !== "value") throw new QuietframeError({ path: `${path}.squeeze.${key}`, problem: "is not a field of the squeezing", allowed: "unit, value" });
   if (s.unit !== "dB" && s.unit !== "r") throw new QuietframeError({ path: `${path}.squeeze.unit`, value: s.unit, problem: "is not a squeeze unit", allowed: '"dB" or "r"' });
   const value =
     s.unit === "dB"
@@ -141,9 +186,14 @@ function checkEntangledState(input: unknown, path: string): EntangledState {
   }
   if (typeof o.title !== "string" || o.title.length > 200)
     throw new QuietframeError({ path: `${path}.title`, value: o.title, problem: "must be text of at most 200 characters", allowed: "plain text" });
-  const known = new Set(["format", "version", "quietframe", "squeeze", "efficiency1", "efficiency2", "bandwidth", "title"]);
-  for (const key of Object.keys(o)) if (!known.has(key)) throw new QuietframeError({ path: `${path}.${key}`, problem: "is not a field of an entangled-panel state", allowed: [...known].join(", ") });
-  return { format: ENTANGLED_STATE_FORMAT, version: ENTANGLED_STATE_VERSION, quietframe: o.quietframe, squeeze: { unit: s.unit, value }, efficiency1, efficiency2, bandwidth, title: o.title };
+  // Version 1 states were written before the panel recorded a fingerprint.
+  const known: readonly string[] = version === 1 ? STATE_KEYS : [...STATE_KEYS, "fingerprint"];
+  for (const key of Object.keys(o)) if (!known.includes(key)) throw new QuietframeError({ path: `${path}.${key}`, problem: "is not a field of an entangled-panel state", allowed: known.join(", ") });
+  const fingerprint = o.fingerprint === undefined ? null : expectFingerprint(o.fingerprint, `${path}.fingerprint`, "panel");
+  return {
+    state: { format: ENTANGLED_STATE_FORMAT, version, quietframe: o.quietframe, squeeze: { unit: s.unit, value }, efficiency1, efficiency2, bandwidth, title: o.title },
+    fingerprint,
+  };
 }
 
 export interface SpectrumRow {
@@ -188,8 +238,7 @@ export interface EntangledComputation {
   readonly ellipseExtent: number;
 }
 
-export const SPECTRUM_SERIES = { conditional: "Var(X1 | X2), arm 1 given arm 2", epr: "Var(X1 − X2)" } as const;
-export const ELLIPSE_SERIES = { vacuum: "vacuum", arm1: "arm 1 alone", arm2: "arm 2 alone", conditional: "arm 1 given X2 of arm 2" } as const;
+export { ELLIPSE_SERIES, SPECTRUM_SERIES };
 export const EPR_LABELS = { x: "Var(X1 − X2)", p: "Var(P1 + P2)", duan: "Duan sum" } as const;
 export const SPECTRUM_POINTS = 121;
 export const ELLIPSE_POINTS = 97;
@@ -299,16 +348,26 @@ function niceExtent(x: number): number {
 /** The summary lines (label, text) every output shows: fallback, live readout, text/plain. */
 export function entangledSummary(state: EntangledState, c: EntangledComputation): { label: string; text: string }[] {
   const n = (y: number, d = 4): string => (Number.isFinite(y) ? String(Number(y.toPrecision(d))) : String(y));
-  const squeeze = state.squeeze.unit === "dB" ? `${n(state.squeeze.value)} dB (r = ${n(c.r)})` : `r = ${n(c.r)} (${n(db(epr0(c.r)))} dB)`;
+  const squeeze = state.squeeze.unit === "dB" ? `${n(state.squeeze.value)} dB (r = ${n(c.r)})` : `r = ${n(c.r)} (${dbText(db(epr0(c.r)))} dB)`;
   return [
     { label: "Two-mode squeezing", text: squeeze },
     { label: "Arm efficiencies", text: `η1 = ${n(state.efficiency1)}, η2 = ${n(state.efficiency2)}` },
-    { label: "Source bandwidth", text: state.bandwidth === null ? "white (broadband)" : `${n(state.bandwidth)} Hz (numbers below at zero sideband frequency)` },
+    { label: "Source linewidth κ/2π", text: state.bandwidth === null ? "white (broadband)" : `${bandwidthLabel(state.bandwidth)} (numbers below at zero sideband frequency)` },
     { label: "EPR variances", text: `Var(X1 − X2) = ${n(c.eprX)}, Var(P1 + P2) = ${n(c.eprP)} (vacuum 1)` },
     { label: "Duan sum", text: `${n(c.duanSum)} (separable states ≥ ${n(c.duanBound)}): ${c.duanSum < c.duanBound ? "entangled" : "not shown entangled"}` },
     { label: "Logarithmic negativity", text: `${n(c.logNegativity)} ebits` },
-    { label: "Conditional variance", text: `Var(X1 | X2) = ${n(c.conditionalVariance)} (${n(c.conditionalDb, 3)} dB relative to vacuum)` },
+    { label: "Conditional variance", text: `Var(X1 | X2) = ${n(c.conditionalVariance)} (${dbText(c.conditionalDb)} dB relative to vacuum; vacuum quadrature variance ½)` },
   ];
+}
+
+/**
+ * A level in dB to 0.01 dB: rounding error of a value that is vacuum exactly (e.g. −1.9e−15 dB
+ * at r = 0) reads as 0.00, and a negative zero loses its sign.
+ */
+export function dbText(value: number): string {
+  if (!Number.isFinite(value)) return value < 0 ? "−∞" : String(value);
+  const text = value.toFixed(2);
+  return text === "-0.00" ? "0.00" : text.replace("-", "−");
 }
 
 /** e^{−2r} of the lossless source, as the dB figure a squeeze factor stands for. */

@@ -1,8 +1,9 @@
 /** The entangled-light panel's notebook API: entangledPanel(...), show(), figures, saved state. */
 import { inspect } from "node:util";
 import { QuietframeError } from "../../src/index";
-import { computeEntangled, createEntangledState, entangledStateText, entangledSummary, loadEntangledState, type EntangledComputation, type EntangledOptions, type EntangledState } from "./model";
+import { computeEntangled, createEntangledState, entangledSummary, loadEntangledState, type EntangledComputation, type EntangledOptions, type EntangledState } from "./model";
 import { panelSpec } from "./specs";
+import { entangledDocumentText } from "./document";
 import { entangledHtml } from "./html";
 import { renderPng, renderSvg, type RenderPngOptions } from "../core/render/static";
 import type { MimeBundle } from "../core/notebook/display";
@@ -79,9 +80,9 @@ export class EntangledPanel {
     };
   }
 
-  /** The saved form (JSON text). */
+  /** The saved form: a widget-state document (JSON text) with the fingerprint of the numbers; `quietframe render` and entangledPanel() read it. */
   stateText(): string {
-    return entangledStateText(this.#state);
+    return entangledDocumentText(this.#state, this.#computation);
   }
 
   /** Changes values and recomputes (same checks as a loaded state). */

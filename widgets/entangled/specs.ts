@@ -14,7 +14,13 @@ type Spec = Record<string, unknown>;
 const FONT = "DejaVu Sans, sans-serif";
 const PALETTE = ["#5b3f8c", "#c2571a", "#2a7f62", "#8a8a8a"];
 
+/** The axis texts state the one quadrature convention of every quietframe widget: vacuum variance ½ (DEVELOPERS.md). */
+export const VACUUM_CONVENTION = "vacuum quadrature variance ½";
+
 export function spectrumSpec(c: EntangledComputation, white: boolean): Spec {
+  // The axis spans exactly the computed band: no empty decade before the first point.
+  const frequencies = c.spectrum.map((row) => row.f);
+  const band = [Math.min(...frequencies), Math.max(...frequencies)];
   return {
     $schema: "https://vega.github.io/schema/vega-lite/v5.json",
     width: 340,
@@ -25,8 +31,8 @@ export function spectrumSpec(c: EntangledComputation, white: boolean): Spec {
       {
         mark: { type: "line", strokeWidth: 2 },
         encoding: {
-          x: { field: "f", type: "quantitative", scale: { type: "log" }, title: "sideband frequency (Hz)", axis: { format: "~s" } },
-          y: { field: "db", type: "quantitative", title: "dB relative to vacuum" },
+          x: { field: "f", type: "quantitative", scale: { type: "log", domain: band, nice: false }, title: "sideband frequency Ω/2π (Hz)", axis: { format: "~s" } },
+          y: { field: "db", type: "quantitative", title: `noise relative to vacuum (dB; ${VACUUM_CONVENTION})` },
           color: {
             field: "series",
             type: "nominal",
@@ -53,7 +59,7 @@ export function eprSpec(c: EntangledComputation): Spec {
         mark: { type: "bar", color: PALETTE[0] },
         encoding: {
           x: { field: "quantity", type: "nominal", sort: [EPR_LABELS.x, EPR_LABELS.p, EPR_LABELS.duan], title: null, axis: { labelAngle: 0 } },
-          y: { field: "value", type: "quantitative", title: "variance (vacuum: 1 each, bound 2)", stack: null },
+          y: { field: "value", type: "quantitative", title: `variance (vacuum 1 each, bound 2; ${VACUUM_CONVENTION})`, stack: null },
         },
       },
       {
@@ -82,8 +88,8 @@ export function ellipseSpec(c: EntangledComputation): Spec {
     data: { name: ELLIPSE_DATASET, values: c.ellipses },
     mark: { type: "line", strokeWidth: 2 },
     encoding: {
-      x: { field: "x", type: "quantitative", scale: { domain: [-m, m], nice: false }, title: "X (amplitude)" },
-      y: { field: "y", type: "quantitative", scale: { domain: [-m, m], nice: false }, title: "P (phase)" },
+      x: { field: "x", type: "quantitative", scale: { domain: [-m, m], nice: false }, title: `X (amplitude; ${VACUUM_CONVENTION})` },
+      y: { field: "y", type: "quantitative", scale: { domain: [-m, m], nice: false }, title: `P (phase; ${VACUUM_CONVENTION})` },
       order: { field: "i", type: "quantitative" },
       color: {
         field: "series",
@@ -100,7 +106,7 @@ export function ellipseSpec(c: EntangledComputation): Spec {
             [3, 3],
             [1, 0],
             [6, 2],
-            [1, 0],
+            [10, 3, 2, 3],
           ],
         },
         legend: null,

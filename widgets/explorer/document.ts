@@ -3,9 +3,11 @@ import { QuietframeError, loadSetup, QUIETFRAME_VERSION, type SetupDescription }
 import { computeExplorer, type ExplorerComputation } from "./model";
 import { EXPLORER_MODEL_NAME, EXPLORER_STATE_FORMAT, EXPLORER_STATE_VERSION, type ExplorerSettings, type ExplorerState } from "./format";
 import { WIDGET_MODULE, type JupyterWidgetStateDocument } from "../core/state/widget-state";
-import { copyJson, expectArray, expectRecord, FINGERPRINT_PATTERN, isRecord, modelIdOf, rebasedErrors, rejectUnknownKeys, singleModelDocument, VERSION_PATTERN } from "../core/state/strict-read";
+import { copyJson, expectArray, expectFingerprint, expectRecord, isRecord, modelIdOf, rebasedErrors, rejectUnknownKeys, singleModelDocument, VERSION_PATTERN } from "../core/state/strict-read";
 import { parseStateText } from "../core/state/state-text";
 import { checkControlSpec, checkControlValues, expectString, expectWord } from "../core/state/control-read";
+import type { UncheckedField } from "../core/state/reproduction";
+import { setupGridUnchecked, setupUncheckedFields } from "../core/state/unchecked-fields";
 
 /**
  * The state file users keep beside a figure: a Jupyter widget-state document (format 2.0)
@@ -47,6 +49,8 @@ export interface LoadedExplorerState {
   readonly computation: ExplorerComputation;
   /** Whether the recomputed curves are bit for bit those the file records; the caller decides what a mismatch means. */
   readonly fingerprintMatches: boolean;
+  /** Where the state sits in the input (for messages about its fields). */
+  readonly path: string;
 }
 
 /** Parses and recomputes a state; errors name the field in the file (e.g. `state.values.membrane.temperature`). */
@@ -62,7 +66,21 @@ export function loadExplorerState(input: string | unknown, source = "state"): Lo
     (p) => `${path}.${STATE_FIELD.test(p) ? "" : "setup."}${p}`,
     () => computeExplorer(state),
   );
-  return { state, computation, fingerprintMatches: computation.fingerprint === state.fingerprint };
+  return { state, computation, fingerprintMatches: computation.fingerprint === state.fingerprint, path };
+}
+
+/** The fields of an explorer state its fingerprint does not cover, each with the reason it cannot change the curves. */
+export function explorerUncheckedFields(state: ExplorerState, path: string): UncheckedField[] {
+  return [
+    ...setupUncheckedFields(state.setup, state.values, path),
+    ...setupGridUnchecked(state.setup, path, `the curves are computed on ${path}.settings.grid, which the fingerprint covers (its frequencies are hashed)`),
+    ...state.controls.map((_control, i) => ({ path: `${path}.controls[${i}]`, reason: "a slider's label, range and scale; the value computed is in values" })),
+    {
+      path: `${path}.settings.spectralDensity`,
+      reason: "chooses whether the fingerprinted power spectral densities are drawn and exported as they are or as their square roots (amplitude densities); no computed number changes",
+    },
+    ...(state.settings.title === undefined ? [] : [{ path: `${path}.settings.title`, reason: "the chart's title, text only" }]),
+  ];
 }
 
 function locateState(input: unknown, source: string): { state: ExplorerState; path: string } {
@@ -138,10 +156,7 @@ function checkState(input: unknown, path: string): ExplorerState {
   const controls = expectArray(obj.controls, `${path}.controls`, "an array of controls (may be empty)").map((c, i) => checkControlSpec(c, `${path}.controls[${i}]`));
   const values = checkControlValues(obj.values, `${path}.values`);
   const settings = checkSettings(obj.settings, `${path}.settings`);
-  const fingerprint = obj.fingerprint;
-  if (typeof fingerprint !== "string" || !FINGERPRINT_PATTERN.test(fingerprint)) {
-    throw new QuietframeError({ path: `${path}.fingerprint`, value: fingerprint, problem: "is not a curve fingerprint", allowed: '"sha256:" followed by 64 lowercase hex digits' });
-  }
+  const fingerprint = expectFingerprint(obj.fingerprint, `${path}.fingerprint`, "curve");
   return { format: EXPLORER_STATE_FORMAT, version, quietframe, setup, controls, values, settings, fingerprint };
 }
 

@@ -4,7 +4,7 @@ import type { LoadedWidget, WidgetKind } from "../core/kind";
 import { isRecord } from "../core/state/strict-read";
 import { WIDGET_MODULE } from "../core/state/widget-state";
 import { explorerView } from "./browser/view";
-import { loadExplorerState } from "./document";
+import { explorerUncheckedFields, loadExplorerState, stateDocumentText } from "./document";
 import { explorerFigureSpec } from "./budget-spec";
 import { EXPLORER_MODEL_NAME, EXPLORER_STATE_FORMAT, type ExplorerState } from "./format";
 import { explorerFragment } from "./fragment";
@@ -24,16 +24,18 @@ export const explorerKind: WidgetKind<LoadedExplorer> = {
   load(input, source, options = {}) {
     // Text may be a saved notebook whose live charts carry explorer states (`options.widget` picks one).
     const saved = typeof input === "string" ? liveStateSource(input, source, options.widget) : { value: input, source };
-    const { state, computation } = loadExplorerState(saved.value, saved.source);
+    const { state, computation, path } = loadExplorerState(saved.value, saved.source);
     return {
       state,
       computation,
       fingerprint: { stored: state.fingerprint, recomputed: computation.fingerprint, writtenBy: state.quietframe },
+      unchecked: explorerUncheckedFields(state, path),
       warnings: computation.evaluation.warnings,
       cautions: computation.evaluation.cautions,
     };
   },
   figure: ({ state, computation }) => ({ spec: explorerFigureSpec(computation, state), csv: tableToCsv(computation.table) }),
+  stateText: ({ state }) => stateDocumentText(state),
   fragment: ({ state, computation }, parts) => explorerFragment(state, computation, parts),
   page: ({ state, computation }, parts) => explorerPage(state, computation, parts),
   view: explorerView,

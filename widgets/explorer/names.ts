@@ -2,4 +2,4 @@
 export const EXPLORER_CLASS = "quietframe-explorer";
 export const STATE_SCRIPT_CLASS = "quietframe-state";
 /** Panel of the standalone page where a reader pastes or opens another state. */
-export const LOADER_CLASS = "quietframe-loader";
+export { LOADER_CLASS } from "../core/page/names";

@@ -33,7 +33,7 @@ export function explorerPage(state: ExplorerState, computation: ExplorerComputat
       "</div>",
       `<section class="${LOADER_CLASS}" data-quietframe-slot="${WIDGET_SLOT_ID}">`,
       "<h2>Open another state</h2>",
-      "<p>Paste a quietframe state file (the JSON that the widget's “Download state” button saves) or choose one; it is checked and recomputed here, nothing is sent anywhere.</p>",
+      "<p>Paste a quietframe state file (the JSON that the “Download state” button of any quietframe widget saves: an explorer, a trajectory run, an entangled-light panel, a tolerance map or a design answer) or choose one; it is checked and recomputed here, nothing is sent anywhere.</p>",
       `<textarea class="qf-loader-text" spellcheck="false" aria-label="state JSON"></textarea>`,
       `<div class="qf-loader-row"><button type="button" class="qf-loader-load">Load pasted state</button>`,
       `<label>or open a file: <input type="file" class="qf-loader-file" accept=".json,application/json"></label></div>`,

@@ -10,7 +10,8 @@ import { QUIETFRAME_VERSION } from "../../src/index";
 import { provideVega } from "../core/browser/vega";
 import type { BootContext, LiveWidget } from "../core/kind";
 import { RUNTIME_READY_EVENT } from "../core/page/names";
-import { WIDGET_KINDS } from "../registry";
+import { loadWidgetState, WIDGET_KINDS } from "../registry";
+import { bootStateLoaders } from "../core/browser/state-loader";
 
 export interface QuietframeRuntime {
   readonly version: string;
@@ -29,8 +30,17 @@ function install(): QuietframeRuntime {
     release: (slot) => {
       for (const view of views) view.release(slot);
     },
+    open: (text, source) => {
+      const { kind, loaded } = loadWidgetState(text, source);
+      return { className: kind.view.className, stateScriptClass: kind.view.stateScriptClass, stateText: kind.stateText(loaded) };
+    },
   };
-  const boot = (root: ParentNode = document): LiveWidget[] => views.flatMap((view) => [...view.boot(root, context)]);
+  const boot = (root: ParentNode = document): LiveWidget[] => {
+    const started = views.flatMap((view) => [...view.boot(root, context)]);
+    // The standalone page's panel opens a saved state of any kind in place of its widget.
+    bootStateLoaders(root, context);
+    return started;
+  };
   const runtime: Record<string, unknown> = {
     version: QUIETFRAME_VERSION,
     boot,

@@ -16,6 +16,8 @@ export const toleranceKind: WidgetKind<LoadedWidget<ToleranceWidgetState>> = {
     return { state, warnings: [], cautions: [] };
   },
   figure: ({ state }) => ({ spec: toleranceHeatmapSpec(state) }),
+  // A map is saved as its bare state, as the fragment carries it.
+  stateText: ({ state }) => JSON.stringify(state),
   fragment: ({ state }, parts) => toleranceFragment(state, parts),
   page: ({ state }, parts) => tolerancePageDocument(state, parts),
   view: toleranceView,

@@ -1,5 +1,5 @@
 /** Every stored number of a trajectory run as CSV. */
-import type { JointVariable, TrajectoryResult } from "../../src/index";
+import { csvField, type JointVariable, type TrajectoryResult } from "../../src/index";
 import { engineDuanLabel, jointDuanSum } from "./duan";
 import { partCurve } from "./series";
 
@@ -28,11 +28,7 @@ export function trajectoryCsv(r: TrajectoryResult, joint: readonly JointVariable
     columns.push({ name: "unconditional log-negativity [ebit]", values: e.unconditionalLogNegativity });
   }
   for (const rec of r.records) columns.push({ name: `record ${rec.output}`, values: rec.values });
-  const lines = [columns.map((c) => quote(c.name)).join(",")];
+  const lines = [columns.map((c) => csvField(c.name)).join(",")];
   for (let i = 0; i < r.time.length; i++) lines.push(columns.map((c) => String(c.values[i])).join(","));
   return `${lines.join("\n")}\n`;
-}
-
-function quote(text: string): string {
-  return /[",\n]/.test(text) ? `"${text.replace(/"/g, '""')}"` : text;
 }

@@ -2,8 +2,10 @@
 import { QuietframeError, QUIETFRAME_VERSION, type SetupDescription } from "../../src/index";
 import { holdsSingleModelState, locateSingleModelState, type SingleModelKind } from "../core/state/single-model-read";
 import type { JupyterWidgetStateDocument } from "../core/state/widget-state";
-import { copyJson, expectArray, expectRecord, FINGERPRINT_PATTERN, modelIdOf, rebasedErrors, rejectUnknownKeys, singleModelDocument, VERSION_PATTERN } from "../core/state/strict-read";
+import { copyJson, expectArray, expectFingerprint, expectRecord, modelIdOf, rebasedErrors, rejectUnknownKeys, singleModelDocument, VERSION_PATTERN } from "../core/state/strict-read";
 import { checkControlSpec, checkControlValues, expectQuantity } from "../core/state/control-read";
+import type { UncheckedField } from "../core/state/reproduction";
+import { setupGridUnchecked, setupUncheckedFields } from "../core/state/unchecked-fields";
 import { TRAJECTORY_MODEL_NAME, TRAJECTORY_STATE_FORMAT, TRAJECTORY_STATE_VERSION, type SimulationSpec, type TrajectoryState } from "./format";
 import { checkJoint, checkPair } from "./joint";
 import { computeTrajectory, type ComputeOptions, type TrajectoryComputation } from "./model";
@@ -49,13 +51,25 @@ export interface LoadedTrajectoryState {
   readonly computation: TrajectoryComputation;
   /** Whether the rerun gives bit for bit the curves the file records. */
   readonly fingerprintMatches: boolean;
+  /** Where the state sits in the input (for messages about its fields). */
+  readonly path: string;
 }
 
 /** Parses a state and runs its simulation again; errors name the field in the file. */
 export function loadTrajectoryState(input: unknown, source = "state", options: ComputeOptions = {}): LoadedTrajectoryState {
   const { state, path } = locate(input, source);
   const computation = rebased(path, () => computeTrajectory(state, options));
-  return { state, computation, fingerprintMatches: computation.fingerprint === state.fingerprint };
+  return { state, computation, fingerprintMatches: computation.fingerprint === state.fingerprint, path };
+}
+
+/** The fields of a trajectory state its fingerprint does not cover, each with the reason it cannot change the run. */
+export function trajectoryUncheckedFields(state: TrajectoryState, path: string): UncheckedField[] {
+  return [
+    ...setupUncheckedFields(state.setup, state.values, path),
+    ...setupGridUnchecked(state.setup, path, "a trajectory is simulated in time from simulation.duration, step and seed; no frequency grid enters it"),
+    ...state.controls.map((_control, i) => ({ path: `${path}.controls[${i}]`, reason: "a slider's label, range and scale; the value simulated is in values" })),
+    ...(state.title === undefined ? [] : [{ path: `${path}.title`, reason: "the figure's title, text only" }]),
+  ];
 }
 
 /** Re-throws model errors with paths into the file: state fields as they are, set-up problems under `setup.`. */
@@ -100,8 +114,7 @@ export function checkTrajectoryState(input: unknown, path: string): TrajectorySt
   const pair = checkPair(o.pair, `${path}.pair`);
   if (o.title !== undefined && (typeof o.title !== "string" || o.title.length > 200))
     throw new QuietframeError({ path: `${path}.title`, value: o.title, problem: "must be text of at most 200 characters", allowed: "plain text" });
-  if (typeof o.fingerprint !== "string" || !FINGERPRINT_PATTERN.test(o.fingerprint))
-    throw new QuietframeError({ path: `${path}.fingerprint`, value: o.fingerprint, problem: "is not a curve fingerprint", allowed: '"sha256:" followed by 64 lowercase hex digits' });
+  const fingerprint = expectFingerprint(o.fingerprint, `${path}.fingerprint`, "curve");
   return {
     format: TRAJECTORY_STATE_FORMAT,
     version,
@@ -113,7 +126,7 @@ export function checkTrajectoryState(input: unknown, path: string): TrajectorySt
     joint,
     pair,
     ...(o.title === undefined ? {} : { title: o.title as string }),
-    fingerprint: o.fingerprint,
+    fingerprint,
   };
 }
 

@@ -37,6 +37,19 @@ export interface JointRow {
   lower: number;
   upper: number;
   truth: number;
+  /** Estimation error, estimate − true value. */
+  error: number;
+  /** √(conditional variance), the filter's own standard deviation of the error. */
+  sigma: number;
+  /** error / sigma: a consistent filter keeps it within ±1 about 68 % of the time, whatever the scale of the variable. */
+  normalizedError: number;
+}
+
+/** One stored point of a measurement record: the output averaged over the interval since the previous stored point. */
+export interface RecordRow {
+  t: number;
+  output: string;
+  value: number;
 }
 
 export interface VarianceRow {
@@ -71,6 +84,7 @@ export function partCurve(component: string): string {
 export interface TrajectoryRows {
   readonly axis: TimeAxis;
   readonly joint: JointRow[];
+  readonly records: RecordRow[];
   readonly variance: VarianceRow[];
   readonly zeroPoints: ZeroPointRow[];
   readonly logNeg: MeasureRow[];
@@ -98,7 +112,17 @@ export function trajectoryRows(r: TrajectoryResult, maxPoints = Infinity, joint:
   for (const j of r.joint) {
     index.forEach((i, k) => {
       const sigma = Math.sqrt(j.conditional[i]);
-      jointRows.push({ t: t[k], series: j.label, estimate: j.estimate[i], lower: j.estimate[i] - sigma, upper: j.estimate[i] + sigma, truth: j.truth[i] });
+      jointRows.push({
+        t: t[k],
+        series: j.label,
+        estimate: j.estimate[i],
+        lower: j.estimate[i] - sigma,
+        upper: j.estimate[i] + sigma,
+        truth: j.truth[i],
+        error: j.estimate[i] - j.truth[i],
+        sigma,
+        normalizedError: (j.estimate[i] - j.truth[i]) / sigma,
+      });
     });
     const curves: [string, ArrayLike<number>][] = [
       [CURVES.conditional, j.conditional],
@@ -124,7 +148,8 @@ export function trajectoryRows(r: TrajectoryResult, maxPoints = Infinity, joint:
       if (fromJoint) duan.push({ t: t[k], measure: fromJoint.label, value: fromJoint.values[i] });
     });
   }
-  return { axis, joint: jointRows, variance, zeroPoints: r.joint.map((j) => ({ series: j.label, value: j.zeroPoint })), logNeg, duan, duanBound: e ? e.duanBound : null, duanMeasures };
+  const records = r.records.flatMap((rec) => index.map((i, k) => ({ t: t[k], output: rec.output, value: rec.values[i] })));
+  return { axis, joint: jointRows, records, variance, zeroPoints: r.joint.map((j) => ({ series: j.label, value: j.zeroPoint })), logNeg, duan, duanBound: e ? e.duanBound : null, duanMeasures };
 }
 
 /** The first non-finite stored number, if any: a run that produced one is refused, never plotted. */

@@ -7,7 +7,10 @@ import { CURVES, MEASURES, STATIC_POINTS, trajectoryRows, type TrajectoryRows } 
  * Vega-Lite specs of the trajectory widget. Each chart reads named datasets, so the page
  * can swap numbers in place; the static figure (Node) uses the very same specs.
  */
-export const DATASETS = { joint: "joint", variance: "variance", zeroPoints: "zeroPoints", logNeg: "logNeg", duan: "duan" } as const;
+export const DATASETS = { joint: "joint", records: "records", variance: "variance", zeroPoints: "zeroPoints", logNeg: "logNeg", duan: "duan" } as const;
+
+/** The one quadrature convention of every quietframe widget, stated on each axis that shows quadratures. */
+const QUADRATURE_UNITS = "dimensionless quadrature; vacuum variance ½";
 
 type Spec = Record<string, unknown>;
 
@@ -27,15 +30,25 @@ function seriesColor(labels: readonly string[]): Spec {
   return { field: "series", type: "nominal", scale: { domain: [...labels], range: PALETTE.slice(0, Math.max(1, labels.length)) }, legend: LEGEND };
 }
 
+/** Half-height of the normalised-error axis, in standard deviations; points beyond it are clipped. */
+export const ERROR_AXIS_SIGMAS = 4;
+
 /**
- * Estimated versus true joint variables, with the ±1σ band of the conditional state: one row
- * per variable with its own scale (a back-action-free sum and a heated difference can differ
- * by orders of magnitude).
+ * The estimation error of each joint variable (estimate − true value) in units of the
+ * conditional state's standard deviation, with the ±1σ band: one row per variable, all on the
+ * same scale, so the band stays visible however far the variance falls from its starting value.
+ * The error is plotted rather than the variable itself, which oscillates at its mode's frequency
+ * and would fill a static figure as a solid block. A consistent filter keeps the line inside the
+ * band about 68 % of the time. Estimates, true values and variances are in the CSV.
  */
 export function jointSpec(rows: TrajectoryRows, labels: readonly string[]): Spec {
+  const band = [
+    { t: rows.joint.length ? rows.joint[0].t : 0, lower: -1, upper: 1 },
+    { t: rows.joint.length ? rows.joint[rows.joint.length - 1].t : 1, lower: -1, upper: 1 },
+  ];
   return {
     $schema: SCHEMA,
-    title: { text: "Estimate (line, ±1σ band) and true value (dashed)", font: FONT, fontSize: 13 },
+    title: { text: "Estimation error (estimate − true value) in units of its σ; band ±1σ", font: FONT, fontSize: 13 },
     data: { name: DATASETS.joint, values: rows.joint },
     facet: {
       row: {
@@ -49,15 +62,48 @@ export function jointSpec(rows: TrajectoryRows, labels: readonly string[]): Spec
     spec: {
       width: WIDTH,
       height: Math.max(60, Math.round(HEIGHT / Math.max(1, labels.length)) + 20),
-      encoding: { x: timeField(rows), color: { ...seriesColor(labels), legend: null } },
       layer: [
-        { mark: { type: "area", opacity: 0.25 }, encoding: { y: { field: "lower", type: "quantitative", title: null, axis: { tickCount: 3 } }, y2: { field: "upper" } } },
-        { mark: { type: "line", strokeWidth: 1.4 }, encoding: { y: { field: "estimate", type: "quantitative" } } },
-        { mark: { type: "line", strokeWidth: 1, strokeDash: [4, 3], color: "#222" }, encoding: { y: { field: "truth", type: "quantitative" } } },
+        {
+          data: { values: band },
+          mark: { type: "area", color: "#8fa9bf", opacity: 0.45 },
+          encoding: { x: timeField(rows), y: { field: "lower", type: "quantitative" }, y2: { field: "upper" } },
+        },
+        {
+          mark: { type: "line", strokeWidth: 0.9, clip: true },
+          encoding: {
+            x: timeField(rows),
+            y: {
+              field: "normalizedError",
+              type: "quantitative",
+              title: "error / σ (σ = √conditional variance)",
+              scale: { domain: [-ERROR_AXIS_SIGMAS, ERROR_AXIS_SIGMAS], nice: false },
+              axis: { values: [-4, -2, -1, 0, 1, 2, 4] },
+            },
+            color: { ...seriesColor(labels), legend: null },
+          },
+        },
       ],
     },
-    resolve: { scale: { y: "independent" } },
     spacing: 8,
+    config: { font: FONT },
+  };
+}
+
+/** The measurement records as the filter reads them: each output averaged over the interval between stored points. */
+export function recordSpec(rows: TrajectoryRows): Spec {
+  const outputs = [...new Set(rows.records.map((r) => r.output))];
+  return {
+    $schema: SCHEMA,
+    width: WIDTH,
+    height: 150,
+    title: { text: "Measurement record (mean over each stored interval)", font: FONT, fontSize: 13 },
+    data: { name: DATASETS.records, values: rows.records },
+    mark: { type: "line", strokeWidth: 0.8 },
+    encoding: {
+      x: timeField(rows),
+      y: { field: "value", type: "quantitative", title: "record dy/dt (√Hz; white noise of one-sided density 1)" },
+      color: { field: "output", type: "nominal", scale: { domain: outputs, range: PALETTE.slice(PALETTE.length - outputs.length) }, legend: LEGEND },
+    },
     config: { font: FONT },
   };
 }
@@ -73,6 +119,8 @@ export function varianceSpec(rows: TrajectoryRows, labels: readonly string[]): S
   ];
   let part = 0;
   const dashes = curves.map((c) => (c === CURVES.conditional ? [1, 0] : c === CURVES.unconditional ? [6, 3] : partDashes[part++ % partDashes.length]));
+  // The conditional variance is drawn first and widest, so a part that equals it stays visible on top of it.
+  const widths = curves.map((c) => (c === CURVES.conditional ? 3.2 : c === CURVES.unconditional ? 1.6 : 1.3));
   return {
     $schema: SCHEMA,
     width: WIDTH,
@@ -84,9 +132,11 @@ export function varianceSpec(rows: TrajectoryRows, labels: readonly string[]): S
         mark: { type: "line", strokeWidth: 1.6 },
         encoding: {
           x: timeField(rows),
-          y: { field: "value", type: "quantitative", scale: { type: "log" }, title: "variance (zero-point of one quadrature: 1/2)" },
+          y: { field: "value", type: "quantitative", scale: { type: "log" }, title: `variance (${QUADRATURE_UNITS}; log scale)` },
           color: seriesColor(labels),
           strokeDash: { field: "curve", type: "nominal", scale: { domain: curves, range: dashes }, legend: { ...LEGEND, title: null } },
+          strokeWidth: { field: "curve", type: "nominal", scale: { domain: curves, range: widths }, legend: null },
+          opacity: { condition: { test: `datum.curve === '${CURVES.conditional}'`, value: 0.55 }, value: 1 },
           detail: { field: "curve", type: "nominal" },
         },
       },
@@ -133,7 +183,7 @@ export function duanSpec(rows: TrajectoryRows, pair: readonly [string, string]):
         encoding: {
           x: timeField(rows),
           // Log scale: the two sign conventions can differ by orders of magnitude.
-          y: { field: "value", type: "quantitative", title: "Duan sum (conditional)", scale: { type: "log" } },
+          y: { field: "value", type: "quantitative", title: "Duan sum, conditional (vacuum 2; log scale)", scale: { type: "log" } },
           color: { field: "measure", type: "nominal", scale: { domain: rows.duanMeasures, range: rows.duanMeasures.length > 1 ? ["#9a9a9a", "#5b3f8c"] : ["#5b3f8c"] }, legend: LEGEND },
         },
       },
@@ -151,6 +201,7 @@ export function duanSpec(rows: TrajectoryRows, pair: readonly [string, string]):
 /** The charts a state shows: two always, two more when a pair is followed. */
 export function trajectorySpecs(rows: TrajectoryRows, labels: readonly string[], pair: readonly [string, string] | null): Spec[] {
   const specs = [jointSpec(rows, labels), varianceSpec(rows, labels)];
+  if (rows.records.length > 0) specs.push(recordSpec(rows));
   if (pair && rows.logNeg.length > 0) specs.push(logNegSpec(rows, pair), duanSpec(rows, pair));
   return specs;
 }

@@ -45,6 +45,20 @@ describe("chart rows", () => {
     });
   });
 
+  it("give the estimation error and its ±1σ band (estimate − truth, ±√conditional), and every record point", () => {
+    const rows = trajectoryRows(c.result);
+    const j = c.result.joint[0];
+    rows.joint
+      .filter((r) => r.series === j.label)
+      .forEach((r, i) => {
+        expect(r.error).toBe(j.estimate[i] - j.truth[i]);
+        expect(r.sigma).toBe(Math.sqrt(j.conditional[i]));
+        expect(r.normalizedError).toBe((j.estimate[i] - j.truth[i]) / Math.sqrt(j.conditional[i]));
+      });
+    expect(c.result.records.length).toBeGreaterThan(0);
+    for (const rec of c.result.records) expect(rows.records.filter((r) => r.output === rec.output).map((r) => r.value)).toEqual(Array.from(rec.values));
+  });
+
   it("hold conditional, unconditional and each system's part for every joint variable, and its zero-point", () => {
     const rows = trajectoryRows(c.result);
     const curves = new Set(rows.variance.filter((r) => r.series === labels[0]).map((r) => r.curve));
@@ -73,13 +87,35 @@ describe("chart rows", () => {
 });
 
 describe("Vega-Lite specs", () => {
-  it("compile with Vega-Lite v5, four charts with a pair and two without", () => {
+  it("compile with Vega-Lite v5, five charts with a pair and three without (error, variances, record; entanglement)", () => {
     const rows = trajectoryRows(c.result);
     const specs = trajectorySpecs(rows, labels, state.pair);
-    expect(specs).toHaveLength(4);
+    expect(specs).toHaveLength(5);
     for (const s of specs) expect(() => compile(s as never)).not.toThrow();
-    expect(trajectorySpecs(rows, labels, null)).toHaveLength(2);
+    expect(trajectorySpecs(rows, labels, null)).toHaveLength(3);
     expect(() => compile(trajectoryPanelSpec(rows, labels, state.pair, "t") as never)).not.toThrow();
+  });
+
+  it("draw the conditional variance and each part alone in styles of their own, the conditional widest and first", () => {
+    const spec = trajectorySpecs(trajectoryRows(c.result), labels, state.pair)[1] as { layer: { encoding?: Record<string, { scale?: { domain: string[]; range: unknown[] } }> }[] };
+    const enc = spec.layer[0].encoding ?? {};
+    const curves = enc.strokeDash?.scale?.domain ?? [];
+    const styles = curves.map((_, k) => JSON.stringify([enc.strokeDash?.scale?.range[k], enc.strokeWidth?.scale?.range[k]]));
+    expect(curves).toContain(CURVES.conditional);
+    expect(new Set(styles).size).toBe(curves.length);
+    const widths = (enc.strokeWidth?.scale?.range ?? []) as number[];
+    expect(widths[curves.indexOf(CURVES.conditional)]).toBe(Math.max(...widths));
+    const rows = trajectoryRows(c.result).variance.filter((r) => r.series === labels[0]);
+    expect(rows[0].curve).toBe(CURVES.conditional);
+  });
+
+  it("state the quadrature convention and a unit on every value axis", () => {
+    const text = JSON.stringify(trajectorySpecs(trajectoryRows(c.result), labels, state.pair));
+    expect(text).toContain("variance (dimensionless quadrature; vacuum variance ½; log scale)");
+    expect(text).toContain("error / σ (σ = √conditional variance)");
+    expect(text).toContain("record dy/dt (√Hz");
+    expect(text).toContain("log-negativity (ebits)");
+    expect(text).toContain("time (");
   });
 
   it("name their datasets, so the page can read what is plotted", () => {

@@ -8,3 +8,5 @@ export const VERSION_ATTRIBUTE = "data-quietframe-version";
 /** Attributes the runtime keeps current on each widget element (read by tests and pages). */
 export const FINGERPRINT_ATTRIBUTE = "data-quietframe-fingerprint";
 export const STATUS_ATTRIBUTE = "data-quietframe-status";
+/** The standalone page's panel that opens another saved state (core/browser/state-loader.ts). */
+export const LOADER_CLASS = "quietframe-loader";

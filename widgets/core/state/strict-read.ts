@@ -11,6 +11,24 @@ import { WIDGET_MODULE, type JupyterWidgetStateDocument } from "./widget-state";
  */
 
 export const FINGERPRINT_PATTERN = /^sha256:[0-9a-f]{64}$/;
+
+/**
+ * The stored fingerprint of a state: a missing one is named as missing (a hand-written or
+ * truncated state), a malformed one as malformed; `what` says what it fingerprints ("curve").
+ */
+export function expectFingerprint(v: unknown, path: string, what: string): string {
+  if (v === undefined) {
+    throw new QuietframeError({
+      path,
+      problem: `is missing: the state records no ${what} fingerprint, so nothing can show that its numbers are the ones it was saved with`,
+      allowed: '"sha256:" followed by 64 lowercase hex digits, as quietframe writes it with every saved state (docs/fingerprint.md)',
+    });
+  }
+  if (typeof v !== "string" || !FINGERPRINT_PATTERN.test(v)) {
+    throw new QuietframeError({ path, value: v, problem: `is not a ${what} fingerprint`, allowed: '"sha256:" followed by 64 lowercase hex digits (docs/fingerprint.md)' });
+  }
+  return v;
+}
 export const VERSION_PATTERN = /^\d{1,9}\.\d{1,9}\.\d{1,9}(?:-[0-9A-Za-z.-]{1,64})?(?:\+[0-9A-Za-z.-]{1,64})?$/;
 // Names that mean something to JavaScript objects; never valid in a set-up.
 export const RESERVED_KEYS = new Set(["__proto__", "constructor", "prototype"]);

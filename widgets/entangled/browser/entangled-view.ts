@@ -1,11 +1,15 @@
 /** The entangled-light panel in the page: controls, three charts, numbers, download. */
 import { widgetBaseCss } from "../../core/browser/styles";
 import type { View } from "vega";
-import { computeEntangled, entangledStateText, entangledSummary, loadEntangledState, SLIDER_STEPS, sliderPosition, sliderValue, type EntangledComputation, type EntangledState } from "../model";
+import { computeEntangled, entangledSummary, loadEntangledState, SLIDER_STEPS, sliderPosition, sliderValue, type EntangledComputation, type EntangledState } from "../model";
+import { entangledDocumentText } from "../document";
+import { entangledCsv } from "../csv";
+import { bandwidthText, parseBandwidth } from "../bandwidth";
 import { ENTANGLED_CLASS, ENTANGLED_NUMBER_ATTRIBUTES, ENTANGLED_STATE_CLASS } from "../names";
-import { ellipseSpec, eprSpec, spectrumSpec } from "../specs";
+import { ellipseSpec, eprSpec, panelSpec, spectrumSpec } from "../specs";
 import { STATUS_ATTRIBUTE } from "../../core/page/names";
-import { downloadText } from "../../core/browser/actions";
+import { actionButton, downloadText, downloadUrl, fileStem } from "../../core/browser/actions";
+import { vega } from "../../core/browser/vega";
 import { messageOf } from "../../core/browser/boot";
 import { el, injectStyleOnce } from "../../core/browser/dom";
 import { replaceCanvasCharts } from "../../core/browser/canvas-charts";
@@ -96,14 +100,17 @@ export class EntangledPanelView {
     slider("squeeze", unit === "dB" ? "two-mode squeezing" : "squeeze factor r", unit, state.squeeze.value, (s, v) => ({ ...s, squeeze: { unit, value: v } }));
     slider("efficiency1", "arm 1 efficiency η1", "efficiency", state.efficiency1, (s, v) => ({ ...s, efficiency1: v }));
     slider("efficiency2", "arm 2 efficiency η2", "efficiency", state.efficiency2, (s, v) => ({ ...s, efficiency2: v }));
-    const bw = el("input", { type: "text", id: `${id}-bandwidth`, value: state.bandwidth === null ? "" : String(state.bandwidth), placeholder: "white", "data-target": "bandwidth" });
+    const bw = el("input", { type: "text", id: `${id}-bandwidth`, value: bandwidthText(state.bandwidth), placeholder: "white", "data-target": "bandwidth" });
     bw.addEventListener("change", () => {
-      const text = bw.value.trim();
-      // Text that is not a number becomes NaN, which the state check refuses with a message.
-      const v = text === "" ? null : Number(text);
-      this.request((s) => ({ ...s, bandwidth: v }));
+      try {
+        // "5 MHz", "5e6 Hz" or a bare number of hertz; empty for a white source.
+        const v = parseBandwidth(bw.value, "state.bandwidth");
+        this.request((s) => ({ ...s, bandwidth: v }));
+      } catch (e) {
+        this.refuse(e);
+      }
     });
-    rows.push(el("label", { for: `${id}-bandwidth` }, ["source bandwidth (Hz)"]), bw, el("output", {}, ["empty: white source"]));
+    rows.push(el("label", { for: `${id}-bandwidth` }, ["source linewidth κ/2π"]), bw, el("output", {}, ["e.g. 5 MHz; empty: white source"]));
     return el("div", { class: "qf-controls" }, rows);
   }
 
@@ -130,12 +137,17 @@ export class EntangledPanelView {
         this.alert.textContent = "";
         this.element.setAttribute(STATUS_ATTRIBUTE, "ready");
       } catch (e) {
-        this.alert.textContent = `Not applied: ${messageOf(e)}\nThe panel keeps the last valid values.`;
-        this.alert.hidden = false;
-        this.element.setAttribute(STATUS_ATTRIBUTE, "error");
+        this.refuse(e);
       }
     }
     this.running = false;
+  }
+
+  /** A value the model refuses: say why and keep the last valid state and charts. */
+  private refuse(e: unknown): void {
+    this.alert.textContent = `Not applied: ${messageOf(e)}\nThe panel keeps the last valid values.`;
+    this.alert.hidden = false;
+    this.element.setAttribute(STATUS_ATTRIBUTE, "error");
   }
 
   private async draw(c: EntangledComputation, state: EntangledState): Promise<void> {
@@ -149,11 +161,30 @@ export class EntangledPanelView {
   }
 
   private actions(): HTMLElement {
-    const b = el("button", { type: "button", title: "Save the panel's state as JSON (entangledPanel() reads it back)" }, ["Download state"]);
-    b.addEventListener("click", () => {
-      if (this.state) downloadText(entangledStateText(this.state), "entangled-panel.json", "application/json");
-    });
-    return el("div", { class: "qf-actions" }, [b]);
+    const button = (label: string, title: string, action: (state: EntangledState) => unknown): HTMLButtonElement =>
+      actionButton(label, title, () => (this.state ? action(this.state) : undefined), this.alert);
+    const stem = (state: EntangledState): string => fileStem(state.title || "entangled light");
+    return el("div", { class: "qf-actions" }, [
+      button("Download state", "Save the widget-state JSON with the fingerprint of the numbers; quietframe render and entangledPanel() read it", (s) =>
+        downloadText(entangledDocumentText(s), `${stem(s)}.json`, "application/json"),
+      ),
+      button("SVG", "Save the three charts as SVG", async (s) => downloadText(await this.withPanelView(s, (v) => v.toSVG()), `${stem(s)}.svg`, "image/svg+xml")),
+      button("PNG", "Save the three charts as PNG", async (s) => downloadUrl(await this.withPanelView(s, (v) => v.toImageURL("png", 2)), `${stem(s)}.png`)),
+      button("CSV", "Save every plotted number (shortest round-trip form)", (s) => downloadText(entangledCsv(computeEntangled(s)), `${stem(s)}.csv`, "text/csv")),
+    ]);
+  }
+
+  /** The whole figure as `quietframe render` draws it, off-screen, for an export. */
+  private async withPanelView<T>(state: EntangledState, use: (view: View) => Promise<T>): Promise<T> {
+    const { View: VegaView, parse, compile } = vega();
+    const spec = panelSpec(computeEntangled(state), state.title, state.bandwidth === null);
+    const view = new VegaView(parse(compile(spec as unknown as Parameters<typeof compile>[0]).spec), { renderer: "none" });
+    try {
+      await view.runAsync();
+      return await use(view);
+    } finally {
+      view.finalize();
+    }
   }
 }
 

@@ -96,6 +96,9 @@ export class TrajectoryWidget {
   private views: View[] = [];
   private active: ActiveRun | undefined;
   private scheduled = false;
+  private scheduledTimer: ReturnType<typeof setTimeout> | undefined;
+  /** An edit that Stop dropped before it started a run: the fields are put back when the stopped run ends. */
+  private editDroppedByStop = false;
   private disposed = false;
   private resolveFirst: (() => void) | undefined;
 
@@ -145,8 +148,17 @@ export class TrajectoryWidget {
     this.requestRun();
   }
 
-  /** Stops the run in progress; the curves it reached are shown and become the state. */
+  /**
+   * Stops the run in progress; the curves it reached are shown and become the state. An edit
+   * not yet applied is dropped, not started: leaving an edited field by pressing Stop sends its
+   * change event just before the click, and Stop must still stop.
+   */
   stop(): void {
+    if (this.scheduled) {
+      clearTimeout(this.scheduledTimer);
+      this.scheduled = false;
+      this.editDroppedByStop = true;
+    }
     const run = this.active;
     if (!run || run.cancelled) return;
     run.prepared.run.stop();
@@ -255,7 +267,7 @@ export class TrajectoryWidget {
     };
     // A task, not an animation frame: frames may not come while nothing on the page changes,
     // and a run is long next to one frame anyway.
-    setTimeout(go, 0);
+    this.scheduledTimer = setTimeout(go, 0);
   }
 
   /** Starts a run for a state, replacing any run in progress. */
@@ -325,6 +337,13 @@ export class TrajectoryWidget {
     } else if (!first) {
       this.notice.hidden = true;
       this.notice.textContent = "";
+    }
+    if (this.editDroppedByStop) {
+      // The fields show what the stopped run used, not the edit Stop dropped.
+      this.editDroppedByStop = false;
+      this.showSimulation(state.simulation);
+      this.controls?.show(state.values);
+      this.flash("Stopped. The edit made during the run was not applied; the fields show the stopped run's settings (edit again or press Run).");
     }
     this.showFigures(computation, state.joint);
     this.setRunning(false);

@@ -1,15 +1,16 @@
-/** The standalone page's panel that opens another explorer state. */
+/** The standalone page's panel that opens another saved state, of any widget kind, in place of the page's widget. */
 import { QuietframeError, QuietframeErrors } from "../../../src/index";
-import { EXPLORER_CLASS, LOADER_CLASS, STATE_SCRIPT_CLASS } from "../names";
-import { loadExplorerState, stateDocumentText } from "../document";
-import { el } from "../../core/browser/dom";
+import type { BootContext } from "../kind";
+import { LOADER_CLASS } from "../page/names";
+import { el } from "./dom";
 
 /**
- * The standalone page's "open another state" panel: pasted text or a chosen file is read
- * as a state document and replaces the widget in the panel's slot. The text only ever
- * becomes a JSON script's content and then parsed data; it is never markup or code.
+ * The "open another state" panel: pasted text or a chosen file is read by the registry's loader
+ * (any kind: explorer, trajectory, entangled panel, tolerance map, design answer) and replaces
+ * the widget in the panel's slot. The text only ever becomes a JSON script's content and then
+ * parsed data; it is never markup or code.
  */
-export function bootLoaders(root: ParentNode, boot: (root: ParentNode) => void, release: (slot: Element) => void): void {
+export function bootStateLoaders(root: ParentNode, context: BootContext): void {
   for (const panel of root.querySelectorAll<HTMLElement>(`.${LOADER_CLASS}:not([data-quietframe-booted])`)) {
     panel.setAttribute("data-quietframe-booted", "");
     const text = panel.querySelector<HTMLTextAreaElement>(".qf-loader-text");
@@ -23,14 +24,14 @@ export function bootLoaders(root: ParentNode, boot: (root: ParentNode) => void, 
       try {
         // Full check here (shape, set-up, values, one computation), so a bad file is reported
         // in the panel and the current widget stays instead of being replaced by an error.
-        const { state } = loadExplorerState(input, source);
-        const script = el("script", { type: "application/json", class: STATE_SCRIPT_CLASS });
-        script.textContent = stateDocumentText(state);
-        release(slot);
-        slot.replaceChildren(el("div", { class: EXPLORER_CLASS }, [script]));
+        const opened = context.open(input, source);
+        const script = el("script", { type: "application/json", class: opened.stateScriptClass });
+        script.textContent = opened.stateText;
+        context.release(slot);
+        slot.replaceChildren(el("div", { class: opened.className }, [script]));
         alert.hidden = true;
         alert.textContent = "";
-        boot(slot);
+        context.boot(slot);
       } catch (e) {
         alert.textContent = `Not loaded: ${e instanceof QuietframeError || e instanceof QuietframeErrors ? e.message : String(e)}`;
         alert.hidden = false;

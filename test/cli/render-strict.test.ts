@@ -1,0 +1,130 @@
+import { mkdtempSync, readFileSync, rmSync, writeFileSync } from "node:fs";
+import { tmpdir } from "node:os";
+import { join } from "node:path";
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { runCliAsync } from "../../src/cli/run";
+import { QUIETFRAME_VERSION } from "../../src/index";
+import { loadWidgetState } from "../../widgets/registry";
+
+/**
+ * What `quietframe render --strict` tells a referee, for every kind that recomputes its numbers
+ * (the example states of examples/states/): the numbers of the state, of the CSV and of the
+ * recomputation agree; tampering a field that changes the numbers is refused; a state without
+ * a fingerprint or from another quietframe version is named as such; the fields the fingerprint
+ * does not cover are listed with the reason. Common practice, no outside source: the checks
+ * compare the tool with itself across its entry points.
+ */
+const STATES = join(__dirname, "..", "..", "examples", "states");
+const FIXTURES = join(__dirname, "..", "fixtures", "states");
+
+let dir: string;
+beforeAll(() => {
+  dir = mkdtempSync(join(tmpdir(), "quietframe-render-strict-"));
+});
+afterAll(() => rmSync(dir, { recursive: true, force: true }));
+
+async function render(...argv: string[]): Promise<{ code: number; out: string; err: string }> {
+  let out = "";
+  let err = "";
+  const code = await runCliAsync(["render", ...argv], { out: (s) => (out += s), err: (s) => (err += s) });
+  return { code, out, err };
+}
+
+type Doc = { state: Record<string, { state: Record<string, unknown> }> };
+const modelState = (doc: Doc): Record<string, unknown> => Object.values(doc.state)[0].state;
+const readDoc = (file: string): Doc => JSON.parse(readFileSync(join(STATES, file), "utf8")) as Doc;
+
+function writeState(name: string, doc: unknown): string {
+  const file = join(dir, name);
+  writeFileSync(file, JSON.stringify(doc));
+  return file;
+}
+
+describe("render --strict for every kind that recomputes its numbers", { timeout: 120_000 }, () => {
+  it.each(["entangled-two-beams.json", "explorer-squeezed-membrane.json", "trajectory-cryogenic-membrane.json", "design-ranking-free-mass.json"])(
+    "%s: the CSV render --strict writes is the kind's own table of the loaded state",
+    async (file) => {
+      const out = join(dir, `${file}.csv`);
+      const r = await render(join(STATES, file), "-o", out, "--strict");
+      expect(r.err).not.toMatch(/warning|quietframe:/);
+      expect(r.code).toBe(0);
+      const { kind, loaded } = loadWidgetState(readFileSync(join(STATES, file), "utf8"), file);
+      expect(readFileSync(out, "utf8")).toBe(kind.figure(loaded).csv);
+      expect(loaded.fingerprint?.recomputed).toBe(loaded.fingerprint?.stored);
+    },
+  );
+
+  it.each<[string, string, (s: Record<string, unknown>) => void]>([
+    ["entangled-two-beams.json", "squeezing", (s) => ((s.squeeze as { value: number }).value = -7.9)],
+    ["entangled-two-beams.json", "an arm efficiency", (s) => (s.efficiency2 = 0.86)],
+    ["entangled-two-beams.json", "the linewidth", (s) => (s.bandwidth = 5.1e6)],
+    ["explorer-squeezed-membrane.json", "the settings' grid", (s) => ((s.settings as { grid: { points: number } }).grid.points = 400)],
+    ["trajectory-cryogenic-membrane.json", "the seed", (s) => ((s.simulation as { seed: number }).seed += 1)],
+    [
+      "design-ranking-free-mass.json",
+      "the mirror's mass",
+      (s) => ((s.setup as { components: { name: string; params?: Record<string, unknown> }[] }).components.find((c) => c.name === "mirror")!.params!.mass = "120 g"),
+    ],
+  ])("%s: tampering %s fails --strict and writes nothing", async (file, _what, tamper) => {
+    const doc = readDoc(file);
+    tamper(modelState(doc));
+    const input = writeState(`tampered-${file}`, doc);
+    const out = join(dir, `tampered-${file}.csv`);
+    const r = await render(input, "-o", out, "--strict");
+    expect(r.code).toBe(1);
+    expect(r.err).toMatch(/recomputed curves differ/);
+    expect(r.out).toBe("");
+  });
+
+  it("fields that cannot change the numbers: tampering them passes --strict, which names each with its reason", async () => {
+    const doc = readDoc("explorer-squeezed-membrane.json");
+    const state = modelState(doc) as { setup: { components: { name: string; params: Record<string, unknown> }[]; grid: { points: number } }; values: Record<string, unknown> };
+    expect(Object.keys(state.values)).toContain("membrane.temperature");
+    const membrane = state.setup.components.findIndex((c) => c.name === "membrane");
+    state.setup.components[membrane].params.temperature = "300 K";
+    state.setup.grid.points = 17;
+    const r = await render(writeState("overridden.json", doc), "-o", join(dir, "overridden.csv"), "--strict");
+    expect(r.code).toBe(0);
+    expect(r.err).toContain(
+      `--strict does not check overridden.json.state.${Object.keys(doc.state)[0]}.state.setup.components[${membrane}].params.temperature: the control value values["membrane.temperature"] replaces it`,
+    );
+    expect(r.err).toMatch(/--strict does not check \S+\.setup\.grid: the curves are computed on \S+\.settings\.grid/);
+    expect(r.err).toMatch(/--strict does not check \S+\.settings\.spectralDensity: /);
+    const design = await render(join(STATES, "design-ranking-free-mass.json"), "-o", join(dir, "design-notes.csv"), "--strict");
+    expect(design.err).toMatch(/--strict does not check \S+\.state\.title: the figure's title, text only/);
+    // Without --strict nothing is listed: the notes answer the question --strict asks.
+    expect((await render(writeState("overridden-plain.json", doc), "-o", join(dir, "overridden-plain.csv"))).err).not.toContain("does not check");
+  });
+
+  it("a state written by another quietframe version: a warning naming both versions; --strict accepts it when the numbers agree", async () => {
+    const doc = readDoc("entangled-two-beams.json");
+    modelState(doc).quietframe = "0.0.9";
+    const input = writeState("older.json", doc);
+    const plain = await render(input, "-o", join(dir, "older.csv"));
+    expect(plain.code).toBe(0);
+    expect(plain.err).toContain(`written by quietframe 0.0.9 and is recomputed by quietframe ${QUIETFRAME_VERSION}; the numbers agree bit for bit`);
+    modelState(doc).efficiency1 = 0.5;
+    const differs = await render(writeState("older-differs.json", doc), "-o", join(dir, "older-differs.csv"), "--strict");
+    expect(differs.code).toBe(1);
+    expect(differs.err).toContain(`written by quietframe 0.0.9, recomputed by quietframe ${QUIETFRAME_VERSION}`);
+  });
+
+  it("a state without a fingerprint: named as missing (a warning, an error under --strict)", async () => {
+    const input = join(FIXTURES, "entangled.json");
+    const plain = await render(input, "-o", join(dir, "v1.csv"));
+    expect(plain.code).toBe(0);
+    expect(plain.err).toMatch(/^warning: .*entangled\.json records no fingerprint of its numbers/);
+    const strict = await render(input, "-o", join(dir, "v1-strict.csv"), "--strict");
+    expect(strict.code).toBe(1);
+    expect(strict.err).toContain("entangled.json.fingerprint: is missing:");
+    expect(strict.err).not.toContain("is not a curve fingerprint");
+  });
+
+  it("an explorer state whose fingerprint field is gone: a message that says it is missing", async () => {
+    const doc = readDoc("explorer-squeezed-membrane.json");
+    delete modelState(doc).fingerprint;
+    const r = await render(writeState("no-fingerprint.json", doc), "-o", join(dir, "nf.csv"));
+    expect(r.code).toBe(1);
+    expect(r.err).toMatch(/fingerprint: is missing: the state records no curve fingerprint/);
+  });
+});
