@@ -1,5 +1,7 @@
 /** A widget model on the Jupyter widget message protocol 2.1, kept in step with every front-end. */
 import { QuietframeError, showValue } from "../../../src/index";
+import { RESERVED_KEYS } from "../state/strict-read";
+import { clip, echoable } from "./bounded-text";
 import { checkBufferPaths, putBuffers, removeBuffers, type BufferPath } from "./buffers";
 import type { Comm, CommMessage } from "./comm";
 import type { CommManager } from "./comm-manager";
@@ -15,7 +17,8 @@ import { widgetRegistry } from "./widget-registry";
  * Front-end input is checked before anything changes: an unknown key, a key the protocol
  * holds immutable, or a value the model's validator rejects leaves the state as it was;
  * the front-end gets a `custom` message with the error and an `update` restoring what the
- * kernel holds, and the kernel log gets a line. Nothing a front-end sends throws here.
+ * kernel holds, and the kernel log gets a line. Nothing a front-end sends throws here, and
+ * the names and values it sent are echoed cut to a stated length (bounded-text.ts).
  */
 
 export const WIDGET_TARGET = "jupyter.widget";
@@ -162,7 +165,7 @@ export class WidgetModel {
       default:
         return this.refuse(
           typeof method === "string" ? method : "(no method)",
-          typeof method === "string" ? `unknown method "${method}"` : "data.method is missing",
+          typeof method === "string" ? `unknown method "${clip(method)}"` : "data.method is missing",
           "update, request_state or custom",
         );
     }
@@ -184,7 +187,7 @@ export class WidgetModel {
       this.refuse("update", checked.error);
       // Put the front-end's controls back where the kernel's state is.
       const restore: Record<string, unknown> = {};
-      for (const key of Object.keys(patch)) if (key in this.current) restore[key] = this.current[key];
+      for (const key of Object.keys(patch)) if (Object.prototype.hasOwnProperty.call(this.current, key)) restore[key] = this.current[key];
       if (Object.keys(restore).length > 0) this.sendState("update", restore);
       return;
     }
@@ -207,11 +210,14 @@ export class WidgetModel {
     const next = { ...this.current, ...patch };
     const accepted: Record<string, unknown> = {};
     for (const [key, value] of Object.entries(patch)) {
+      if (RESERVED_KEYS.has(key)) {
+        return { error: new QuietframeError({ path: this.where(key), problem: "is a name reserved by JavaScript objects, never a key of a widget model", allowed: "keys of this model's state" }) };
+      }
       if (!Object.prototype.hasOwnProperty.call(this.current, key)) {
         return {
           error: new QuietframeError({
             path: this.where(key),
-            value,
+            value: echoable(value),
             problem: "is not a key of this model",
             allowed: Object.keys(this.current)
               .filter((k) => !k.startsWith("_"))
@@ -220,7 +226,7 @@ export class WidgetModel {
         };
       }
       if (IMMUTABLE_KEYS.includes(key) && !sameValue(value, this.current[key])) {
-        return { error: new QuietframeError({ path: this.where(key), value, problem: "is fixed when the model is created", allowed: showValue(this.current[key]) }) };
+        return { error: new QuietframeError({ path: this.where(key), value: echoable(value), problem: "is fixed when the model is created", allowed: showValue(this.current[key]) }) };
       }
       const validator = this.validators[key];
       if (!validator) {
@@ -230,7 +236,7 @@ export class WidgetModel {
       try {
         accepted[key] = validator(value, next);
       } catch (e) {
-        const error = e instanceof QuietframeError ? e : new QuietframeError({ path: this.where(key), value, problem: e instanceof Error ? e.message : String(e) });
+        const error = e instanceof QuietframeError ? e : new QuietframeError({ path: this.where(key), value: echoable(value), problem: clip(e instanceof Error ? e.message : String(e)) });
         return { error };
       }
     }
@@ -266,9 +272,10 @@ export class WidgetModel {
   /** Reports a refused front-end message on the comm and in the kernel log. */
   private refuse(method: string, problem: string | QuietframeError, allowed?: string): void {
     const err = typeof problem === "string" ? new QuietframeError({ path: this.where(""), problem, ...(allowed ? { allowed } : {}) }) : problem;
-    this.comms.log(`widget ${this.id} (${String(this.current._model_name)}): ${method} refused: ${err.message}`);
+    const shownMethod = clip(method);
+    this.comms.log(`widget ${this.id} (${String(this.current._model_name)}): ${shownMethod} refused: ${err.message}`);
     const content: WidgetErrorContent = {
-      error: { method, message: err.message, path: err.path, problem: err.problem, ...(err.allowed ? { allowed: err.allowed } : {}) },
+      error: { method: shownMethod, message: err.message, path: err.path, problem: err.problem, ...(err.allowed ? { allowed: err.allowed } : {}) },
     };
     if (!this.comm.isClosed) this.comm.send({ method: "custom", content });
   }
@@ -283,7 +290,7 @@ export class WidgetModel {
 
   private where(key: string): string {
     const name = String(this.current._model_name);
-    return key === "" ? name : `${name}.${key}`;
+    return key === "" ? name : `${name}.${clip(key)}`;
   }
 
   private assertOpen(): void {
