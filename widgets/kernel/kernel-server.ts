@@ -63,6 +63,14 @@ export class CommKernelServer extends ZmqServer {
   constructor(handler: JupyterHandlerImpl, configPath: string, log: (line: string) => void) {
     super(handler, configPath);
     this.log = log;
+    // iopub waits at a front-end's high-water mark instead of dropping (ZMQ_XPUB_NODROP, which
+    // applies to PUB sockets too); set before tslab binds it, as socket options take effect on bind.
+    const self = this as unknown as { bindSocket(sock: unknown, port: number): Promise<void> };
+    const bind = self.bindSocket.bind(this);
+    self.bindSocket = (sock, port) => {
+      if (sock === this.iopub) this.iopub.noDrop = true;
+      return bind(sock, port);
+    };
     this.comms = new CommManager({
       publish: (msgType, content, metadata, buffers) => this.publish({ msgType, parent: this.currentParent(), content, metadata, buffers }),
       log,
@@ -72,7 +80,6 @@ export class CommKernelServer extends ZmqServer {
   override async init(): Promise<void> {
     await super.init();
     // No I/O callback runs between the sockets' bind and this line, so no message is sent before the queues are in place.
-    this.iopub.noDrop = true;
     const queued = <S extends FrameSocket>(name: SocketName, socket: S): S => {
       const { socket: stand, queue } = withSendQueue(socket, (line) => this.log(`${name}: ${line}`));
       this.sendQueues.set(name, queue);

@@ -8,7 +8,17 @@
  * them. The queue keeps the messages in order and hands the next one over only when the
  * socket has taken the previous one; nothing is dropped, and nothing throws into the caller
  * (a cell that moves a slider must not lose its output because the socket was busy).
+ *
+ * A publisher set not to drop (iopub) refuses a send with EAGAIN while a front-end's queue is
+ * full; the message is then tried again, waiting a little longer each time (up to
+ * MAX_RETRY_WAIT_MS), until the front-end has read enough. A stall is logged once it lasts
+ * STALL_REPORT_MS.
  */
+
+/** Longest wait between two tries of a message the socket refused with EAGAIN, in milliseconds. */
+export const MAX_RETRY_WAIT_MS = 50;
+/** A message waiting this long (ms) for a front-end to read is reported in the kernel log, once per message. */
+export const STALL_REPORT_MS = 30_000;
 
 /** What the queue needs of a socket: the zeromq package's Writable.send. */
 export interface FrameSocket {
@@ -52,21 +62,44 @@ export class SendQueue {
     try {
       while (this.waiting.length > 0) {
         const { frames, taken } = this.waiting.shift()!;
-        try {
-          // Awaited: the socket accepts the next send only after this one has been queued by ZeroMQ.
-          await this.send(frames);
-          this.sentCount += 1;
-        } catch (e) {
-          // A closed socket or a refused message: report it; the messages after it still go out.
-          this.failedCount += 1;
-          this.log(`a message could not be sent: ${e instanceof Error ? e.message : String(e)}`);
-        }
+        await this.sendOne(frames);
         taken();
       }
     } finally {
       this.pumping = false;
     }
   }
+
+  private async sendOne(frames: Buffer[]): Promise<void> {
+    const started = Date.now();
+    let wait = 1;
+    let reported = false;
+    for (;;) {
+      try {
+        // Awaited: the socket accepts the next send only after this one has been queued by ZeroMQ.
+        await this.send(frames);
+        this.sentCount += 1;
+        return;
+      } catch (e) {
+        if ((e as { code?: unknown }).code !== "EAGAIN") {
+          // A closed socket or a refused message: report it; the messages after it still go out.
+          this.failedCount += 1;
+          this.log(`a message could not be sent: ${e instanceof Error ? e.message : String(e)}`);
+          return;
+        }
+      }
+      if (!reported && Date.now() - started >= STALL_REPORT_MS) {
+        reported = true;
+        this.log(`a front-end has read nothing for ${Math.round((Date.now() - started) / 1000)} s; ${this.waiting.length + 1} messages wait for it`);
+      }
+      await delay(wait);
+      wait = Math.min(2 * wait, MAX_RETRY_WAIT_MS);
+    }
+  }
+}
+
+function delay(ms: number): Promise<void> {
+  return new Promise((resolve) => setTimeout(resolve, ms));
 }
 
 /**

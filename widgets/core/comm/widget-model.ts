@@ -2,7 +2,7 @@
 import { QuietframeError, showValue } from "../../../src/index";
 import { RESERVED_KEYS } from "../state/strict-read";
 import { clip, echoable } from "./bounded-text";
-import { checkBufferPaths, putBuffers, removeBuffers, type BufferPath } from "./buffers";
+import { bytesOf, checkBufferPaths, putBuffers, removeBuffers, type BufferPath } from "./buffers";
 import type { Comm, CommMessage } from "./comm";
 import type { CommManager } from "./comm-manager";
 import { kernelComms } from "./kernel-comms";
@@ -303,14 +303,30 @@ export class WidgetModel {
   }
 }
 
-/** Equality for change detection: same primitive, or same JSON (arrays, plain objects). */
+/**
+ * Equality for change detection: same primitive, same bytes, or the same JSON-like structure
+ * (arrays, plain objects). Binary values are compared byte for byte, never through JSON text
+ * (JSON.stringify writes every byte of a typed array as a key of its own).
+ */
 function sameValue(a: unknown, b: unknown): boolean {
   if (Object.is(a, b)) return true;
   if (typeof a !== "object" || typeof b !== "object" || a === null || b === null) return false;
-  if (ArrayBuffer.isView(a) || ArrayBuffer.isView(b)) return false;
-  try {
-    return JSON.stringify(a) === JSON.stringify(b);
-  } catch {
-    return false;
+  const aBinary = a instanceof ArrayBuffer || ArrayBuffer.isView(a);
+  const bBinary = b instanceof ArrayBuffer || ArrayBuffer.isView(b);
+  if (aBinary || bBinary) return aBinary && bBinary && sameBytes(a as ArrayBuffer | ArrayBufferView, b as ArrayBuffer | ArrayBufferView);
+  if (Array.isArray(a) || Array.isArray(b)) {
+    if (!Array.isArray(a) || !Array.isArray(b) || a.length !== b.length) return false;
+    return a.every((item, i) => sameValue(item, b[i]));
   }
+  const aKeys = Object.keys(a);
+  if (aKeys.length !== Object.keys(b).length) return false;
+  return aKeys.every((k) => Object.prototype.hasOwnProperty.call(b, k) && sameValue((a as Record<string, unknown>)[k], (b as Record<string, unknown>)[k]));
+}
+
+function sameBytes(a: ArrayBuffer | ArrayBufferView, b: ArrayBuffer | ArrayBufferView): boolean {
+  const x = bytesOf(a);
+  const y = bytesOf(b);
+  if (x.byteLength !== y.byteLength) return false;
+  for (let i = 0; i < x.byteLength; i++) if (x[i] !== y[i]) return false;
+  return true;
 }
