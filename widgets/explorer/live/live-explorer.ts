@@ -65,7 +65,7 @@ export class LiveExplorer {
   #revision = 1;
   // Set while the kernel itself writes control values, so its own writes are not taken as input.
   #writing = false;
-  // Targets moved in a front-end whose recomputation is deferred (see #settle).
+  // Targets moved in a front-end whose recomputation is deferred (see settle()).
   #pending: Set<string> | undefined;
   #closedBecause: string | undefined;
 
