@@ -125,6 +125,8 @@ export class CommKernelServer extends ZmqServer {
     } finally {
       this.comms.holdDeferred(false);
       this.servingComms = false;
+      // Normally settled before the last idle; this catches work deferred by that settling itself.
+      this.comms.settle();
     }
   }
 
