@@ -46,6 +46,7 @@ describe("the quietframe kernel against a hostile front-end (jupyter_client)", (
       /FloatSliderModel\.constructor: is a name reserved by JavaScript objects/,
       /comm_open \S+ refused: the id belongs to the open comm of target "jupyter\.widget"/,
       /cut to 120\)/,
+      /t{120}… \(1048584 characters, cut to 120\) \S+ ignored: not a request this kernel serves/,
     ];
     for (const pattern of expected)
       expect(

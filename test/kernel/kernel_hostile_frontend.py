@@ -124,6 +124,9 @@ class KernelHostileTests(unittest.TestCase):
                 msg_id = self.fe.send_nowait("comm_msg", {"comm_id": self.ids["slider"], "data": data}, buffers)
                 error = self.refusal(self.fe.collect(msg_id))
                 self.assertIn(shown, error["message"])
+        # A message type no kernel serves, a megabyte long: busy and idle, nothing else.
+        msgs = self.fe.collect(self.fe.send_nowait("t" * LONG + "_request", {}))
+        self.assertEqual([(m["msg_type"], m["content"]["execution_state"]) for m in msgs], [("status", "busy"), ("status", "idle")])
         # An unknown comm id or target: the comm_close's error text is cut too.
         for msg_type, content in [
             ("comm_msg", {"comm_id": "c" * LONG, "data": {"method": "request_state"}}),

@@ -33,6 +33,9 @@ type ShellSocket = Parameters<ZmqServer["handleShellMessage"]>[0];
 type KernelInfo = ReturnType<JupyterHandlerImpl["handleKernel"]>;
 type SocketName = "iopub" | "shell" | "control" | "stdin" | "hb";
 
+/** The requests tslab's server answers (the rest it would only warn about, echoing the whole type). */
+const TSLAB_REQUESTS = new Set(["kernel_info_request", "execute_request", "is_complete_request", "inspect_request", "complete_request", "shutdown_request"]);
+
 /** tslab's handler, answering kernel_info with our implementation name. */
 export class QuietframeHandler extends JupyterHandlerImpl {
   override handleKernel(): KernelInfo {
@@ -109,6 +112,7 @@ export class CommKernelServer extends ZmqServer {
       if (!this.servingComms) await this.serveCommQueue();
       return;
     }
+    if (!TSLAB_REQUESTS.has(type)) return this.ignoreUnknown(msg.header);
     if (type === "execute_request") this.lastExecute = msg.header;
     return this.requests.run(msg.header, () => super.handleShellMessage(sock, ...frames));
   }
@@ -151,6 +155,13 @@ export class CommKernelServer extends ZmqServer {
       if (this.commQueue.length === 0) this.comms.settle();
       this.publish({ msgType: "status", parent: msg.header, content: { execution_state: "idle" } });
     }
+  }
+
+  /** A request this kernel does not serve: busy and idle as for any request, and a short line in the kernel log. */
+  private ignoreUnknown(header: MessageHeader): void {
+    this.publish({ msgType: "status", parent: header, content: { execution_state: "busy" } });
+    this.log(`${clip(header.msg_type)} ${clip(header.msg_id)} ignored: not a request this kernel serves`);
+    this.publish({ msgType: "status", parent: header, content: { execution_state: "idle" } });
   }
 
   /**
