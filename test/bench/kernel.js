@@ -10,12 +10,10 @@
  * before and after. The kernel spec is installed by our own CLI in a private Jupyter prefix.
  */
 const { execFile, execFileSync } = require("node:child_process");
-const { existsSync, mkdirSync, mkdtempSync, rmSync } = require("node:fs");
-const { tmpdir } = require("node:os");
-const { delimiter, dirname, join } = require("node:path");
+const { join } = require("node:path");
+const { SYSTEM_PYTHON, privateJupyterDirs } = require("./lib/jupyter-dirs");
 const { ROOT } = require("./lib/repo");
 
-const SYSTEM_PYTHON = "/usr/bin/python3";
 const KERNEL = "quietframe-ts";
 const BURST = 5000;
 const SEQUENTIAL = 300;
@@ -23,33 +21,17 @@ const TIMEOUT_MS = 600_000;
 
 /** A private Jupyter prefix with the quietframe kernel installed by `quietframe kernel install --prefix`. */
 function privateKernel() {
-  if (!existsSync(SYSTEM_PYTHON)) throw new Error(`${SYSTEM_PYTHON} is missing (Debian Jupyter packages; scripts/ensure-system-deps.sh installs them)`);
-  const dir = mkdtempSync(join(tmpdir(), "quietframe-bench-kernel-"));
-  const sub = (name) => {
-    const p = join(dir, name);
-    mkdirSync(p, { recursive: true });
-    return p;
-  };
-  const prefix = sub("prefix");
-  const env = {
-    ...process.env,
-    PATH: [dirname(process.execPath), process.env.PATH ?? ""].filter(Boolean).join(delimiter),
-    JUPYTER_PATH: join(prefix, "share", "jupyter"),
-    JUPYTER_CONFIG_DIR: sub("config"),
-    JUPYTER_DATA_DIR: sub("data"),
-    JUPYTER_RUNTIME_DIR: sub("runtime"),
-    IPYTHONDIR: sub("ipython"),
-    PYDEVD_DISABLE_FILE_VALIDATION: "1",
-    NO_COLOR: "1",
-  };
-  delete env.JUPYTER_PREFER_ENV_PATH;
+  const jupyter = privateJupyterDirs("quietframe-bench-kernel-");
   try {
-    execFileSync(process.execPath, [join(ROOT, "dist", "src", "cli", "main.js"), "kernel", "install", "--prefix", prefix, "--python", SYSTEM_PYTHON], { env, stdio: ["ignore", "pipe", "pipe"] });
+    execFileSync(process.execPath, [join(ROOT, "dist", "src", "cli", "main.js"), "kernel", "install", "--prefix", jupyter.prefix, "--python", SYSTEM_PYTHON], {
+      env: jupyter.env,
+      stdio: ["ignore", "pipe", "pipe"],
+    });
   } catch (e) {
-    rmSync(dir, { recursive: true, force: true });
+    jupyter.dispose();
     throw new Error(`quietframe kernel install failed: ${e.stderr?.toString() ?? e.message}`);
   }
-  return { env, dispose: () => rmSync(dir, { recursive: true, force: true }) };
+  return jupyter;
 }
 
 async function runKernelBench(log) {
