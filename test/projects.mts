@@ -21,6 +21,8 @@ export const INTEGRATION_FILES: Readonly<Record<string, string>> = {
   "test/kernel/kernel-conformance.test.ts": "Debian's jupyter_kernel_test against the built kernel",
   "test/kernel/kernel-install.test.ts": "installs the built kernel with Debian's jupyter_client",
   "test/kernel/launch.test.ts": "spawns the built kernel launcher",
+  "test/kernel/kernel-hostile.test.ts": "Debian's jupyter_client as a hostile front-end of the built kernel",
+  "test/kernel/kernel-load.test.ts": "Debian's jupyter_client loading the built kernel (bursts, long loops, kill -9 and restart)",
   "test/kernel/widget-protocol.test.ts": "Debian's jupyter_client as a widget front-end of the built kernel",
   "test/live/notebooks-live.test.ts": "Debian's nbconvert with the quietframe kernel",
   "test/notebooks/notebooks.test.ts": "Debian's nbconvert with the tslab kernel",

@@ -16,46 +16,27 @@
 const { execFile, execFileSync } = require("node:child_process");
 const { existsSync, mkdirSync, mkdtempSync, readFileSync, rmSync, statSync, symlinkSync, writeFileSync } = require("node:fs");
 const { tmpdir } = require("node:os");
-const { delimiter, dirname, join } = require("node:path");
+const { join } = require("node:path");
+const { SYSTEM_PYTHON, privateJupyterDirs } = require("./lib/jupyter-dirs");
 const { ROOT } = require("./lib/repo");
 const { nowMs } = require("./lib/timing");
 
-const SYSTEM_PYTHON = "/usr/bin/python3";
 const KERNEL = "tslab";
 const WIDGET_COUNTS = [0, 1, 2, 10];
 const TIMEOUT_MS = 300_000;
 
 /** A private Jupyter prefix with the repository's tslab registered (the notebook suites do the same). */
 function privateJupyter() {
-  if (!existsSync(SYSTEM_PYTHON)) throw new Error(`${SYSTEM_PYTHON} is missing (Debian Jupyter packages; scripts/ensure-system-deps.sh installs them)`);
   const binary = join(ROOT, "node_modules", ".bin", "tslab");
   if (!existsSync(binary)) throw new Error("node_modules/.bin/tslab is missing: run npm ci");
-  const dir = mkdtempSync(join(tmpdir(), "quietframe-bench-jupyter-"));
-  const sub = (name) => {
-    const p = join(dir, name);
-    mkdirSync(p, { recursive: true });
-    return p;
-  };
-  const prefix = sub("prefix");
-  const env = {
-    ...process.env,
-    PATH: [dirname(process.execPath), process.env.PATH ?? ""].filter(Boolean).join(delimiter),
-    JUPYTER_PATH: join(prefix, "share", "jupyter"),
-    JUPYTER_CONFIG_DIR: sub("config"),
-    JUPYTER_DATA_DIR: sub("data"),
-    JUPYTER_RUNTIME_DIR: sub("runtime"),
-    IPYTHONDIR: sub("ipython"),
-    PYDEVD_DISABLE_FILE_VALIDATION: "1",
-    NO_COLOR: "1",
-  };
-  delete env.JUPYTER_PREFER_ENV_PATH;
+  const jupyter = privateJupyterDirs("quietframe-bench-jupyter-");
   try {
-    execFileSync(binary, ["install", `--python=${SYSTEM_PYTHON}`, `--binary=${binary}`, "--prefix", prefix], { env, stdio: ["ignore", "pipe", "pipe"] });
+    execFileSync(binary, ["install", `--python=${SYSTEM_PYTHON}`, `--binary=${binary}`, "--prefix", jupyter.prefix], { env: jupyter.env, stdio: ["ignore", "pipe", "pipe"] });
   } catch (e) {
-    rmSync(dir, { recursive: true, force: true });
+    jupyter.dispose();
     throw new Error(`tslab install failed: ${e.stderr?.toString() ?? e.message}`);
   }
-  return { dir, env, dispose: () => rmSync(dir, { recursive: true, force: true }) };
+  return jupyter;
 }
 
 function run(command, args, { env, cwd, timeoutMs }) {

@@ -19,7 +19,7 @@ const { join, relative } = require("node:path");
 const { ROOT, dist } = require("./lib/repo");
 const { nowMs } = require("./lib/timing");
 
-const SECTIONS = ["engine", "browser", "notebook", "tolerance", "timedomain", "prepared"];
+const SECTIONS = ["engine", "browser", "notebook", "tolerance", "timedomain", "prepared", "kernel"];
 
 function fmtTime(ms) {
   if (!Number.isFinite(ms)) return String(ms);
@@ -263,6 +263,11 @@ async function main() {
       rows.push(...p.preparedRows(details.prepared));
       if (!details.prepared.mc.identical) failures.push("Monte Carlo on threads and in this thread differ");
       if (!details.prepared.numpy.rows.every((r) => r.checkPassed)) failures.push("NumPy and the engine disagree");
+    },
+    kernel: async () => {
+      const k = require("./kernel");
+      details.kernel = await k.runKernelBench(log);
+      rows.push(...k.kernelRows(details.kernel, { fmtRatio, fmtBytes, fmtTime }));
     },
     timedomain: async () => {
       const t = require("./timedomain");

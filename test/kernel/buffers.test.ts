@@ -66,4 +66,21 @@ describe("checkBufferPaths", () => {
     expect(checkBufferPaths([[]], 1)).toMatch("non-empty list of keys and indices");
     expect(checkBufferPaths([["x", -1]], 1)).toMatch("non-empty list of keys and indices");
   });
+
+  it("refuses paths through __proto__, constructor or prototype, naming the path (the keys the state-file readers refuse)", () => {
+    expect(checkBufferPaths([["x"], ["__proto__", "value"]], 2)).toBe('buffer_paths[1] goes through "__proto__", a name reserved by JavaScript objects; allowed: keys of the model\'s state');
+    expect(checkBufferPaths([["constructor", "prototype", "value"]], 1)).toMatch('buffer_paths[0] goes through "constructor"');
+    expect(checkBufferPaths([["a", "prototype"]], 1)).toMatch('goes through "prototype"');
+  });
+});
+
+describe("putBuffers never writes onto a prototype", () => {
+  it("does not follow inherited keys, and defines the last key on the object itself", () => {
+    const state: Record<string, unknown> = {};
+    expect(() => putBuffers(state, [["__proto__", "value"]], [new Uint8Array(1)])).toThrow("does not lead into the state");
+    expect(() => putBuffers(state, [["constructor", "prototype", "value"]], [new Uint8Array(1)])).toThrow("does not lead into the state");
+    expect(() => putBuffers(state, [["__proto__"]], [new Uint8Array(1)])).toThrow("reserved");
+    expect(({} as Record<string, unknown>).value).toBeUndefined();
+    expect(Object.getPrototypeOf(state)).toBe(Object.prototype);
+  });
 });

@@ -128,4 +128,64 @@ describe("kernelComms", () => {
       installKernelComms(undefined);
     }
   });
+
+  it("refuses a front-end comm_open reusing the id of an open comm, without closing that comm", async () => {
+    const { comms, sent, log } = recordingComms();
+    comms.registerTarget("t", () => undefined);
+    const kernels = comms.open("jupyter.widget");
+    for (const target of ["no.such.target", "t"]) {
+      await comms.handle("comm_open", { comm_id: kernels.id, target_name: target, data: {} }, {}, [], `m-${target}`);
+    }
+    // The only message is the kernel's own comm_open: no comm_close went out for its id.
+    expect(sent.map((m) => m.msgType)).toEqual(["comm_open"]);
+    expect(kernels.isClosed).toBe(false);
+    expect(comms.get(kernels.id)).toBe(kernels);
+    expect(log).toEqual([
+      `comm_open ${kernels.id} refused: the id belongs to the open comm of target "jupyter.widget"; a front-end cannot replace it`,
+      `comm_open ${kernels.id} refused: the id belongs to the open comm of target "jupyter.widget"; a front-end cannot replace it`,
+    ]);
+  });
+
+  it("cuts long comm ids and target names in its log lines and errors", async () => {
+    const { comms, sent, log } = recordingComms();
+    await comms.handle("comm_open", { comm_id: "c".repeat(100_000), target_name: "t".repeat(100_000), data: {} }, {}, [], "m1");
+    await comms.handle("comm_msg", { comm_id: "d".repeat(100_000), data: {} }, {}, [], "m2");
+    expect(log).toHaveLength(2);
+    for (const line of log) expect(line.length).toBeLessThan(500);
+    expect(log[0]).toContain("(100000 characters, cut to 120)");
+    for (const m of sent) expect(((m.content.data as { error: string }).error ?? "").length).toBeLessThan(500);
+  });
+
+  it("defers work by key while the server holds it, keeps only the newest task per key, and runs it on settle", () => {
+    const { comms } = recordingComms();
+    const ran: string[] = [];
+    const a = {};
+    const b = {};
+    comms.defer(a, () => ran.push("now"));
+    expect(ran).toEqual(["now"]);
+    comms.holdDeferred(true);
+    comms.defer(a, () => ran.push("a1"));
+    comms.defer(b, () => ran.push("b1"));
+    comms.defer(a, () => ran.push("a2"));
+    expect(ran).toEqual(["now"]);
+    comms.settle();
+    expect(ran).toEqual(["now", "b1", "a2"]);
+    comms.settle();
+    expect(ran).toEqual(["now", "b1", "a2"]);
+    comms.holdDeferred(false);
+  });
+
+  it("logs a deferred task that throws and runs the others", () => {
+    const { comms, log } = recordingComms();
+    const ran: string[] = [];
+    comms.holdDeferred(true);
+    comms.defer({}, () => {
+      throw new Error("boom");
+    });
+    comms.defer({}, () => ran.push("second"));
+    comms.settle();
+    comms.holdDeferred(false);
+    expect(ran).toEqual(["second"]);
+    expect(log[0]).toMatch(/^deferred work failed: Error: boom/);
+  });
 });

@@ -143,6 +143,47 @@ describe("WidgetModel", () => {
   });
 });
 
+describe("WidgetModel against a hostile front-end", () => {
+  it("refuses state keys named __proto__, constructor or prototype, naming the key, and changes nothing", async () => {
+    const { m, sent, comms } = model();
+    for (const key of ["__proto__", "constructor", "prototype"]) {
+      const before = sent.length;
+      // As JSON.parse builds it: an own key, not the prototype setter.
+      const state = JSON.parse(`{"${key}": {"n": 5}}`) as Record<string, unknown>;
+      await frontEnd(comms, m.id, { method: "update", state, buffer_paths: [] });
+      const error = (sent[before].content.data as { content: { error: { message: string } } }).content.error;
+      expect(error.message).toBe(`TestModel.${key}: is a name reserved by JavaScript objects, never a key of a widget model; allowed: keys of this model's state`);
+    }
+    expect(m.get("n")).toBe(1);
+    expect(({} as Record<string, unknown>).n).toBeUndefined();
+  });
+
+  it("echoes a long method name or key cut to 120 characters, and binary data by its size", async () => {
+    const { m, sent, log, comms } = model();
+    await frontEnd(comms, m.id, { method: "x".repeat(1_000_000) });
+    await frontEnd(comms, m.id, { method: "update", state: { ["k".repeat(1_000_000)]: 1 }, buffer_paths: [] });
+    await frontEnd(comms, m.id, { method: "update", state: {}, buffer_paths: [["nosuchkey"]] }, [new Uint8Array(1_000_000)]);
+    const errors = sent.slice(1).map((s) => (s.content.data as { content: { error: { method: string; message: string } } }).content.error);
+    expect(errors).toHaveLength(3);
+    expect(errors[0].method).toBe(`${"x".repeat(120)}… (1000000 characters, cut to 120)`);
+    expect(errors[1].message).toContain(`TestModel.${"k".repeat(120)}… (1000000 characters, cut to 120)`);
+    expect(errors[2].message).toContain('TestModel.nosuchkey = "1000000 bytes of binary data": is not a key of this model');
+    for (const e of errors) expect(JSON.stringify(e).length).toBeLessThan(1000);
+    for (const line of log) expect(line.length).toBeLessThan(1000);
+  });
+
+  it("takes binary data with the same bytes as no change, and other bytes as one", () => {
+    const { m } = model({ data: new Float64Array([1, 2]) });
+    const changes: unknown[] = [];
+    m.on("change:data", (v) => changes.push(v));
+    m.set({ data: new Float64Array([1, 2]) });
+    expect(changes).toHaveLength(0);
+    m.set({ data: new Float64Array([1, 3]) });
+    m.set({ data: { nested: [new Uint8Array([1])] } });
+    expect(changes).toHaveLength(2);
+  });
+});
+
 describe("widgetViewBundle", () => {
   it("holds the widget-view mime type with model_id and protocol 2.1, text/plain, and the fallback (messages.md, 'Displaying widgets')", () => {
     const { m } = model();

@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { decodeMessage, DELIMITER, encodeMessage, sign } from "../../widgets/kernel/wire";
+import { decodeHeaderOnly, decodeMessage, DELIMITER, encodeMessage, MAX_MESSAGE_BYTES, messageBytes, sign } from "../../widgets/kernel/wire";
 
 describe("sign", () => {
   it("computes HMAC-SHA256 over the frames in order (RFC 4231, test case 2)", () => {
@@ -66,5 +66,31 @@ describe("encodeMessage and decodeMessage", () => {
     };
     expect(() => decodeMessage(mk({ msg_id: "x" }, {}), signing)).toThrow("header without msg_type");
     expect(() => decodeMessage(mk({ msg_id: "x", msg_type: "comm_msg" }, [1]), signing)).toThrow("content frame is not a JSON object");
+  });
+});
+
+describe("a message over the size limit", () => {
+  const signing = { key: "secret", scheme: "hmac-sha256" };
+  const big = (bytes: number) =>
+    encodeMessage({ identities: [Buffer.from("id")], msgType: "comm_msg", parent: undefined, content: { data: "x".repeat(bytes) }, buffers: [new Uint8Array(bytes)] }, signing, "s");
+
+  it("is measured over every frame after the delimiter, buffers included", () => {
+    const frames = big(1000);
+    const at = frames.findIndex((f) => f.equals(DELIMITER));
+    expect(messageBytes(frames)).toBe(frames.slice(at + 1).reduce((n, f) => n + f.byteLength, 0));
+    expect(messageBytes(frames)).toBeGreaterThan(2000);
+    expect(messageBytes([Buffer.from("no delimiter")])).toBeUndefined();
+    expect(MAX_MESSAGE_BYTES).toBe(8 * 1024 * 1024);
+  });
+
+  it("gives its header and identities without parsing the rest, once the signature is checked", () => {
+    const frames = big(MAX_MESSAGE_BYTES);
+    const at = frames.findIndex((f) => f.equals(DELIMITER));
+    const { identities, header } = decodeHeaderOnly(frames, signing);
+    expect(header.msg_type).toBe("comm_msg");
+    expect(identities.map(String)).toEqual(["id"]);
+    const forged = [...frames];
+    forged[at + 5] = Buffer.from("{}");
+    expect(() => decodeHeaderOnly(forged, signing)).toThrow("invalid message signature");
   });
 });

@@ -33,8 +33,11 @@ export class FakeModel implements LiveModel {
     this.listeners.set(event, [...(this.listeners.get(event) ?? []), callback]);
   }
 
+  /** Closes it, from either side, telling "close" listeners once (as a comm does). */
   close(): void {
+    if (this.closed) return;
     this.closed = true;
+    for (const cb of this.listeners.get("close") ?? []) cb();
   }
 
   /** An update as a front-end sends it when the user moves the control. */
@@ -78,5 +81,21 @@ export class FakeHost implements WidgetHost {
     const model = new FakeModel(`m${this.models.length + 1}`, kind, state);
     this.models.push(model);
     return model;
+  }
+}
+
+/** A host that defers like the kernel during a burst: tasks wait, newest per key, until `settleAll`. */
+export class DeferringHost extends FakeHost {
+  readonly waiting = new Map<object, () => void>();
+
+  defer(key: object, task: () => void): void {
+    this.waiting.delete(key);
+    this.waiting.set(key, task);
+  }
+
+  settleAll(): void {
+    const tasks = [...this.waiting.values()];
+    this.waiting.clear();
+    for (const task of tasks) task();
   }
 }

@@ -11,7 +11,7 @@ import { CHART_MODEL_NAME, CHART_VIEW_NAME, LIVE_MODULE } from "../../widgets/ex
 import type { ControlSpec } from "../../widgets/core/controls/control-spec";
 import { QUIETFRAME_VERSION } from "../../src/version";
 import { pow } from "../../src/numeric/portable-math";
-import { FakeHost, type FakeModel } from "./fake-host";
+import { DeferringHost, FakeHost, type FakeModel } from "./fake-host";
 
 const ROOT = join(__dirname, "..", "..");
 const membrane = (): SetupDescription => JSON.parse(readFileSync(join(ROOT, "examples", "cryogenic-membrane.json"), "utf8"));
@@ -238,5 +238,84 @@ describe("LiveExplorer: a cell reads and moves the controls", () => {
     const { host, w } = live();
     w.close();
     expect(host.models.every((m) => m.closed)).toBe(true);
+  });
+});
+
+describe("LiveExplorer: values the kernel snaps go back to the front-end", () => {
+  test("a slider value between positions is computed at the nearest position, and the slider is moved there", () => {
+    const { w, control } = live();
+    const slider = control("detector.efficiency");
+    // The FloatSlider's own min and step (from memory: @jupyter-widgets/controls' step attribute) give its positions.
+    const min = slider.get("min") as number;
+    const step = slider.get("step") as number;
+    const nearest = min + Math.round((72.3 - min) / step) * step;
+    expect(nearest).toBeCloseTo(72.25, 12);
+    slider.frontEndUpdate({ value: 72.3 });
+    expect(slider.sent).toHaveLength(1);
+    expect(slider.sent[0].value as number).toBeCloseTo(nearest, 12);
+    expect(w.values["detector.efficiency"]).toBe("72.25 %");
+    expect(w.state.values["detector.efficiency"]).toBe("72.25 %");
+    // A value on a position needs no correction.
+    slider.frontEndUpdate({ value: slider.get("value") });
+    expect(slider.sent).toHaveLength(1);
+  });
+});
+
+describe("LiveExplorer: a burst of front-end moves", () => {
+  function deferring() {
+    const state = createExplorerState(membrane(), { controls: CONTROLS, settings: { grid: { from: "1.1 MHz", to: "1.3 MHz", points: 60 } } });
+    const host = new DeferringHost();
+    const w = new LiveExplorer(host, state, computeExplorer(state));
+    return { state, host, w, chart: host.byKind(CHART_MODEL_NAME)[0], slider: w.control("detector.efficiency") as FakeModel };
+  }
+
+  test("is computed once, for the newest values, when the waiting messages are handled", () => {
+    const { host, w, chart, slider } = deferring();
+    for (const v of [60, 70, 80]) slider.frontEndUpdate({ value: v });
+    expect(chart.get("revision")).toBe(1);
+    expect(w.values["detector.efficiency"]).toBe("80 %");
+    host.settleAll();
+    expect(chart.get("revision")).toBe(2);
+    expect((chart.get("explorer_state") as { values: Record<string, unknown> }).values["detector.efficiency"]).toBe("80 %");
+    expect(w.state.fingerprint).toBe(computeExplorer({ ...w.state }).fingerprint);
+  });
+
+  test("reading state computes at once, so a cell never sees values and state apart", () => {
+    const { host, w, chart, slider } = deferring();
+    slider.frontEndUpdate({ value: 65 });
+    expect(w.state.values["detector.efficiency"]).toBe("65 %");
+    expect(chart.get("revision")).toBe(2);
+    host.settleAll();
+    expect(chart.get("revision")).toBe(2);
+  });
+
+  test("a cell's set() computes the waiting moves together with its own values", () => {
+    const { host, w, chart, slider } = deferring();
+    slider.frontEndUpdate({ value: 65 });
+    const changes: LiveChange[] = [];
+    w.onChange((c) => changes.push(c));
+    w.setValues({ "cavity.photons": 2e6 });
+    expect(changes.map((c) => [...c.changed].sort())).toEqual([["cavity.photons", "detector.efficiency"]]);
+    expect(w.state.values).toMatchObject({ "detector.efficiency": "65 %", "cavity.photons": 2e6 });
+    host.settleAll();
+    expect(chart.get("revision")).toBe(2);
+  });
+});
+
+describe("LiveExplorer: a part closed by a front-end", () => {
+  test("closes the others, and set() then refuses with a QuietframeError; values stay those of the last chart", () => {
+    const { host, w, chart, control } = live();
+    control("detector.efficiency").frontEndUpdate({ value: 70 });
+    chart.close();
+    expect(host.models.every((m) => m.closed)).toBe(true);
+    expect(w.isClosed).toBe(true);
+    expect(() => w.setValues({ "detector.efficiency": "60 %" })).toThrow(/^explorer: is closed \(its chart was closed by a front-end\)/);
+    expect(() => w.setValues({ "detector.efficiency": "60 %" })).toThrow(QuietframeError);
+    expect(w.values).toEqual(w.state.values);
+    expect(w.values["detector.efficiency"]).toBe("70 %");
+    // A late move of a closed control changes nothing.
+    control("detector.efficiency").frontEndUpdate({ value: 55 });
+    expect(w.values["detector.efficiency"]).toBe("70 %");
+    expect(chart.get("revision")).toBe(2);
   });
 });

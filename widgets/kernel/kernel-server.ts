@@ -1,10 +1,13 @@
 /** The quietframe kernel's server: tslab's, with comms served here. */
 import { AsyncLocalStorage } from "node:async_hooks";
 import { randomUUID } from "node:crypto";
+import { setImmediate as nextTurn } from "node:timers/promises";
 import { JupyterHandlerImpl, ZmqServer } from "tslab/dist/jupyter";
 import { QUIETFRAME_VERSION } from "../../src/index";
+import { clip } from "../core/comm/bounded-text";
 import { CommManager, isFrontEndCommType } from "../core/comm/comm-manager";
-import { decodeMessage, encodeMessage, type MessageHeader, type OutgoingMessage, type SigningKey, type WireMessage } from "./wire";
+import { withSendQueue, type FrameSocket, type SendQueue } from "./send-queue";
+import { decodeHeaderOnly, decodeMessage, encodeMessage, MAX_MESSAGE_BYTES, messageBytes, type MessageHeader, type OutgoingMessage, type SigningKey, type WireMessage } from "./wire";
 
 /**
  * tslab's ZMQ server with the comm messages of the Jupyter messaging protocol. Every
@@ -16,10 +19,22 @@ import { decodeMessage, encodeMessage, type MessageHeader, type OutgoingMessage,
  * need the parent header of the request being served, so that front-ends route them (the
  * widget protocol's echo_update is matched by it). Each request is served inside an
  * AsyncLocalStorage context holding its header; cell code, its promises and timers inherit it.
+ *
+ * Under load:
+ * - Every socket sends through one ordered queue (send-queue.ts), tslab's sends included, and
+ *   the iopub publisher waits at its high-water mark instead of dropping: no message is lost.
+ * - Comm messages and comm_info requests are served one after another in arrival order, each
+ *   with busy, its replies, idle. Work deferred by the comms (a chart recomputation) runs when
+ *   no comm message is waiting, inside the context of the last one served, before its idle.
+ * - A message over MAX_MESSAGE_BYTES is refused before its JSON is parsed.
  */
 
 type ShellSocket = Parameters<ZmqServer["handleShellMessage"]>[0];
 type KernelInfo = ReturnType<JupyterHandlerImpl["handleKernel"]>;
+type SocketName = "iopub" | "shell" | "control" | "stdin" | "hb";
+
+/** The requests tslab's server answers (the rest it would only warn about, echoing the whole type). */
+const TSLAB_REQUESTS = new Set(["kernel_info_request", "execute_request", "is_complete_request", "inspect_request", "complete_request", "shutdown_request"]);
 
 /** tslab's handler, answering kernel_info with our implementation name. */
 export class QuietframeHandler extends JupyterHandlerImpl {
@@ -43,31 +58,80 @@ export class CommKernelServer extends ZmqServer {
   private lastExecute: MessageHeader | undefined;
   private readonly session = randomUUID();
   private readonly log: (line: string) => void;
+  private readonly commQueue: { sock: ShellSocket; msg: WireMessage }[] = [];
+  private servingComms = false;
+  /** The send queue of each socket, once init() has opened them. */
+  readonly sendQueues = new Map<SocketName, SendQueue>();
 
   constructor(handler: JupyterHandlerImpl, configPath: string, log: (line: string) => void) {
     super(handler, configPath);
     this.log = log;
+    // iopub waits at a front-end's high-water mark instead of dropping (ZMQ_XPUB_NODROP, which
+    // applies to PUB sockets too); set before tslab binds it, as socket options take effect on bind.
+    const self = this as unknown as { bindSocket(sock: unknown, port: number): Promise<void> };
+    const bind = self.bindSocket.bind(this);
+    self.bindSocket = (sock, port) => {
+      if (sock === this.iopub) this.iopub.noDrop = true;
+      return bind(sock, port);
+    };
     this.comms = new CommManager({
       publish: (msgType, content, metadata, buffers) => this.publish({ msgType, parent: this.currentParent(), content, metadata, buffers }),
       log,
     });
   }
 
+  override async init(): Promise<void> {
+    await super.init();
+    // No I/O callback runs between the sockets' bind and this line, so no message is sent before the queues are in place.
+    const queued = <S extends FrameSocket>(name: SocketName, socket: S): S => {
+      const { socket: stand, queue } = withSendQueue(socket, (line) => this.log(`${name}: ${line}`));
+      this.sendQueues.set(name, queue);
+      return stand;
+    };
+    this.iopub = queued("iopub", this.iopub);
+    this.shell = queued("shell", this.shell);
+    this.control = queued("control", this.control);
+    this.stdin = queued("stdin", this.stdin);
+    this.hb = queued("hb", this.hb);
+  }
+
   override async handleShellMessage(sock: ShellSocket, ...frames: Buffer[]): Promise<void> {
+    const size = messageBytes(frames);
+    if (size !== undefined && size > MAX_MESSAGE_BYTES) return this.refuseOversized(sock, frames, size);
     let msg: WireMessage;
     try {
       msg = decodeMessage(frames, this.signing());
     } catch (e) {
       // Unsigned or garbled: the spec says to ignore it; the log says why.
-      this.log(`shell message dropped: ${e instanceof Error ? e.message : String(e)}`);
+      this.log(`shell message dropped: ${clip(e instanceof Error ? e.message : String(e))}`);
       return;
     }
     const type = msg.header.msg_type;
     if (isFrontEndCommType(type) || type === "comm_info_request") {
-      return this.requests.run(msg.header, () => this.serveComm(sock, msg));
+      this.commQueue.push({ sock, msg });
+      if (!this.servingComms) await this.serveCommQueue();
+      return;
     }
+    if (!TSLAB_REQUESTS.has(type)) return this.ignoreUnknown(msg.header);
     if (type === "execute_request") this.lastExecute = msg.header;
     return this.requests.run(msg.header, () => super.handleShellMessage(sock, ...frames));
+  }
+
+  /** Serves queued comm messages in order until none is waiting; deferred comm work runs at the end. */
+  private async serveCommQueue(): Promise<void> {
+    this.servingComms = true;
+    this.comms.holdDeferred(true);
+    try {
+      while (this.commQueue.length > 0) {
+        const { sock, msg } = this.commQueue.shift()!;
+        await this.requests.run(msg.header, () => this.serveComm(sock, msg));
+      }
+    } finally {
+      this.comms.holdDeferred(false);
+      this.servingComms = false;
+      // Normally settled before the last idle; this catches work deferred by that settling itself.
+      this.comms.settle();
+    }
   }
 
   /** Served in handleShellMessage; overridden too, so tslab's reply (msg_type "complete_reply", no comms) can never go out. */
@@ -86,8 +150,48 @@ export class CommKernelServer extends ZmqServer {
         await this.comms.handle(type, msg.content, msg.metadata, msg.buffers, msg.header.msg_id);
       }
     } finally {
+      // Messages that already arrived join the queue during this turn; deferred work waits for the last of them.
+      if (this.commQueue.length === 0) await nextTurn();
+      if (this.commQueue.length === 0) this.comms.settle();
       this.publish({ msgType: "status", parent: msg.header, content: { execution_state: "idle" } });
     }
+  }
+
+  /** A request this kernel does not serve: busy and idle as for any request, and a short line in the kernel log. */
+  private ignoreUnknown(header: MessageHeader): void {
+    this.publish({ msgType: "status", parent: header, content: { execution_state: "busy" } });
+    this.log(`${clip(header.msg_type)} ${clip(header.msg_id)} ignored: not a request this kernel serves`);
+    this.publish({ msgType: "status", parent: header, content: { execution_state: "idle" } });
+  }
+
+  /**
+   * A message over MAX_MESSAGE_BYTES: its signature is checked and its header read, nothing
+   * else. It gets busy and idle like any request, a reply with the error when it is a request
+   * that has one, and a line in the kernel log.
+   */
+  private refuseOversized(sock: ShellSocket, frames: Buffer[], size: number): void {
+    const why = `${size} bytes, more than the kernel's limit of ${MAX_MESSAGE_BYTES} bytes (8 MiB) per message`;
+    let identities: Buffer[];
+    let header: MessageHeader;
+    try {
+      ({ identities, header } = decodeHeaderOnly(frames, this.signing()));
+    } catch (e) {
+      this.log(`shell message of ${why} dropped: ${clip(e instanceof Error ? e.message : String(e))}`);
+      return;
+    }
+    const type = clip(header.msg_type);
+    this.log(`${type} ${clip(header.msg_id)} refused: ${why}`);
+    this.publish({ msgType: "status", parent: header, content: { execution_state: "busy" } });
+    if (header.msg_type.endsWith("_request")) {
+      const evalue = `${type}: the message is ${why}; allowed: messages of at most ${MAX_MESSAGE_BYTES} bytes`;
+      this.reply(sock, {
+        identities,
+        msgType: header.msg_type.replace(/_request$/, "_reply"),
+        parent: header,
+        content: { status: "error", ename: "QuietframeError", evalue, traceback: [evalue] },
+      });
+    }
+    this.publish({ msgType: "status", parent: header, content: { execution_state: "idle" } });
   }
 
   private commInfoContent(targetName: unknown): Record<string, unknown> {
@@ -113,7 +217,7 @@ export class CommKernelServer extends ZmqServer {
   }
 
   private sendOn(sock: { send(frames: Buffer[]): Promise<void> }, msg: OutgoingMessage): void {
-    const frames = encodeMessage(msg, this.signing(), this.session);
-    sock.send(frames).catch((e: unknown) => this.log(`sending ${msg.msgType} failed: ${e instanceof Error ? e.message : String(e)}`));
+    // The socket's send is its ordered queue (init), which never rejects and logs what the socket refused.
+    void sock.send(encodeMessage(msg, this.signing(), this.session));
   }
 }

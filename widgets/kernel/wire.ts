@@ -58,6 +58,43 @@ export function sign(frames: readonly (string | Buffer)[], signing: SigningKey):
   return mac.digest("hex");
 }
 
+/**
+ * Largest message the kernel reads: every frame after the delimiter (signature, the four JSON
+ * frames and the binary buffers), in bytes. A larger one is refused before its JSON is parsed.
+ * 8 MiB is far above any widget update or notebook cell and below what a front-end server
+ * usually lets through a websocket.
+ */
+export const MAX_MESSAGE_BYTES = 8 * 1024 * 1024;
+
+/** Largest header frame read from a message refused for its size (a real header is a few hundred bytes). */
+const MAX_HEADER_BYTES = 64 * 1024;
+
+/** Bytes of every frame after the delimiter (undefined when there is no delimiter). */
+export function messageBytes(frames: readonly Buffer[]): number | undefined {
+  const at = frames.findIndex((f) => f.equals(DELIMITER));
+  if (at < 0) return undefined;
+  let n = 0;
+  for (let i = at + 1; i < frames.length; i++) n += frames[i].byteLength;
+  return n;
+}
+
+/**
+ * Of a message refused for its size: the signature checked and the header alone parsed (the
+ * other frames stay unread), so the refusal can go back to the request. Throws with a short
+ * reason when even that is not possible.
+ */
+export function decodeHeaderOnly(frames: readonly Buffer[], signing: SigningKey): { identities: Buffer[]; header: MessageHeader } {
+  const at = frames.findIndex((f) => f.equals(DELIMITER));
+  if (at < 0 || frames.length < at + 6) throw new Error("not a complete message");
+  if (signing.key !== "" && !sameText(frames[at + 1].toString("ascii"), sign(frames.slice(at + 2, at + 6), signing))) throw new Error("invalid message signature");
+  if (frames[at + 2].byteLength > MAX_HEADER_BYTES) throw new Error(`header frame of ${frames[at + 2].byteLength} bytes, more than ${MAX_HEADER_BYTES}`);
+  const header: unknown = JSON.parse(frames[at + 2].toString("utf8"));
+  if (typeof header !== "object" || header === null || typeof (header as MessageHeader).msg_type !== "string" || typeof (header as MessageHeader).msg_id !== "string") {
+    throw new Error("header without msg_type or msg_id");
+  }
+  return { identities: frames.slice(0, at), header: header as MessageHeader };
+}
+
 /** Decodes and verifies raw frames; throws with a short reason when they are not a valid message. */
 export function decodeMessage(frames: readonly Buffer[], signing: SigningKey): WireMessage {
   const at = frames.findIndex((f) => f.equals(DELIMITER));

@@ -4,6 +4,8 @@
  * path in `buffer_paths`; in the JSON a value in a list becomes null and a value under a
  * key is left out. putBuffers puts them back on the receiving side.
  */
+import { RESERVED_KEYS } from "../state/strict-read";
+import { clip } from "./bounded-text";
 
 export type BufferPath = (string | number)[];
 
@@ -52,15 +54,21 @@ export function removeBuffers(state: Record<string, unknown>): SplitState {
   return { state: walk(state, []) as Record<string, unknown>, buffer_paths, buffers };
 }
 
-/** Checks `buffer_paths` as a front-end sent it; returns a reason when it is unusable. */
+/**
+ * Checks `buffer_paths` as a front-end sent it; returns a reason when it is unusable. A path
+ * through `__proto__`, `constructor` or `prototype` is refused (the state-file readers refuse
+ * the same keys): putting a buffer there would write onto a prototype shared by every object.
+ */
 export function checkBufferPaths(paths: unknown, count: number): string | undefined {
   if (paths === undefined) return count === 0 ? undefined : `${count} buffers came without buffer_paths`;
   if (!Array.isArray(paths)) return "buffer_paths must be a list of paths";
   if (paths.length !== count) return `buffer_paths names ${paths.length} buffers but ${count} arrived`;
-  for (const p of paths) {
+  for (const [i, p] of paths.entries()) {
     if (!Array.isArray(p) || p.length === 0 || !p.every((s) => typeof s === "string" || (Number.isInteger(s) && s >= 0))) {
-      return `each buffer path must be a non-empty list of keys and indices, got ${JSON.stringify(p)}`;
+      return `each buffer path must be a non-empty list of keys and indices; buffer_paths[${i}] is not`;
     }
+    const reserved = p.find((step) => typeof step === "string" && RESERVED_KEYS.has(step));
+    if (reserved !== undefined) return `buffer_paths[${i}] goes through "${reserved}", a name reserved by JavaScript objects; allowed: keys of the model's state`;
   }
   return undefined;
 }
@@ -70,10 +78,13 @@ export function putBuffers(state: Record<string, unknown>, paths: BufferPath[], 
   paths.forEach((path, i) => {
     let node: Record<string | number, unknown> = state as Record<string | number, unknown>;
     for (const step of path.slice(0, -1)) {
-      const next = node[step];
-      if (typeof next !== "object" || next === null) throw new Error(`buffer path ${JSON.stringify(path)} does not lead into the state`);
+      // Own keys only: a step must never lead onto a prototype.
+      const next = Object.prototype.hasOwnProperty.call(node, step) ? node[step] : undefined;
+      if (typeof next !== "object" || next === null) throw new Error(`buffer path ${clip(JSON.stringify(path))} does not lead into the state`);
       node = next as Record<string | number, unknown>;
     }
-    node[path[path.length - 1]] = buffers[i];
+    const last = path[path.length - 1];
+    if (typeof last === "string" && RESERVED_KEYS.has(last)) throw new Error(`buffer path ends in "${last}", a name reserved by JavaScript objects`);
+    Object.defineProperty(node, last, { value: buffers[i], enumerable: true, writable: true, configurable: true });
   });
 }

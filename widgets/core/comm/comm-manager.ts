@@ -2,6 +2,7 @@
  * The kernel's comms by id and the targets that open them (Jupyter messaging, "Custom Messages").
  */
 import { randomUUID } from "node:crypto";
+import { clip, describeSent } from "./bounded-text";
 import { Comm, type CommMessage, type CommSender } from "./comm";
 
 /**
@@ -9,6 +10,14 @@ import { Comm, type CommMessage, type CommSender } from "./comm";
  * the three comm messages from the front-ends. Nothing a front-end sends can stop the
  * kernel: each problem becomes a line in the kernel log and, where a comm is known, a
  * report on that comm; a target's or callback's exception is caught the same way.
+ *
+ * Comm ids are the kernel's: a front-end comm_open that reuses the id of an open comm is
+ * refused without touching that comm (answering it with comm_close would close the open
+ * comm for every front-end).
+ *
+ * Work that only the newest of several queued front-end messages needs (recomputing a chart
+ * while a burst of slider moves is still arriving) is deferred by key with `defer` and run
+ * once by `settle`, which the kernel server calls when no comm message is waiting.
  */
 
 /** Called when a front-end opens a comm to a registered target. */
@@ -32,6 +41,8 @@ export class CommManager {
   private readonly targets = new Map<string, TargetHandler>();
   private readonly comms = new Map<string, Comm>();
   private readonly sender: CommSender;
+  private readonly deferred = new Map<object, () => void>();
+  private inBurst = false;
 
   constructor(private readonly transport: CommTransport) {
     this.sender = { send: (type, content, metadata, buffers) => transport.publish(type, content, metadata, buffers) };
@@ -71,11 +82,44 @@ export class CommManager {
     this.transport.log(line);
   }
 
+  /**
+   * Runs `task` now, or, while the kernel server works through queued front-end messages,
+   * once they are all handled (`settle`). A later task with the same key replaces an earlier
+   * one that has not run yet.
+   */
+  defer(key: object, task: () => void): void {
+    if (!this.inBurst) return this.runGuarded(task);
+    this.deferred.delete(key);
+    this.deferred.set(key, task);
+  }
+
+  /** Whether `defer` keeps tasks for `settle` (true) or runs them now (false); the kernel server sets it. */
+  holdDeferred(on: boolean): void {
+    this.inBurst = on;
+  }
+
+  /** Runs the deferred tasks, oldest key first. */
+  settle(): void {
+    while (this.deferred.size > 0) {
+      const [key, task] = this.deferred.entries().next().value as [object, () => void];
+      this.deferred.delete(key);
+      this.runGuarded(task);
+    }
+  }
+
+  private runGuarded(task: () => void): void {
+    try {
+      task();
+    } catch (e) {
+      this.transport.log(`deferred work failed: ${e instanceof Error ? (e.stack ?? e.message) : String(e)}`);
+    }
+  }
+
   /** Handles comm_open / comm_msg / comm_close from a front-end. Never throws. */
   async handle(msgType: FrontEndCommType, content: Record<string, unknown>, metadata: Record<string, unknown>, buffers: readonly Uint8Array[], msgId: string): Promise<void> {
     const commId = content.comm_id;
     if (typeof commId !== "string" || commId === "") {
-      this.transport.log(`${msgType} ${msgId} ignored: content.comm_id must be a non-empty string, got ${describe(commId)}`);
+      this.transport.log(`${msgType} ${clip(msgId)} ignored: content.comm_id must be a non-empty string, got ${describeSent(commId)}`);
       return;
     }
     const rawData = content.data ?? {};
@@ -93,22 +137,24 @@ export class CommManager {
       else if (msgType === "comm_msg") await this.handleMsg(msg, dataOk, rawData);
       else this.handleClose(msg);
     } catch (e) {
-      this.transport.log(`${msgType} on comm ${commId}: handler failed: ${e instanceof Error ? (e.stack ?? e.message) : String(e)}`);
+      this.transport.log(`${msgType} on comm ${clip(commId)}: handler failed: ${clip(e instanceof Error ? (e.stack ?? e.message) : String(e))}`);
     }
   }
 
   private async handleOpen(msg: CommMessage, content: Record<string, unknown>, dataOk: boolean): Promise<void> {
     const target = content.target_name;
-    const handler = typeof target === "string" ? this.targets.get(target) : undefined;
-    if (typeof target !== "string" || !handler || !dataOk) {
-      const why = typeof target !== "string" ? "comm_open without target_name" : !handler ? `no comm target "${target}" in this kernel` : "comm_open data must be a JSON object";
-      this.transport.log(`comm_open ${msg.commId} refused: ${why}`);
-      // Tell the front-end its comm is dead (as kernels do for unknown targets).
-      this.transport.publish("comm_close", { comm_id: msg.commId, data: { error: why } }, {}, []);
+    const open = this.comms.get(msg.commId);
+    if (open) {
+      // Checked first: a comm_close for this id (the answer to a refused comm_open) would close the open comm.
+      this.transport.log(`comm_open ${clip(msg.commId)} refused: the id belongs to the open comm of target "${clip(open.targetName)}"; a front-end cannot replace it`);
       return;
     }
-    if (this.comms.has(msg.commId)) {
-      this.transport.log(`comm_open ${msg.commId} ignored: a comm with this id is already open`);
+    const handler = typeof target === "string" ? this.targets.get(target) : undefined;
+    if (typeof target !== "string" || !handler || !dataOk) {
+      const why = typeof target !== "string" ? "comm_open without target_name" : !handler ? `no comm target "${clip(target)}" in this kernel` : "comm_open data must be a JSON object";
+      this.transport.log(`comm_open ${clip(msg.commId)} refused: ${why}`);
+      // Tell the front-end its comm is dead (as kernels do for unknown targets).
+      this.transport.publish("comm_close", { comm_id: msg.commId, data: { error: why } }, {}, []);
       return;
     }
     const comm = this.track(msg.commId, target);
@@ -118,13 +164,13 @@ export class CommManager {
   private async handleMsg(msg: CommMessage, dataOk: boolean, rawData: unknown): Promise<void> {
     const comm = this.comms.get(msg.commId);
     if (!comm) {
-      const why = `no open comm "${msg.commId}" in this kernel`;
-      this.transport.log(`comm_msg ${msg.msgId} ignored: ${why}`);
+      const why = `no open comm "${clip(msg.commId)}" in this kernel`;
+      this.transport.log(`comm_msg ${clip(msg.msgId)} ignored: ${why}`);
       this.transport.publish("comm_close", { comm_id: msg.commId, data: { error: why } }, {}, []);
       return;
     }
     if (!dataOk) {
-      const why = `comm_msg data must be a JSON object, got ${describe(rawData)}`;
+      const why = `comm_msg data must be a JSON object, got ${describeSent(rawData)}`;
       this.transport.log(`comm ${comm.id} (${comm.targetName}): ${why}`);
       comm.reject(why, msg);
       return;
@@ -135,7 +181,7 @@ export class CommManager {
   private handleClose(msg: CommMessage): void {
     const comm = this.comms.get(msg.commId);
     if (!comm) {
-      this.transport.log(`comm_close for unknown comm ${msg.commId} ignored`);
+      this.transport.log(`comm_close for unknown comm ${clip(msg.commId)} ignored`);
       return;
     }
     comm.finish(msg);
@@ -146,11 +192,4 @@ export class CommManager {
     this.comms.set(id, comm);
     return comm;
   }
-}
-
-function describe(v: unknown): string {
-  if (v === undefined) return "nothing";
-  if (v === null) return "null";
-  if (Array.isArray(v)) return "an array";
-  return typeof v === "string" ? JSON.stringify(v.length > 60 ? v.slice(0, 57) + "..." : v) : typeof v;
 }

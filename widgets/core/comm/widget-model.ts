@@ -1,6 +1,8 @@
 /** A widget model on the Jupyter widget message protocol 2.1, kept in step with every front-end. */
 import { QuietframeError, showValue } from "../../../src/index";
-import { checkBufferPaths, putBuffers, removeBuffers, type BufferPath } from "./buffers";
+import { RESERVED_KEYS } from "../state/strict-read";
+import { clip, echoable } from "./bounded-text";
+import { bytesOf, checkBufferPaths, putBuffers, removeBuffers, type BufferPath } from "./buffers";
 import type { Comm, CommMessage } from "./comm";
 import type { CommManager } from "./comm-manager";
 import { kernelComms } from "./kernel-comms";
@@ -15,7 +17,8 @@ import { widgetRegistry } from "./widget-registry";
  * Front-end input is checked before anything changes: an unknown key, a key the protocol
  * holds immutable, or a value the model's validator rejects leaves the state as it was;
  * the front-end gets a `custom` message with the error and an `update` restoring what the
- * kernel holds, and the kernel log gets a line. Nothing a front-end sends throws here.
+ * kernel holds, and the kernel log gets a line. Nothing a front-end sends throws here, and
+ * the names and values it sent are echoed cut to a stated length (bounded-text.ts).
  */
 
 export const WIDGET_TARGET = "jupyter.widget";
@@ -162,7 +165,7 @@ export class WidgetModel {
       default:
         return this.refuse(
           typeof method === "string" ? method : "(no method)",
-          typeof method === "string" ? `unknown method "${method}"` : "data.method is missing",
+          typeof method === "string" ? `unknown method "${clip(method)}"` : "data.method is missing",
           "update, request_state or custom",
         );
     }
@@ -184,7 +187,7 @@ export class WidgetModel {
       this.refuse("update", checked.error);
       // Put the front-end's controls back where the kernel's state is.
       const restore: Record<string, unknown> = {};
-      for (const key of Object.keys(patch)) if (key in this.current) restore[key] = this.current[key];
+      for (const key of Object.keys(patch)) if (Object.prototype.hasOwnProperty.call(this.current, key)) restore[key] = this.current[key];
       if (Object.keys(restore).length > 0) this.sendState("update", restore);
       return;
     }
@@ -207,11 +210,14 @@ export class WidgetModel {
     const next = { ...this.current, ...patch };
     const accepted: Record<string, unknown> = {};
     for (const [key, value] of Object.entries(patch)) {
+      if (RESERVED_KEYS.has(key)) {
+        return { error: new QuietframeError({ path: this.where(key), problem: "is a name reserved by JavaScript objects, never a key of a widget model", allowed: "keys of this model's state" }) };
+      }
       if (!Object.prototype.hasOwnProperty.call(this.current, key)) {
         return {
           error: new QuietframeError({
             path: this.where(key),
-            value,
+            value: echoable(value),
             problem: "is not a key of this model",
             allowed: Object.keys(this.current)
               .filter((k) => !k.startsWith("_"))
@@ -220,7 +226,7 @@ export class WidgetModel {
         };
       }
       if (IMMUTABLE_KEYS.includes(key) && !sameValue(value, this.current[key])) {
-        return { error: new QuietframeError({ path: this.where(key), value, problem: "is fixed when the model is created", allowed: showValue(this.current[key]) }) };
+        return { error: new QuietframeError({ path: this.where(key), value: echoable(value), problem: "is fixed when the model is created", allowed: showValue(this.current[key]) }) };
       }
       const validator = this.validators[key];
       if (!validator) {
@@ -230,7 +236,7 @@ export class WidgetModel {
       try {
         accepted[key] = validator(value, next);
       } catch (e) {
-        const error = e instanceof QuietframeError ? e : new QuietframeError({ path: this.where(key), value, problem: e instanceof Error ? e.message : String(e) });
+        const error = e instanceof QuietframeError ? e : new QuietframeError({ path: this.where(key), value: echoable(value), problem: clip(e instanceof Error ? e.message : String(e)) });
         return { error };
       }
     }
@@ -266,9 +272,10 @@ export class WidgetModel {
   /** Reports a refused front-end message on the comm and in the kernel log. */
   private refuse(method: string, problem: string | QuietframeError, allowed?: string): void {
     const err = typeof problem === "string" ? new QuietframeError({ path: this.where(""), problem, ...(allowed ? { allowed } : {}) }) : problem;
-    this.comms.log(`widget ${this.id} (${String(this.current._model_name)}): ${method} refused: ${err.message}`);
+    const shownMethod = clip(method);
+    this.comms.log(`widget ${this.id} (${String(this.current._model_name)}): ${shownMethod} refused: ${err.message}`);
     const content: WidgetErrorContent = {
-      error: { method, message: err.message, path: err.path, problem: err.problem, ...(err.allowed ? { allowed: err.allowed } : {}) },
+      error: { method: shownMethod, message: err.message, path: err.path, problem: err.problem, ...(err.allowed ? { allowed: err.allowed } : {}) },
     };
     if (!this.comm.isClosed) this.comm.send({ method: "custom", content });
   }
@@ -283,7 +290,7 @@ export class WidgetModel {
 
   private where(key: string): string {
     const name = String(this.current._model_name);
-    return key === "" ? name : `${name}.${key}`;
+    return key === "" ? name : `${name}.${clip(key)}`;
   }
 
   private assertOpen(): void {
@@ -296,14 +303,30 @@ export class WidgetModel {
   }
 }
 
-/** Equality for change detection: same primitive, or same JSON (arrays, plain objects). */
+/**
+ * Equality for change detection: same primitive, same bytes, or the same JSON-like structure
+ * (arrays, plain objects). Binary values are compared byte for byte, never through JSON text
+ * (JSON.stringify writes every byte of a typed array as a key of its own).
+ */
 function sameValue(a: unknown, b: unknown): boolean {
   if (Object.is(a, b)) return true;
   if (typeof a !== "object" || typeof b !== "object" || a === null || b === null) return false;
-  if (ArrayBuffer.isView(a) || ArrayBuffer.isView(b)) return false;
-  try {
-    return JSON.stringify(a) === JSON.stringify(b);
-  } catch {
-    return false;
+  const aBinary = a instanceof ArrayBuffer || ArrayBuffer.isView(a);
+  const bBinary = b instanceof ArrayBuffer || ArrayBuffer.isView(b);
+  if (aBinary || bBinary) return aBinary && bBinary && sameBytes(a as ArrayBuffer | ArrayBufferView, b as ArrayBuffer | ArrayBufferView);
+  if (Array.isArray(a) || Array.isArray(b)) {
+    if (!Array.isArray(a) || !Array.isArray(b) || a.length !== b.length) return false;
+    return a.every((item, i) => sameValue(item, b[i]));
   }
+  const aKeys = Object.keys(a);
+  if (aKeys.length !== Object.keys(b).length) return false;
+  return aKeys.every((k) => Object.prototype.hasOwnProperty.call(b, k) && sameValue((a as Record<string, unknown>)[k], (b as Record<string, unknown>)[k]));
+}
+
+function sameBytes(a: ArrayBuffer | ArrayBufferView, b: ArrayBuffer | ArrayBufferView): boolean {
+  const x = bytesOf(a);
+  const y = bytesOf(b);
+  if (x.byteLength !== y.byteLength) return false;
+  for (let i = 0; i < x.byteLength; i++) if (x[i] !== y[i]) return false;
+  return true;
 }

@@ -13,7 +13,7 @@ export interface LiveModel {
   get(key: string): unknown;
   /** Changes keys here and sends them to every front-end. */
   set(patch: Record<string, unknown>): void;
-  /** "change:<key>" or "change"; fired for changes from a front-end. */
+  /** "change:<key>" or "change"; fired for changes from a front-end. "close" when either side closed it. */
   on(event: string, callback: (...args: unknown[]) => void): void;
   close(): void;
 }
@@ -30,4 +30,9 @@ export interface WidgetHost {
   custom(state: Record<string, unknown>): LiveModel;
   /** Displays a model's view, with `fallback` for front-ends that cannot show it. */
   display(model: LiveModel, fallback: MimeBundle): void;
+  /**
+   * Runs `task` once the front-end messages already waiting are handled; a later task with the
+   * same key replaces one not yet run. Without it (in-memory hosts) tasks run at once.
+   */
+  defer?(key: object, task: () => void): void;
 }

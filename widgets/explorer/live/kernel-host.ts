@@ -10,7 +10,8 @@ import type { LiveModel, StandardControl, WidgetHost } from "./host";
  * (plain tslab, scripts, tests): there the explorer shows its kernel-free output.
  */
 export function kernelWidgetHost(): WidgetHost | undefined {
-  if (!kernelComms()) return undefined;
+  const comms = kernelComms();
+  if (!comms) return undefined;
   return {
     control: (kind, state) => openControl(kind, state),
     vbox: (children) => vbox(children.map(asModel)),
@@ -18,6 +19,7 @@ export function kernelWidgetHost(): WidgetHost | undefined {
     display: (model, fallback) => {
       displayWidget(asModel(model), fallback);
     },
+    defer: (key, task) => comms.defer(key, task),
   };
 }
 

@@ -42,6 +42,15 @@ interface BoundControl {
  * Values that cannot be computed (an unstable combination, a typed value out of range) put
  * the reason into the chart's error text; the chart keeps the last valid curves and `state`
  * stays the last valid state, so nothing the user had is lost.
+ *
+ * A value the kernel snaps to a slider position (or otherwise normalises) goes back to the
+ * front-ends, so every control shows the value the chart is computed for. Under a burst of
+ * front-end moves the recomputation is deferred through the host: only the newest values are
+ * computed, once the waiting messages are handled; reading `state` computes at once.
+ *
+ * When a front-end closes any part (the chart, the box, a control), the explorer closes the
+ * rest and refuses `setValues` with a QuietframeError: a chart that no longer listens must not
+ * let the controls drift away from the state.
  */
 export class LiveExplorer {
   readonly #host: WidgetHost;
@@ -56,6 +65,9 @@ export class LiveExplorer {
   #revision = 1;
   // Set while the kernel itself writes control values, so its own writes are not taken as input.
   #writing = false;
+  // Targets moved in a front-end whose recomputation is deferred (see settle()).
+  #pending: Set<string> | undefined;
+  #closedBecause: string | undefined;
 
   constructor(host: WidgetHost, state: ExplorerState, computation: ExplorerComputation) {
     this.#host = host;
@@ -70,6 +82,9 @@ export class LiveExplorer {
     }
     this.#chart = host.custom(initialChartState(this.#state, computation));
     this.#box = host.vbox([...[...this.#controls.values()].map((b) => b.model), this.#chart]);
+    this.#chart.on("close", () => this.#partClosed("chart"));
+    this.#box.on("close", () => this.#partClosed("box"));
+    for (const [target, { model }] of this.#controls) model.on("close", () => this.#partClosed(`control of ${target}`));
   }
 
   /** What the controls show now (which may be values that could not be computed: see `error`). */
@@ -79,16 +94,24 @@ export class LiveExplorer {
 
   /** The last valid state: the one whose curves the chart shows. */
   get state(): ExplorerState {
+    this.settle();
     return structuredClone(this.#state);
   }
 
   get computation(): ExplorerComputation {
+    this.settle();
     return this.#computation;
   }
 
   /** Why the values shown could not be computed, or undefined when the chart matches them. */
   get error(): string | undefined {
+    this.settle();
     return this.#error || undefined;
+  }
+
+  /** Whether the widget was closed (by a front-end closing one of its parts, or by close()). */
+  get isClosed(): boolean {
+    return this.#closedBecause !== undefined;
   }
 
   /** The VBox holding the controls and the chart. */
@@ -112,6 +135,13 @@ export class LiveExplorer {
    * before anything moves; a combination that cannot be computed shows its reason in the chart.
    */
   setValues(values: ControlValues): this {
+    if (this.#closedBecause !== undefined) {
+      throw new QuietframeError({
+        path: "explorer",
+        problem: `is closed (${this.#closedBecause}), so its controls and chart no longer move; its values and state stay those of the last chart`,
+        allowed: "show it again (await w.show()) for a new live widget",
+      });
+    }
     if (typeof values !== "object" || values === null || Array.isArray(values)) {
       throw new QuietframeError({ path: "values", value: values, problem: "must be an object of control target → value", allowed: '{"membrane.temperature": "3 K", …}' });
     }
@@ -132,16 +162,16 @@ export class LiveExplorer {
     }
     if (problems.length === 1) throw problems[0];
     if (problems.length > 1) throw new QuietframeErrors(problems);
-    this.#writing = true;
-    try {
+    this.#asKernel(() => {
       for (const target of targets) {
         const { binding, model } = this.#controls.get(target)!;
         model.set({ [binding.key]: binding.toWidget(values[target]) });
       }
-    } finally {
-      this.#writing = false;
-    }
-    this.#recompute({ ...this.#shown, ...values }, targets, "kernel");
+    });
+    // Front-end moves still waiting are computed together with these values.
+    const changed = [...new Set([...(this.#pending ?? []), ...targets])];
+    this.#pending = undefined;
+    this.#recompute({ ...this.#shown, ...values }, changed, "kernel");
     return this;
   }
 
@@ -155,23 +185,58 @@ export class LiveExplorer {
   }
 
   close(): void {
-    this.#box.close();
-    this.#chart.close();
-    for (const { model } of this.#controls.values()) model.close();
+    this.#closeAll("it was closed with close()");
+  }
+
+  #partClosed(part: string): void {
+    this.#closeAll(`its ${part} was closed by a front-end`);
+  }
+
+  #closeAll(reason: string): void {
+    if (this.#closedBecause !== undefined) return;
+    this.#closedBecause = reason;
+    // Moves not yet computed are dropped: values go back to those of the state the chart last showed.
+    this.#pending = undefined;
+    this.#shown = { ...this.#state.values };
+    for (const model of [this.#box, this.#chart, ...[...this.#controls.values()].map((b) => b.model)]) model.close();
     this.#listeners.clear();
   }
 
   #fromFrontEnd(target: string): void {
-    if (this.#writing) return;
+    if (this.#writing || this.#closedBecause !== undefined) return;
     const { binding, model } = this.#controls.get(target)!;
+    const held = model.get(binding.key);
     let written: string | number;
     try {
-      written = binding.fromWidget(model.get(binding.key));
+      written = binding.fromWidget(held);
     } catch (e) {
       this.#showError(e);
       return;
     }
-    this.#recompute({ ...this.#shown, [target]: written }, [target], "front-end");
+    // Snapped to a slider position (or normalised): the front-ends get the value that is computed.
+    const computedAs = binding.toWidget(written);
+    if (!Object.is(computedAs, held)) this.#asKernel(() => model.set({ [binding.key]: computedAs }));
+    this.#shown = { ...this.#shown, [target]: written };
+    this.#pending = new Set([...(this.#pending ?? []), target]);
+    if (this.#host.defer) this.#host.defer(this, () => this.settle());
+    else this.settle();
+  }
+
+  /** Computes now for the front-end moves whose recomputation is deferred, if any. */
+  settle(): void {
+    if (!this.#pending || this.#closedBecause !== undefined) return;
+    const changed = [...this.#pending];
+    this.#pending = undefined;
+    this.#recompute(this.#shown, changed, "front-end");
+  }
+
+  #asKernel(write: () => void): void {
+    this.#writing = true;
+    try {
+      write();
+    } finally {
+      this.#writing = false;
+    }
   }
 
   #recompute(values: ControlValues, changed: readonly string[], source: LiveChange["source"]): void {

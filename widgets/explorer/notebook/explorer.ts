@@ -53,15 +53,18 @@ export class NotebookExplorer {
 
   /** A copy of the state, plain JSON: save it, share it, or pass it to explorer() again. */
   get state(): ExplorerState {
+    this.#live?.settle();
     return structuredClone(this.#state);
   }
 
   get computation(): ExplorerComputation {
+    this.#live?.settle();
     return this.#computation;
   }
 
   /** Headline figures and the plotted table as plain arrays. */
   get figures(): NotebookFigures {
+    this.#live?.settle();
     return notebookFigures(this.#computation, this.#state);
   }
 
@@ -125,11 +128,13 @@ export class NotebookExplorer {
 
   /** The widget-state document (Jupyter widget state 2.0) as text: the shareable form of this widget. */
   stateDocument(): string {
+    this.#live?.settle();
     return stateDocumentText(this.#state);
   }
 
   /** The widget's mime bundle: live HTML (SVG fallback inside), PNG fallback for untrusted viewers, text summary. */
   async bundle(options: ShowOptions & { includeRuntime: boolean }): Promise<MimeBundle> {
+    this.#live?.settle();
     const figures = await explorerFigures(this.#computation, this.#state, { scale: NOTEBOOK_PNG_SCALE, ...options.png });
     return {
       "text/html": explorerHtml(this.#state, this.#computation, { includeRuntime: options.includeRuntime, svg: figures.svg }),
@@ -148,8 +153,9 @@ export class NotebookExplorer {
       // The fallback (kernel-free output) carries the runtime once per kernel for viewers without widgets.
       const carry = options.includeRuntime ?? !liveRuntimeCarried();
       const bundle = await this.bundle({ ...options, includeRuntime: carry });
-      // One live explorer per object: showing it again adds another view of the same models.
-      if (!this.#live) {
+      // One live explorer per object: showing it again adds another view of the same models,
+      // or, once a front-end closed it, opens a new one from the last computed state.
+      if (!this.#live || this.#live.isClosed) {
         this.#live = new LiveExplorer(host, this.#state, this.#computation);
         this.#live.onChange((change) => {
           this.#accept(change.state, change.computation);
@@ -164,6 +170,7 @@ export class NotebookExplorer {
   }
 
   toString(): string {
+    this.#live?.settle();
     return summaryText(this.#computation, this.#state);
   }
 
