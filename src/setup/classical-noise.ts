@@ -7,6 +7,7 @@
 import type { ComponentKind, ResolvedComponent } from "../components/types";
 import { QuietframeError } from "../errors";
 import { SPECTRUM_EXTENSIONS, type LogLogSpectrum, type SpectrumExtension } from "../numeric/log-log-spectrum";
+import { COMPONENT_NAME_PATTERN } from "./schema";
 import { AMPLITUDE_BASE_UNITS } from "./spectrum-units";
 import { checkSpectrum, type SpectrumDescription } from "./spectrum-table";
 
@@ -22,6 +23,9 @@ export interface ClassicalNoiseDescription {
   /** Outside the spectrum's frequencies: "refuse" (default), "hold" the end values, or continue the end segments as "power-law"s. */
   beyondRange?: SpectrumExtension;
 }
+
+/** The rule for component names, which the terms' names share. */
+const NAME = new RegExp(COMPONENT_NAME_PATTERN);
 
 export const CLASSICAL_NOISE_KEYS = ["name", "enters", "on", "spectrum", "beyondRange"] as const;
 export const SPECTRUM_KEYS = ["file", "frequencyUnit", "unit", "points", "lines"] as const;
@@ -72,7 +76,7 @@ function resolveTerm(entry: unknown, path: string, kinds: ReadonlyMap<string, Co
   const o = plainObject(entry, path, "{ name, enters, on, spectrum }");
   unknownKeys(o, path, CLASSICAL_NOISE_KEYS, "a classical noise term");
   const name = o.name;
-  if (typeof name !== "string" || !/^[A-Za-z_][A-Za-z0-9_-]{0,63}$/.test(name)) {
+  if (typeof name !== "string" || !NAME.test(name)) {
     throw new QuietframeError({ path: `${path}.name`, value: name, problem: "is not a valid name", allowed: "a letter or _, then letters, digits, _ or - (at most 64 characters)" });
   }
   const on = o.on;

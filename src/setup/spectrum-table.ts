@@ -31,7 +31,7 @@ export interface CheckedSpectrum {
 }
 
 /** Where point i of a spectrum sits: its file line when it came from a file, else its table index. */
-export function pointLocator(description: SpectrumDescription, path: string): { where: (i: number) => string; origin: string } {
+function pointLocator(description: SpectrumDescription, path: string): { where: (i: number) => string; origin: string } {
   const { file, lines } = description;
   if (file !== undefined && lines !== undefined) return { where: (i) => `${JSON.stringify(file)}, line ${lines[i]}`, origin: JSON.stringify(file) };
   return { where: (i) => `${path}.points[${i}]`, origin: path };

@@ -5,6 +5,8 @@ import { evaluate, prepare } from "../../src/pipeline";
 import type { SetupDescription } from "../../src/setup/format";
 import { stationaryCovariance } from "../../src/engine/covariance";
 import { QuietframeError } from "../../src/errors";
+import { tabulateBudget } from "../../src/engine/tabulate";
+import { inspiralRange } from "../../src/reach/inspiral";
 import { expectAllClose } from "../helpers/close";
 import { probedBody, sumTerms } from "../helpers/setups";
 
@@ -114,6 +116,11 @@ describe("classical noise terms", () => {
       1e-15,
       "total",
     );
+    // The export carries it as a column of its own, and the reach is that of the total with it.
+    const table = tabulateBudget(noisy, "power");
+    expect(Array.from(table.columns.find((c) => c.label.startsWith("newtonian"))!.values)).toEqual(Array.from(term));
+    const reach = (b: typeof noisy) => inspiralRange(b.frequencies, b.total).megaparsecs;
+    expect(reach(noisy)).toBeLessThan(reach(quiet));
   });
 
   it("refuses a grid beyond the spectrum unless told how to extend it, naming the end point and the options", () => {
