@@ -6,6 +6,7 @@ import { FALLBACK_GRID } from "../pipeline";
 import type { SetupDescription } from "../setup/format";
 import { loadSetup } from "../setup/load";
 import { parseJsonText } from "../setup/parse-json";
+import { readSpectrumFiles } from "../setup/spectrum-files";
 import { gridFromOptions } from "./grid-options";
 
 /** What the design commands (rank, solve, optimize, spread) share: the set-up file, the figure, the grid and the output format. */
@@ -50,7 +51,7 @@ export function readSetupDescription(positionals: readonly string[]): { descript
   } catch (e) {
     throw new QuietframeError({ path, problem: `cannot be read (${(e as NodeJS.ErrnoException).code ?? "error"})`, allowed: "a readable file" });
   }
-  const description = parseJsonText(text, path) as SetupDescription;
+  const description = readSpectrumFiles(parseJsonText(text, path), path) as SetupDescription;
   // Validate once here so that a set-up's own problems are reported before any option's.
   loadSetup(description);
   return { description, path };

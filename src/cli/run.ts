@@ -10,6 +10,8 @@ import { describeHeadline, headlineFigures } from "../engine/headline";
 import { jsonNumbers, spectralDensityUnit, tableToCsv, tabulateBudget } from "../engine/tabulate";
 import { COMPONENT_KINDS } from "../components/registry";
 import { evaluate, FALLBACK_GRID, loadSetup, prepare } from "../pipeline";
+import { parseJsonText } from "../setup/parse-json";
+import { readSpectrumFiles } from "../setup/spectrum-files";
 import { QUIETFRAME_VERSION } from "../version";
 import { gridFromOptions } from "./grid-options";
 import { parseOptions } from "./options";
@@ -135,7 +137,7 @@ function readSetupFile(path: string | undefined) {
   } catch (e) {
     throw new QuietframeError({ path, problem: `cannot be read (${(e as NodeJS.ErrnoException).code ?? "error"})`, allowed: "a readable file" });
   }
-  return loadSetup(text, path);
+  return loadSetup(readSpectrumFiles(parseJsonText(text, path), path), path);
 }
 
 const GRID_OPTIONS = {
@@ -203,7 +205,10 @@ function checkCommand(args: string[], io: CliIo): number {
   const { positionals } = parseOptions("check", args, {});
   const setup = readSetupFile(positionals[0]);
   // Two frequencies are enough to know the referred quantity and that the signal reaches the readout.
-  const result = evaluate(prepare(setup), { from: 1, to: 10, points: 2 });
+  // With classical noise terms, the two are the ends of the grid `eval` uses, so that a spectrum
+  // that does not cover that grid is reported here too.
+  const ends = setup.classical.length ? (setup.grid ?? FALLBACK_GRID) : { from: 1, to: 10 };
+  const result = evaluate(prepare(setup), { from: ends.from, to: ends.to, points: 2 });
   const m = result.assembled.model;
   io.out(
     `${positionals[0]}: valid quietframe set-up${setup.name ? ` "${setup.name}"` : ""}\n` +

@@ -18,16 +18,18 @@ interface SpinHandle {
  * travelling light through the Faraday interaction.
  *
  * The transverse spin components, scaled by √|⟨J_x⟩|, form one bosonic mode X, P with
- * [X, P] = i. In the frame of the light's quadratures the mode precesses at the Larmor
- * frequency Ω_L in the sense set by the orientation s (+1: spin in its energetically lowest
- * state, a positive-mass oscillator; −1: highest state, negative mass):
- *   dX/dt = s Ω_L P − (γ/2) X + √γ_0 ξ_X + √γ_p ζ_X
- *   dP/dt = −s Ω_L X − (γ/2) P + √γ_0 ξ_P + √γ_p ζ_P + k q1_in      (back-action)
+ * [X, P] = i. The mode precesses at the Larmor frequency Ω_L in the sense set by the
+ * orientation s (+1: spin in its energetically lowest state, a positive-mass oscillator; −1:
+ * highest state, negative mass). The light that reads it writes its quadratures in a frame
+ * offset by Δ (`carrierOffset`: the colour of a two-colour scheme the ensemble sits on), where
+ * the mode rotates at ω_f = s Ω_L − Δ (see frameFrequency):
+ *   dX/dt = ω_f P − (γ/2) X + √γ_0 ξ_X + √γ_p ζ_X
+ *   dP/dt = −ω_f X − (γ/2) P + √γ_0 ξ_P + √γ_p ζ_P + k q1_in         (back-action)
  *   q1_out = q1_in,   q2_out = q2_in + k X                            (QND readout)
  * with γ = γ_0 + γ_p the total linewidth (intrinsic plus probe broadening, FWHM of the spin
  * noise peak in rad/s) and ξ, ζ white noises of one-sided PSD 2n_s + 1 each, so the lone
  * ensemble relaxes to variance n_s + 1/2 in both quadratures. Its response of X to a drive on
- * P is χ_s(Ω) = s Ω_L / (Ω_L² + γ²/4 − Ω² − iγΩ), the form of a symmetric-damped oscillator,
+ * P is χ_s(Ω) = ω_f / (ω_f² + γ²/4 − Ω² − iγΩ), the form of a symmetric-damped oscillator,
  * so a negative-mass ensemble has the mirrored response of a matched mechanical oscillator.
  *
  * The coupling k = 2√Γ follows from the readout rate Γ = x_zpf² S̄_FF/ħ², the definition used
@@ -77,6 +79,14 @@ export const spinEnsemble: ComponentKind<SpinHandle> = {
       optional: true,
       min: 0,
       minExclusive: true,
+    },
+    {
+      name: "carrierOffset",
+      kind: "frequency",
+      doc:
+        "Offset Δ/2π of the frame of the light that reads the ensemble from the frame in which the spin precesses at its Larmor frequency, e.g. this colour's carrier offset in a two-colour scheme; " +
+        "in the light's frame the spin rotates at the signed frequency s·f_L − Δ/2π (s = +1 positive-mass, −1 negative-mass), so an offset past f_L turns a positive-mass ensemble into a negative-mass one. Default 0: the light's frame sees the Larmor frequency itself.",
+      default: "0 Hz",
     },
     {
       name: "field",
@@ -174,13 +184,12 @@ export const spinEnsemble: ComponentKind<SpinHandle> = {
   },
   wire: ({ builder, component: c, handle, inputs }) => {
     const { x, p } = handle.mode;
-    const s = c.values.orientation === "negative-mass" ? -1 : 1;
-    const omegaL = 2 * Math.PI * larmorFrequency(c);
+    const omegaFrame = frameFrequency(c);
     const g0 = intrinsicDamping(c);
     const gp = 2 * Math.PI * num(c, "probeBroadening");
     const gamma = g0 + gp;
-    builder.couple(x, p, s * omegaL);
-    builder.couple(p, x, -s * omegaL);
+    builder.couple(x, p, omegaFrame);
+    builder.couple(p, x, -omegaFrame);
     builder.couple(x, x, -gamma / 2);
     builder.couple(p, p, -gamma / 2);
     builder.drive(x, builder.input(handle.intrinsicColumn), Math.sqrt(g0));
@@ -217,6 +226,17 @@ function exactlyOne(c: ResolvedComponent, names: [string, string], example: stri
 export function larmorFrequency(c: ResolvedComponent): number {
   const f = maybeNum(c, "larmorFrequency");
   return f !== undefined ? f : num(c, "gyromagneticRatio") * num(c, "field");
+}
+
+/**
+ * Signed angular frequency at which the spin oscillator rotates in the frame of the light that
+ * reads it: s·Ω_L − Δ. The spin's Hamiltonian s·ħΩ_L b†b becomes (s·Ω_L − Δ)·ħ b†b in a frame
+ * rotating at Δ relative to the one where it precesses at Ω_L (the rotating-frame transformation
+ * H → H − ħΔ b†b). With Δ = 0 this is s·Ω_L exactly (x − 0 = x in floating point).
+ */
+export function frameFrequency(c: ResolvedComponent): number {
+  const s = c.values.orientation === "negative-mass" ? -1 : 1;
+  return s * (2 * Math.PI * larmorFrequency(c)) - 2 * Math.PI * num(c, "carrierOffset");
 }
 
 /** γ_0 in rad/s: 2π·linewidth, or 2/T2 (the transverse amplitude decays as e^{−t/T2}, energy-like quantities at 2/T2). */

@@ -58,7 +58,9 @@ export function noiseBudget(assembled: AssembledSetup, frequencies: Float64Array
   const total = curves.subarray(0, nf);
   const termPsd = groups.map((_, g) => curves.subarray((1 + g) * nf, (2 + g) * nf));
   const evaluator = new TransferEvaluator(model, readoutRows);
-  const referral: SignalReferral = p === 1 ? new SingleOutput(model, groups) : new OptimalCombination(model, groups, p);
+  for (const input of model.classicalInputs ?? []) input.requireCovers(frequencies);
+  const entries = new GroupEntries(model, groups);
+  const referral: SignalReferral = p === 1 ? new SingleOutput(entries) : new OptimalCombination(entries, groups.length, p);
   // The angular frequencies and the referral factor (|χ|² for displacement), which serves the
   // terms and every reference curve, kept for the reference curves.
   const atFrequency = new Float64Array(2 * nf);
@@ -73,6 +75,7 @@ export function noiseBudget(assembled: AssembledSetup, frequencies: Float64Array
     const factor = referredTo.psdFactor(omega);
     factors[f] = factor;
     evaluator.at(omega);
+    entries.atFrequency(frequencies[f]);
     let sum = Infinity;
     if (referral.refer(evaluator, referred)) {
       sum = 0;
@@ -164,8 +167,11 @@ class GroupEntries {
   readonly ni: Int32Array;
   readonly nj: Int32Array;
   readonly nv: Float64Array;
+  /** The entries of classical inputs (each its own column's diagonal) and their spectra. */
+  private readonly classical: { readonly entry: number; readonly psdAt: (frequency: number) => number }[] = [];
   constructor(model: StateSpaceModel, groups: readonly NoiseGroup[]) {
     const m = model.nInputs;
+    const spectra = new Map((model.classicalInputs ?? []).map((c) => [c.column, c.psdAt]));
     const start: number[] = [0];
     const ni: number[] = [];
     const nj: number[] = [];
@@ -175,6 +181,8 @@ class GroupEntries {
         for (const j of g.columns) {
           const nij = model.N[i * m + j];
           if (nij === 0) continue;
+          const psdAt = i === j ? spectra.get(i) : undefined;
+          if (psdAt) this.classical.push({ entry: nv.length, psdAt });
           ni.push(i);
           nj.push(j);
           nv.push(nij);
@@ -187,6 +195,11 @@ class GroupEntries {
     this.nj = Int32Array.from(nj);
     this.nv = Float64Array.from(nv);
   }
+
+  /** Puts each classical input's PSD at this frequency (Hz) in place of its white-noise placeholder. */
+  atFrequency(frequency: number): void {
+    for (const c of this.classical) this.nv[c.entry] = c.psdAt(frequency);
+  }
 }
 
 /** Turns the transfer functions at one frequency into each group's signal-referred noise. */
@@ -197,10 +210,7 @@ interface SignalReferral {
 
 /** One output: S_g / |h|², with S_g = Σ N_ij H_i conj(H_j) over the group's entries. */
 class SingleOutput implements SignalReferral {
-  private readonly entries: GroupEntries;
-  constructor(model: StateSpaceModel, groups: readonly NoiseGroup[]) {
-    this.entries = new GroupEntries(model, groups);
-  }
+  constructor(private readonly entries: GroupEntries) {}
 
   refer(transfer: TransferEvaluator, referred: Float64Array): boolean {
     const { hRe, hIm, sRe, sIm } = transfer;
@@ -230,7 +240,6 @@ class SingleOutput implements SignalReferral {
  * Hermitian) for each group, w = S_y⁻¹h with S_y = Σ_g S_g, and each group's weight w†S_g w/q².
  */
 class OptimalCombination implements SignalReferral {
-  private readonly entries: GroupEntries;
   /** Each group's p×p spectrum, real and imaginary parts, one after another. */
   private readonly gRe: Float64Array;
   private readonly gIm: Float64Array;
@@ -240,13 +249,12 @@ class OptimalCombination implements SignalReferral {
   private readonly wIm: Float64Array;
   private readonly piv: Int32Array;
   constructor(
-    model: StateSpaceModel,
-    groups: readonly NoiseGroup[],
+    private readonly entries: GroupEntries,
+    nGroups: number,
     private readonly p: number,
   ) {
-    this.entries = new GroupEntries(model, groups);
-    this.gRe = new Float64Array(groups.length * p * p);
-    this.gIm = new Float64Array(groups.length * p * p);
+    this.gRe = new Float64Array(nGroups * p * p);
+    this.gIm = new Float64Array(nGroups * p * p);
     this.sRe = new Float64Array(p * p);
     this.sIm = new Float64Array(p * p);
     this.wRe = new Float64Array(p);

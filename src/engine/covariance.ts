@@ -5,6 +5,7 @@
  */
 import { hermitianEmbedding, minEigenvalueHermitian, smallestSymmetricEigenvalue, solveLyapunov } from "../linalg";
 import type { ModeInfo, StateSpaceModel } from "../network/model";
+import { QuietframeError } from "../errors";
 
 /**
  * Stationary covariance of the states, V_ij = ⟨{z_i, z_j}⟩/2, from
@@ -16,8 +17,25 @@ export function stationaryCovariance(model: StateSpaceModel): Float64Array {
   return solveLyapunov(model.A, diffusionMatrix(model), model.nStates);
 }
 
-/** Q = B (N/2) Bᵀ. */
+/**
+ * Q = B (N/2) Bᵀ. Needs white inputs only: a classical noise term has a spectrum of its own,
+ * which no constant diffusion matrix represents, so a model with one is refused here (and with
+ * it every time-domain pass) rather than given a wrong covariance.
+ */
 export function diffusionMatrix(model: StateSpaceModel): Float64Array {
+  const classical = model.classicalInputs ?? [];
+  if (classical.length) {
+    throw new QuietframeError({
+      path: "classicalNoise",
+      value: classical.map((c) => c.owner).join(", "),
+      problem: "classical noise terms are spectra, not white noise, so the time-domain passes (stationary covariance, trajectories, entanglement of the state) cannot take them",
+      allowed: "noise budgets, figures of merit and reach with classical terms; time-domain results for the set-up without its classicalNoise list",
+    });
+  }
+  return whiteDiffusionMatrix(model);
+}
+
+function whiteDiffusionMatrix(model: StateSpaceModel): Float64Array {
   const n = model.nStates;
   const m = model.nInputs;
   const bn = new Float64Array(n * m);
@@ -57,6 +75,15 @@ export function fastUncertaintyMargin(modes: readonly Pick<ModeInfo, "x" | "p">[
 }
 
 /** Σ/2: +1/2 at (x, p) and −1/2 at (p, x) of each conjugate pair ([x, p] = i). */
+/** The model with its classical inputs' placeholder noise set to zero. */
+function withoutClassicalInputs(model: StateSpaceModel): StateSpaceModel {
+  const classical = model.classicalInputs ?? [];
+  if (!classical.length) return model;
+  const N = model.N.slice();
+  for (const c of classical) N[c.column * model.nInputs + c.column] = 0;
+  return { ...model, N };
+}
+
 function halfSymplecticForm(modes: readonly Pick<ModeInfo, "x" | "p">[], n: number): Float64Array {
   const im = new Float64Array(n * n);
   for (const mode of modes) {
@@ -80,7 +107,9 @@ const PHYSICALITY_TOLERANCE = 1e-9;
 
 /** Checks that the stationary state obeys the uncertainty relation; a violation means the model left its validity range. */
 export function checkPhysicality(model: StateSpaceModel): PhysicalityReport {
-  const v = stationaryCovariance(model);
+  // The uncertainty relation concerns the quantum noise: classical terms (which can only add
+  // to the covariance) are left out, so a set-up with them is checked as well as one without.
+  const v = solveLyapunov(model.A, whiteDiffusionMatrix(withoutClassicalInputs(model)), model.nStates);
   const n = model.nStates;
   let largestVariance = 0;
   for (let i = 0; i < n; i++) largestVariance = Math.max(largestVariance, v[i * n + i]);

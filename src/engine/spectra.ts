@@ -20,8 +20,13 @@ export function outputSpectra(model: StateSpaceModel, rows: readonly number[], f
   const ev = new TransferEvaluator(model, rows);
   const re = new Float64Array(frequencies.length * p * p);
   const im = new Float64Array(frequencies.length * p * p);
+  const classical = model.classicalInputs ?? [];
+  for (const input of classical) input.requireCovers(frequencies);
+  // With classical inputs, N at each frequency is a copy with their PSDs in place of the placeholder.
+  const noise = classical.length ? model.N.slice() : model.N;
   for (let f = 0; f < frequencies.length; f++) {
     ev.at(2 * Math.PI * frequencies[f]);
+    for (const input of classical) noise[input.column * m + input.column] = input.psdAt(frequencies[f]);
     for (let a = 0; a < p; a++) {
       for (let b = 0; b < p; b++) {
         let sr = 0;
@@ -31,7 +36,7 @@ export function outputSpectra(model: StateSpaceModel, rows: readonly number[], f
           const ai = ev.hIm[a * m + i];
           if (ar === 0 && ai === 0) continue;
           for (let j = 0; j < m; j++) {
-            const nij = model.N[i * m + j];
+            const nij = noise[i * m + j];
             if (nij === 0) continue;
             const br = ev.hRe[b * m + j];
             const bi = -ev.hIm[b * m + j];

@@ -1,5 +1,5 @@
 import { combine, type Field, type LinearForm, zeroForm } from "./linear-form";
-import type { InputInfo, ModeInfo, ModeKind, NoiseCategory, NoiseGroup, OutputInfo, StateSpaceModel } from "./model";
+import type { ClassicalInput, InputInfo, ModeInfo, ModeKind, NoiseCategory, NoiseGroup, OutputInfo, StateSpaceModel } from "./model";
 
 /** A block of white inputs declared by one component, with its own noise matrix. */
 interface InputBlock {
@@ -37,6 +37,9 @@ export class NetworkBuilder {
   private forceB = new Float64Array(0);
   private lightPushes = false;
   private signalB = new Float64Array(0);
+  /** While set, what a component writes as the signal goes into this input column instead (see enterAsSignal). */
+  private signalColumn: number | undefined;
+  private readonly classical: ClassicalInput[] = [];
   private readonly outputRows: { info: OutputInfo; form: LinearForm }[] = [];
 
   // ---- allocation phase -------------------------------------------------------------
@@ -70,6 +73,16 @@ export class NetworkBuilder {
     });
     this.nInputs += k;
     return first;
+  }
+
+  /**
+   * Claims one input column for a classical noise with its own spectrum (its entry in N is 1,
+   * replaced by `psdAt` at each frequency); it becomes a budget term of its own.
+   */
+  addClassicalInput(owner: string, label: string, psdAt: ClassicalInput["psdAt"], requireCovers: ClassicalInput["requireCovers"]): number {
+    const column = this.addInputs(owner, [label], [1], "classical");
+    this.classical.push({ column, owner, psdAt, requireCovers });
+    return column;
   }
 
   /** Ends allocation: sizes are fixed from here on. */
@@ -157,7 +170,28 @@ export class NetworkBuilder {
   /** dz_i/dt += c · s (the signal, in SI units). */
   driveBySignal(i: number, c: number): void {
     this.assertWiring();
+    if (this.signalColumn !== undefined) {
+      const at = i * this.nInputs + this.signalColumn;
+      this.B[at] += c;
+      this.restB[at] += c;
+      return;
+    }
     this.signalB[i] += c;
+  }
+
+  /**
+   * Runs `apply` (a component's applySignal) with the signal written into input column
+   * `column` instead: a classical noise then enters exactly where, and with the same
+   * coefficients as, a signal of that kind would.
+   */
+  enterAsSignal(column: number, apply: () => void): void {
+    this.assertWiring();
+    this.signalColumn = column;
+    try {
+      apply();
+    } finally {
+      this.signalColumn = undefined;
+    }
   }
 
   /** Declares a detector output y = form. */
@@ -205,6 +239,7 @@ export class NetworkBuilder {
       inputs,
       groups: disambiguateGroupIds(groups),
       outputs: this.outputRows.map((r) => r.info),
+      ...(this.classical.length ? { classicalInputs: [...this.classical] } : {}),
       ...(this.lightPushes ? { lightForce: { A: this.forceA.slice(), B: this.forceB.slice(), restA: this.restA.slice(), restB: this.restB.slice() } } : {}),
     };
   }

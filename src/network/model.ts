@@ -37,6 +37,22 @@ export interface StateSpaceModel {
    * forces and the bodies' motion is its back-action.
    */
   readonly lightForce?: { readonly A: Float64Array; readonly B: Float64Array; readonly restA: Float64Array; readonly restB: Float64Array };
+  /**
+   * Classical noise with a spectrum of its own (present when the set-up has any): each is one
+   * input column whose entry in N is a placeholder 1, replaced at each frequency by its PSD.
+   * Such a column is not white noise, so time-domain passes refuse a model that has them.
+   */
+  readonly classicalInputs?: readonly ClassicalInput[];
+}
+
+/** An input column driven by a classical noise spectrum instead of white noise. */
+export interface ClassicalInput {
+  readonly column: number;
+  readonly owner: string;
+  /** One-sided PSD at a frequency in Hz, in the squared unit of what the column drives (N²/Hz for a force, 1/Hz for strain). */
+  readonly psdAt: (frequency: number) => number;
+  /** Throws a QuietframeError naming the spectrum when it has no value at some of these frequencies (Hz). */
+  readonly requireCovers: (frequencies: Float64Array) => void;
 }
 
 export const MODE_KINDS = ["mechanical", "optical", "spin"] as const;
@@ -71,7 +87,7 @@ export interface NoiseGroup {
   readonly columns: readonly number[];
 }
 
-export const NOISE_CATEGORIES = ["quantum-light", "loss", "thermal", "technical"] as const;
+export const NOISE_CATEGORIES = ["quantum-light", "loss", "thermal", "technical", "classical"] as const;
 export type NoiseCategory = (typeof NOISE_CATEGORIES)[number];
 
 export interface OutputInfo {

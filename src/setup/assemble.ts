@@ -9,6 +9,7 @@ import { NetworkBuilder } from "../network/builder";
 import type { Field } from "../network/linear-form";
 import type { StateSpaceModel } from "../network/model";
 import type { ResolvedSetup } from "./validate";
+import { allocateClassicalNoise } from "./classical-entry";
 
 /** A set-up turned into matrices, plus what is needed to read the results. */
 export interface AssembledSetup {
@@ -24,14 +25,16 @@ export interface AssembledSetup {
 }
 
 /**
- * Builds the state-space model: (1) every component claims its modes and inputs,
- * (2) light is wired through the components in flow order, so each receives fully formed
- * input fields, (3) the signal is applied and the matrices are collected.
+ * Builds the state-space model: (1) every component claims its modes and inputs, then each
+ * classical noise term its own input, (2) light is wired through the components in flow order,
+ * so each receives fully formed input fields, (3) the signal is applied, the classical terms
+ * enter where they act, and the matrices are collected.
  */
 export function assemble(setup: ResolvedSetup): AssembledSetup {
   const builder = new NetworkBuilder();
   const handles = new Map<string, unknown>();
   for (const c of setup.components) handles.set(c.name, setup.kinds.get(c.name)!.allocate(builder, c));
+  const enterClassical = setup.classical.map((term) => allocateClassicalNoise(builder, term, setup.kinds.get(term.on)!, () => handles.get(term.on)));
   builder.freeze();
 
   const bodyOf = (name: string): MechanicalBody => {
@@ -64,6 +67,7 @@ export function assemble(setup: ResolvedSetup): AssembledSetup {
 
   const target = setup.kinds.get(setup.signal.on)!;
   target.applySignal!(builder, handles.get(setup.signal.on), setup.signal.kind);
+  for (const enter of enterClassical) enter();
   const model = builder.build();
   const signal = target.signalReference!(handles.get(setup.signal.on), setup.signal.kind);
   const referredTo = pickQuantity(signal, setup.signal.referTo);

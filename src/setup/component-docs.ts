@@ -1,6 +1,7 @@
 import { COMPONENT_KINDS } from "../components/registry";
 import type { ParamSpec } from "../components/types";
 import { describeRange } from "./params";
+import { entriesOf } from "./classical-noise";
 
 /** Markdown reference of every component kind, generated from the registry so it cannot drift. */
 export function componentReferenceMarkdown(): string {
@@ -23,6 +24,8 @@ export function componentReferenceMarkdown(): string {
     out.push("| port | kind | meaning |", "|---|---|---|");
     for (const port of kind.ports) out.push(`| \`${port.name}\` | ${port.kind}${port.optional ? " (optional)" : ""} | ${escapeCell(port.doc)} |`);
     out.push("");
+    const entries = entriesOf(kind);
+    if (entries.length) out.push(`Classical noise (\`classicalNoise\`, see [setup-format.md](setup-format.md#classical-noise)) enters here as: ${entries.map((e) => `\`"${e}"\``).join(", ")}.`, "");
   }
   return out.join("\n");
 }

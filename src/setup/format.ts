@@ -3,6 +3,11 @@
  * quote. Units live in strings ("40 kg", "1.3 MHz"); the engine never sees them.
  * The JSON Schema in schema/setup.schema.json describes the same shape.
  */
+import type { ClassicalNoiseDescription } from "./classical-noise";
+
+export type { ClassicalNoiseDescription } from "./classical-noise";
+export type { SpectrumDescription } from "./spectrum-table";
+
 export const SETUP_FORMAT = "quietframe.setup";
 export const SETUP_VERSION = 1;
 
@@ -19,6 +24,8 @@ export interface SetupDescription {
   signal: SignalDescription;
   /** Default frequency grid for evaluation. */
   grid?: GridDescription;
+  /** Classical noise terms: measured or modelled spectra entering at named places, each a budget term of its own. */
+  classicalNoise?: ClassicalNoiseDescription[];
 }
 
 export interface ComponentDescription {
@@ -42,4 +49,4 @@ export interface GridDescription {
   points?: number;
 }
 
-export const SETUP_KEYS = ["format", "version", "name", "description", "components", "connections", "readout", "signal", "grid"] as const;
+export const SETUP_KEYS = ["format", "version", "name", "description", "components", "connections", "readout", "signal", "grid", "classicalNoise"] as const;

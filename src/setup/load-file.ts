@@ -4,10 +4,12 @@ import { QuietframeError } from "../errors";
 import { parseJsonText } from "./parse-json";
 import type { SetupDescription } from "./format";
 import { validateSetup } from "./validate";
+import { readSpectrumFiles } from "./spectrum-files";
 
 /**
- * Reads a set-up file (relative paths from the working directory) and checks it; errors name
- * the file, the field and the value. Node only: the browser-safe entry never reads files.
+ * Reads a set-up file (relative paths from the working directory) and the spectrum files its
+ * classical noise terms name (relative to the set-up file), and checks it; errors name the
+ * file, the field (or line) and the value. Node only: the browser-safe entry never reads files.
  */
 export function loadSetupFile(path: string, hint = "a set-up JSON file"): SetupDescription {
   let text: string;
@@ -17,7 +19,7 @@ export function loadSetupFile(path: string, hint = "a set-up JSON file"): SetupD
     const reason = (e as NodeJS.ErrnoException).code === "ENOENT" ? "does not exist" : "cannot be read";
     throw new QuietframeError({ path, problem: `${reason} (looked in ${process.cwd()})`, allowed: hint });
   }
-  const setup = parseJsonText(text, path);
+  const setup = readSpectrumFiles(parseJsonText(text, path), path);
   validateSetup(setup);
   return setup as SetupDescription;
 }

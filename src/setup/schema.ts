@@ -8,6 +8,11 @@ import { MAX_GRID_POINTS } from "./grid";
 import { QUANTITY_KIND_INFO } from "../units";
 import { SETUP_FORMAT, SETUP_KEYS, SETUP_VERSION } from "./format";
 import { describeRange } from "./params";
+import { SPECTRUM_EXTENSIONS } from "../numeric/log-log-spectrum";
+import { AMPLITUDE_BASE_UNITS } from "./spectrum-units";
+
+/** Every place a classical noise can enter (which ones a component takes is checked by the validator). */
+const CLASSICAL_ENTRIES = Object.keys(AMPLITUDE_BASE_UNITS);
 
 export const SETUP_SCHEMA_ID = `https://quietframe.dev/schema/setup-${SETUP_VERSION}.json`;
 
@@ -79,6 +84,11 @@ export function setupJsonSchema(): Schema {
       additionalProperties: false,
       description: "Default frequency grid for evaluation.",
     },
+    classicalNoise: {
+      type: "array",
+      items: { $ref: "#/$defs/classicalNoise" },
+      description: "Classical noise terms: measured or modelled spectra entering at named places; each is a budget term of its own.",
+    },
   };
 
   const defs: Record<string, Schema> = {
@@ -93,6 +103,38 @@ export function setupJsonSchema(): Schema {
       minItems: 2,
       maxItems: 2,
       description: 'Two ports, e.g. ["laser.out", "cavity.in"].',
+    },
+    classicalNoise: {
+      type: "object",
+      properties: {
+        name: { $ref: "#/$defs/componentName", description: "The term's name in budgets, different from every component's." },
+        enters: { enum: CLASSICAL_ENTRIES, description: '"force" or "displacement" on a body, "strain" on an interferometer.' },
+        on: { $ref: "#/$defs/componentName", description: "The component the noise enters at." },
+        spectrum: {
+          type: "object",
+          properties: {
+            file: {
+              type: "string",
+              description: "A CSV file (path relative to the set-up file) read when the set-up file is loaded in Node; header with units in brackets, then frequency, ASD lines.",
+            },
+            frequencyUnit: { type: "string", description: 'Unit of the frequencies, "Hz" (default) with any SI prefix.' },
+            unit: { type: "string", description: 'Unit of the amplitude spectral density: "N/√Hz" for a force, "m/√Hz" for a displacement (any SI prefix), "1/√Hz" for strain.' },
+            points: {
+              type: "array",
+              minItems: 2,
+              items: { type: "array", items: { type: "number" }, minItems: 2, maxItems: 2 },
+              description: "[frequency, ASD] pairs, frequencies strictly increasing, every value finite and above zero.",
+            },
+            lines: { type: "array", items: { type: "integer" }, description: "Line of each point in its file (written by the loader, for messages)." },
+          },
+          additionalProperties: false,
+          description: "The spectrum: inline points with their units, or a file.",
+        },
+        beyondRange: { enum: [...SPECTRUM_EXTENSIONS], description: 'Outside the spectrum\'s frequencies: "refuse" (default), "hold" the end values, or continue the end segments as "power-law"s.' },
+      },
+      required: ["name", "enters", "on", "spectrum"],
+      additionalProperties: false,
+      description: "One classical noise term.",
     },
     component: {
       oneOf: kinds.map((k) => ({ $ref: `#/$defs/${typeDefName(k.type)}` })),

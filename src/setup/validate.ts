@@ -10,6 +10,7 @@ import { copyDescription } from "./copy-description";
 import { parseGrid, type FrequencyGridSpec } from "./grid";
 import { SETUP_FORMAT, SETUP_KEYS, SETUP_VERSION, type SetupDescription } from "./format";
 import { resolveParams } from "./params";
+import { resolveClassicalNoise, type ResolvedClassicalNoise } from "./classical-noise";
 
 export interface PortRef {
   readonly component: string;
@@ -37,6 +38,8 @@ export interface ResolvedSetup {
   readonly readout: readonly string[];
   readonly signal: { readonly kind: string; readonly on: string; readonly referTo?: string };
   readonly grid?: FrequencyGridSpec;
+  /** Classical noise terms (empty when the set-up has none). */
+  readonly classical: readonly ResolvedClassicalNoise[];
   /** The description exactly as given (after JSON parsing), for states and methods text. */
   readonly source: SetupDescription;
 }
@@ -84,9 +87,10 @@ export function validateSetup(input: unknown): ResolvedSetup {
   const readout = attempt(() => resolveReadout(top.readout, kinds));
   const signal = attempt(() => resolveSignal(top.signal, kinds));
   const grid = top.grid === undefined ? undefined : attempt(() => parseGrid(top.grid, "grid"));
+  const classical = top.classicalNoise === undefined ? [] : attempt(() => resolveClassicalNoise(top.classicalNoise, components, kinds));
   const name = attempt(() => optionalText(top.name, "name")) ?? "";
   const description = attempt(() => optionalText(top.description, "description")) ?? "";
-  if (problems.length || !links || !readout || !signal) return fail();
+  if (problems.length || !links || !readout || !signal || !classical) return fail();
 
   return {
     name,
@@ -98,6 +102,7 @@ export function validateSetup(input: unknown): ResolvedSetup {
     readout,
     signal,
     grid,
+    classical,
     source: copyDescription(top) as unknown as SetupDescription,
   };
 }

@@ -23,6 +23,7 @@ function evalJson(file: string) {
 
 const sqlClosedForm: Record<string, (f: number) => number> = {
   "free-test-mass.json": (f) => freeMassDisplacementSql(0.1, 2 * Math.PI * f),
+  "test-mirror-classical-noise.json": (f) => freeMassDisplacementSql(0.1, 2 * Math.PI * f),
   "cryogenic-membrane.json": (f) => membraneSql(f),
   "cryogenic-membrane-squeezed.json": (f) => membraneSql(f),
   "hybrid-spin-reference.json": (f) => hybridMembraneSql(f),
@@ -67,5 +68,18 @@ describe("shipped examples through the CLI", () => {
     doc.frequencies.values.forEach((f, i) => {
       expect(Math.abs(sql[i] / sqlClosedForm[file](f) - 1), `at ${f} Hz`).toBeLessThan(1e-9);
     });
+  });
+
+  it("test-mirror-classical-noise.json: its classical terms are columns of their own", () => {
+    const ids = evalJson("test-mirror-classical-noise.json").columns.map((c) => c.id);
+    expect(ids.some((id) => id.startsWith("coil-driver"))).toBe(true);
+    expect(ids.some((id) => id.startsWith("floor"))).toBe(true);
+  });
+
+  it("spectra/test-mirror-coil-driver-file.json reads the coil-driver spectrum from its CSV file: the same column as the inline table", () => {
+    const inline = evalJson("test-mirror-classical-noise.json");
+    const fromFile = evalJson(join("spectra", "test-mirror-coil-driver-file.json"));
+    const column = (doc: typeof inline) => doc.columns.find((c) => c.id.startsWith("coil-driver"))!.values;
+    expect(column(fromFile)).toEqual(column(inline));
   });
 });

@@ -277,6 +277,67 @@ describe("Larmor frequency, linewidth and susceptibility", () => {
   });
 });
 
+describe("carrier offset: the ensemble on one colour of a two-colour scheme", () => {
+  // Relation checked here: in a frame rotating at Δ relative to the one where the spin precesses
+  // at Ω_L, its Hamiltonian sħΩ_L b†b becomes (sΩ_L − Δ)ħ b†b (rotating-frame transformation
+  // H → H − ħΔ b†b; e.g. Gardiner & Zoller, Quantum Noise (2004), interaction picture; from memory),
+  // so the light's frame sees the signed frequency ω_f = sΩ_L − Δ, and χ_s = ω_f/(ω_f² + γ²/4 − Ω² − iγΩ).
+  const omegaL = 2 * Math.PI * 1e6;
+
+  it("a zero offset reproduces the model without one, bit for bit (matrices and budget)", () => {
+    for (const orientation of ["positive-mass", "negative-mass"]) {
+      const spin = { ...BASE_SPIN, orientation, readoutRate: "3 kHz" };
+      const without = assemble(loadSetup(spinSetup(spin, "2 kHz"))).model;
+      const withZero = assemble(loadSetup(spinSetup({ ...spin, carrierOffset: "0 Hz" }, "2 kHz"))).model;
+      for (const key of ["A", "B", "C", "D", "N", "signalB", "signalD"] as const) expect(withZero[key], `${orientation} ${key}`).toEqual(without[key]);
+      const grid = { from: 9e5, to: 1.1e6, points: 51 };
+      const a = evaluateSetup(loadSetup(spinSetup(spin, "2 kHz")), grid).budget;
+      const b = evaluateSetup(loadSetup(spinSetup({ ...spin, carrierOffset: "0 Hz" }, "2 kHz")), grid).budget;
+      expect(b.total).toEqual(a.total);
+    }
+  });
+
+  it("the spin rotates at ω_f = sΩ_L − Δ in the light's frame, for either orientation and sign of offset", () => {
+    for (const [orientation, s] of [
+      ["positive-mass", 1],
+      ["negative-mass", -1],
+    ] as const) {
+      for (const offset of [-2.5e5, 1.5e4, 7e5, 1.3e6]) {
+        const { a } = spinBlock(spinModel({ ...BASE_SPIN, orientation, carrierOffset: `${offset} Hz` }));
+        const expected = s * omegaL - 2 * Math.PI * offset;
+        expect(Math.abs(a[0][1] / expected - 1), `${orientation}, Δ/2π = ${offset} Hz`).toBeLessThan(1e-14);
+        expect(Math.abs(-a[1][0] / expected - 1), `${orientation}, Δ/2π = ${offset} Hz`).toBeLessThan(1e-14);
+      }
+    }
+  });
+
+  it("an offset of twice the Larmor frequency turns a positive-mass ensemble into the negative-mass one, bit for bit", () => {
+    // ω_f = Ω_L − 2Ω_L = −Ω_L: the relation's consequence, exact in floating point.
+    const shifted = spinModel({ ...BASE_SPIN, orientation: "positive-mass", carrierOffset: "2 MHz" });
+    const negative = spinModel({ ...BASE_SPIN, orientation: "negative-mass" });
+    expect(shifted.A).toEqual(negative.A);
+  });
+
+  it("the response in the light's frame is χ_s = ω_f/(ω_f² + γ²/4 − Ω² − iγΩ) (mathjs inverse as reference)", async () => {
+    const math = await loadMathjs();
+    const gamma = 2 * Math.PI * 100;
+    const offset = 9.2e5; // Hz: ω_f/2π = 80 kHz for the positive orientation
+    const { a } = spinBlock(spinModel({ ...BASE_SPIN, orientation: "positive-mass", carrierOffset: `${offset} Hz` }));
+    const wf = omegaL - 2 * Math.PI * offset;
+    for (const f of [2e4, 7.99e4, 8e4, 8.01e4, 3e5]) {
+      const w = 2 * Math.PI * f;
+      const m = math.matrix([
+        [math.complex(-a[0][0], -w), math.complex(-a[0][1], 0)],
+        [math.complex(-a[1][0], 0), math.complex(-a[1][1], -w)],
+      ]);
+      const got = (math.inv(m) as MathMatrix).get([0, 1]) as MathComplex;
+      const expected = math.divide(wf, math.complex(wf ** 2 + gamma ** 2 / 4 - w ** 2, -gamma * w)) as MathComplex;
+      const scale = math.abs(expected) as unknown as number;
+      expect(math.abs(math.subtract(got, expected) as MathComplex) as unknown as number, `at ${f} Hz`).toBeLessThan(1e-9 * scale);
+    }
+  });
+});
+
 describe("bad spin-ensemble input names the field, the value and what is allowed", () => {
   const problem = (params: Params): QuietframeError => {
     try {

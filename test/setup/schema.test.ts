@@ -69,7 +69,13 @@ describe("setupJsonSchema() as a draft 2020-12 schema (ajv, strict mode)", () =>
 });
 
 describe("examples/*.json against the schema", () => {
-  const files = readdirSync(EXAMPLES).filter((f) => f.endsWith(".json"));
+  // Top-level examples and the set-ups beside the spectrum files in examples/spectra/.
+  const files = [
+    ...readdirSync(EXAMPLES).filter((f) => f.endsWith(".json")),
+    ...readdirSync(join(EXAMPLES, "spectra"))
+      .filter((f) => f.endsWith(".json"))
+      .map((f) => join("spectra", f)),
+  ];
   it("there are examples to check", () => {
     expect(files.length).toBeGreaterThan(0);
   });

@@ -25,6 +25,10 @@ const CONTROLS: Record<string, ControlSpec[]> = {
     { target: "transfer.transmission", min: "50 %", max: "100 %", label: "transmission between the systems" },
     { target: "cell.field", min: "0.312 mT", max: "0.3166 mT", scale: "linear", label: "bias field" },
   ],
+  "test-mirror-classical-noise.json": [
+    { target: "arm.power", min: "1 mW", max: "1 W", label: "input power" },
+    { target: "mirror.mass", min: "10 g", max: "1 kg" },
+  ],
   "long-baseline-detector.json": [
     { target: "ifo.power", min: "10 kW", max: "3 MW", label: "circulating arm power" },
     { target: "squeezer.squeezing", min: "-12 dB", max: "0 dB", scale: "linear", steps: 24 },
