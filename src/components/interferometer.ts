@@ -74,6 +74,20 @@ import { maybeNum, num, type ComponentKind, type MechanicalBody, type ResolvedCo
  * given by the arm mode it leaves: signalBandwidth ε and signalDetuning λ, with
  * ρe^{2iφ} = (1 − w)/(1 + w), w = (ε − γ_0 − iλ)/γ_in (see signalRecyclingLoopFromPole).
  *
+ * Second carrier (optional): an idler beam at another carrier frequency, e.g. the second beam of
+ * an entangled source, enters the dark port beside the signal beam (port `idlerIn`) and leaves
+ * it at `idlerOut`. Its carrier sits a whole number of free spectral ranges plus a small
+ * detuning Δ_i (`idlerDetuning`, sign of a cavity's Δ = ω_carrier − ω_resonance) away from the
+ * signal carrier, so the arms act on its sidebands as a detuned cavity: a second differential arm
+ * mode with the same half-widths, detuning Δ_i, its own arm-loss vacua, and the signal-recycling
+ * loop with the idler's own one-way phase φ_i (`idlerSrDetuning`, default the signal's: the
+ * recycling cavity's phase depends on the carrier frequency). No bright field sits at the
+ * idler's frequency, so its sidebands neither push the test masses (their beat with the signal
+ * carrier falls near the free spectral range, far above the band) nor carry the strain: the
+ * interferometer is a filter that turns the idler's quadratures by frequency. Read both beams
+ * with homodynes and list both in the readout; the optimal combination of the two outputs is the
+ * signal beam's noise conditioned on the idler's measurement.
+ *
  * Validity: single-mode arms (frequencies and γ well below the free spectral range c/2L),
  * T = 4Lγ/c < 1, a signal-recycling cavity short against c/Ω, and radiation-pressure physics
  * linearized around a locked carrier.
@@ -93,6 +107,17 @@ interface InterferometerHandle {
   /** dd2/dt per unit strain: G ā L. */
   readonly signalGain: number;
   /** The signal-recycling loop, when there is a mirror. */
+  readonly recycling?: SignalRecyclingLoop;
+  /** The idler carrier's arm mode, when there is one. */
+  readonly idler?: IdlerHandle;
+}
+
+/** The second carrier's differential arm mode: its own detuning and recycling phase. */
+interface IdlerHandle {
+  readonly optical: ModeInfo;
+  readonly lossColumn: number;
+  /** Δ_i in rad/s. */
+  readonly detuning: number;
   readonly recycling?: SignalRecyclingLoop;
 }
 
@@ -156,6 +181,18 @@ export const interferometer: ComponentKind<InterferometerHandle> = {
       optional: true,
     },
     {
+      name: "idlerDetuning",
+      kind: "frequency",
+      doc: 'Detuning Δ_i/2π of a second (idler) carrier from the nearest arm resonance, its offset from the signal carrier being whole free spectral ranges plus this (sign as a cavity\'s detuning, Δ = ω_carrier − ω_resonance), e.g. "30 Hz"; absent: no idler. Needs idlerIn connected.',
+      optional: true,
+    },
+    {
+      name: "idlerSrDetuning",
+      kind: "angle",
+      doc: 'One-way detuning phase φ_i of the signal-recycling cavity at the idler carrier (needs idlerDetuning and srmTransmission; default srDetuning), e.g. "0 deg".',
+      optional: true,
+    },
+    {
       name: "lengthControl",
       kind: "choice",
       doc: '"servo": a control loop reading the dark port holds the arm length, so growing optical-spring modes are accepted (it changes signal and noise alike, not the noise referred to strain); "none": growing modes are an error.',
@@ -166,6 +203,8 @@ export const interferometer: ComponentKind<InterferometerHandle> = {
   ports: [
     { name: "in", kind: "optical-in", doc: "Light entering the dark port (vacuum, squeezed light, one arm of an entangled source)." },
     { name: "out", kind: "optical-out", doc: "Light leaving the dark port, strain in its phase quadrature (read it with a homodyne)." },
+    { name: "idlerIn", kind: "optical-in", optional: true, doc: "Idler beam entering the dark port at the idler carrier (with idlerDetuning), e.g. the second beam of an entangled source." },
+    { name: "idlerOut", kind: "optical-out", optional: true, doc: "Idler beam leaving the dark port, its quadratures turned by the detuned arms; carries no strain." },
   ],
   crossCheck: (c) => {
     const L = num(c, "armLength");
@@ -214,6 +253,14 @@ export const interferometer: ComponentKind<InterferometerHandle> = {
         allowed: `signalBandwidth > ${round(floor)} Hz for this arm loss`,
       });
     }
+    if (c.given.has("idlerSrDetuning") && !(c.given.has("idlerDetuning") && c.given.has("srmTransmission"))) {
+      throw new QuietframeError({
+        path: `${c.path}.idlerSrDetuning`,
+        value: c.raw.idlerSrDetuning,
+        problem: "an idler recycling phase needs an idler carrier (idlerDetuning) and a signal-recycling mirror (srmTransmission)",
+        allowed: "idlerDetuning and srmTransmission beside idlerSrDetuning, or no idlerSrDetuning",
+      });
+    }
     if (c.given.has("srDetuning") && !c.given.has("srmTransmission")) {
       throw new QuietframeError({
         path: `${c.path}.srDetuning`,
@@ -236,6 +283,7 @@ export const interferometer: ComponentKind<InterferometerHandle> = {
     const lossColumn = builder.addInputs(c.name, ["arm loss (amplitude)", "arm loss (phase)"], [1, 0, 0, 1], "loss", `${c.name}: arm loss`);
     const G = omega0 / L;
     const gammaIn = gamma - gammaLoss;
+    const recycling = optionalLoop(c, gammaIn, gammaLoss).recycling;
     return {
       optical,
       body,
@@ -247,36 +295,36 @@ export const interferometer: ComponentKind<InterferometerHandle> = {
       gammaLoss,
       coupling: G * abar * body.xScale,
       signalGain: G * abar * L,
-      ...optionalLoop(c, gammaIn, gammaLoss),
+      ...(recycling && { recycling }),
+      ...optionalIdler(builder, c, gammaIn, recycling),
     };
   },
-  wire: ({ builder, handle: h, inputs }) => {
-    const { x: d1, p: d2 } = h.optical;
-    const kIn = Math.sqrt(2 * h.gammaIn);
-    const kLoss = Math.sqrt(2 * h.gammaLoss);
-    builder.couple(d1, d1, -h.gamma);
-    builder.couple(d2, d2, -h.gamma);
-    const field: Field = inputs.in;
-    const arm: Field = { amplitude: builder.state(d1), phase: builder.state(d2) };
-    // Light entering the arms: the dark-port input, or with a signal-recycling mirror its
-    // transmitted part plus the recycled arm output.
-    const entering = h.recycling ? addFields(times(h.recycling.arrivingInput, field), times(h.recycling.recycled, arm)) : field;
-    builder.drive(d1, entering.amplitude, kIn);
-    builder.drive(d2, entering.phase, kIn);
-    builder.drive(d1, builder.input(h.lossColumn), kLoss);
-    builder.drive(d2, builder.input(h.lossColumn + 1), kLoss);
-
+  wire: ({ builder, component: c, handle: h, inputs }): Record<string, Field> => {
+    const out = wireArmMode(builder, h, h.optical, 0, h.lossColumn, h.recycling, inputs.in);
     wireBody(builder, h.body);
-    pushOnBody(builder, h.body, builder.state(d1), h.coupling);
-    builder.couple(d2, h.body.mode.x, h.coupling);
-
-    const out: Field = h.recycling
-      ? addFields(times(h.recycling.reflected, field), times(h.recycling.leaving, arm))
-      : {
-          amplitude: combine(1, field.amplitude, -kIn, builder.state(d1)),
-          phase: combine(1, field.phase, -kIn, builder.state(d2)),
-        };
-    return { out };
+    pushOnBody(builder, h.body, builder.state(h.optical.x), h.coupling);
+    builder.couple(h.optical.p, h.body.mode.x, h.coupling);
+    const idlerIn = inputs.idlerIn as Field | undefined;
+    if (!h.idler) {
+      if (idlerIn) {
+        throw new QuietframeError({
+          path: `${c.path}.idlerDetuning`,
+          problem: `light is connected to '${c.name}.idlerIn' but the interferometer has no idler carrier`,
+          allowed: 'idlerDetuning (e.g. "30 Hz") beside a connected idlerIn, or no connection to idlerIn',
+        });
+      }
+      return { out };
+    }
+    if (!idlerIn) {
+      throw new QuietframeError({
+        path: "connections",
+        value: `${c.name}.idlerIn`,
+        problem: `port is left unconnected while '${c.name}' has an idler carrier (idlerDetuning ${String(c.raw.idlerDetuning)})`,
+        allowed: "connect the idler beam (e.g. the second beam of an entangled source) to idlerIn, or remove idlerDetuning",
+      });
+    }
+    const idlerOut = wireArmMode(builder, h, h.idler.optical, h.idler.detuning, h.idler.lossColumn, h.idler.recycling, idlerIn);
+    return { out, idlerOut };
   },
   instabilityHint: (c) => {
     const gamma = 2 * Math.PI * num(c, "armBandwidth");
@@ -337,6 +385,54 @@ export function strainSignalReference(mass: number, armLength: number): SignalRe
     ],
     curves: [{ id: "sql", label: "SQL (strain, 8ħ/(mΩ²L²))", psd: (omega) => strainSql(mass, armLength, omega) }],
   };
+}
+
+/**
+ * One carrier's differential arm mode: half-width γ, detuning Δ (0 for the signal carrier),
+ * driven through the dark port (and the signal-recycling loop, when there is one) and by its
+ * own arm-loss vacua. Returns the light leaving the dark port at that carrier.
+ */
+function wireArmMode(builder: NetworkBuilder, h: InterferometerHandle, mode: ModeInfo, detuning: number, lossColumn: number, recycling: SignalRecyclingLoop | undefined, field: Field): Field {
+  const { x: d1, p: d2 } = mode;
+  const kIn = Math.sqrt(2 * h.gammaIn);
+  const kLoss = Math.sqrt(2 * h.gammaLoss);
+  builder.couple(d1, d1, -h.gamma);
+  builder.couple(d2, d2, -h.gamma);
+  // Only a detuned carrier gets the rotation terms, so the signal carrier's model is unchanged.
+  if (detuning !== 0) {
+    builder.couple(d1, d2, -detuning);
+    builder.couple(d2, d1, detuning);
+  }
+  const arm: Field = { amplitude: builder.state(d1), phase: builder.state(d2) };
+  // Light entering the arms: the dark-port input, or with a signal-recycling mirror its
+  // transmitted part plus the recycled arm output.
+  const entering = recycling ? addFields(times(recycling.arrivingInput, field), times(recycling.recycled, arm)) : field;
+  builder.drive(d1, entering.amplitude, kIn);
+  builder.drive(d2, entering.phase, kIn);
+  builder.drive(d1, builder.input(lossColumn), kLoss);
+  builder.drive(d2, builder.input(lossColumn + 1), kLoss);
+  return recycling
+    ? addFields(times(recycling.reflected, field), times(recycling.leaving, arm))
+    : {
+        amplitude: combine(1, field.amplitude, -kIn, builder.state(d1)),
+        phase: combine(1, field.phase, -kIn, builder.state(d2)),
+      };
+}
+
+/**
+ * The idler carrier's arm mode and loss vacua, claimed only when idlerDetuning is given (a set-up
+ * without an idler keeps exactly its modes and inputs). Its recycling loop is the signal's mirror at
+ * the idler's own phase; with the signalBandwidth description the mirror is the one that description
+ * implies, at the same phase unless idlerSrDetuning (needing srmTransmission) says otherwise.
+ */
+function optionalIdler(builder: NetworkBuilder, c: ResolvedComponent, gammaIn: number, signalLoop: SignalRecyclingLoop | undefined): { idler?: IdlerHandle } {
+  const detuningHz = maybeNum(c, "idlerDetuning");
+  if (detuningHz === undefined) return {};
+  const optical = builder.addMode(c.name, "optical", `${c.name} differential arm-cavity mode at the idler carrier`);
+  const lossColumn = builder.addInputs(c.name, ["idler arm loss (amplitude)", "idler arm loss (phase)"], [1, 0, 0, 1], "loss", `${c.name}: arm loss at the idler carrier`);
+  const srm = maybeNum(c, "srmTransmission");
+  const recycling = srm === undefined ? signalLoop : signalRecyclingLoop(srm, maybeNum(c, "idlerSrDetuning") ?? maybeNum(c, "srDetuning") ?? 0, Math.sqrt(2 * gammaIn));
+  return { idler: { optical, lossColumn, detuning: 2 * Math.PI * detuningHz, ...(recycling && { recycling }) } };
 }
 
 /** The signal-recycling loop from whichever description the component has, if any. */

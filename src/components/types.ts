@@ -48,7 +48,11 @@ export interface PortSpec {
   readonly name: string;
   readonly kind: PortKind;
   readonly doc: string;
-  /** Only for mechanical-probe ports: the component also works unlinked (an empty cavity). */
+  /**
+   * The component also works with this port unlinked: a mechanical probe without a body (an
+   * empty cavity), an optical input absent from `inputs` (an interferometer without an idler),
+   * an optical output nobody reads.
+   */
   readonly optional?: boolean;
 }
 
@@ -71,7 +75,7 @@ export interface WireContext<H> {
   readonly builder: NetworkBuilder;
   readonly component: ResolvedComponent;
   readonly handle: H;
-  /** Light arriving at each optical input port. */
+  /** Light arriving at each optical input port (an unconnected optional port is absent). */
   readonly inputs: Readonly<Record<string, Field>>;
   /** Body linked at each mechanical-probe port (absent if an optional port is unlinked). */
   readonly bodies: Readonly<Record<string, MechanicalBody | undefined>>;

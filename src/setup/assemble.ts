@@ -53,8 +53,9 @@ export function assemble(setup: ResolvedSetup): AssembledSetup {
     const bodies: Record<string, MechanicalBody | undefined> = {};
     for (const port of kind.ports) {
       if (port.kind === "optical-in") {
-        const from = sourceOf.get(`${c}.${port.name}`)!;
-        inputs[port.name] = emitted.get(`${from.component}.${from.port}`)!;
+        // An optional input left unconnected is absent; the component decides what that means.
+        const from = sourceOf.get(`${c}.${port.name}`);
+        if (from) inputs[port.name] = emittedLight(emitted, from, `${c}.${port.name}`);
       } else if (port.kind === "mechanical-probe") {
         const link = setup.mechanical.find((l) => l.probe.component === c && l.probe.port === port.name);
         bodies[port.name] = link ? bodyOf(link.body) : undefined;
@@ -74,6 +75,18 @@ export function assemble(setup: ResolvedSetup): AssembledSetup {
   const readoutRows = setup.readout.map((d) => model.outputs.findIndex((o) => o.owner === d));
   const cautions = setup.components.flatMap((c) => setup.kinds.get(c.name)!.cautions?.(c, linkedBodies.get(c.name) ?? {}) ?? []);
   return { setup, model, readoutRows, signal, referredTo, cautions };
+}
+
+/** The light leaving `from`; an optional output that carries none in this configuration is refused by name. */
+function emittedLight(emitted: ReadonlyMap<string, Field>, from: { component: string; port: string }, to: string): Field {
+  const field = emitted.get(`${from.component}.${from.port}`);
+  if (field) return field;
+  throw new QuietframeError({
+    path: "connections",
+    value: `${from.component}.${from.port} → ${to}`,
+    problem: `'${from.component}.${from.port}' carries no light as '${from.component}' is configured (an optional output whose parameters are absent)`,
+    allowed: "give the parameters that bring that output into use (e.g. an interferometer's idlerDetuning for idlerOut), or remove the connection",
+  });
 }
 
 function pickQuantity(signal: SignalReference, referTo: string | undefined): ReferredQuantity {
