@@ -1,6 +1,5 @@
 import { spawnSync } from "node:child_process";
-import { existsSync, mkdirSync, readFileSync } from "node:fs";
-import { tmpdir } from "node:os";
+import { existsSync, readFileSync } from "node:fs";
 import { join } from "node:path";
 import type { Locator, Page } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
@@ -13,6 +12,7 @@ import { loadExplorerState } from "../../widgets/explorer/document";
 import type { ExplorerState } from "../../widgets/explorer/format";
 import { versionMismatchText } from "../../widgets/explorer/frontend/mismatch-text";
 import { openBrowser, type BrowserSession } from "./helpers/chromium";
+import { APP_TIMEOUT_MS, openNotebook, runAll, screenshotArtifact, waitForKernelIdle } from "./helpers/jupyter-app";
 import { createFrontEndEnv, notebookRoot, startLab, type FrontEndEnv } from "./helpers/front-ends";
 import type { NotebookServer } from "./helpers/notebook-server";
 
@@ -30,8 +30,7 @@ import type { NotebookServer } from "./helpers/notebook-server";
  */
 const KERNEL_DISPLAY = "TypeScript (quietframe)";
 const KERNEL_NAME = "quietframe-ts";
-const TIMEOUT_MS = 120_000;
-const ARTIFACTS = join(process.env.QUIETFRAME_TEST_ARTIFACTS ?? join(tmpdir(), "quietframe-test-artifacts"), "jupyter-front-ends");
+const TIMEOUT_MS = APP_TIMEOUT_MS;
 const EXAMPLE = "cryogenic-membrane.ipynb";
 const LAB_NOTEBOOK = "lab.ipynb";
 const NB7_NOTEBOOK = "notebook7.ipynb";
@@ -64,15 +63,8 @@ function versionOrQuietframeWarnings(): string[] {
   return (browser?.consoleWarnings ?? []).filter((m) => /Unsatisfied version|No satisfying version|^quietframe|\/quietframe-live\//i.test(m));
 }
 
-async function screenshot(page: Page, name: string): Promise<void> {
-  mkdirSync(ARTIFACTS, { recursive: true });
-  await page.screenshot({ path: join(ARTIFACTS, `${name}.png`), fullPage: false });
-}
-
-/** Opens a notebook in a front-end ("lab" or "notebooks" for Notebook 7) and waits for its app object. */
-async function openNotebook(page: Page, frontEnd: "lab/tree" | "notebooks", file: string): Promise<void> {
-  await page.goto(`${server!.origin}/${frontEnd}/notebooks/${file}?token=${server!.token}`, { waitUntil: "load" });
-  await page.waitForFunction(() => (globalThis as any).jupyterapp?.shell?.currentWidget?.context?.isReady === true, undefined, { timeout: TIMEOUT_MS });
+function screenshot(page: Page, name: string): Promise<void> {
+  return screenshotArtifact(page, "jupyter-front-ends", name);
 }
 
 /**
@@ -101,10 +93,6 @@ async function chooseKernel(page: Page, label: string): Promise<void> {
   await page.waitForFunction((name) => (globalThis as any).jupyterapp.shell.currentWidget.sessionContext.session?.kernel?.name === name, KERNEL_NAME, { timeout: TIMEOUT_MS });
 }
 
-async function waitForKernelIdle(page: Page): Promise<void> {
-  await page.waitForFunction(() => (globalThis as any).jupyterapp.shell.currentWidget.sessionContext.session?.kernel?.status === "idle", undefined, { timeout: TIMEOUT_MS });
-}
-
 /** Restarts the kernel as a user does (Kernel → Restart Kernel…, confirmed in its dialog) and waits until it is idle again. */
 async function restartKernel(page: Page): Promise<void> {
   await waitForKernelIdle(page);
@@ -126,25 +114,6 @@ async function restartKernel(page: Page): Promise<void> {
     undefined,
     { timeout: TIMEOUT_MS },
   );
-}
-
-/** Runs every cell and waits until none is queued or running. Returns the error outputs' names and values. */
-async function runAll(page: Page): Promise<string[]> {
-  await waitForKernelIdle(page);
-  await page.evaluate(() => void (globalThis as any).jupyterapp.commands.execute("notebook:run-all-cells"));
-  await page.waitForFunction(
-    () => {
-      const panel = (globalThis as any).jupyterapp.shell.currentWidget;
-      const prompts = Array.from(panel.node.querySelectorAll(".jp-InputArea-prompt") as ArrayLike<{ textContent: string }>);
-      return panel.sessionContext.session?.kernel?.status === "idle" && prompts.length > 0 && prompts.every((p) => !p.textContent.includes("*"));
-    },
-    undefined,
-    { timeout: TIMEOUT_MS * 2, polling: 500 },
-  );
-  return page.evaluate(() => {
-    const nb = (globalThis as any).jupyterapp.shell.currentWidget.content;
-    return nb.widgets.flatMap((cell: any) => (cell.model.type === "code" ? cell.model.outputs.toJSON() : [])).flatMap((o: any) => (o.output_type === "error" ? [`${o.ename}: ${o.evalue}`] : []));
-  });
 }
 
 /** Adds a cell at the end, runs it and returns what it printed (tslab prints a last expression's value as text). */
@@ -387,7 +356,7 @@ describe("an example notebook in JupyterLab 4", { timeout: TIMEOUT_MS * 3 }, () 
 
   it("opens, takes the quietframe kernel from the kernel dialog, and runs every cell without errors", async () => {
     page = browser!.page;
-    await openNotebook(page, "lab/tree", LAB_NOTEBOOK);
+    await openNotebook(page, server!, `lab/tree/notebooks/${LAB_NOTEBOOK}`);
     await chooseKernel(page, KERNEL_DISPLAY);
     expect(await runAll(page)).toEqual([]);
     await screenshot(page, "lab-run-all");
@@ -491,7 +460,7 @@ describe("the same notebook in Notebook 7", { timeout: TIMEOUT_MS * 3 }, () => {
   it("runs with the quietframe kernel and draws the engine's curves", async () => {
     await fe!.cli(["kernel", "install", "--prefix", fe!.prefix]);
     page = await browser!.context.newPage();
-    await openNotebook(page, "notebooks", NB7_NOTEBOOK);
+    await openNotebook(page, server!, `notebooks/notebooks/${NB7_NOTEBOOK}`);
     await chooseKernel(page, KERNEL_DISPLAY);
     expect(await runAll(page)).toEqual([]);
     await waitForCharts(page, 2);
