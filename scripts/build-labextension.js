@@ -27,6 +27,13 @@ const NAME = "quietframe-live";
 const output = join(root, "dist", "labextension", NAME);
 // Inside the repository's node_modules, so webpack resolves @jupyter-widgets/base from the project.
 const staging = join(root, "node_modules", ".cache", "quietframe-labextension");
+/**
+ * The @jupyter-widgets/base the extension asks the page's shared scope for: any ipywidgets 8
+ * widget manager (base 6.x; jupyterlab_widgets 3.0.16 shares 6.0.11, 3.0.17 shares 6.0.12).
+ * The plugin uses only what 6.0.0 has (DOMWidgetModel, DOMWidgetView, IJupyterWidgetRegistry),
+ * and a narrower range makes the page warn "Unsatisfied version" under an older manager.
+ */
+const BASE_RANGE = "^6.0.0";
 
 /** JupyterLab's core package directory (jupyterlab/staging) of the pinned Python environment. */
 function corePath() {
@@ -40,7 +47,6 @@ async function main() {
   const core = corePath();
   if (!existsSync(join(core, "package.json"))) throw new Error(`no JupyterLab core metadata in ${core}`);
   const pkg = JSON.parse(readFileSync(join(root, "package.json"), "utf8"));
-  const baseRange = pkg.devDependencies["@jupyter-widgets/base"];
   rmSync(staging, { recursive: true, force: true });
   mkdirSync(join(staging, "lib"), { recursive: true });
   await build({
@@ -67,7 +73,7 @@ async function main() {
     license: pkg.license,
     main: "lib/index.js",
     // @jupyter-widgets/base comes from the widget manager: our classes must extend its copy.
-    dependencies: { "@jupyter-widgets/base": baseRange },
+    dependencies: { "@jupyter-widgets/base": BASE_RANGE },
     jupyterlab: {
       extension: true,
       outputDir: relative(staging, output),

@@ -1,6 +1,5 @@
 import { spawnSync } from "node:child_process";
-import { existsSync, mkdirSync, readFileSync } from "node:fs";
-import { tmpdir } from "node:os";
+import { existsSync, readFileSync } from "node:fs";
 import { join } from "node:path";
 import type { Locator, Page } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
@@ -13,6 +12,7 @@ import { loadExplorerState } from "../../widgets/explorer/document";
 import type { ExplorerState } from "../../widgets/explorer/format";
 import { versionMismatchText } from "../../widgets/explorer/frontend/mismatch-text";
 import { openBrowser, type BrowserSession } from "./helpers/chromium";
+import { APP_TIMEOUT_MS, openNotebook, runAll, screenshotArtifact, waitForKernelIdle } from "./helpers/jupyter-app";
 import { createFrontEndEnv, notebookRoot, startLab, type FrontEndEnv } from "./helpers/front-ends";
 import type { NotebookServer } from "./helpers/notebook-server";
 
@@ -22,14 +22,15 @@ import type { NotebookServer } from "./helpers/notebook-server";
  * lab extension installed by our own `quietframe kernel install` and `quietframe extension
  * install`. An example notebook, unchanged, is opened, the quietframe kernel chosen in the
  * kernel dialog, and every cell run; the mouse moves a slider, cells read and set values, the
- * page reconnects to the running kernel after a reload, and the saved notebook redraws its
- * charts from its widget state once that kernel is gone. Screenshots go to
+ * page reconnects to the running kernel after a reload, the saved notebook redraws its
+ * charts from its widget state once that kernel is gone, and a restarted kernel runs the
+ * notebook again into working charts. The page logs no errors from quietframe and no
+ * shared-module version warnings (see scripts/python-env/requirements.txt). Screenshots go to
  * QUIETFRAME_TEST_ARTIFACTS (default: quietframe-test-artifacts/ in the OS temp dir).
  */
 const KERNEL_DISPLAY = "TypeScript (quietframe)";
 const KERNEL_NAME = "quietframe-ts";
-const TIMEOUT_MS = 120_000;
-const ARTIFACTS = join(process.env.QUIETFRAME_TEST_ARTIFACTS ?? join(tmpdir(), "quietframe-test-artifacts"), "jupyter-front-ends");
+const TIMEOUT_MS = APP_TIMEOUT_MS;
 const EXAMPLE = "cryogenic-membrane.ipynb";
 const LAB_NOTEBOOK = "lab.ipynb";
 const NB7_NOTEBOOK = "notebook7.ipynb";
@@ -52,15 +53,18 @@ function quietframeConsoleErrors(): string[] {
   return (browser?.consoleErrors ?? []).filter((m) => /quietframe/i.test(m));
 }
 
-async function screenshot(page: Page, name: string): Promise<void> {
-  mkdirSync(ARTIFACTS, { recursive: true });
-  await page.screenshot({ path: join(ARTIFACTS, `${name}.png`), fullPage: false });
+/**
+ * Warnings the module federation logs when an extension asks the page for a shared module of
+ * a version the page does not have ("Unsatisfied version …", "No satisfying version …"),
+ * whichever extension asked, and warnings from quietframe's code (its extension's files, or
+ * text starting with "quietframe"; JupyterLab's own notes may name the kernel quietframe-ts).
+ */
+function versionOrQuietframeWarnings(): string[] {
+  return (browser?.consoleWarnings ?? []).filter((m) => /Unsatisfied version|No satisfying version|^quietframe|\/quietframe-live\//i.test(m));
 }
 
-/** Opens a notebook in a front-end ("lab" or "notebooks" for Notebook 7) and waits for its app object. */
-async function openNotebook(page: Page, frontEnd: "lab/tree" | "notebooks", file: string): Promise<void> {
-  await page.goto(`${server!.origin}/${frontEnd}/notebooks/${file}?token=${server!.token}`, { waitUntil: "load" });
-  await page.waitForFunction(() => (globalThis as any).jupyterapp?.shell?.currentWidget?.context?.isReady === true, undefined, { timeout: TIMEOUT_MS });
+function screenshot(page: Page, name: string): Promise<void> {
+  return screenshotArtifact(page, "jupyter-front-ends", name);
 }
 
 /**
@@ -89,27 +93,27 @@ async function chooseKernel(page: Page, label: string): Promise<void> {
   await page.waitForFunction((name) => (globalThis as any).jupyterapp.shell.currentWidget.sessionContext.session?.kernel?.name === name, KERNEL_NAME, { timeout: TIMEOUT_MS });
 }
 
-async function waitForKernelIdle(page: Page): Promise<void> {
-  await page.waitForFunction(() => (globalThis as any).jupyterapp.shell.currentWidget.sessionContext.session?.kernel?.status === "idle", undefined, { timeout: TIMEOUT_MS });
-}
-
-/** Runs every cell and waits until none is queued or running. Returns the error outputs' names and values. */
-async function runAll(page: Page): Promise<string[]> {
+/** Restarts the kernel as a user does (Kernel → Restart Kernel…, confirmed in its dialog) and waits until it is idle again. */
+async function restartKernel(page: Page): Promise<void> {
   await waitForKernelIdle(page);
-  await page.evaluate(() => void (globalThis as any).jupyterapp.commands.execute("notebook:run-all-cells"));
-  await page.waitForFunction(
-    () => {
-      const panel = (globalThis as any).jupyterapp.shell.currentWidget;
-      const prompts = Array.from(panel.node.querySelectorAll(".jp-InputArea-prompt") as ArrayLike<{ textContent: string }>);
-      return panel.sessionContext.session?.kernel?.status === "idle" && prompts.length > 0 && prompts.every((p) => !p.textContent.includes("*"));
-    },
-    undefined,
-    { timeout: TIMEOUT_MS * 2, polling: 500 },
-  );
-  return page.evaluate(() => {
-    const nb = (globalThis as any).jupyterapp.shell.currentWidget.content;
-    return nb.widgets.flatMap((cell: any) => (cell.model.type === "code" ? cell.model.outputs.toJSON() : [])).flatMap((o: any) => (o.output_type === "error" ? [`${o.ename}: ${o.evalue}`] : []));
+  await page.evaluate(() => {
+    const w = globalThis as any;
+    w.quietframeTestRestarted = false;
+    w.jupyterapp.shell.currentWidget.sessionContext.session.kernel.statusChanged.connect((_: unknown, status: string) => {
+      if (status === "restarting" || status === "autorestarting") w.quietframeTestRestarted = true;
+    });
+    // Not awaited in the page: the command resolves only when the dialog closes.
+    void w.jupyterapp.commands.execute("notebook:restart-kernel");
   });
+  const dialog = page.locator(".jp-Dialog");
+  await dialog.waitFor({ timeout: TIMEOUT_MS });
+  await dialog.locator(".jp-Dialog-button.jp-mod-accept").click();
+  await dialog.waitFor({ state: "detached", timeout: TIMEOUT_MS });
+  await page.waitForFunction(
+    () => (globalThis as any).quietframeTestRestarted === true && (globalThis as any).jupyterapp.shell.currentWidget.sessionContext.session?.kernel?.status === "idle",
+    undefined,
+    { timeout: TIMEOUT_MS },
+  );
 }
 
 /** Adds a cell at the end, runs it and returns what it printed (tslab prints a last expression's value as text). */
@@ -222,6 +226,75 @@ async function dragSlider(page: Page, label: string, fraction: number): Promise<
   return slider;
 }
 
+/**
+ * Drags the target slider to `fraction` of its track; the kernel's value (printed by a cell)
+ * follows the readout and the first chart replots the engine's curves for it. Returns the readout.
+ */
+async function expectDragReachesKernel(page: Page, fraction: number, state: ExplorerState): Promise<number> {
+  const before = await drawnRevision(page, 0);
+  const slider = await dragSlider(page, TARGET_LABEL, fraction);
+  const readout = Number(await slider.locator(".widget-readout").innerText());
+  let shown = "";
+  await expect
+    .poll(
+      async () => {
+        shown = printedValue((await runCell(page, `${FIRST_EXPLORER}.values`)).text, TARGET);
+        return Number(shown.replace(/\s*%$/, ""));
+      },
+      { timeout: TIMEOUT_MS },
+    )
+    .toBeCloseTo(readout, 10);
+  await waitForFirstChartAbove(page, before);
+  const want = engineRows(state, { [TARGET]: shown });
+  await expect.poll(async () => JSON.stringify(await plottedRows(page, 0)) === JSON.stringify(want), { timeout: TIMEOUT_MS }).toBe(true);
+  expect(want).not.toEqual(engineRows(state));
+  return readout;
+}
+
+/** Sets the target from a cell: the cell reads the new value back, the slider moves to it and the first chart replots. */
+async function expectCellSetMovesSlider(page: Page, percent: number, state: ExplorerState): Promise<void> {
+  const before = await drawnRevision(page, 0);
+  const value = `${percent} %`;
+  const result = await runCell(page, `${FIRST_EXPLORER}.set("${TARGET}", "${value}"); ${FIRST_EXPLORER}.values`);
+  expect(result.errors).toEqual([]);
+  expect(printedValue(result.text, TARGET)).toBe(value);
+  await expect.poll(() => sliderRow(page, TARGET_LABEL).locator(".widget-readout").innerText(), { timeout: TIMEOUT_MS }).toBe(String(percent));
+  await waitForFirstChartAbove(page, before);
+  const want = engineRows(state, { [TARGET]: value });
+  await expect.poll(async () => JSON.stringify(await plottedRows(page, 0)) === JSON.stringify(want), { timeout: TIMEOUT_MS }).toBe(true);
+}
+
+/** Reloads the page while its kernel runs: the front-end reconnects to the kernel's widgets and draws the same charts and controls. */
+async function expectReloadRedraws(page: Page, percent: number): Promise<void> {
+  const rows = [await plottedRows(page, 0), await plottedRows(page, 1)];
+  await page.reload({ waitUntil: "load" });
+  await page.waitForFunction(() => (globalThis as any).jupyterapp?.shell?.currentWidget?.context?.isReady === true, undefined, { timeout: TIMEOUT_MS });
+  await waitForCharts(page, 2);
+  expect(await page.locator(".jupyter-widgets-error-widget").count()).toBe(0);
+  expect(await plottedRows(page, 0)).toEqual(rows[0]);
+  expect(await plottedRows(page, 1)).toEqual(rows[1]);
+  await expect.poll(() => sliderRow(page, TARGET_LABEL).locator(".widget-readout").innerText(), { timeout: TIMEOUT_MS }).toBe(String(percent));
+}
+
+/**
+ * Restarts the kernel and runs every cell again, with the cells this suite added since the
+ * page last loaded the file (`setByAddedCells`: the target value the last of them set, if any):
+ * the new kernel's charts draw the engine's curves for the notebook's values (`states`, the
+ * first run's) with that target, and answer the mouse.
+ */
+async function expectRestartRunsAgain(page: Page, states: ExplorerState[], fraction: number, setByAddedCells?: number): Promise<void> {
+  const percent = setByAddedCells ?? Number(String(states[0].values[TARGET]).replace(/\s*%$/, ""));
+  await restartKernel(page);
+  expect((await runCell(page, `typeof ${FIRST_EXPLORER}`)).text, "the restarted kernel has none of the old variables").toMatch(/Cannot find name 'plain'|undefined/);
+  expect(await runAll(page)).toEqual([]);
+  await waitForCharts(page, 2);
+  expect(await page.locator(".jupyter-widgets-error-widget").count()).toBe(0);
+  const want = [engineRows(states[0], { [TARGET]: `${percent} %` }), engineRows(states[1])];
+  await expect.poll(() => sliderRow(page, TARGET_LABEL).locator(".widget-readout").innerText(), { timeout: TIMEOUT_MS }).toBe(String(percent));
+  for (let i = 0; i < 2; i++) await expect.poll(async () => JSON.stringify(await plottedRows(page, i)) === JSON.stringify(want[i]), { timeout: TIMEOUT_MS, message: `chart ${i + 1}` }).toBe(true);
+  await expectDragReachesKernel(page, fraction, states[0]);
+}
+
 /** What `jupyter labextension list` of the pinned environment prints, without its colours. */
 function labextensionList(): string {
   const r = spawnSync(join(fe!.env.VIRTUAL_ENV!, "bin", "jupyter"), ["labextension", "list"], { env: fe!.env, encoding: "utf8" });
@@ -283,7 +356,7 @@ describe("an example notebook in JupyterLab 4", { timeout: TIMEOUT_MS * 3 }, () 
 
   it("opens, takes the quietframe kernel from the kernel dialog, and runs every cell without errors", async () => {
     page = browser!.page;
-    await openNotebook(page, "lab/tree", LAB_NOTEBOOK);
+    await openNotebook(page, server!, `lab/tree/notebooks/${LAB_NOTEBOOK}`);
     await chooseKernel(page, KERNEL_DISPLAY);
     expect(await runAll(page)).toEqual([]);
     await screenshot(page, "lab-run-all");
@@ -306,36 +379,14 @@ describe("an example notebook in JupyterLab 4", { timeout: TIMEOUT_MS * 3 }, () 
   });
 
   it("a slider moved with the mouse changes the kernel's value and the chart", async () => {
-    const before = await drawnRevision(page, 0);
-    const slider = await dragSlider(page, TARGET_LABEL, 0.2);
-    const readout = Number(await slider.locator(".widget-readout").innerText());
+    const readout = await expectDragReachesKernel(page, 0.2, states[0]);
+    // The control spans 50 % … 100 % (the notebook's first explorer).
     expect(readout).toBeGreaterThan(50);
     expect(readout).toBeLessThan(70);
-    let shown = "";
-    await expect
-      .poll(
-        async () => {
-          shown = printedValue((await runCell(page, `${FIRST_EXPLORER}.values`)).text, TARGET);
-          return Number(shown.replace(/\s*%$/, ""));
-        },
-        { timeout: TIMEOUT_MS },
-      )
-      .toBeCloseTo(readout, 10);
-    await waitForFirstChartAbove(page, before);
-    const want = engineRows(states[0], { [TARGET]: shown });
-    await expect.poll(async () => JSON.stringify(await plottedRows(page, 0)) === JSON.stringify(want), { timeout: TIMEOUT_MS }).toBe(true);
-    expect(want).not.toEqual(engineRows(states[0]));
   });
 
   it("a value set from a cell moves the slider and replots", async () => {
-    const before = await drawnRevision(page, 0);
-    const result = await runCell(page, `${FIRST_EXPLORER}.set("${TARGET}", "70 %"); ${FIRST_EXPLORER}.values`);
-    expect(result.errors).toEqual([]);
-    expect(printedValue(result.text, TARGET)).toBe("70 %");
-    await expect.poll(() => sliderRow(page, TARGET_LABEL).locator(".widget-readout").innerText(), { timeout: TIMEOUT_MS }).toBe("70");
-    await waitForFirstChartAbove(page, before);
-    const want = engineRows(states[0], { [TARGET]: "70 %" });
-    await expect.poll(async () => JSON.stringify(await plottedRows(page, 0)) === JSON.stringify(want), { timeout: TIMEOUT_MS }).toBe(true);
+    await expectCellSetMovesSlider(page, 70, states[0]);
     await screenshot(page, "lab-set-from-cell");
   });
 
@@ -361,14 +412,7 @@ describe("an example notebook in JupyterLab 4", { timeout: TIMEOUT_MS * 3 }, () 
   });
 
   it("reloaded while the kernel runs, reconnects to its widgets: the charts redraw and still answer", async () => {
-    const rows = [await plottedRows(page, 0), await plottedRows(page, 1)];
-    await page.reload({ waitUntil: "load" });
-    await page.waitForFunction(() => (globalThis as any).jupyterapp?.shell?.currentWidget?.context?.isReady === true, undefined, { timeout: TIMEOUT_MS });
-    await waitForCharts(page, 2);
-    expect(await page.locator(".jupyter-widgets-error-widget").count()).toBe(0);
-    expect(await plottedRows(page, 0)).toEqual(rows[0]);
-    expect(await plottedRows(page, 1)).toEqual(rows[1]);
-    await expect.poll(() => sliderRow(page, TARGET_LABEL).locator(".widget-readout").innerText(), { timeout: TIMEOUT_MS }).toBe("70");
+    await expectReloadRedraws(page, 70);
   });
 
   it("saved, and reopened after the kernel was shut down, redraws its charts from the saved widget state", async () => {
@@ -398,37 +442,59 @@ describe("an example notebook in JupyterLab 4", { timeout: TIMEOUT_MS * 3 }, () 
     await screenshot(page, "lab-reopened-from-saved-state");
     expect(quietframeConsoleErrors()).toEqual([]);
   });
+
+  it("restarted (Kernel → Restart Kernel…) and run again, draws live charts that answer the mouse", async () => {
+    // The cells added before the reloads went with them (never saved); the notebook's own values.
+    await expectRestartRunsAgain(page, states, 0.8);
+    await page.locator(`.${CHART_VIEW_CLASS}`).first().scrollIntoViewIfNeeded();
+    await screenshot(page, "lab-restarted");
+    expect(quietframeConsoleErrors()).toEqual([]);
+    expect(versionOrQuietframeWarnings()).toEqual([]);
+  });
 });
 
 describe("the same notebook in Notebook 7", { timeout: TIMEOUT_MS * 3 }, () => {
   let page: Page;
+  let states: ExplorerState[] = [];
 
-  it("runs with the quietframe kernel and draws the engine's curves; a slider moved with the mouse replots", async () => {
+  it("runs with the quietframe kernel and draws the engine's curves", async () => {
     await fe!.cli(["kernel", "install", "--prefix", fe!.prefix]);
     page = await browser!.context.newPage();
-    page.on("console", (m) => {
-      if (m.type() === "error") browser!.consoleErrors.push(`${m.text()} @ ${m.location().url}`);
-    });
-    await openNotebook(page, "notebooks", NB7_NOTEBOOK);
+    await openNotebook(page, server!, `notebooks/notebooks/${NB7_NOTEBOOK}`);
     await chooseKernel(page, KERNEL_DISPLAY);
     expect(await runAll(page)).toEqual([]);
     await waitForCharts(page, 2);
     await save(page);
-    const states = savedChartStates(NB7_NOTEBOOK);
+    states = savedChartStates(NB7_NOTEBOOK);
     for (let i = 0; i < 2; i++) expect(await plottedRows(page, i), `chart ${i + 1}`).toEqual(engineRows(states[i]));
     await page.locator(`.${CHART_VIEW_CLASS}`).first().scrollIntoViewIfNeeded();
     await screenshot(page, "notebook7-first-chart");
+  });
 
-    const before = await drawnRevision(page, 0);
-    const slider = await dragSlider(page, TARGET_LABEL, 0.3);
-    await waitForFirstChartAbove(page, before);
-    const shown = printedValue((await runCell(page, `${FIRST_EXPLORER}.values`)).text, TARGET);
-    expect(Number(shown.replace(/\s*%$/, ""))).toBeCloseTo(Number(await slider.locator(".widget-readout").innerText()), 10);
-    const want = engineRows(states[0], { [TARGET]: shown });
-    await expect.poll(async () => JSON.stringify(await plottedRows(page, 0)) === JSON.stringify(want), { timeout: TIMEOUT_MS }).toBe(true);
-    await slider.scrollIntoViewIfNeeded();
+  it("a slider moved with the mouse changes the kernel's value and the chart", async () => {
+    await expectDragReachesKernel(page, 0.3, states[0]);
+    await sliderRow(page, TARGET_LABEL).scrollIntoViewIfNeeded();
     await screenshot(page, "notebook7-slider-moved");
+  });
+
+  it("a value set from a cell moves the slider and replots", async () => {
+    await expectCellSetMovesSlider(page, 80, states[0]);
+    await screenshot(page, "notebook7-set-from-cell");
+  });
+
+  it("reloaded while the kernel runs, reconnects to its widgets: the charts redraw and still answer", async () => {
+    await expectReloadRedraws(page, 80);
+    await expectCellSetMovesSlider(page, 65, states[0]);
+    await screenshot(page, "notebook7-reloaded");
+  });
+
+  it("restarted (Kernel → Restart Kernel…) and run again, draws live charts that answer the mouse", async () => {
+    // The cell added after the reload set the target to 65 % and runs again.
+    await expectRestartRunsAgain(page, states, 0.7, 65);
+    await page.locator(`.${CHART_VIEW_CLASS}`).first().scrollIntoViewIfNeeded();
+    await screenshot(page, "notebook7-restarted");
     expect(quietframeConsoleErrors()).toEqual([]);
+    expect(versionOrQuietframeWarnings()).toEqual([]);
     await page.close();
   });
 });

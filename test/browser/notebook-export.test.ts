@@ -82,7 +82,7 @@ describe(`${NOTEBOOK} exported to HTML by nbconvert`, { timeout: 150_000 }, () =
     const fallbacks = await page.evaluate((selector) => {
       return (Array.from((globalThis as any).document.querySelectorAll(selector)) as any[]).map((el) => {
         const fallback = el.querySelector(":scope > .qf-fallback");
-        const svg = fallback?.querySelector(":scope > svg");
+        const svg = fallback?.querySelector(":scope > .qf-fallback-svg > svg");
         return { hidden: fallback?.hidden, paths: svg ? svg.querySelectorAll("path").length : -1, texts: svg ? svg.querySelectorAll("text").length : -1 };
       });
     }, WIDGET);

@@ -112,7 +112,7 @@ describe("widgets whose page has no runtime", { timeout: 150_000 }, () => {
     for (let i = 0; i < 2; i++) {
       const fallback = page.locator(WIDGET).nth(i).locator(".qf-fallback");
       expect(await fallback.isVisible()).toBe(true);
-      expect(await fallback.locator(":scope > svg").isVisible()).toBe(true);
+      expect(await fallback.locator(":scope > .qf-fallback-svg > svg").isVisible()).toBe(true);
       const message = fallback.locator(MISSING);
       expect(await message.count()).toBe(1);
       expect(await message.textContent()).toBe(RUNTIME_MISSING_TEXT);

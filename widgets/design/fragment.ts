@@ -2,7 +2,7 @@
 import { QUIETFRAME_VERSION } from "../../src/index";
 import { bootstrapScriptTag, runtimeScriptTag } from "../core/page/bootstrap";
 import { escapeHtml, jsonForScript } from "../core/page/escape";
-import { cautionHtml, fallbackNote, fallbackPng, fallbackStyle } from "../core/page/fallback";
+import { cautionHtml, fallbackFigure, fallbackNote, fallbackPng, fallbackStyle } from "../core/page/fallback";
 import { designCautions } from "./cautions";
 import { htmlDocument } from "../core/page/html-document";
 import { FINGERPRINT_ATTRIBUTE, VERSION_ATTRIBUTE } from "../core/page/names";
@@ -26,7 +26,7 @@ export function designFragment(state: DesignState, parts: FragmentParts): string
   out.push(`<style>${FALLBACK_STYLE}</style>`);
   out.push(safetyNoteHtml());
   out.push(`<div class="qf-fallback">`);
-  if (parts.svg !== undefined) out.push(plainSvg(parts.svg));
+  if (parts.svg !== undefined) out.push(fallbackFigure(plainSvg(parts.svg)));
   if (parts.png !== undefined) out.push(fallbackPng(parts.png, designTitle(state)));
   out.push(cautionHtml(designCautions(state)));
   out.push(`<pre class="qf-summary">${escapeHtml(designSummaryText(state))}</pre>`);

@@ -4,7 +4,7 @@ import { computeEntangled, entangledStateText, entangledSummary, type EntangledC
 import { ENTANGLED_CLASS, ENTANGLED_NUMBER_ATTRIBUTES, ENTANGLED_STATE_CLASS } from "./names";
 import { escapeHtml, jsonTextForScript } from "../core/page/escape";
 import { bootstrapScriptTag, runtimeScriptTag } from "../core/page/bootstrap";
-import { fallbackNote, fallbackPng, fallbackStyle, summaryListHtml } from "../core/page/fallback";
+import { fallbackFigure, fallbackNote, fallbackPng, fallbackStyle, summaryListHtml } from "../core/page/fallback";
 import { safetyNoteHtml } from "../core/page/safety-note";
 import { VERSION_ATTRIBUTE } from "../core/page/names";
 import type { FragmentParts, PageParts } from "../core/page/parts";
@@ -26,7 +26,7 @@ export function entangledFragment(state: EntangledState, parts: FragmentParts, c
   out.push(`<style>${FALLBACK_STYLE}</style>`);
   out.push(safetyNoteHtml());
   out.push(`<div class="qf-fallback">`);
-  if (parts.svg !== undefined) out.push(plainSvg(parts.svg));
+  if (parts.svg !== undefined) out.push(fallbackFigure(plainSvg(parts.svg)));
   if (parts.png !== undefined) out.push(fallbackPng(parts.png, `Entangled light: ${state.title}`));
   out.push(`<p class="qf-fallback-title"><strong>${escapeHtml(state.title)}</strong></p>`);
   out.push(summaryListHtml(entangledSummary(state, computation)));

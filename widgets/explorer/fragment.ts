@@ -6,7 +6,7 @@ import type { ExplorerState } from "./format";
 import { stateDocumentText } from "./document";
 import { escapeHtml, jsonTextForScript } from "../core/page/escape";
 import { bootstrapScriptTag, runtimeScriptTag } from "../core/page/bootstrap";
-import { cautionHtml, fallbackNote, fallbackPng, fallbackStyle, summaryListHtml } from "../core/page/fallback";
+import { cautionHtml, fallbackFigure, fallbackNote, fallbackPng, fallbackStyle, summaryListHtml } from "../core/page/fallback";
 import { safetyNoteHtml } from "../core/page/safety-note";
 import { VERSION_ATTRIBUTE } from "../core/page/names";
 import type { FragmentParts } from "../core/page/parts";
@@ -26,7 +26,7 @@ export function explorerFragment(state: ExplorerState, computation: ExplorerComp
   out.push(`<style>${FALLBACK_STYLE}</style>`);
   out.push(safetyNoteHtml());
   out.push(`<div class="qf-fallback">`);
-  if (parts.svg !== undefined) out.push(checkedSvg(parts.svg));
+  if (parts.svg !== undefined) out.push(fallbackFigure(checkedSvg(parts.svg)));
   if (parts.png !== undefined) out.push(fallbackPng(parts.png, `Noise budget: ${title}`));
   out.push(summaryHtml(title, state, computation));
   out.push(fallbackNote("Static figure: the controls appear where scripts run (a trusted notebook or a browser page)."));

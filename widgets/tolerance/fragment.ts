@@ -3,7 +3,7 @@ import { QUIETFRAME_VERSION } from "../../src/index";
 import { TOLERANCE_CLASS, TOLERANCE_STATE_CLASS } from "./names";
 import { toleranceSummaryText, type ToleranceWidgetState } from "./model";
 import { escapeHtml, jsonForScript } from "../core/page/escape";
-import { fallbackNote, fallbackPng, fallbackStyle } from "../core/page/fallback";
+import { fallbackFigure, fallbackNote, fallbackPng, fallbackStyle } from "../core/page/fallback";
 import { safetyNoteHtml } from "../core/page/safety-note";
 import { VERSION_ATTRIBUTE } from "../core/page/names";
 import type { FragmentParts, PageParts } from "../core/page/parts";
@@ -24,7 +24,7 @@ export function toleranceFragment(state: ToleranceWidgetState, parts: FragmentPa
   out.push(`<style>${FALLBACK_STYLE}</style>`);
   out.push(safetyNoteHtml());
   out.push(`<div class="qf-fallback">`);
-  if (parts.svg !== undefined) out.push(plainSvg(parts.svg));
+  if (parts.svg !== undefined) out.push(fallbackFigure(plainSvg(parts.svg)));
   if (parts.png !== undefined) out.push(fallbackPng(parts.png, `Tolerance map: ${title}`));
   out.push(`<pre class="qf-summary">${escapeHtml(toleranceSummaryText(state))}</pre>`);
   out.push(fallbackNote("Static figure: clicking a cell opens its explorer where scripts run (a trusted notebook or a browser page)."));

@@ -6,7 +6,7 @@ import { trajectoryTitle, type TrajectoryComputation } from "./model";
 import { TRAJECTORY_CLASS, TRAJECTORY_STATE_CLASS } from "./names";
 import { trajectorySummary } from "./summary";
 import { escapeHtml, jsonTextForScript } from "../core/page/escape";
-import { cautionHtml, fallbackNote, fallbackPng, fallbackStyle, summaryListHtml } from "../core/page/fallback";
+import { cautionHtml, fallbackFigure, fallbackNote, fallbackPng, fallbackStyle, summaryListHtml } from "../core/page/fallback";
 import { bootstrapScriptTag, runtimeScriptTag } from "../core/page/bootstrap";
 import { safetyNoteHtml } from "../core/page/safety-note";
 import { FINGERPRINT_ATTRIBUTE, VERSION_ATTRIBUTE } from "../core/page/names";
@@ -27,7 +27,7 @@ export function trajectoryFragment(state: TrajectoryState, computation: Trajecto
   out.push(`<style>${FALLBACK_STYLE}</style>`);
   out.push(safetyNoteHtml());
   out.push(`<div class="qf-fallback">`);
-  if (parts.svg !== undefined) out.push(plainSvg(parts.svg));
+  if (parts.svg !== undefined) out.push(fallbackFigure(plainSvg(parts.svg)));
   if (parts.png !== undefined) out.push(fallbackPng(parts.png, `Trajectories: ${title}`));
   out.push(`<p class="qf-fallback-title"><strong>${escapeHtml(title)}</strong></p>`);
   out.push(cautionHtml(computation.cautions));

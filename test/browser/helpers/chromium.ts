@@ -20,8 +20,10 @@ export const CHROMIUM_ARGS = [
 export interface BrowserSession {
   readonly context: BrowserContext;
   readonly page: Page;
-  /** console.error messages (with " @ <url of the source>" when known) and uncaught page errors, in order. */
+  /** console.error messages (with " @ <url of the source>" when known) and uncaught page errors, in order, from every page of the context. */
   readonly consoleErrors: string[];
+  /** console.warn messages of every page of the context, in the same form. */
+  readonly consoleWarnings: string[];
   /** Requests the page tried to make that `allow` refused (each was aborted). */
   readonly refusedRequests: string[];
   close(): Promise<void>;
@@ -50,8 +52,21 @@ export async function openBrowser(options: OpenBrowserOptions): Promise<BrowserS
     throw e;
   }
   const consoleErrors: string[] = [];
+  const consoleWarnings: string[] = [];
   const refusedRequests: string[] = [];
-  const page = context.pages()[0] ?? (await context.newPage());
+  const listen = (p: Page): void => {
+    p.on("console", (m) => {
+      const list = m.type() === "error" ? consoleErrors : m.type() === "warning" ? consoleWarnings : undefined;
+      const where = m.location().url;
+      list?.push(where ? `${m.text()} @ ${where}` : m.text());
+    });
+    p.on("pageerror", (e) => consoleErrors.push(`page error: ${e.message}`));
+  };
+  // The page the browser opened with, and every page opened later (context.newPage()).
+  const first = context.pages()[0];
+  if (first) listen(first);
+  context.on("page", listen);
+  const page = first ?? (await context.newPage());
   page.setDefaultTimeout(60_000);
   await page.route("**/*", (route) => {
     const url = route.request().url();
@@ -59,18 +74,13 @@ export async function openBrowser(options: OpenBrowserOptions): Promise<BrowserS
     refusedRequests.push(url);
     return route.abort();
   });
-  page.on("console", (m) => {
-    if (m.type() !== "error") return;
-    const where = m.location().url;
-    consoleErrors.push(where ? `${m.text()} @ ${where}` : m.text());
-  });
-  page.on("pageerror", (e) => consoleErrors.push(`page error: ${e.message}`));
   // A notebook page asks before leaving with unsaved changes; the tests decide for the reader.
   page.on("dialog", (d) => void d.accept().catch(() => undefined));
   return {
     context,
     page,
     consoleErrors,
+    consoleWarnings,
     refusedRequests,
     close: async () => {
       try {

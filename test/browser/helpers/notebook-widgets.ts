@@ -15,7 +15,7 @@ export function summaryFingerprint(o: NotebookOutput): string {
 
 /** The inline SVG of a widget output's static fallback, as the kernel wrote it. */
 export function fallbackSvg(o: NotebookOutput): string {
-  const m = /<div class="qf-fallback">\s*(<svg[\s\S]*?<\/svg>)/.exec(joined(o.data?.["text/html"]));
+  const m = /<div class="qf-fallback">\s*<div class="qf-fallback-svg" hidden="hidden">(<svg[\s\S]*?<\/svg>)<\/div>/.exec(joined(o.data?.["text/html"]));
   if (!m) throw new Error("the widget output has no inline SVG in its fallback");
   return m[1];
 }

@@ -8,19 +8,32 @@ import { CAUTION_HEADING, type SummaryLine } from "./summary-line";
  */
 
 /**
- * With both images present only the SVG shows; where a sanitizer strips the <svg>, the sibling
- * rule no longer matches and the PNG appears instead. `caution` adds the safety box's look.
+ * The SVG's box (fallbackFigure) is hidden unless this style sheet applies and the SVG is in
+ * it; then only the SVG shows, not the PNG. Where a sanitizer strips the <svg>, the PNG
+ * appears instead; where it strips this <style> as well (JupyterLab and Notebook 7 for
+ * untrusted outputs), the box stays hidden, so the SVG's loose text labels never show.
+ * `caution` adds the safety box's look.
  */
 export function fallbackStyle(className: string, options: { caution?: boolean; extra?: string } = {}): string {
   const k = `.${className}`;
   return (
-    `${k} .qf-fallback svg+img.qf-fallback-png{display:none}` +
+    `${k} .qf-fallback .qf-fallback-svg:has(svg){display:block}` +
+    `${k} .qf-fallback .qf-fallback-svg:has(svg)+img.qf-fallback-png{display:none}` +
     `${k} .qf-fallback img,${k} .qf-fallback svg{max-width:100%;height:auto}` +
     (options.caution
       ? `${k} .qf-fallback .qf-caution{border:2px solid #c77700;background:#fff6de;color:#3d2600;padding:.45em .7em;margin:.5em 0}${k} .qf-fallback .qf-caution ul{margin:.2em 0 0;padding-left:1.2em}`
       : "") +
     (options.extra ?? "")
   );
+}
+
+/**
+ * The static SVG (checked by the caller) in the box fallbackStyle shows; hidden wherever that
+ * style sheet is gone. `hidden="hidden"`, not a bare `hidden`: JupyterLab's sanitizer drops
+ * the attribute when its value is empty.
+ */
+export function fallbackFigure(svg: string): string {
+  return `<div class="qf-fallback-svg" hidden="hidden">${svg}</div>`;
 }
 
 /** The PNG fallback as an inline image; `alt` is escaped here. */
@@ -40,7 +53,15 @@ export function summaryListHtml(lines: readonly SummaryLine[]): string {
   return `<dl class="qf-summary">${lines.map((l) => `<dt>${escapeHtml(l.label)}</dt><dd>${escapeHtml(l.text)}</dd>`).join("")}</dl>`;
 }
 
-/** The note under every static figure. */
+/**
+ * How to trust a notebook, under every static fallback: an untrusted notebook shows the
+ * fallback without scripts (in JupyterLab and Notebook 7 without any figure: their sanitizer
+ * drops inline SVG and data: images).
+ */
+export const TRUST_HINT =
+  "In a notebook that is not trusted the controls stay off (and in JupyterLab and Notebook 7 the figure too): check where the notebook came from, then trust it (JupyterLab: Trust Notebook in the command palette; Notebook 7 and the classic notebook: File → Trust Notebook).";
+
+/** The note under every static figure, with how to trust a notebook. */
 export function fallbackNote(text: string): string {
-  return `<p class="qf-fallback-note"><small>${escapeHtml(text)}</small></p>`;
+  return `<p class="qf-fallback-note"><small>${escapeHtml(text)}</small></p><p class="qf-fallback-note qf-trust-hint"><small>${escapeHtml(TRUST_HINT)}</small></p>`;
 }
