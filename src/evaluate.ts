@@ -1,4 +1,5 @@
 import { noiseBudget, type NoiseBudget } from "./engine/budget";
+import { budgetByMechanism, type MechanismBudget } from "./engine/mechanisms";
 import type { PhysicalityReport } from "./engine/covariance";
 import { checkGrid, DEFAULT_GRID_POINTS, logGrid, type FrequencyGridSpec } from "./setup/grid";
 import type { StabilityReport } from "./engine/stability";
@@ -43,6 +44,15 @@ export function evaluate(prepared: PreparedSetup, grid?: FrequencyGridSpec | Flo
     cautions: prepared.cautions,
     warnings: [...budget.warnings, ...prepared.warnings],
   };
+}
+
+/**
+ * The light sources' budget terms of a prepared set-up split into imprecision, back-action and
+ * their signed cross-correlation (src/engine/mechanisms.ts), on the same grids as `evaluate`
+ * and with the same errors; each term's parts add up to the term of `evaluate`'s budget.
+ */
+export function evaluateMechanisms(prepared: PreparedSetup, grid?: FrequencyGridSpec | Float64Array): MechanismBudget {
+  return budgetByMechanism(prepared.assembled, frequenciesOf(grid ?? prepared.setup.grid ?? FALLBACK_GRID));
 }
 
 function frequenciesOf(grid: FrequencyGridSpec | Float64Array): Float64Array {

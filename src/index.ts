@@ -11,6 +11,7 @@ export {
   loadSetup,
   prepare,
   evaluate,
+  evaluateMechanisms,
   simulate,
   startSimulation,
   evaluateSetup,
@@ -24,6 +25,7 @@ export { validateSetup, type ResolvedSetup } from "./setup/validate";
 export { assemble, type AssembledSetup } from "./setup/assemble";
 export type { StateSpaceModel, ModeInfo, NoiseGroup } from "./network/model";
 export { noiseBudget, type NoiseBudget, type BudgetTerm, type ReferenceSpectrum } from "./engine/budget";
+export { budgetByMechanism, type MechanismBudget, type MechanismTerm } from "./engine/mechanisms";
 export { outputSpectra, signalResponse, inputTransfer, type ComplexSeries } from "./engine/spectra";
 export { analyzeStability, UnstableSetupError, type StabilityReport, type Eigenmode } from "./engine/stability";
 export { stationaryCovariance, uncertaintyMargin, diffusionMatrix, checkPhysicality, type PhysicalityReport } from "./engine/covariance";

@@ -22,7 +22,7 @@ import type { ResolvedSetup } from "./setup/validate";
 
 export { loadSetup } from "./setup/load";
 export { prepare, type PreparedSetup, type SetupValues } from "./prepare";
-export { evaluate, FALLBACK_GRID, type Evaluation } from "./evaluate";
+export { evaluate, evaluateMechanisms, FALLBACK_GRID, type Evaluation } from "./evaluate";
 export { simulate, startSimulation } from "./simulate";
 
 /** prepare then evaluate, for a set-up evaluated once. */

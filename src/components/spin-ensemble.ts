@@ -188,7 +188,7 @@ export const spinEnsemble: ComponentKind<SpinHandle> = {
     builder.drive(x, builder.input(handle.probeColumn), Math.sqrt(gp));
     builder.drive(p, builder.input(handle.probeColumn + 1), Math.sqrt(gp));
     const k = readoutCoupling(c);
-    builder.drive(p, inputs.in.amplitude, k);
+    builder.pushByLight(p, inputs.in.amplitude, k);
     return { out: { amplitude: inputs.in.amplitude, phase: combine(1, inputs.in.phase, k, builder.state(x)) } };
   },
   cautions: (c) => {

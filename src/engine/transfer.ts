@@ -42,8 +42,9 @@ export class TransferEvaluator {
   /** Reciprocals of the pivots of the last factorisation. */
   /** Reciprocals of the pivots, kept by the factorisation for the solve. */
   private readonly inverses: PivotInverses;
-  private readonly gRe: Float64Array;
-  private readonly gIm: Float64Array;
+  /** G = C_r (−iΩ I − A)⁻¹ after `at`, stored transposed (n×p: G[k, j] at j·p + k). */
+  readonly gRe: Float64Array;
+  readonly gIm: Float64Array;
 
   constructor(model: StateSpaceModel, rows: readonly number[]) {
     const n = model.nStates;

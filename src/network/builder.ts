@@ -30,6 +30,12 @@ export class NetworkBuilder {
 
   private A = new Float64Array(0);
   private B = new Float64Array(0);
+  /** A and B as written by everything except forces of light on bodies, and those forces alone (see pushByLight). */
+  private restA = new Float64Array(0);
+  private restB = new Float64Array(0);
+  private forceA = new Float64Array(0);
+  private forceB = new Float64Array(0);
+  private lightPushes = false;
   private signalB = new Float64Array(0);
   private readonly outputRows: { info: OutputInfo; form: LinearForm }[] = [];
 
@@ -72,6 +78,10 @@ export class NetworkBuilder {
     this.frozen = true;
     this.A = new Float64Array(this.nStates * this.nStates);
     this.B = new Float64Array(this.nStates * this.nInputs);
+    this.restA = new Float64Array(this.nStates * this.nStates);
+    this.restB = new Float64Array(this.nStates * this.nInputs);
+    this.forceA = new Float64Array(this.nStates * this.nStates);
+    this.forceB = new Float64Array(this.nStates * this.nInputs);
     this.signalB = new Float64Array(this.nStates);
   }
 
@@ -113,16 +123,35 @@ export class NetworkBuilder {
   couple(i: number, j: number, c: number): void {
     this.assertWiring();
     this.A[i * this.nStates + j] += c;
+    this.restA[i * this.nStates + j] += c;
   }
 
   /** dz_i/dt += c · form */
   drive(i: number, form: LinearForm, c = 1): void {
+    this.driveInto(i, form, c, true);
+  }
+
+  /**
+   * dz_i/dt += c · form, where the term is the force of light on a body (radiation pressure,
+   * the back-action of a spin readout). The same arithmetic as `drive`; the term is also kept
+   * out of the model's back-action-free dynamics, from which the budget splits a light
+   * source's noise into imprecision and back-action.
+   */
+  pushByLight(i: number, form: LinearForm, c: number): void {
+    this.driveInto(i, form, c, false);
+    this.lightPushes = true;
+  }
+
+  private driveInto(i: number, form: LinearForm, c: number, rest: boolean): void {
     this.assertWiring();
     const n = this.nStates;
     const m = this.nInputs;
     for (let j = 0; j < n; j++) this.A[i * n + j] += c * form.z[j];
     for (let j = 0; j < m; j++) this.B[i * m + j] += c * form.w[j];
     this.signalB[i] += c * form.s;
+    const [a, b] = rest ? [this.restA, this.restB] : [this.forceA, this.forceB];
+    for (let j = 0; j < n; j++) a[i * n + j] += c * form.z[j];
+    for (let j = 0; j < m; j++) b[i * m + j] += c * form.w[j];
   }
 
   /** dz_i/dt += c · s (the signal, in SI units). */
@@ -176,6 +205,7 @@ export class NetworkBuilder {
       inputs,
       groups: disambiguateGroupIds(groups),
       outputs: this.outputRows.map((r) => r.info),
+      ...(this.lightPushes ? { lightForce: { A: this.forceA.slice(), B: this.forceB.slice(), restA: this.restA.slice(), restB: this.restB.slice() } } : {}),
     };
   }
 

@@ -30,6 +30,13 @@ export interface StateSpaceModel {
   readonly inputs: readonly InputInfo[];
   readonly groups: readonly NoiseGroup[];
   readonly outputs: readonly OutputInfo[];
+  /**
+   * The forces of light on bodies (radiation pressure, spin-readout back-action), present when
+   * the set-up has any: their terms of A and B alone, and A and B without them (restA, restB).
+   * Light's path to a detector through the rest is its imprecision; its path through these
+   * forces and the bodies' motion is its back-action.
+   */
+  readonly lightForce?: { readonly A: Float64Array; readonly B: Float64Array; readonly restA: Float64Array; readonly restB: Float64Array };
 }
 
 export const MODE_KINDS = ["mechanical", "optical", "spin"] as const;

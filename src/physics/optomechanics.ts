@@ -10,7 +10,7 @@ import type { NetworkBuilder } from "../network/builder";
 import type { LinearForm } from "../network/linear-form";
 import type { MechanicalBody } from "./mechanical-body";
 export function pushOnBody(builder: NetworkBuilder, body: MechanicalBody, amplitude: LinearForm, g: number): void {
-  builder.drive(body.mode.p, amplitude, g);
+  builder.pushByLight(body.mode.p, amplitude, g);
 }
 
 /** Zero-point displacement √(ħ/(2mΩ_m)) of an oscillator body. */
