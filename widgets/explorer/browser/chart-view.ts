@@ -183,7 +183,7 @@ function sameCurvePoints(current: readonly CurveRow[], next: readonly CurveRow[]
  *  - sorting each line's points by x: the rows come in frequency order (curveRows and
  *    sqlRatioRows walk the ascending grid), so the lines join the same points in the same order.
  */
-function liveSpec(spec: Record<string, unknown>): Record<string, unknown> {
+export function liveSpec(spec: Record<string, unknown>): Record<string, unknown> {
   const panels = (spec.vconcat as Record<string, unknown>[]).map((panel) => {
     const data = panel.data as Record<string, unknown>;
     const named = typeof data.name === "string";
