@@ -1,5 +1,5 @@
 /** Vega-Lite spec of a noise budget (the explorer's chart, live and static). */
-import { log10, type BudgetTable } from "../../src/index";
+import { log10, type BudgetTable, type MechanismBudget } from "../../src/index";
 import { curveStyle, termRole } from "../core/look/encoding";
 import { FIGURE, figureConfig, frequencyAxis, frequencyX, keyPanel, leftAxis } from "../core/look/layout";
 import { INK, ROLE_COLOURS } from "../core/look/palette";
@@ -15,6 +15,7 @@ import type { ExplorerComputation } from "./model";
  */
 export const CURVES_DATASET = "curves";
 export const RATIO_DATASET = "ratio";
+export const MECHANISM_DATASET = "mechanism";
 
 export interface CurveRow {
   /** Frequency in Hz. */
@@ -87,10 +88,55 @@ export function sqlRatioRows(table: BudgetTable): RatioRow[] {
   return rows;
 }
 
+/** The parts of a light source's term. */
+export const MECHANISM_PARTS = ["imprecision", "back-action", "correlation"] as const;
+export type MechanismPart = (typeof MECHANISM_PARTS)[number];
+
+/** One row of the mechanism panel: a part's PSD divided by the term's (signed: the correlation may be negative). */
+export interface MechanismRow {
+  /** Frequency in Hz. */
+  f: number;
+  part: MechanismPart;
+  value: number;
+}
+
+/** What the mechanism panel draws: one light source's term split by mechanism. */
+export interface MechanismPanel {
+  /** The source's name, e.g. "laser". */
+  readonly source: string;
+  readonly rows: MechanismRow[];
+}
+
+/**
+ * The mechanism panel of a budget: the light source whose term is largest (summed over the
+ * grid) split into imprecision, back-action and correlation, each as a share of the term, so
+ * at every frequency the three add up to 1. None without a split.
+ */
+export function mechanismPanel(mechanisms: MechanismBudget): MechanismPanel | undefined {
+  if (mechanisms.terms.length === 0) return undefined;
+  const weight = (psd: Float64Array): number => psd.reduce((sum, v) => (Number.isFinite(v) ? sum + v : sum), 0);
+  const term = mechanisms.terms.reduce((best, t) => (weight(t.psd) > weight(best.psd) ? t : best));
+  const parts: [MechanismPart, Float64Array][] = [
+    ["imprecision", term.imprecision],
+    ["back-action", term.backAction],
+    ["correlation", term.correlation],
+  ];
+  const rows: MechanismRow[] = [];
+  for (const [part, psd] of parts) {
+    for (let i = 0; i < mechanisms.frequencies.length; i++) {
+      const value = psd[i] / term.psd[i];
+      if (Number.isFinite(value)) rows.push({ f: mechanisms.frequencies[i], part, value });
+    }
+  }
+  return { source: term.owner, rows };
+}
+
 export interface BudgetSpecOptions {
   title?: string;
   /** A target level of the ratio panel, in dB relative to the SQL (e.g. -3); drawn as a line. */
   targetDb?: number;
+  /** A light source's term by mechanism (mechanismPanel); drawn as a signed panel under the ratio. */
+  mechanism?: MechanismPanel;
 }
 
 export function budgetSpec(table: BudgetTable, quantity: string, options: BudgetSpecOptions = {}): Record<string, unknown> {
@@ -109,6 +155,9 @@ export function budgetSpec(table: BudgetTable, quantity: string, options: Budget
   const sql = curves.find((c) => c.column.id === "sql");
   const ratioRows = sqlRatioRows(table);
   const hasRatio = sql !== undefined && ratioRows.length > 0;
+  const mechanism = options.mechanism && options.mechanism.rows.length > 0 ? options.mechanism : undefined;
+  // Frequency labels go under the lowest plot panel only.
+  const labelsOnMain = !hasRatio && !mechanism;
   const y = {
     field: "value",
     type: "quantitative",
@@ -127,29 +176,30 @@ export function budgetSpec(table: BudgetTable, quantity: string, options: Budget
     layers.push({
       transform: [{ filter: { field: "series", equal: sql.series } }],
       mark: { type: "area", color: INK.belowSqlBand, opacity: 1, clip: true, aria: false },
-      encoding: { x: frequencyX(axis, !hasRatio), y: { ...y, stack: null }, y2: { value: "height" } },
+      encoding: { x: frequencyX(axis, labelsOnMain), y: { ...y, stack: null }, y2: { value: "height" } },
     });
   }
   layers.push(
     {
       transform: [{ filter: { not: isTotal } }],
       mark: { type: "line", clip: true, interpolate: "linear" },
-      encoding: { x: frequencyX(axis, !hasRatio), y, ...series, detail: { field: "series", type: "nominal" }, tooltip },
+      encoding: { x: frequencyX(axis, labelsOnMain), y, ...series, detail: { field: "series", type: "nominal" }, tooltip },
     },
     {
       // A white casing under the total, so it reads over the terms without being heavy.
       transform: [{ filter: isTotal }],
       mark: { type: "line", clip: true, interpolate: "linear", color: INK.halo, strokeWidth: 5.5, aria: false },
-      encoding: { x: frequencyX(axis, !hasRatio), y },
+      encoding: { x: frequencyX(axis, labelsOnMain), y },
     },
     {
       transform: [{ filter: isTotal }],
       mark: { type: "line", clip: true, interpolate: "linear" },
-      encoding: { x: frequencyX(axis, !hasRatio), y, ...series, tooltip },
+      encoding: { x: frequencyX(axis, labelsOnMain), y, ...series, tooltip },
     },
   );
   const panels: Record<string, unknown>[] = [{ width: FIGURE.plotWidth, height: FIGURE.plotHeight, data: { name: CURVES_DATASET }, layer: layers }];
-  if (hasRatio) panels.push(ratioPanel(axis, options.targetDb));
+  if (hasRatio) panels.push(ratioPanel(axis, options.targetDb, !mechanism));
+  if (mechanism) panels.push(mechanismPanelSpec(axis, mechanism.source));
   panels.push(keyPanel(curves.map((c) => ({ series: c.series }))));
   // The key draws with the plot's series scales; its own data carry only the names.
   const key = panels[panels.length - 1] as { layer: Record<string, unknown>[] };
@@ -157,7 +207,7 @@ export function budgetSpec(table: BudgetTable, quantity: string, options: Budget
   return {
     $schema: "https://vega.github.io/schema/vega-lite/v5.json",
     title: options.title ?? "",
-    datasets: { [CURVES_DATASET]: curveRows(table), [RATIO_DATASET]: ratioRows },
+    datasets: { [CURVES_DATASET]: curveRows(table), [RATIO_DATASET]: ratioRows, ...(mechanism ? { [MECHANISM_DATASET]: mechanism.rows } : {}) },
     bounds: "flush",
     vconcat: panels,
     resolve: { scale: { x: "shared", color: "shared", strokeDash: "shared", strokeWidth: "shared" } },
@@ -166,8 +216,8 @@ export function budgetSpec(table: BudgetTable, quantity: string, options: Budget
 }
 
 /** Total ÷ SQL in dB: the band below the SQL shaded, the 0 dB line, an optional target line. */
-function ratioPanel(axis: ReturnType<typeof frequencyAxis>, targetDb: number | undefined): Record<string, unknown> {
-  const x = frequencyX(axis, true);
+function ratioPanel(axis: ReturnType<typeof frequencyAxis>, targetDb: number | undefined, labels: boolean): Record<string, unknown> {
+  const x = frequencyX(axis, labels);
   const y = {
     field: "db",
     type: "quantitative",
@@ -197,7 +247,68 @@ function ratioPanel(axis: ReturnType<typeof frequencyAxis>, targetDb: number | u
   return { width: FIGURE.plotWidth, height: FIGURE.panelHeight, data: { name: RATIO_DATASET }, layer: layers };
 }
 
+/** How each part is drawn: imprecision and back-action in their role colours, the signed correlation dashed. */
+const PART_LOOKS: Readonly<Record<MechanismPart, { colour: string; dash: number[]; width: number }>> = {
+  imprecision: { colour: ROLE_COLOURS.imprecision, dash: [1, 0], width: 1.5 },
+  "back-action": { colour: ROLE_COLOURS["back-action"], dash: [1, 0], width: 1.5 },
+  correlation: { colour: ROLE_COLOURS["quantum-light"], dash: [5, 2.5], width: 1.5 },
+};
+
+/**
+ * A light source's term by mechanism, as shares of the term on a linear signed axis: a
+ * negative correlation shows below the zero line, and the parts add up to the line at 1.
+ * Its own small key names the source and the parts in their colours.
+ */
+function mechanismPanelSpec(axis: ReturnType<typeof frequencyAxis>, source: string): Record<string, unknown> {
+  const x = frequencyX(axis, true);
+  const y = {
+    field: "value",
+    type: "quantitative",
+    scale: { domain: { unionWith: [0, 1] }, nice: true },
+    axis: leftAxis("share of term", { grid: true, tickCount: 4, format: "~r" }),
+  };
+  const level = (v: number) => ({ y: { datum: v, type: "quantitative" } });
+  const layers: Record<string, unknown>[] = [
+    { mark: { type: "rule", color: INK.reference, strokeWidth: 1, aria: false }, encoding: level(0) },
+    { mark: { type: "rule", color: ROLE_COLOURS.total, strokeWidth: 1, strokeDash: [2, 2], aria: false }, encoding: level(1) },
+    {
+      data: { values: [{ source }] },
+      mark: { type: "text", align: "left", baseline: "top", color: INK.text, fontSize: FIGURE.fontSize - 1, aria: false },
+      encoding: { x: { value: 4 }, y: { value: 2 }, text: { field: "source" } },
+    },
+  ];
+  MECHANISM_PARTS.forEach((part, k) => {
+    const look = PART_LOOKS[part];
+    layers.push({
+      transform: [{ filter: { field: "part", equal: part } }],
+      mark: { type: "line", clip: true, interpolate: "linear", color: look.colour, strokeDash: look.dash, strokeWidth: look.width },
+      encoding: {
+        x,
+        y,
+        tooltip: [
+          { field: "f", type: "quantitative", title: "frequency [Hz]", format: ".4~s" },
+          { field: "value", type: "quantitative", title: `${part} ÷ term`, format: ".4~g" },
+        ],
+      },
+    });
+    layers.push({
+      data: { values: [{ part }] },
+      mark: { type: "text", text: part, align: "left", baseline: "top", color: look.colour, fontSize: FIGURE.fontSize - 1, aria: false },
+      encoding: { x: { value: 4 + 78 * (k + 1) }, y: { value: 2 } },
+    });
+  });
+  return { width: FIGURE.plotWidth, height: FIGURE.panelHeight, data: { name: MECHANISM_DATASET }, layer: layers };
+}
+
 /** The Vega-Lite spec of an explorer's chart; the title is the state's, or the set-up's name. */
 export function explorerFigureSpec(computation: ExplorerComputation, state: Pick<ExplorerState, "settings">): Record<string, unknown> {
-  return budgetSpec(computation.table, computation.evaluation.budget.quantity.name, { title: state.settings.title ?? computation.setup.name });
+  return budgetSpec(computation.table, computation.evaluation.budget.quantity.name, {
+    title: state.settings.title ?? computation.setup.name,
+    mechanism: explorerMechanismPanel(computation),
+  });
+}
+
+/** The mechanism panel of an explorer's computation (none without a split). */
+export function explorerMechanismPanel(computation: ExplorerComputation): MechanismPanel | undefined {
+  return mechanismPanel(computation.mechanisms);
 }

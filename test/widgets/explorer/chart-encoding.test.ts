@@ -2,7 +2,7 @@ import { describe, expect, test } from "vitest";
 import { log10 } from "../../../src/index";
 import { curveStyle, termRole } from "../../../widgets/core/look/encoding";
 import { renderSvg } from "../../../widgets/core/render/static";
-import { budgetSpec, chartCurves, CURVES_DATASET, curveRows, RATIO_DATASET, sqlRatioRows } from "../../../widgets/explorer/budget-spec";
+import { budgetSpec, chartCurves, CURVES_DATASET, curveRows, explorerFigureSpec, explorerMechanismPanel, MECHANISM_DATASET, RATIO_DATASET, sqlRatioRows } from "../../../widgets/explorer/budget-spec";
 import { computeExplorer } from "../../../widgets/explorer/model";
 import { exampleFiles, exampleState } from "./examples";
 
@@ -159,4 +159,40 @@ describe("the key", () => {
 test("the curves dataset is the plotted rows", () => {
   const { spec, computation } = specOf("free-test-mass.json");
   expect(spec.datasets[CURVES_DATASET]).toEqual(curveRows(computation.table));
+});
+
+describe("the mechanism panel", () => {
+  test("squeezed light: the engine's imprecision, back-action and signed correlation as shares of the term, adding up to 1", () => {
+    const state = exampleState("cryogenic-membrane-squeezed.json");
+    const computation = computeExplorer(state);
+    const panel = explorerMechanismPanel(computation);
+    expect(panel?.source).toBe("squeezer");
+    const term = computation.mechanisms.terms.find((t) => t.owner === "squeezer");
+    if (!panel || !term) throw new Error("the squeezer's term has no mechanism split");
+    const byPart = (part: string) => panel.rows.filter((r) => r.part === part);
+    const f = computation.mechanisms.frequencies;
+    byPart("imprecision").forEach((r, i) => {
+      expect(r.f).toBe(f[i]);
+      expect(r.value).toBe(term.imprecision[i] / term.psd[i]);
+    });
+    byPart("back-action").forEach((r, i) => expect(r.value).toBe(term.backAction[i] / term.psd[i]));
+    byPart("correlation").forEach((r, i) => {
+      expect(r.value).toBe(term.correlation[i] / term.psd[i]);
+      // The parts add up to the term (the engine's split; here as shares: their sum is 1).
+      expect(byPart("imprecision")[i].value + byPart("back-action")[i].value + r.value).toBeCloseTo(1, 6);
+    });
+    // Squeezing at an angle correlates the two: the correlation is negative somewhere, and the panel shows it signed.
+    expect(byPart("correlation").some((r) => r.value < 0)).toBe(true);
+    const spec = explorerFigureSpec(computation, state) as unknown as Spec;
+    expect(spec.datasets[MECHANISM_DATASET]).toEqual(panel.rows);
+    expect(spec.vconcat.length).toBe(4);
+  });
+
+  test("a laser that reads and pushes a membrane: its two quadrature terms are shown as one source", () => {
+    const computation = computeExplorer(exampleState("cryogenic-membrane.json"));
+    const panel = explorerMechanismPanel(computation);
+    expect(panel?.source).toBe("laser");
+    const term = computation.mechanisms.terms.find((t) => t.owner === "laser");
+    expect(term?.budgetTerms).toEqual(expect.arrayContaining(["laser: amplitude quadrature", "laser: phase quadrature"]));
+  });
 });

@@ -14,7 +14,7 @@ export const FIGURE = {
   /** Height of the main (absolute) panel. */
   plotHeight: 210,
   /** Height of the ratio and mechanism panels. */
-  panelHeight: 84,
+  panelHeight: 96,
   /** Between stacked panels. */
   spacing: 10,
   /** Outer padding of the whole figure. */

@@ -5,7 +5,7 @@
 import type { Changeset, View } from "vega";
 import { vega } from "../../core/browser/vega";
 import { log, type BudgetTable } from "../../../src/index";
-import { budgetSpec, chartCurves, curveRows, CURVES_DATASET, RATIO_DATASET, sqlRatioRows, type CurveRow } from "../budget-spec";
+import { budgetSpec, chartCurves, curveRows, CURVES_DATASET, MECHANISM_DATASET, RATIO_DATASET, sqlRatioRows, type CurveRow, type MechanismPanel } from "../budget-spec";
 import { el } from "../../core/browser/dom";
 import { FIGURE } from "../../core/look/layout";
 
@@ -14,6 +14,8 @@ export interface ChartInput {
   readonly table: BudgetTable;
   readonly quantity: string;
   readonly title: string;
+  /** A light source's term by mechanism, when the engine splits one. */
+  readonly mechanism?: MechanismPanel;
 }
 
 /**
@@ -50,6 +52,7 @@ export class ChartView {
       f[0],
       f[f.length - 1],
       ratioRows.length > 0,
+      input.mechanism?.source ?? null,
     ]);
     if (this.view && key === this.layoutKey) {
       // The ratio panel has one point per frequency: replaced whole, before the curves run the dataflow.
@@ -60,6 +63,15 @@ export class ChartView {
           .remove(() => true)
           .insert(ratioRows),
       );
+      if (input.mechanism) {
+        this.view.change(
+          MECHANISM_DATASET,
+          vega()
+            .changeset()
+            .remove(() => true)
+            .insert(input.mechanism.rows),
+        );
+      }
       const rows = curveRows(input.table);
       const current = this.plotted;
       if (sameCurvePoints(current, rows)) {
@@ -88,7 +100,7 @@ export class ChartView {
         this.plotted = rows;
       }
     } else {
-      const spec = liveSpec(budgetSpec(input.table, input.quantity, { title: input.title }));
+      const spec = liveSpec(budgetSpec(input.table, input.quantity, { title: input.title, mechanism: input.mechanism }));
       const { View, parse, compile } = vega();
       const vgSpec = compile(spec as unknown as Parameters<typeof compile>[0]).spec;
       const view = new View(parse(vgSpec), { renderer: "canvas", hover: false });
@@ -145,8 +157,9 @@ export class ChartView {
     const [ox, oy] = view.origin();
     const x = event.clientX - box.left - ox;
     const y = event.clientY - box.top - oy;
-    // Over the plot panels (the budget and, below it, the ratio to the SQL), not the key.
-    if (x < 0 || y < 0 || x > FIGURE.plotWidth || y > FIGURE.plotHeight + FIGURE.spacing + FIGURE.panelHeight) return this.hidePointer();
+    // Over the plot panels (the budget and, below it, the ratio to the SQL and the mechanisms), not the key.
+    const panels = this.layoutKey.endsWith(",null]") ? 1 : 2;
+    if (x < 0 || y < 0 || x > FIGURE.plotWidth || y > FIGURE.plotHeight + panels * (FIGURE.spacing + FIGURE.panelHeight)) return this.hidePointer();
     const f = view.scale("x").invert(x) as number;
     const i = nearestIndex(table.frequencies, f);
     const rows = table.columns.map((c) => el("tr", {}, [el("td", {}, [c.label]), el("td", {}, [formatNumber(c.values[i])])]));

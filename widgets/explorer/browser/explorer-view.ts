@@ -1,6 +1,6 @@
 /** The explorer in the page: controls, chart, figures, toolbar; recomputes in the browser. */
 import { tableToCsv } from "../../../src/index";
-import type { CurveRow } from "../budget-spec";
+import { explorerMechanismPanel, type CurveRow } from "../budget-spec";
 import { computeExplorer, type ExplorerComputation } from "../model";
 import { DEFAULT_REACH_SOURCE, explorerReach, type ReachFigures } from "../reach";
 import { FINGERPRINT_ATTRIBUTE, STATUS_ATTRIBUTE } from "../../core/page/names";
@@ -170,6 +170,7 @@ export class ExplorerWidget {
       table: computation.table,
       quantity: computation.evaluation.budget.quantity.name,
       title: state.settings.title ?? computation.setup.name,
+      mechanism: explorerMechanismPanel(computation),
     };
   }
 

@@ -3,7 +3,7 @@ import { FIGURE, frequencyAxis } from "../../../../widgets/core/look/layout";
 import { kindOutput } from "../../../../widgets/core/render/kind-output";
 import { renderSvg } from "../../../../widgets/core/render/static";
 import { liveSpec } from "../../../../widgets/explorer/browser/chart-view";
-import { budgetSpec, chartCurves } from "../../../../widgets/explorer/budget-spec";
+import { budgetSpec, chartCurves, explorerMechanismPanel } from "../../../../widgets/explorer/budget-spec";
 import { explorerKind } from "../../../../widgets/explorer/kind";
 import { chartPatch } from "../../../../widgets/explorer/live/chart-state";
 import { chartBundle, VEGA_LITE_MIME } from "../../../../widgets/explorer/notebook/chart";
@@ -58,7 +58,7 @@ describe.each(exampleFiles())("%s", (file) => {
   const rendered = explorerKind.figure(loaded).spec;
 
   test("page, render, notebook and kernel chart share one spec layout", async () => {
-    const page = liveSpec(budgetSpec(computation.table, quantity, { title }));
+    const page = liveSpec(budgetSpec(computation.table, quantity, { title, mechanism: explorerMechanismPanel(computation) }));
     const notebook = (await chartBundle(state))[VEGA_LITE_MIME];
     const kernel = chartPatch(state, computation, 1).spec;
     expect(layoutOf(page)).toEqual(layoutOf(rendered));
@@ -69,7 +69,7 @@ describe.each(exampleFiles())("%s", (file) => {
   test("the notebook's static image is the render's SVG; the page's chart has the same layout", async () => {
     const svg = new TextDecoder().decode(await kindOutput(explorerKind, loaded, "svg", 2));
     expect(clipIdsRenumbered(String((await chartBundle(state))["image/svg+xml"]))).toBe(clipIdsRenumbered(svg));
-    const page = await renderSvg(liveSpec(budgetSpec(computation.table, quantity, { title })));
+    const page = await renderSvg(liveSpec(budgetSpec(computation.table, quantity, { title, mechanism: explorerMechanismPanel(computation) })));
     expect(svgLayout(page)).toEqual(svgLayout(svg));
   });
 

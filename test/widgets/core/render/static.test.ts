@@ -1,7 +1,7 @@
 import { beforeAll, describe, expect, test } from "vitest";
 import { QuietframeError } from "../../../../src/errors";
 import { tableToCsv, type BudgetTable } from "../../../../src/engine/tabulate";
-import { budgetSpec, chartCurves } from "../../../../widgets/explorer/budget-spec";
+import { budgetSpec, chartCurves, explorerMechanismPanel, MECHANISM_PARTS } from "../../../../widgets/explorer/budget-spec";
 import { frequencyAxis } from "../../../../widgets/core/look/layout";
 import { INK, ROLE_COLOURS } from "../../../../widgets/core/look/palette";
 import { computeExplorer, createExplorerState } from "../../../../widgets/explorer/model";
@@ -52,17 +52,23 @@ beforeAll(async () => {
 });
 
 describe("explorerFigures on the shipped examples", () => {
-  test.each(exampleFiles())("%s: one line per drawn curve in the chart's own colours, and the ratio to the SQL (the total's casing is decoration, hidden from assistive technology)", (file) => {
-    const { state, figures: f } = figures.get(file)!;
-    const table = computeExplorer(state).table;
-    const strokes = linePaths(f.svg);
-    const drawn = chartCurves(table);
-    expect(strokes.length).toBe(drawn.length + 1);
-    const scale = seriesColours(f.spec);
-    expect(scale.domain).toEqual(drawn.map((c) => c.series));
-    expect(new Set(strokes)).toEqual(new Set([...scale.range, ROLE_COLOURS.total]));
-    expect(f.svg).toContain(`stroke="${INK.halo}" stroke-width="5.5"`);
-  });
+  test.each(exampleFiles())(
+    "%s: one line per drawn curve in the chart's own colours, the ratio to the SQL, one per mechanism part (the total's casing is decoration, hidden from assistive technology)",
+    (file) => {
+      const { state, figures: f } = figures.get(file)!;
+      const computation = computeExplorer(state);
+      const table = computation.table;
+      const strokes = linePaths(f.svg);
+      const drawn = chartCurves(table);
+      const parts = explorerMechanismPanel(computation) ? MECHANISM_PARTS.length : 0;
+      expect(strokes.length).toBe(drawn.length + 1 + parts);
+      const scale = seriesColours(f.spec);
+      expect(scale.domain).toEqual(drawn.map((c) => c.series));
+      const partColours = parts ? [ROLE_COLOURS.imprecision, ROLE_COLOURS["back-action"], ROLE_COLOURS["quantum-light"]] : [];
+      expect(new Set(strokes)).toEqual(new Set([...scale.range, ROLE_COLOURS.total, ...partColours]));
+      expect(f.svg).toContain(`stroke="${INK.halo}" stroke-width="5.5"`);
+    },
+  );
 
   test.each(exampleFiles())("%s: axis titles carry units (frequency in the band's unit); the key names every drawn curve in full", (file) => {
     const { state, figures: f } = figures.get(file)!;
