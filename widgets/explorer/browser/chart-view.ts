@@ -5,7 +5,7 @@
 import type { Changeset, View } from "vega";
 import { vega } from "../../core/browser/vega";
 import { log, type BudgetTable } from "../../../src/index";
-import { budgetSpec, chartCurves, curveRows, CURVES_DATASET, MECHANISM_DATASET, RATIO_DATASET, sqlRatioRows, type CurveRow, type MechanismPanel } from "../budget-spec";
+import { budgetSpec, chartCurves, curveRows, CURVES_DATASET, MECHANISM_DATASET, RATIO_DATASET, sqlRatioRows, type CurveRow, type MechanismPanel, type RatioRow } from "../budget-spec";
 import { el } from "../../core/browser/dom";
 import { FIGURE } from "../../core/look/layout";
 
@@ -30,6 +30,8 @@ export class ChartView {
   private readonly pointer: HTMLElement;
   private view: View | undefined;
   private layoutKey = "";
+  /** Panels under the budget in the drawn spec: the ratio to the SQL, the mechanisms. */
+  private lowerPanels = { ratio: false, mechanism: false };
   private table: BudgetTable | undefined;
   private plotted: CurveRow[] = [];
 
@@ -52,7 +54,7 @@ export class ChartView {
       f[0],
       f[f.length - 1],
       ratioRows.length > 0,
-      input.mechanism?.source ?? null,
+      input.mechanism && input.mechanism.rows.length > 0 ? input.mechanism.source : null,
     ]);
     if (this.view && key === this.layoutKey) {
       // The ratio panel has one point per frequency: replaced whole, before the curves run the dataflow.
@@ -63,7 +65,7 @@ export class ChartView {
           .remove(() => true)
           .insert(ratioRows),
       );
-      if (input.mechanism) {
+      if (this.lowerPanels.mechanism && input.mechanism) {
         this.view.change(
           MECHANISM_DATASET,
           vega()
@@ -112,6 +114,7 @@ export class ChartView {
       this.canvasHost.replaceChildren();
       this.view = view;
       this.layoutKey = key;
+      this.lowerPanels = { ratio: ratioRows.length > 0, mechanism: input.mechanism !== undefined && input.mechanism.rows.length > 0 };
       await view.initialize(this.canvasHost).runAsync();
       // Vega keeps the very row objects it was given; they are updated in place later.
       this.plotted = view.data(CURVES_DATASET) as CurveRow[];
@@ -123,6 +126,12 @@ export class ChartView {
   rows(): CurveRow[] {
     if (!this.view) return [];
     return (this.view.data(CURVES_DATASET) as CurveRow[]).map((r) => ({ f: r.f, value: r.value, series: r.series, kind: r.kind }));
+  }
+
+  /** The rows of the panel relative to the SQL that the view is plotting now. */
+  ratioRows(): RatioRow[] {
+    if (!this.view || !this.lowerPanels.ratio) return [];
+    return (this.view.data(RATIO_DATASET) as RatioRow[]).map((r) => ({ f: r.f, ratio: r.ratio, db: r.db }));
   }
 
   async svg(): Promise<string> {
@@ -158,7 +167,7 @@ export class ChartView {
     const x = event.clientX - box.left - ox;
     const y = event.clientY - box.top - oy;
     // Over the plot panels (the budget and, below it, the ratio to the SQL and the mechanisms), not the key.
-    const panels = this.layoutKey.endsWith(",null]") ? 1 : 2;
+    const panels = Number(this.lowerPanels.ratio) + Number(this.lowerPanels.mechanism);
     if (x < 0 || y < 0 || x > FIGURE.plotWidth || y > FIGURE.plotHeight + panels * (FIGURE.spacing + FIGURE.panelHeight)) return this.hidePointer();
     const f = view.scale("x").invert(x) as number;
     const i = nearestIndex(table.frequencies, f);
