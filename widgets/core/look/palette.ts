@@ -39,19 +39,6 @@ export const ROLE_COLOURS: Readonly<Record<CurveRole, string>> = {
   classical: OKABE_ITO.skyBlue,
 };
 
-/** Human names of the roles (documentation and the key's order). */
-export const ROLE_NAMES: Readonly<Record<CurveRole, string>> = {
-  total: "total",
-  sql: "SQL reference",
-  "zero-point": "zero-point reference",
-  imprecision: "imprecision",
-  "back-action": "back-action",
-  "quantum-light": "quantum light, both quadratures",
-  thermal: "thermal",
-  "loss-vacuum": "loss vacuum",
-  classical: "classical (technical)",
-};
-
 /** Neutral inks of the frame. */
 export const INK = {
   text: "#2B2B2B",
