@@ -8,6 +8,7 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { tableToCsv } from "../../src/engine/tabulate";
 import type { SetupDescription } from "../../src/setup/format";
 import { curveRows, type CurveRow } from "../../widgets/explorer/budget-spec";
+import { frequencyAxis } from "../../widgets/core/look/layout";
 import { computeExplorer, createExplorerState, type ExplorerComputation } from "../../widgets/explorer/model";
 import { FINGERPRINT_ATTRIBUTE, STATUS_ATTRIBUTE } from "../../widgets/core/page/names";
 import { escapeLatex, escapeMarkdown } from "../../widgets/explorer/methods/methods";
@@ -235,7 +236,9 @@ describe("widget buttons on a standalone page", { timeout: 120_000 }, () => {
     expect(parsed.errors).toBe(0);
     expect(parsed.root).toBe("svg");
     expect(parsed.namespace).toBe("http://www.w3.org/2000/svg");
-    expect(parsed.texts).toContain("frequency [Hz]");
+    // Frequency in the unit of the band (docs/widgets.md, "Visual identity").
+    const grid = expected.table.frequencies;
+    expect(parsed.texts).toContain(`frequency [${frequencyAxis(grid[0], grid[grid.length - 1]).unit}]`);
     const unit = expected.table.unit;
     expect(unit).toBe("m/√Hz");
     const quantity = expected.evaluation.budget.quantity.name;

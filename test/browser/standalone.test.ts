@@ -6,7 +6,8 @@ import { chromium, type BrowserContext, type Page } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { runCliAsync } from "../../src/cli/run";
 import type { SetupDescription } from "../../src/setup/format";
-import { curveRows, type CurveRow } from "../../widgets/explorer/budget-spec";
+import { chartCurves, curveRows, sqlRatioRows, type CurveRow, type RatioRow } from "../../widgets/explorer/budget-spec";
+import { curveStyle } from "../../widgets/core/look/encoding";
 import { resolveControls, sliderValue, writeValue } from "../../widgets/core/controls/setup-controls";
 import { computeExplorer, createExplorerState } from "../../widgets/explorer/model";
 import { headlineSummary } from "../../widgets/explorer/summary";
@@ -43,7 +44,7 @@ const outsideRequests: string[] = [];
 
 // The page runs in Chromium; these helpers read it through the runtime's test hooks.
 const WIDGET = ".quietframe-explorer";
-type PageWidget = { plottedRows(): CurveRow[]; currentState(): ExplorerState };
+type PageWidget = { plottedRows(): CurveRow[]; plottedRatio(): RatioRow[]; chartSvg(): Promise<string>; currentState(): ExplorerState };
 
 async function attribute(name: string): Promise<string | null> {
   return page.locator(WIDGET).first().getAttribute(name);
@@ -123,6 +124,19 @@ describe("standalone page in Chromium", () => {
     // The static fallback made way for the live view.
     expect(await page.locator(`${WIDGET} .qf-fallback`).isHidden()).toBe(true);
     expect(await page.locator(`${WIDGET} .qf-notice`).isHidden()).toBe(true);
+  });
+
+  it("the panel relative to the SQL plots the engine's total ÷ SQL; the key's samples carry each curve's dash", async () => {
+    const table = computeExplorer(state).table;
+    const ratio = await page.evaluate(() => ((globalThis as any).quietframeRuntime.widgets[0] as PageWidget).plottedRatio());
+    expect(ratio.length).toBe(table.frequencies.length);
+    expect(ratio).toEqual(sqlRatioRows(table));
+    const sql = table.columns.find((c) => c.id === "sql")?.values as Float64Array;
+    ratio.forEach((r, i) => expect(r.ratio).toBe(table.columns[0].values[i] / sql[i]));
+    // The key as the page draws it (its scenegraph as SVG): a 26 px line sample per curve, in its colour and dash.
+    const svg = await page.evaluate(() => ((globalThis as any).quietframeRuntime.widgets[0] as PageWidget).chartSvg());
+    const samples = [...svg.matchAll(/<line transform="translate\(0,[\d.]+\)" x2="26" y2="0" stroke="([^"]+)" stroke-width="[^"]+" stroke-dasharray="([^"]+)"\/>/g)].map((m) => [m[1], m[2]]);
+    expect(samples).toEqual(chartCurves(table).map((c) => [curveStyle(c.column).colour, curveStyle(c.column).dash.join(",")]));
   });
 
   it("replots exactly the engine's numbers for a new slider value", async () => {

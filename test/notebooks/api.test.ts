@@ -242,9 +242,9 @@ describe("show() and showChart() in a kernel", () => {
     expect(kernel.sent).toHaveLength(1);
     const data = kernel.sent[0].content.data;
     expect(Object.keys(data).sort()).toEqual([VEGA_LITE_MIME, "image/svg+xml", "text/plain"].sort());
-    const spec = data[VEGA_LITE_MIME] as { $schema: string; data: { values: unknown[] } };
+    const spec = data[VEGA_LITE_MIME] as { $schema: string; datasets: { curves: unknown[] } };
     expect(spec.$schema).toContain("vega-lite/v5");
-    expect(spec.data.values.length).toBeGreaterThan(801);
+    expect(spec.datasets.curves.length).toBeGreaterThan(801);
     expect(String(data["image/svg+xml"])).toMatch(/^<svg[\s>]/);
     expect(String(data["text/plain"])).toMatch(/below the SQL|above it/);
   });

@@ -2,6 +2,8 @@
 import { decodeNumber } from "./answer";
 import type { DesignAnswer, OptimumAnswer, PlainNumber, RankingAnswer, SpreadAnswer } from "./format";
 import { histogramBins, type HistogramBin } from "./histogram";
+import { figureConfig, FIGURE, frequencyAxis, frequencyX } from "../core/look/layout";
+import { OKABE_ITO, ROLE_COLOURS } from "../core/look/palette";
 
 /**
  * The charts of a design answer, drawn from the answer alone (the page computes nothing to
@@ -12,12 +14,12 @@ import { histogramBins, type HistogramBin } from "./histogram";
 type Spec = Record<string, unknown>;
 
 const SCHEMA = "https://vega.github.io/schema/vega-lite/v5.json";
-const FONT = "DejaVu Sans, sans-serif";
-const INK = { main: "#2e5e8c", second: "#b5541c", band: "#9ec3e0", mark: "#3c3c3c", target: "#2c8a55" };
-const DIRECTION_COLOURS = { "increase ↑": "#2e5e8c", "decrease ↓": "#b5541c", "either way": "#8c8c8c" };
+/** The budget charts' look (docs/widgets.md, "Visual identity"): the total's ink, Okabe–Ito hues, shared fonts and axes. */
+const INK = { main: ROLE_COLOURS.total, second: OKABE_ITO.vermillion, band: "#C9D9E8", mark: "#3C3C3C", target: OKABE_ITO.bluishGreen };
+const DIRECTION_COLOURS = { "increase ↑": OKABE_ITO.blue, "decrease ↓": OKABE_ITO.vermillion, "either way": "#8C8C8C" };
 
 function title(text: string): Spec {
-  return { text, font: FONT, fontSize: 13, anchor: "start" };
+  return { text, fontSize: FIGURE.titleFontSize, anchor: "start" };
 }
 
 function unitSuffix(unit: string): string {
@@ -80,7 +82,7 @@ export function rankingSpec(answer: RankingAnswer): Spec {
       },
       { mark: { type: "rule", color: INK.mark, strokeWidth: 1.5 }, encoding: { y, x: { field: "low", type: "quantitative" }, x2: { field: "high" } } },
     ],
-    config: { font: FONT },
+    config: figureConfig(),
   };
 }
 
@@ -152,7 +154,7 @@ export function histogramSpec(answer: SpreadAnswer): Spec {
         },
       },
     ],
-    config: { font: FONT },
+    config: figureConfig(),
   };
 }
 
@@ -191,7 +193,7 @@ export function bandSpec(answer: SpreadAnswer): Spec {
       },
       { mark: { type: "line", color: INK.main, strokeWidth: 2 }, encoding: { x, y: { field: "median", type: "quantitative" } } },
     ],
-    config: { font: FONT },
+    config: figureConfig(),
   };
 }
 
@@ -232,7 +234,7 @@ export function curvesSpec(answer: OptimumAnswer): Spec {
     data: { values: curvePoints(answer) },
     mark: { type: "line", strokeWidth: 2 },
     encoding: {
-      x: { field: "f", type: "quantitative", scale: { type: "log" }, title: "frequency (Hz)", axis: { format: "~s" } },
+      x: curvesFrequencyX(answer),
       y: { field: "psd", type: "quantitative", scale: { type: "log" }, title: `noise PSD${unitSuffix(unit)}` },
       color: { field: "curve", type: "nominal", title: null, scale: { domain: [CURVE_NAMES.before, CURVE_NAMES.after], range: [INK.second, INK.main] }, legend: { orient: "bottom" } },
       strokeDash: {
@@ -248,8 +250,15 @@ export function curvesSpec(answer: OptimumAnswer): Spec {
         legend: null,
       },
     },
-    config: { font: FONT },
+    config: figureConfig(),
   };
+}
+
+/** The frequency axis of the before/after curves, in the unit of their band. */
+function curvesFrequencyX(answer: OptimumAnswer): Spec {
+  const f = answer.curves?.frequencies ?? [];
+  if (f.length === 0) return { field: "f", type: "quantitative", scale: { type: "log" }, title: "frequency [Hz]" };
+  return frequencyX(frequencyAxis(f[0], f[f.length - 1]), true);
 }
 
 /** The charts of an answer, in the order the page shows them. */
@@ -267,7 +276,7 @@ export function answerSpecs(answer: DesignAnswer): Spec[] {
 /** One spec of every chart (the static figure): the charts side by side. */
 export function designFigureSpec(answer: DesignAnswer): Spec {
   const specs = answerSpecs(answer).map(({ $schema: _schema, config: _config, ...rest }) => rest);
-  return specs.length === 1 ? { $schema: SCHEMA, ...specs[0], config: { font: FONT } } : { $schema: SCHEMA, hconcat: specs, config: { font: FONT } };
+  return specs.length === 1 ? { $schema: SCHEMA, ...specs[0], config: figureConfig() } : { $schema: SCHEMA, hconcat: specs, config: figureConfig() };
 }
 
 function positive(x: number): boolean {

@@ -4,6 +4,7 @@ import {
   parseGrid,
   tabulateBudget,
   evaluate,
+  evaluateMechanisms,
   prepare,
   loadSetup,
   applyValues,
@@ -13,6 +14,7 @@ import {
   type Evaluation,
   type SetupDescription,
   type ResolvedSetup,
+  type MechanismBudget,
 } from "../../src/index";
 import { budgetFingerprint } from "./fingerprint";
 import { EXPLORER_STATE_FORMAT, EXPLORER_STATE_VERSION, type ExplorerSettings, type ExplorerState } from "./format";
@@ -33,6 +35,8 @@ export interface ExplorerComputation {
   readonly table: BudgetTable;
   readonly headline: HeadlineFigures;
   readonly fingerprint: string;
+  /** The light sources' terms split into imprecision, back-action and correlation (computed on first use). */
+  readonly mechanisms: MechanismBudget;
 }
 
 /** Evaluates a state's set-up at its current values; throws QuietframeError for bad values or an unstable set-up. */
@@ -47,6 +51,7 @@ export function computeExplorer(state: Omit<ExplorerState, "fingerprint">): Expl
   // The fingerprint (SHA-256 over every plotted number) is computed on first use and kept:
   // a dragged slider needs the curves at once, the fingerprint only when a state is shown or saved.
   let fingerprint: string | undefined;
+  let mechanisms: MechanismBudget | undefined;
   return {
     controls,
     setup,
@@ -56,6 +61,10 @@ export function computeExplorer(state: Omit<ExplorerState, "fingerprint">): Expl
     get fingerprint(): string {
       fingerprint ??= budgetFingerprint(evaluation.budget);
       return fingerprint;
+    },
+    get mechanisms(): MechanismBudget {
+      mechanisms ??= evaluateMechanisms(prepared, evaluation.budget.frequencies);
+      return mechanisms;
     },
   };
 }

@@ -1,4 +1,5 @@
 /** Vega-Lite spec of a tolerance map's heat map. */
+import { figureConfig } from "../core/look/layout";
 import { axisTitle, heatmapCells, neutralValue, type HeatmapCell, type ToleranceWidgetState } from "./model";
 
 /**
@@ -98,7 +99,7 @@ export function toleranceHeatmapSpec(state: ToleranceWidgetState, options: Heatm
     data: { name: CELLS_DATASET },
     layer: layers,
     resolve: { scale: { color: "independent" }, legend: { color: "independent" } },
-    config: { font: "sans-serif", view: { stroke: "#cccccc" } },
+    config: figureConfig(),
   };
 }
 

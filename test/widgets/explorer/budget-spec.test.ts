@@ -1,7 +1,7 @@
 import Ajv from "ajv";
 import { describe, expect, test } from "vitest";
 import type { BudgetTable } from "../../../src/engine/tabulate";
-import { budgetSpec, curveRows, CURVES_DATASET } from "../../../widgets/explorer/budget-spec";
+import { budgetSpec, chartCurves, curveRows, CURVES_DATASET } from "../../../widgets/explorer/budget-spec";
 import { computeExplorer } from "../../../widgets/explorer/model";
 import { exampleFiles, exampleState } from "./examples";
 
@@ -22,13 +22,18 @@ describe("budgetSpec", () => {
     expect(validateVegaLite(spec)).toBe(false);
   });
 
-  test("one series per column, the named dataset holds every plottable point", () => {
+  test("one series per drawn column, the named dataset holds every plottable point", () => {
     const computation = computeExplorer(exampleState("cryogenic-membrane.json"));
     const table = computation.table;
-    const spec = budgetSpec(table, "displacement") as { data: { name: string; values: unknown[] }; encoding: { color: { scale: { domain: string[] } } } };
-    expect(spec.data.name).toBe(CURVES_DATASET);
-    expect(spec.data.values.length).toBe(table.columns.length * table.frequencies.length);
-    expect(spec.encoding.color.scale.domain).toEqual(["total", ...table.columns.slice(1).map((c) => c.label)]);
+    type Panel = { data: { name?: string }; layer: { encoding: { color?: { scale?: { domain: string[] } } } }[] };
+    const spec = budgetSpec(table, "displacement") as { datasets: Record<string, unknown[]>; vconcat: Panel[] };
+    expect(spec.vconcat[0].data.name).toBe(CURVES_DATASET);
+    // Every column but the quantum-FDT thermal reference, which lies on the thermal term.
+    const drawn = table.columns.filter((c) => c.id !== "thermal");
+    expect(chartCurves(table).map((c) => c.column)).toEqual(drawn);
+    expect(spec.datasets[CURVES_DATASET].length).toBe(drawn.length * table.frequencies.length);
+    const colour = spec.vconcat[0].layer.find((l) => l.encoding.color?.scale)?.encoding.color?.scale;
+    expect(colour?.domain).toEqual(["total", ...drawn.slice(1).map((c) => c.label)]);
   });
 });
 

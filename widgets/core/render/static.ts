@@ -3,6 +3,7 @@ import type * as Vega from "vega";
 import type * as VegaLite from "vega-lite";
 import type * as ResvgModule from "@resvg/resvg-js";
 import { QuietframeError } from "../../../src/index";
+import { useDejaVuWidths } from "./text-width";
 
 /**
  * Figures for papers, rendered in Node from the very Vega-Lite spec the browser shows, so a
@@ -22,6 +23,7 @@ const SVG_ELEMENTS = new Set(["svg", "g", "rect", "path", "line", "text", "tspan
 export async function renderSvg(spec: Record<string, unknown>, options: RenderSvgOptions = {}): Promise<string> {
   const vega = require("vega") as typeof Vega;
   const vegaLite = require("vega-lite") as typeof VegaLite;
+  useDejaVuWidths(vega);
   if (typeof spec !== "object" || spec === null || Array.isArray(spec)) {
     throw new QuietframeError({ path: "spec", value: spec, problem: "must be an object", allowed: "a Vega-Lite v5 spec such as budgetSpec() returns" });
   }

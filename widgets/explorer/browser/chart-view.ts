@@ -5,21 +5,24 @@
 import type { Changeset, View } from "vega";
 import { vega } from "../../core/browser/vega";
 import { log, type BudgetTable } from "../../../src/index";
-import { budgetSpec, curveRows, CURVES_DATASET, type CurveRow } from "../budget-spec";
+import { budgetSpec, chartCurves, curveRows, CURVES_DATASET, MECHANISM_DATASET, RATIO_DATASET, sqlRatioRows, type CurveRow, type MechanismPanel, type RatioRow } from "../budget-spec";
 import { el } from "../../core/browser/dom";
+import { FIGURE } from "../../core/look/layout";
 
 /** What the chart needs from a computation. */
 export interface ChartInput {
   readonly table: BudgetTable;
   readonly quantity: string;
   readonly title: string;
+  /** A light source's term by mechanism, when the engine splits one. */
+  readonly mechanism?: MechanismPanel;
 }
 
 /**
  * The live Vega view of a budget. The spec is compiled once; new numbers go in through a
- * changeset on the `curves` dataset. Only when the set of curves itself changes (a budget
- * term splits or merges, e.g. squeezing turned to a pure quadrature) is the spec rebuilt,
- * since its colour domain lists the curves.
+ * changeset on the `curves` and `ratio` datasets. Only when the set of curves itself changes
+ * (a budget term splits or merges, e.g. squeezing turned to a pure quadrature) or the band
+ * does (its ticks and unit are in the spec) is the spec rebuilt.
  */
 export class ChartView {
   readonly element: HTMLElement;
@@ -27,6 +30,8 @@ export class ChartView {
   private readonly pointer: HTMLElement;
   private view: View | undefined;
   private layoutKey = "";
+  /** Panels under the budget in the drawn spec: the ratio to the SQL, the mechanisms. */
+  private lowerPanels = { ratio: false, mechanism: false };
   private table: BudgetTable | undefined;
   private plotted: CurveRow[] = [];
 
@@ -38,8 +43,37 @@ export class ChartView {
 
   /** Shows new curves; resolves once they are drawn. */
   async show(input: ChartInput): Promise<void> {
-    const key = JSON.stringify([input.title, input.quantity, input.table.unit, input.table.spectralDensity, input.table.columns.map((c) => c.label)]);
+    const f = input.table.frequencies;
+    const ratioRows = sqlRatioRows(input.table);
+    const key = JSON.stringify([
+      input.title,
+      input.quantity,
+      input.table.unit,
+      input.table.spectralDensity,
+      chartCurves(input.table).map((c) => c.series),
+      f[0],
+      f[f.length - 1],
+      ratioRows.length > 0,
+      input.mechanism && input.mechanism.rows.length > 0 ? input.mechanism.source : null,
+    ]);
     if (this.view && key === this.layoutKey) {
+      // The ratio panel has one point per frequency: replaced whole, before the curves run the dataflow.
+      this.view.change(
+        RATIO_DATASET,
+        vega()
+          .changeset()
+          .remove(() => true)
+          .insert(ratioRows),
+      );
+      if (this.lowerPanels.mechanism && input.mechanism) {
+        this.view.change(
+          MECHANISM_DATASET,
+          vega()
+            .changeset()
+            .remove(() => true)
+            .insert(input.mechanism.rows),
+        );
+      }
       const rows = curveRows(input.table);
       const current = this.plotted;
       if (sameCurvePoints(current, rows)) {
@@ -53,7 +87,8 @@ export class ChartView {
           current[i].value = rows[i].value;
           if (first < 0) first = i;
         }
-        if (first >= 0) await this.view.change(CURVES_DATASET, reflowing().modify(current[first], "value", current[first].value)).runAsync();
+        if (first >= 0) this.view.change(CURVES_DATASET, reflowing().modify(current[first], "value", current[first].value));
+        await this.view.runAsync();
       } else {
         await this.view
           .change(
@@ -67,7 +102,7 @@ export class ChartView {
         this.plotted = rows;
       }
     } else {
-      const spec = liveSpec(budgetSpec(input.table, input.quantity, { title: input.title }));
+      const spec = liveSpec(budgetSpec(input.table, input.quantity, { title: input.title, mechanism: input.mechanism }));
       const { View, parse, compile } = vega();
       const vgSpec = compile(spec as unknown as Parameters<typeof compile>[0]).spec;
       const view = new View(parse(vgSpec), { renderer: "canvas", hover: false });
@@ -79,6 +114,7 @@ export class ChartView {
       this.canvasHost.replaceChildren();
       this.view = view;
       this.layoutKey = key;
+      this.lowerPanels = { ratio: ratioRows.length > 0, mechanism: input.mechanism !== undefined && input.mechanism.rows.length > 0 };
       await view.initialize(this.canvasHost).runAsync();
       // Vega keeps the very row objects it was given; they are updated in place later.
       this.plotted = view.data(CURVES_DATASET) as CurveRow[];
@@ -90,6 +126,12 @@ export class ChartView {
   rows(): CurveRow[] {
     if (!this.view) return [];
     return (this.view.data(CURVES_DATASET) as CurveRow[]).map((r) => ({ f: r.f, value: r.value, series: r.series, kind: r.kind }));
+  }
+
+  /** The rows of the panel relative to the SQL that the view is plotting now. */
+  ratioRows(): RatioRow[] {
+    if (!this.view || !this.lowerPanels.ratio) return [];
+    return (this.view.data(RATIO_DATASET) as RatioRow[]).map((r) => ({ f: r.f, ratio: r.ratio, db: r.db }));
   }
 
   async svg(): Promise<string> {
@@ -124,7 +166,9 @@ export class ChartView {
     const [ox, oy] = view.origin();
     const x = event.clientX - box.left - ox;
     const y = event.clientY - box.top - oy;
-    if (x < 0 || y < 0 || x > view.width() || y > view.height()) return this.hidePointer();
+    // Over the plot panels (the budget and, below it, the ratio to the SQL and the mechanisms), not the key.
+    const panels = Number(this.lowerPanels.ratio) + Number(this.lowerPanels.mechanism);
+    if (x < 0 || y < 0 || x > FIGURE.plotWidth || y > FIGURE.plotHeight + panels * (FIGURE.spacing + FIGURE.panelHeight)) return this.hidePointer();
     const f = view.scale("x").invert(x) as number;
     const i = nearestIndex(table.frequencies, f);
     const rows = table.columns.map((c) => el("tr", {}, [el("td", {}, [c.label]), el("td", {}, [formatNumber(c.values[i])])]));
@@ -152,26 +196,29 @@ function sameCurvePoints(current: readonly CurveRow[], next: readonly CurveRow[]
 }
 
 /**
- * The budget chart as the live view draws it, with the same curves, scales, colours and
- * axes, minus per-point work that every slider move would redo for each of thousands of
+ * The budget chart as the live view draws it, with the same panels, curves, scales, colours
+ * and axes, minus per-point work that every slider move would redo for each of thousands of
  * points:
- *  - the tooltip encoding and the per-point ARIA description (two formatted strings per
+ *  - the tooltip encodings and the per-point ARIA descriptions (two formatted strings per
  *    point): the pointer panel reads the values at the cursor instead;
- *  - type parsing of the rows (`f` and `value` are numbers already);
- *  - the sort key of the line widths (their scale domain lists the order);
- *  - sorting each line's points by x: the rows come in frequency order (curveRows walks the
- *    ascending grid), so the lines join the same points in the same order without it.
+ *  - type parsing of the rows (`f`, `value` and `db` are numbers already);
+ *  - sorting each line's points by x: the rows come in frequency order (curveRows and
+ *    sqlRatioRows walk the ascending grid), so the lines join the same points in the same order.
  */
-function liveSpec(spec: Record<string, unknown>): Record<string, unknown> {
-  const encoding = { ...(spec.encoding as Record<string, unknown>) };
-  delete encoding.tooltip;
-  const strokeWidth = { ...(encoding.strokeWidth as Record<string, unknown>) };
-  delete strokeWidth.sort;
-  encoding.strokeWidth = strokeWidth;
-  encoding.order = { value: null };
-  const data = { ...(spec.data as Record<string, unknown>), format: { parse: null } };
-  const mark = { ...(spec.mark as Record<string, unknown>), aria: false };
-  return { ...spec, data, mark, encoding };
+export function liveSpec(spec: Record<string, unknown>): Record<string, unknown> {
+  const panels = (spec.vconcat as Record<string, unknown>[]).map((panel) => {
+    const data = panel.data as Record<string, unknown>;
+    const named = typeof data.name === "string";
+    const layer = (panel.layer as Record<string, unknown>[]).map((l) => {
+      const encoding = { ...(l.encoding as Record<string, unknown>) };
+      delete encoding.tooltip;
+      const mark: Record<string, unknown> = { ...(l.mark as Record<string, unknown>), aria: false };
+      if (named && mark.type === "line") encoding.order = { value: null };
+      return { ...l, mark, encoding };
+    });
+    return { ...panel, data: named ? { ...data, format: { parse: null } } : data, layer };
+  });
+  return { ...spec, vconcat: panels };
 }
 
 function nearestIndex(sorted: Float64Array, x: number): number {

@@ -1,6 +1,6 @@
 /** The explorer in the page: controls, chart, figures, toolbar; recomputes in the browser. */
 import { tableToCsv } from "../../../src/index";
-import type { CurveRow } from "../budget-spec";
+import { explorerMechanismPanel, type CurveRow, type RatioRow } from "../budget-spec";
 import { computeExplorer, type ExplorerComputation } from "../model";
 import { DEFAULT_REACH_SOURCE, explorerReach, type ReachFigures } from "../reach";
 import { FINGERPRINT_ATTRIBUTE, STATUS_ATTRIBUTE } from "../../core/page/names";
@@ -97,6 +97,16 @@ export class ExplorerWidget {
     return this.chart.rows();
   }
 
+  /** The rows of the panel relative to the SQL (frequency, total ÷ SQL, dB). */
+  plottedRatio(): RatioRow[] {
+    return this.chart.ratioRows();
+  }
+
+  /** The chart as SVG, drawn from the live view's scenegraph. */
+  async chartSvg(): Promise<string> {
+    return this.chart.svg();
+  }
+
   /** Sets a control's value as a set-up writes it, as if the reader had changed it. */
   setValue(target: string, value: string | number): void {
     this.shown = { ...this.shown, [target]: value };
@@ -170,6 +180,7 @@ export class ExplorerWidget {
       table: computation.table,
       quantity: computation.evaluation.budget.quantity.name,
       title: state.settings.title ?? computation.setup.name,
+      mechanism: explorerMechanismPanel(computation),
     };
   }
 

@@ -20,6 +20,7 @@ export class QuietframeChartModel extends DOMWidgetModel {
       ...chartModelIdentity(),
       spec: {},
       curves: null,
+      mechanism: null,
       quantity: "",
       title: "",
       headline: [],

@@ -1,6 +1,7 @@
 /** Front-end module "quietframe-live": the chart view. */
 import { DOMWidgetView } from "@jupyter-widgets/base";
 import { ChartView } from "../browser/chart-view";
+import type { MechanismPanel } from "../budget-spec";
 import { el } from "../../core/browser/dom";
 import { CAUTION_HEADING, type SummaryLine } from "../../core/page/summary-line";
 import { curvesFromWire, type BinaryLike } from "../live/chart-wire";
@@ -73,7 +74,8 @@ export class QuietframeChartView extends DOMWidgetView {
           const revision = Number(this.model.get("revision"));
           const wire = this.model.get("curves") as WireState | null;
           if (!this.chart || !wire || revision === this.drawn) break;
-          await this.chart.show({ table: curvesFromWire(wire), quantity: String(this.model.get("quantity")), title: String(this.model.get("title")) });
+          const mechanism = (this.model.get("mechanism") ?? undefined) as MechanismPanel | undefined;
+          await this.chart.show({ table: curvesFromWire(wire), quantity: String(this.model.get("quantity")), title: String(this.model.get("title")), mechanism });
           this.drawn = revision;
           this.el.dataset.revision = String(revision);
         }

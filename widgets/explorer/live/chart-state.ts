@@ -1,5 +1,5 @@
 /** The live chart model's state, from an explorer computation. */
-import { budgetSpec, CURVES_DATASET } from "../budget-spec";
+import { budgetSpec, CURVES_DATASET, explorerMechanismPanel, MECHANISM_DATASET, RATIO_DATASET, type MechanismPanel } from "../budget-spec";
 import type { ExplorerComputation } from "../model";
 import { explorerReach } from "../reach";
 import { chartTitle } from "../fragment";
@@ -15,10 +15,12 @@ import { chartModelIdentity } from "./names";
  * output and state files carry, so a notebook's saved widget state can be rendered by the CLI.
  */
 export interface ChartModelState {
-  /** Vega-Lite v5 spec of the chart; its data is the named dataset "curves", filled from `curves`. */
+  /** Vega-Lite v5 spec of the chart; its datasets "curves" and "ratio" are empty here, filled from `curves`. */
   spec: Record<string, unknown>;
   /** The curves (float64 bytes; see chart-wire.ts). */
   curves: WireCurves;
+  /** A light source's term by mechanism (rows of shares of the term), or null without a split. */
+  mechanism: MechanismPanel | null;
   /** Quantity the noise is referred to, e.g. "displacement" (axis title). */
   quantity: string;
   title: string;
@@ -39,11 +41,13 @@ export function chartPatch(state: ExplorerState, computation: ExplorerComputatio
   const quantity = computation.evaluation.budget.quantity.name;
   const title = chartTitle(state);
   const reach = explorerReach(state, computation);
-  const spec = budgetSpec(computation.table, quantity, { title });
+  const mechanism = explorerMechanismPanel(computation);
+  const spec = budgetSpec(computation.table, quantity, { title, mechanism });
   return {
-    // The rows travel as binary curves; the spec names the dataset they fill.
-    spec: { ...spec, data: { name: CURVES_DATASET } },
+    // The rows travel as binary curves; the spec names the datasets they fill.
+    spec: { ...spec, datasets: { [CURVES_DATASET]: [], [RATIO_DATASET]: [], ...(mechanism ? { [MECHANISM_DATASET]: [] } : {}) } },
     curves: curvesToWire(computation.table),
+    mechanism: mechanism ?? null,
     quantity,
     title,
     headline: [...headlineSummary(computation.headline), ...(reach ? reachSummary(reach) : [])],

@@ -1,5 +1,5 @@
 /** A static budget chart in a notebook (Vega-Lite, SVG, text). */
-import { budgetSpec } from "../budget-spec";
+import { explorerFigureSpec } from "../budget-spec";
 import type { ExplorerOptions } from "../model";
 import { renderSvg } from "../../core/render/static";
 import { displayBundle, type MimeBundle } from "../../core/notebook/display";
@@ -17,7 +17,7 @@ export async function chartBundle(input: NotebookExplorer | ExplorerInput, optio
   const w = input instanceof NotebookExplorer ? input : explorer(input, options);
   const { computation } = w;
   const state = w.state;
-  const spec = budgetSpec(computation.table, computation.evaluation.budget.quantity.name, { title: state.settings.title ?? computation.setup.name });
+  const spec = explorerFigureSpec(computation, state);
   return {
     [VEGA_LITE_MIME]: spec,
     "image/svg+xml": await renderSvg(spec),

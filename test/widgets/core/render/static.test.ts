@@ -1,7 +1,9 @@
 import { beforeAll, describe, expect, test } from "vitest";
 import { QuietframeError } from "../../../../src/errors";
 import { tableToCsv, type BudgetTable } from "../../../../src/engine/tabulate";
-import { budgetSpec } from "../../../../widgets/explorer/budget-spec";
+import { budgetSpec, chartCurves, explorerMechanismPanel, MECHANISM_PARTS } from "../../../../widgets/explorer/budget-spec";
+import { frequencyAxis } from "../../../../widgets/core/look/layout";
+import { INK, ROLE_COLOURS } from "../../../../widgets/core/look/palette";
 import { computeExplorer, createExplorerState } from "../../../../widgets/explorer/model";
 import { renderPng, renderSvg } from "../../../../widgets/core/render/static";
 import { explorerFigures, type ExplorerFigures } from "../../../../widgets/explorer/figures";
@@ -31,6 +33,14 @@ function textElements(svg: string): string[] {
   return [...svg.matchAll(/<text[^>]*>([^<]*)<\/text>/g)].map((m) => m[1]);
 }
 
+/** The series scales of the budget panel (colour, dash, width by curve name). */
+function seriesColours(spec: Record<string, unknown>): { domain: string[]; range: string[] } {
+  const layers = (spec.vconcat as { layer: { encoding: { color?: { scale?: { domain: string[]; range: string[] } } } }[] }[])[0].layer;
+  const scale = layers.find((l) => l.encoding.color?.scale)?.encoding.color?.scale;
+  if (!scale) throw new Error("no colour scale in the budget panel");
+  return scale;
+}
+
 const figures = new Map<string, { state: ExplorerState; figures: ExplorerFigures }>();
 
 beforeAll(async () => {
@@ -42,29 +52,35 @@ beforeAll(async () => {
 });
 
 describe("explorerFigures on the shipped examples", () => {
-  test.each(exampleFiles())("%s: one line per table column, in the chart's own colours", (file) => {
-    const { state, figures: f } = figures.get(file)!;
-    const table = computeExplorer(state).table;
-    const strokes = linePaths(f.svg);
-    expect(strokes.length).toBe(table.columns.length);
-    const encoding = f.spec.encoding as { color: { scale: { domain: string[]; range: string[] } } };
-    expect(encoding.color.scale.domain.length).toBe(table.columns.length);
-    expect(new Set(strokes)).toEqual(new Set(encoding.color.scale.range));
-  });
+  test.each(exampleFiles())(
+    "%s: one line per drawn curve in the chart's own colours, the ratio to the SQL, one per mechanism part (the total's casing is decoration, hidden from assistive technology)",
+    (file) => {
+      const { state, figures: f } = figures.get(file)!;
+      const computation = computeExplorer(state);
+      const table = computation.table;
+      const strokes = linePaths(f.svg);
+      const drawn = chartCurves(table);
+      const parts = explorerMechanismPanel(computation) ? MECHANISM_PARTS.length : 0;
+      expect(strokes.length).toBe(drawn.length + 1 + parts);
+      const scale = seriesColours(f.spec);
+      expect(scale.domain).toEqual(drawn.map((c) => c.series));
+      const partColours = parts ? [ROLE_COLOURS.imprecision, ROLE_COLOURS["back-action"], ROLE_COLOURS["quantum-light"]] : [];
+      expect(new Set(strokes)).toEqual(new Set([...scale.range, ROLE_COLOURS.total, ...partColours]));
+      expect(f.svg).toContain(`stroke="${INK.halo}" stroke-width="5.5"`);
+    },
+  );
 
-  test.each(exampleFiles())("%s: axis titles carry units; the legend names every curve", (file) => {
+  test.each(exampleFiles())("%s: axis titles carry units (frequency in the band's unit); the key names every drawn curve in full", (file) => {
     const { state, figures: f } = figures.get(file)!;
     const texts = textElements(f.svg);
-    expect(texts).toContain("frequency [Hz]");
     const computation = computeExplorer(state);
+    const grid = computation.table.frequencies;
+    expect(texts).toContain(`frequency [${frequencyAxis(grid[0], grid[grid.length - 1]).unit}]`);
     expect(texts).toContain(`${computation.evaluation.budget.quantity.name} ASD [${computation.table.unit}]`);
-    for (const c of computation.table.columns) {
-      // Long labels are cut with an ellipsis to fit the legend.
-      const label = c.label.replace(/&/g, "&amp;").replace(/</g, "&lt;").replace(/>/g, "&gt;");
-      expect(
-        texts.some((t) => t === label || (t.endsWith("…") && label.startsWith(t.slice(0, -1)))),
-        c.label,
-      ).toBe(true);
+    expect(texts).toContain("total ÷ SQL [dB]");
+    for (const c of chartCurves(computation.table)) {
+      const label = c.series.replace(/&/g, "&amp;").replace(/</g, "&lt;").replace(/>/g, "&gt;");
+      expect(texts, c.series).toContain(label);
     }
     // The title defaults to the set-up's name.
     expect(texts).toContain(exampleSetup(file).name);
@@ -74,7 +90,8 @@ describe("explorerFigures on the shipped examples", () => {
     const { state, figures: f } = figures.get(file)!;
     expect(Array.from(f.png.slice(0, 8))).toEqual(PNG_SIGNATURE);
     const svg = svgSize(f.svg);
-    expect(svg.width).toBeGreaterThan(500);
+    // Column-width figure: at least the plot panel wide.
+    expect(svg.width).toBeGreaterThan(330);
     expect(pngSize(f.png)).toEqual({ width: 2 * svg.width, height: 2 * svg.height });
     const computation = computeExplorer(state);
     expect(f.csv).toBe(tableToCsv(computation.table));
@@ -125,7 +142,8 @@ describe("renderSvg", () => {
     expect(svg).not.toMatch(/<b>|<i>|<script|<tspan>/);
     expect(svg).toContain("&lt;b&gt;bold&lt;/b&gt;");
     expect(svg).toContain("SQL &amp; &lt;i&gt;friends&lt;/i&gt;");
-    expect(linePaths(svg).length).toBe(3);
+    // Total, term, SQL and the ratio to the SQL.
+    expect(linePaths(svg).length).toBe(4);
     // Attribute values: no raw quote or angle bracket inside any attribute.
     for (const m of svg.matchAll(/="([^"]*)"/g)) expect(m[1]).not.toMatch(/[<>]/);
   });
@@ -140,6 +158,7 @@ describe("renderSvg", () => {
         { id: "zero-point", label: "zero", values: Float64Array.from([0, 0, 0]) },
       ],
     };
+    // The total alone: no SQL, so no ratio panel.
     expect(linePaths(await renderSvg(budgetSpec(table, "displacement"))).length).toBe(1);
   });
 
@@ -190,8 +209,9 @@ describe("renderPng", () => {
     for (const scale of [0, -1, Number.NaN, Number.POSITIVE_INFINITY, 100, "2" as unknown as number]) {
       expect(() => renderPng(svg, { scale }), String(scale)).toThrow(/^scale.*not a usable scale/);
     }
-    // In range, but too many pixels for this chart.
-    expect(() => renderPng(svg, { scale: 16 })).toThrow(/^scale = 16: would make a \d+ × \d+ image/);
+    // In range, but too many pixels for a 1000 × 1000 drawing.
+    const large = '<svg xmlns="http://www.w3.org/2000/svg" width="1000" height="1000"><rect width="10" height="10"/></svg>';
+    expect(() => renderPng(large, { scale: 16 })).toThrow(/^scale = 16: would make a 16000 × 16000 image/);
     expect(() => renderPng("not svg")).toThrow(/^svg.*not SVG text/);
     expect(() => renderPng("<svg><g></svg>")).toThrow(/^svg: could not be read/);
     expect(() => renderPng(42 as unknown as string)).toThrow(QuietframeError);
