@@ -2,7 +2,8 @@
 # Makes sure the Debian packages that the notebook and browser suites drive are installed:
 # the real Jupyter clients (nbconvert/nbclient, nbformat, jupyter-client, ipykernel, the
 # classic notebook server, the kernel conformance tests), Chromium, and NumPy for the bench
-# row that compares the engine with the same algebra written in NumPy. The suites test
+# row that compares the engine with the same algebra written in NumPy, and TeX Live with
+# siunitx (texlive-science) and BibTeX to compile the LaTeX methods exports. The suites test
 # against these outside programs on purpose, so they come from the distribution, not npm.
 #
 # Idempotent and silent when everything is present. Installs only what is missing, as root
@@ -22,6 +23,9 @@ PACKAGES=(
   jupyter-notebook
   chromium
   python3-numpy
+  texlive-latex-base
+  texlive-latex-recommended
+  texlive-science
 )
 
 if ! command -v dpkg-query >/dev/null 2>&1; then

@@ -25,6 +25,7 @@ export const INTEGRATION_FILES: Readonly<Record<string, string>> = {
   "test/live/notebooks-live.test.ts": "Debian's nbconvert with the quietframe kernel",
   "test/notebooks/notebooks.test.ts": "Debian's nbconvert with the tslab kernel",
   "test/timedomain/browser-bits.test.ts": "headless Chromium",
+  "test/widgets/methods/latex-compile.test.ts": "Debian's TeX Live (pdflatex, bibtex, siunitx) compiles the LaTeX methods exports",
 };
 
 /** Folders whose test files are unit suites, apart from the integration files above. */

@@ -1,5 +1,3 @@
-import { randomBytes } from "node:crypto";
-import { readFileSync, renameSync, rmSync, writeFileSync } from "node:fs";
 import { basename, extname } from "node:path";
 import { describeHeadline } from "../engine/headline";
 import { spectralDensityUnit } from "../engine/tabulate";
@@ -11,6 +9,7 @@ import { explorerKind } from "../../widgets/explorer/kind";
 import { computeExplorer, createExplorerState } from "../../widgets/explorer/model";
 import { loadWidgetState } from "../../widgets/registry";
 import { notebookWidgets, pickNotebookWidget } from "./notebook-widgets";
+import { readText, writeAtomically } from "./files";
 import { parseOptions } from "./options";
 import type { CliIo } from "./io";
 
@@ -176,24 +175,4 @@ function pngScale(text: string | undefined): number {
   const scale = Number(text);
   if (!(scale >= 0.1 && scale <= 16)) throw new QuietframeError({ path: "--scale", value: text, problem: "is not a usable scale", allowed: "a number from 0.1 to 16" });
   return scale;
-}
-
-function readText(path: string): string {
-  try {
-    return readFileSync(path, "utf8");
-  } catch (e) {
-    throw new QuietframeError({ path, problem: `cannot be read (${(e as NodeJS.ErrnoException).code ?? "error"})`, allowed: "a readable file" });
-  }
-}
-
-/** Writes through a temporary file beside the target, so a failure never leaves a partial output. */
-function writeAtomically(path: string, bytes: Uint8Array): void {
-  const temporary = `${path}.${randomBytes(6).toString("hex")}.tmp`;
-  try {
-    writeFileSync(temporary, bytes);
-    renameSync(temporary, path);
-  } catch (e) {
-    rmSync(temporary, { force: true });
-    throw new QuietframeError({ path, problem: `cannot be written (${(e as NodeJS.ErrnoException).code ?? "error"})`, allowed: "a writable path" });
-  }
 }

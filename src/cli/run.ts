@@ -23,6 +23,7 @@ import { optimizeCommand } from "./optimize-command";
 import { rankCommand } from "./rank-command";
 import { solveCommand } from "./solve-command";
 import { spreadCommand } from "./spread-command";
+import { METHODS_USAGE, methodsCommand } from "./methods-command";
 
 export type { CliIo } from "./io";
 
@@ -41,10 +42,10 @@ usage:
       Validates a set-up and reports its size and stability.
   quietframe types [type]
       Lists component types, or one type's parameters and ports.
-${DESIGN_USAGE}${RENDER_USAGE}${KERNEL_USAGE}${EXTENSION_USAGE}`;
+${DESIGN_USAGE}${RENDER_USAGE}${METHODS_USAGE}${KERNEL_USAGE}${EXTENSION_USAGE}`;
 
 /** Every command word, for "did you mean" on a mistyped one. */
-const COMMANDS = ["eval", "summary", "check", "types", "rank", "solve", "optimize", "spread", "render", "report", "kernel", "help"];
+const COMMANDS = ["eval", "summary", "check", "types", "rank", "solve", "optimize", "spread", "render", "report", "methods", "kernel", "help"];
 
 /** Commands that render figures (Vega renders asynchronously); runCliAsync runs them. */
 const ASYNC_COMMANDS: Readonly<Record<string, (args: string[], io: CliIo) => Promise<number>>> = {
@@ -91,6 +92,8 @@ export function runCli(argv: string[], io: CliIo): number {
         return optimizeCommand(rest, io);
       case "spread":
         return spreadCommand(rest, io);
+      case "methods":
+        return methodsCommand(rest, io);
       case undefined:
         io.err(USAGE);
         return 2;
