@@ -30,9 +30,10 @@ export const RENDER_USAGE = `  quietframe render <state.json> -o <out.html|out.s
       curves differ from the stored fingerprint; --strict makes that an error.
       A saved notebook (.ipynb) works too: its widget outputs and live charts, in the order the
       notebook shows them (--widget N if several; the error lists them).
-  quietframe report <setup.json> -o <report.html> [--control target[=min:max[:log|linear]]]... [--title T]
+  quietframe report <setup.json> -o <report.html> [--control target[=min:max[:log|linear]][@label]]... [--title T]
       An interactive HTML report of a set-up with sliders for the given parameters, e.g.
-      --control "membrane.temperature=10 mK:300 K"; prints the headline figures.
+      --control "membrane.temperature=10 mK:300 K@bath temperature"; each control is labelled
+      with its unit and has a field for an exact value. Prints the headline figures.
 `;
 
 const RENDER_OPTIONS = {
@@ -129,15 +130,22 @@ function asOptionErrors<T>(fn: () => T): T {
   }
 }
 
-/** "target", "target=min:max" or "target=min:max:log" → a control spec. */
-export function parseControlOption(text: string, index: number): ControlSpec {
+/** "target", "target=min:max" or "target=min:max:log", each optionally followed by "@label" → a control spec. */
+export function parseControlOption(option: string, index: number): ControlSpec {
   const path = `--control[${index}]`;
+  const at = option.indexOf("@");
+  const label = at < 0 ? undefined : option.slice(at + 1).trim();
+  if (label !== undefined && (label === "" || label.length > 80)) {
+    throw new QuietframeError({ path, value: option, problem: "has an empty or over-long label after @", allowed: '1 to 80 characters, e.g. "membrane.temperature=10 mK:300 K@bath temperature"' });
+  }
+  const withLabel = (spec: ControlSpec): ControlSpec => (label === undefined ? spec : { ...spec, label });
+  const text = at < 0 ? option : option.slice(0, at);
   const eq = text.indexOf("=");
   const target = (eq < 0 ? text : text.slice(0, eq)).trim();
   if (!/^[^.\s]+\.[^.\s]+$/.test(target)) {
     throw new QuietframeError({ path, value: text, problem: "does not name a parameter", allowed: '"component.parameter" or "component.parameter=min:max", e.g. "membrane.temperature=10 mK:300 K"' });
   }
-  if (eq < 0) return { target };
+  if (eq < 0) return withLabel({ target });
   const parts = text
     .slice(eq + 1)
     .split(":")
@@ -148,7 +156,7 @@ export function parseControlOption(text: string, index: number): ControlSpec {
     throw new QuietframeError({ path, value: text, problem: "does not give a range", allowed: '"target=min:max" or "target=min:max:log", e.g. "membrane.temperature=10 mK:300 K"' });
   }
   const bound = (s: string): string | number => (/^[-+]?(\d+\.?\d*|\.\d+)(e[-+]?\d+)?$/i.test(s) ? Number(s) : s);
-  return { target, min: bound(parts[0]), max: bound(parts[1]), ...(scale ? { scale } : {}) };
+  return withLabel({ target, min: bound(parts[0]), max: bound(parts[1]), ...(scale ? { scale } : {}) });
 }
 
 function requireOutput(output: string | undefined): string {
