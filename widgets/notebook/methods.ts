@@ -9,7 +9,7 @@ import { QuietframeError } from "../../src/index";
 import { widgetMethods, type MethodsDocument, type MethodsOptions } from "../methods";
 
 /** A notebook widget (explorer, trajectory, entangled panel, tolerance map, design answer), its `.state`, or a saved state as text. */
-export type MethodsSource = { readonly state: unknown } | Record<string, unknown> | string;
+export type MethodsSource = { readonly state: unknown } | object | string;
 
 function stateOf(source: MethodsSource): unknown {
   return typeof source === "object" && source !== null && "state" in source && typeof (source as { state: unknown }).state === "object" ? (source as { state: unknown }).state : source;

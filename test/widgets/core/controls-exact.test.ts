@@ -2,6 +2,7 @@
 import { describe, expect, test } from "vitest";
 import { QuietframeError } from "../../../src/errors";
 import { parseControlOption } from "../../../src/cli/render";
+import { frequencyRange } from "../../../widgets/core/controls/frequency-range";
 import { exactValue, labelWithUnit, resolveControls, typedValue } from "../../../widgets/core/controls/setup-controls";
 import { freeMassSetup } from "../../setup/fixtures";
 import { exampleSetup } from "../explorer/examples";
@@ -53,5 +54,21 @@ describe("the exact-value field", () => {
 
   test("a count out of range names the bounds", () => {
     expect(() => exactValue(photons, "1e9")).toThrow(/cavity\.photons = "1e9": is outside the control's range; allowed: 10000 … 1e\+8/);
+  });
+});
+
+describe("the frequency-range control's check", () => {
+  test("ends with units, or bare numbers in Hz; the points are kept", () => {
+    expect(frequencyRange(" 1 kHz", "2.5 MHz ", 240)).toEqual({ from: "1 kHz", to: "2.5 MHz", points: 240 });
+    expect(frequencyRange("10", "1e5", 100)).toEqual({ from: "10 Hz", to: "1e5 Hz", points: 100 });
+  });
+
+  test.each([
+    ["0 Hz", "1 kHz", /frequency range\.from = "0 Hz": must be a positive frequency; allowed: from > 0 Hz/],
+    ["1 kHz", "10 Hz", /frequency range\.to = "10 Hz": must be above from/],
+    ["1 kg", "1 kHz", /frequency range\.from = "1 kg"/],
+  ])("%j to %j is refused naming the end, the value and what is allowed", (from, to, message) => {
+    expect(() => frequencyRange(from, to, 100)).toThrow(QuietframeError);
+    expect(() => frequencyRange(from, to, 100)).toThrow(message);
   });
 });
