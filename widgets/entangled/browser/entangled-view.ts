@@ -5,7 +5,9 @@ import { computeEntangled, entangledStateText, entangledSummary, loadEntangledSt
 import { ENTANGLED_CLASS, ENTANGLED_NUMBER_ATTRIBUTES, ENTANGLED_STATE_CLASS } from "../names";
 import { ellipseSpec, eprSpec, spectrumSpec } from "../specs";
 import { STATUS_ATTRIBUTE } from "../../core/page/names";
-import { downloadText } from "../../core/browser/actions";
+import { actionButton, downloadText, fileStem } from "../../core/browser/actions";
+import { methodsButtons } from "../../core/browser/methods-buttons";
+import { entangledMethods } from "../methods/methods";
 import { messageOf } from "../../core/browser/boot";
 import { el, injectStyleOnce } from "../../core/browser/dom";
 import { replaceCanvasCharts } from "../../core/browser/canvas-charts";
@@ -153,7 +155,13 @@ export class EntangledPanelView {
     b.addEventListener("click", () => {
       if (this.state) downloadText(entangledStateText(this.state), "entangled-panel.json", "application/json");
     });
-    return el("div", { class: "qf-actions" }, [b]);
+    const button = (label: string, title: string, action: () => unknown): HTMLButtonElement => actionButton(label, title, action, this.alert);
+    const current = (): EntangledState => {
+      if (!this.state) throw new Error("the panel has no valid state");
+      return this.state;
+    };
+    const stem = (): string => fileStem(this.state?.title ?? "entangled-panel");
+    return el("div", { class: "qf-actions" }, [b, ...methodsButtons(button, stem, (options) => entangledMethods(current(), computeEntangled(current()), options))]);
   }
 }
 

@@ -15,6 +15,7 @@ import { messageOf } from "../../core/browser/boot";
 import { ChartView } from "./chart-view";
 import { ControlsView } from "../../core/browser/controls-view";
 import { FrequencyRangeView } from "../../core/browser/frequency-range-view";
+import { methodsButtons } from "../../core/browser/methods-buttons";
 import type { GridText } from "../../core/controls/frequency-range";
 import { el, flashText } from "../../core/browser/dom";
 
@@ -363,18 +364,9 @@ export class ExplorerWidget {
       button("SVG", "Save the chart as SVG", async () => downloadText(await this.chart.svg(), `${stem()}.svg`, "image/svg+xml")),
       button("PNG", "Save the chart as PNG", async () => downloadUrl(await this.chart.pngDataUrl(2), `${stem()}.png`)),
       button("CSV", "Save the plotted numbers (shortest round-trip form)", () => downloadText(tableToCsv(this.requireComputation().table), `${stem()}.csv`, "text/csv")),
-      button("Methods (Markdown)", "Save the methods text for these values", () => downloadText(this.methods(stem()).markdown, `${stem()}-methods.md`, "text/markdown")),
-      button("Methods (LaTeX)", "Save the methods text as LaTeX; it reads the BibTeX file of the next button", () =>
-        downloadText(this.methods(stem()).latex, `${stem()}-methods.tex`, "application/x-tex"),
-      ),
-      button("Methods (BibTeX)", "Save the references of the LaTeX methods text, with their DOIs", () => downloadText(this.methods(stem()).bibtex, `${stem()}-methods.bib`, "application/x-bibtex")),
+      ...methodsButtons(button, stem, (options) => explorerMethods(this.requireState(), this.requireComputation(), options)),
       button("Reset", "Back to the values this widget was created with", () => this.reset()),
     ]);
-  }
-
-  /** The methods export of the state on screen; the LaTeX reads <stem>-methods.bib. */
-  private methods(stem: string) {
-    return explorerMethods(this.requireState(), this.requireComputation(), { stateFile: `${stem}.json`, bibName: `${stem}-methods` });
   }
 
   private reset(): void {
