@@ -2,6 +2,7 @@ import { basename, extname } from "node:path";
 import { describeHeadline } from "../engine/headline";
 import { spectralDensityUnit } from "../engine/tabulate";
 import { QuietframeError } from "../errors";
+import { formatQuantity } from "../units/format";
 import { loadSetup } from "../pipeline";
 import { SLIDER_SCALES, type ControlSpec, type SliderScale } from "../../widgets/core/controls/control-spec";
 import { kindOutput, OUTPUT_FORMATS, type OutputFormat } from "../../widgets/core/render/kind-output";
@@ -111,7 +112,7 @@ export async function reportCommand(args: string[], io: CliIo): Promise<number> 
   const grid = computation.evaluation.budget.frequencies;
   io.out(
     `${setup.name || input}\n` +
-      `${grid.length} frequencies from ${grid[0]} Hz to ${grid[grid.length - 1]} Hz; noise referred to ${computation.evaluation.budget.quantity.name}\n` +
+      `${grid.length} frequencies from ${formatQuantity(grid[0], "frequency", 6)} to ${formatQuantity(grid[grid.length - 1], "frequency", 6)}; noise referred to ${computation.evaluation.budget.quantity.name}\n` +
       describeHeadline(computation.headline, spectralDensityUnit(computation.evaluation.budget.quantity.unit, "power")) +
       `\nwrote ${output} (interactive report, ${bytes.length} bytes; controls: ${state.controls.map((c) => c.target).join(", ") || "none"})\n`,
   );

@@ -11,6 +11,7 @@ import { jsonNumbers, spectralDensityUnit, tableToCsv, tabulateBudget } from "..
 import { COMPONENT_KINDS } from "../components/registry";
 import { evaluate, FALLBACK_GRID, loadSetup, prepare } from "../pipeline";
 import { QUIETFRAME_VERSION } from "../version";
+import { formatQuantity } from "../units/format";
 import { gridFromOptions } from "./grid-options";
 import { parseOptions } from "./options";
 import { reachLines } from "./reach-lines";
@@ -189,7 +190,7 @@ function summaryCommand(args: string[], io: CliIo): number {
   const frequencies = result.budget.frequencies;
   io.out(
     `${setup.name || positionals[0]}\n` +
-      `${frequencies.length} frequencies from ${frequencies[0]} Hz to ${frequencies[frequencies.length - 1]} Hz; ${setup.signal.kind} on '${setup.signal.on}' referred to ${q.name}\n` +
+      `${frequencies.length} frequencies from ${formatQuantity(frequencies[0], "frequency", 6)} to ${formatQuantity(frequencies[frequencies.length - 1], "frequency", 6)}; ${setup.signal.kind} on '${setup.signal.on}' referred to ${q.name}\n` +
       describeHeadline(headlineFigures(result.budget), spectralDensityUnit(q.unit, "power")) +
       "\n" +
       reachLines(result.budget, against) +
