@@ -37,8 +37,8 @@ function sources(w: Writer, state: DesignState): string {
     case "ranking":
       return ` Sources: Ridders' extrapolated differences${w.cite("ridders1982")}.`;
     case "optimum":
-      return ` Sources: the Nelder–Mead simplex${w.cite("nelder1965")}; random starts from xoshiro128**${w.cite("blackman2021")}.`;
+      return ` Sources: the Nelder–Mead simplex${w.cite("nelder1965")}; random starts from ${w.text("xoshiro128**")}${w.cite("blackman2021")}.`;
     case "spread":
-      return ` Sources: xoshiro128** uniform numbers${w.cite("blackman2021")}, ziggurat normals${w.cite("marsaglia2000")}, sample quantiles of definition 7${w.cite("hyndman1996")}, Ridders' extrapolated differences${w.cite("ridders1982")}.`;
+      return ` Sources: ${w.text("xoshiro128**")} uniform numbers${w.cite("blackman2021")}, ziggurat normals${w.cite("marsaglia2000")}, sample quantiles of definition 7${w.cite("hyndman1996")}, Ridders' extrapolated differences${w.cite("ridders1982")}.`;
   }
 }

@@ -52,7 +52,7 @@ function simulationSentence(w: Writer, computation: TrajectoryComputation): stri
   return (
     `Step ${w.math("h", "h")} = ${w.qty(s.step, "time")}, duration ${w.qty(s.duration, "time")} (a whole number of steps), ${s.samples} stored time points (the records averaged over each stored interval), seed ${s.seed}; the run starts from ${start}. ${stop} ` +
     `The hidden state and the integrated homodyne records are advanced by the exact discretization of the joint linear stochastic differential equation (no Euler error at any step): ${w.math("z_{k+1} = Φ z_k + ξ_k", "z_{k+1} = \\Phi z_k + \\xi_k")}, ${w.math("Δy_k = Γ z_k + η_k", "\\Delta y_k = \\Gamma z_k + \\eta_k")} with ${w.math("Φ = e^{Ah}", "\\Phi = e^{Ah}")}, ${w.math("Γ = ∫₀ʰ C e^{As} ds", "\\Gamma = \\int_0^h C e^{As}\\,\\mathrm{d}s")} and the joint covariance of ${w.math("(ξ_k, η_k)", "(\\xi_k, \\eta_k)")} from one matrix exponential of a block matrix${w.cite("vanloan1978")}, ` +
-    `computed for a step cut by powers of two and doubled back. Gaussian deviates come from the xoshiro128** generator${w.cite("blackman2021")} seeded through splitmix32 (32-bit integer arithmetic only) and the 128-layer ziggurat method${w.cite("marsaglia2000")}, with elementary functions evaluated in portable double arithmetic, so a seed gives the same bits on every platform.`
+    `computed for a step cut by powers of two and doubled back. Gaussian deviates come from the ${w.text("xoshiro128**")} generator${w.cite("blackman2021")} seeded through splitmix32 (32-bit integer arithmetic only) and the 128-layer ziggurat method${w.cite("marsaglia2000")}, with elementary functions evaluated in portable double arithmetic, so a seed gives the same bits on every platform.`
   );
 }
 
