@@ -4,14 +4,13 @@
  * number of points kept. Pure, so the page and the tests run the same checks.
  */
 import { parseGrid } from "../../../src/index";
+import { BARE_NUMBER } from "./setup-controls";
 
 export interface GridText {
   from: string;
   to: string;
   points: number;
 }
-
-const BARE_NUMBER = /^[-+]?(\d+\.?\d*|\.\d+)(e[-+]?\d+)?$/i;
 
 /** A typed end: trimmed, a bare number taken in Hz. */
 function typedFrequency(text: string): string {

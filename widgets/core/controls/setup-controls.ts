@@ -151,7 +151,8 @@ export function labelWithUnit(c: ResolvedControl): string {
   return c.unit ? `${c.label} [${c.unit}]` : c.label;
 }
 
-const BARE_NUMBER = /^[-+]?(\d+\.?\d*|\.\d+)(e[-+]?\d+)?$/i;
+/** A number without a unit, as typed into a control ("6.5", "1e-3"). */
+export const BARE_NUMBER = /^[-+]?(\d+\.?\d*|\.\d+)(e[-+]?\d+)?$/i;
 
 /**
  * What a user typed into a control's exact-value field, checked like any value of the control:

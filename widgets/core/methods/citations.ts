@@ -219,18 +219,6 @@ function authorList(authors: readonly string[]): string {
   return authors.length === 1 ? authors[0] : `${authors.slice(0, -1).join(", ")} and ${authors[authors.length - 1]}`;
 }
 
-/** The first author's surname and "et al." where there are more than two: "Clerk et al. 2010". */
-export function citationLabel(key: CitationKey): string {
-  const s: Source = SOURCES[key];
-  const surname = (a: string): string =>
-    a
-      .split(" ")
-      .filter((p) => !/\.$/.test(p))
-      .join(" ");
-  const who = s.authors.length === 1 ? surname(s.authors[0]) : s.authors.length === 2 ? `${surname(s.authors[0])} & ${surname(s.authors[1])}` : `${surname(s.authors[0])} et al.`;
-  return `${who} ${s.year}`;
-}
-
 /** The reference line in Markdown: authors, journal **volume**, page (year), DOI link. */
 export function markdownReference(key: CitationKey): string {
   const s: Source = SOURCES[key];
