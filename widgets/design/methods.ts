@@ -1,5 +1,6 @@
 /** The methods paragraph of a design widget: method, seed, samples, bounds and tolerances, for a paper's methods section. */
-import { componentKind, formatQuantity, QUIETFRAME_VERSION } from "../../src/index";
+import { QUIETFRAME_VERSION, unicodeQuantity } from "../../src/index";
+import { parameterKind } from "../core/methods/parameter-names";
 import type { DesignState } from "./format";
 import { designTitle } from "./summary";
 
@@ -8,10 +9,8 @@ const DEFAULTS = { scanPoints: 25, relativeStep: 0.02, starts: 4, seed: 1, toler
 
 /** "target from a to b" with both ends in quietframe's units ("arm.power from 1 mW to 1 W"). */
 function rangeText(state: DesignState, target: string, range: readonly [number, number] | readonly number[]): string {
-  const [name, param] = target.split(".");
-  const type = state.setup.components.find((c) => c.name === name)?.type;
-  const spec = type ? componentKind(type)?.params.find((p) => p.name === param) : undefined;
-  const shown = (x: number): string => (spec && spec.kind !== "choice" ? formatQuantity(x, spec.kind, 6) : String(x));
+  const kind = parameterKind(state.setup, target);
+  const shown = (x: number): string => (kind ? unicodeQuantity(x, kind, 6) : String(x));
   return `${target} from ${shown(range[0])} to ${shown(range[1])}`;
 }
 

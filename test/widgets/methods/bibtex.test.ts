@@ -124,6 +124,9 @@ describe("every kind's methods export", () => {
       for (const e of entries) expect(doc.markdown).toContain(`https://doi.org/${e.fields.doi}`);
       expect(doc.markdown).toContain(`quietframe render ${file} -o ${file.replace(".json", ".svg")}`);
       expect(doc.latex).toContain("\\usepackage{amsmath,siunitx}");
+      // True minus signs in the Markdown prose (a hyphen before a digit would be a text hyphen).
+      expect(doc.markdown).not.toMatch(/(^|[\s(=])-\d/m);
+      expect(doc.markdown).not.toContain("(default)");
     },
   );
 });

@@ -10,6 +10,8 @@ export interface ParameterWords {
   readonly symbol?: { readonly markdown: string; readonly latex: string };
 }
 
+import { componentKind, type QuantityKind, type SetupDescription } from "../../../src/index";
+
 const sym = (markdown: string, latex: string) => ({ markdown, latex });
 
 /** By component type, then parameter name. */
@@ -110,4 +112,12 @@ export function componentTypeWords(type: string): string {
 /** Choice values in words: "negative-mass" → "negative mass". */
 export function choiceWords(value: string): string {
   return identifierWords(value);
+}
+
+/** The quantity kind of "component.parameter" in a set-up, or undefined for a choice or an unknown target. */
+export function parameterKind(setup: SetupDescription, target: string): QuantityKind | undefined {
+  const dot = target.indexOf(".");
+  const type = setup.components.find((c) => c.name === target.slice(0, dot))?.type;
+  const spec = type ? componentKind(type)?.params.find((p) => p.name === target.slice(dot + 1)) : undefined;
+  return spec && spec.kind !== "choice" ? spec.kind : undefined;
 }

@@ -84,8 +84,12 @@ export function escapeLatex(s: string): string {
   return latexUnicode(oneLine(s).replace(/[\\{}#$%&_~^<>|]/g, (c) => LATEX_SPECIAL[c]));
 }
 
+const SUPERSCRIPTS = "⁻⁰¹²³⁴⁵⁶⁷⁸⁹";
+
 function latexUnicode(s: string): string {
-  return s.replace(/[µμ°Ωχħ√²−×→–—…]/g, (c) => LATEX_UNICODE[c]);
+  // Exponents as typeset text writes them ("10⁻⁷") become math superscripts first.
+  const raised = s.replace(/[⁻⁰¹²³⁴⁵⁶⁷⁸⁹]+/g, (run) => `\\ensuremath{^{${[...run].map((c) => (c === "⁻" ? "-" : String(SUPERSCRIPTS.indexOf(c) - 1))).join("")}}}`);
+  return raised.replace(/[µμ°Ωχħ√−×→–—…]/g, (c) => LATEX_UNICODE[c]);
 }
 
 /** "m/√Hz" → $\mathrm{m}/\sqrt{\mathrm{Hz}}$; text that is not a plain unit is escaped instead. */

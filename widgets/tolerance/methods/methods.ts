@@ -7,6 +7,7 @@
 import { validateSetup } from "../../../src/index";
 import { methodsDocument, type MethodsDocument, type MethodsOptions } from "../../core/methods/document";
 import { figureSentence } from "../../core/methods/figure-words";
+import { parameterKind } from "../../core/methods/parameter-names";
 import { reproduceSentence } from "../../core/methods/reproduce";
 import { componentItems, conventionSentence, modelSentences, wiringSentences } from "../../core/methods/setup-model";
 import type { Writer } from "../../core/methods/writers";
@@ -33,16 +34,18 @@ export function toleranceMethods(state: ToleranceWidgetState, options: MethodsOp
   );
 }
 
-function axisSentence(w: Writer, name: string, a: ToleranceAxisData): string {
+function axisSentence(w: Writer, state: ToleranceWidgetState, name: string, a: ToleranceAxisData): string {
   const n = a.values.length;
-  return `${name}: ${w.code(a.target)} at ${n} ${a.scale === "log" ? "logarithmically" : "linearly"} spaced values from ${w.text(a.written[0])} to ${w.text(a.written[n - 1])}`;
+  const kind = parameterKind(state.setup, a.target);
+  const shown = (k: number): string => (kind ? w.qty(a.values[k], kind, 6) : w.text(a.written[k]));
+  return `${name}: ${w.code(a.target)} at ${n} ${a.scale === "log" ? "logarithmically" : "linearly"} spaced values from ${shown(0)} to ${shown(n - 1)}`;
 }
 
 function mapSentence(w: Writer, state: ToleranceWidgetState): string {
   const m = state.map;
   const failed = m.counts.unstable + m.counts.invalid;
   return (
-    `${axisSentence(w, "Columns", m.x)}; ${axisSentence(w, "rows", m.y)}. Every cell's budget was evaluated at ${m.grid.points} logarithmically spaced frequencies from ${w.qty(m.grid.from, "frequency")} to ${w.qty(m.grid.to, "frequency")}. ` +
+    `${axisSentence(w, state, "Columns", m.x)}; ${axisSentence(w, state, "rows", m.y)}. Every cell's budget was evaluated at ${m.grid.points} logarithmically spaced frequencies from ${w.qty(m.grid.from, "frequency")} to ${w.qty(m.grid.to, "frequency")}. ` +
     `${figureSentence(w, m.figure)} ${m.counts.ok} cells have a value` +
     (failed ? `; ${m.counts.unstable} are unstable (a growing mode) and ${m.counts.invalid} were refused by validation, and are drawn without a value.` : ".")
   );
