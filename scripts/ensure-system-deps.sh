@@ -2,8 +2,9 @@
 # Makes sure the Debian packages that the notebook and browser suites drive are installed:
 # the real Jupyter clients (nbconvert/nbclient, nbformat, jupyter-client, ipykernel, the
 # classic notebook server, the kernel conformance tests), Chromium, NumPy for the bench
-# row that compares the engine with the same algebra written in NumPy, and Slurm with munge
-# for the sweep suite, which starts a single-node Slurm of its own (it starts no daemon here).
+# row that compares the engine with the same algebra written in NumPy, Slurm with munge
+# for the sweep suite, which starts a single-node Slurm of its own (it starts no daemon here),
+# and TeX Live with siunitx (texlive-science) and BibTeX to compile the LaTeX methods exports.
 # The suites test against these outside programs on purpose, so they come from the
 # distribution, not npm.
 #
@@ -26,6 +27,9 @@ PACKAGES=(
   python3-numpy
   slurm-wlm
   munge
+  texlive-latex-base
+  texlive-latex-recommended
+  texlive-science
 )
 
 if ! command -v dpkg-query >/dev/null 2>&1; then

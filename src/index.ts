@@ -44,7 +44,7 @@ export { headlineFigures, describeHeadline, type HeadlineFigures } from "./engin
 export { tabulateBudget, tableToCsv, csvField, type BudgetTable } from "./engine/tabulate";
 export * from "./reference/limits";
 export * as constants from "./constants";
-export { parseQuantity, formatQuantity, type QuantityKind } from "./units";
+export { parseQuantity, formatQuantity, quantityParts, siunitxQuantity, unicodeQuantity, type QuantityKind } from "./units";
 export { applyValues } from "./setup/apply-values";
 export { COMPONENT_KINDS } from "./components/registry";
 export type { ComponentKind } from "./components/types";

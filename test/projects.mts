@@ -28,6 +28,7 @@ export const INTEGRATION_FILES: Readonly<Record<string, string>> = {
   "test/notebooks/notebooks.test.ts": "Debian's nbconvert with the tslab kernel",
   "test/sweep/slurm.test.ts": "starts Debian's Slurm and munge daemons (as root) and runs the built CLI in array jobs",
   "test/timedomain/browser-bits.test.ts": "headless Chromium",
+  "test/widgets/methods/latex-compile.test.ts": "Debian's TeX Live (pdflatex, bibtex, siunitx) compiles the LaTeX methods exports",
 };
 
 /** Folders whose test files are unit suites, apart from the integration files above. */

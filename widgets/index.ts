@@ -16,6 +16,7 @@ export type { SummaryLine } from "./core/page/summary-line";
 export * from "./explorer/document";
 export { explorerFigures, type ExplorerFigures } from "./explorer/figures";
 export * from "./explorer/methods/methods";
+export { KIND_METHODS, methodsOfLoaded, widgetMethods, type MethodsDocument, type MethodsOptions } from "./methods";
 export { explorerHtml, standalonePage, type ExplorerHtmlOptions, type StandaloneFigures } from "./explorer/html";
 export { headlineSummary } from "./explorer/summary";
 

@@ -1,9 +1,8 @@
-import { randomBytes } from "node:crypto";
-import { readFileSync, renameSync, rmSync, writeFileSync } from "node:fs";
 import { basename, extname } from "node:path";
 import { describeHeadline } from "../engine/headline";
 import { spectralDensityUnit } from "../engine/tabulate";
 import { QuietframeError } from "../errors";
+import { formatQuantity } from "../units/format";
 import { loadSetup } from "../pipeline";
 import { SLIDER_SCALES, type ControlSpec, type SliderScale } from "../../widgets/core/controls/control-spec";
 import { kindOutput, OUTPUT_FORMATS, type OutputFormat } from "../../widgets/core/render/kind-output";
@@ -12,6 +11,7 @@ import { computeExplorer, createExplorerState } from "../../widgets/explorer/mod
 import { loadWidgetState } from "../../widgets/registry";
 import { checkReproduction } from "../../widgets/core/state/reproduction";
 import { notebookWidgets, pickNotebookWidget } from "./notebook-widgets";
+import { readText, writeAtomically } from "./files";
 import { parseOptions } from "./options";
 import type { CliIo } from "./io";
 
@@ -34,9 +34,10 @@ export const RENDER_USAGE = `  quietframe render <state.json> -o <out.html|out.s
       fingerprint does not cover, with the reason (docs/fingerprint.md).
       A saved notebook (.ipynb) works too: its widget outputs and live charts, in the order the
       notebook shows them (--widget N if several; the error lists them).
-  quietframe report <setup.json> -o <report.html> [--control target[=min:max[:log|linear]]]... [--title T]
+  quietframe report <setup.json> -o <report.html> [--control target[=min:max[:log|linear]][@label]]... [--title T]
       An interactive HTML report of a set-up with sliders for the given parameters, e.g.
-      --control "membrane.temperature=10 mK:300 K"; prints the headline figures.
+      --control "membrane.temperature=10 mK:300 K@bath temperature"; each control is labelled
+      with its unit and has a field for an exact value. Prints the headline figures.
 `;
 
 const RENDER_OPTIONS = {
@@ -106,7 +107,7 @@ export async function reportCommand(args: string[], io: CliIo): Promise<number> 
   const grid = computation.evaluation.budget.frequencies;
   io.out(
     `${setup.name || input}\n` +
-      `${grid.length} frequencies from ${grid[0]} Hz to ${grid[grid.length - 1]} Hz; noise referred to ${computation.evaluation.budget.quantity.name}\n` +
+      `${grid.length} frequencies from ${formatQuantity(grid[0], "frequency", 6)} to ${formatQuantity(grid[grid.length - 1], "frequency", 6)}; noise referred to ${computation.evaluation.budget.quantity.name}\n` +
       describeHeadline(computation.headline, spectralDensityUnit(computation.evaluation.budget.quantity.unit, "power")) +
       `\nwrote ${output} (interactive report, ${bytes.length} bytes; controls: ${state.controls.map((c) => c.target).join(", ") || "none"})\n`,
   );
@@ -125,15 +126,22 @@ function asOptionErrors<T>(fn: () => T): T {
   }
 }
 
-/** "target", "target=min:max" or "target=min:max:log" → a control spec. */
-export function parseControlOption(text: string, index: number): ControlSpec {
+/** "target", "target=min:max" or "target=min:max:log", each optionally followed by "@label" → a control spec. */
+export function parseControlOption(option: string, index: number): ControlSpec {
   const path = `--control[${index}]`;
+  const at = option.indexOf("@");
+  const label = at < 0 ? undefined : option.slice(at + 1).trim();
+  if (label !== undefined && (label === "" || label.length > 80)) {
+    throw new QuietframeError({ path, value: option, problem: "has an empty or over-long label after @", allowed: '1 to 80 characters, e.g. "membrane.temperature=10 mK:300 K@bath temperature"' });
+  }
+  const withLabel = (spec: ControlSpec): ControlSpec => (label === undefined ? spec : { ...spec, label });
+  const text = at < 0 ? option : option.slice(0, at);
   const eq = text.indexOf("=");
   const target = (eq < 0 ? text : text.slice(0, eq)).trim();
   if (!/^[^.\s]+\.[^.\s]+$/.test(target)) {
     throw new QuietframeError({ path, value: text, problem: "does not name a parameter", allowed: '"component.parameter" or "component.parameter=min:max", e.g. "membrane.temperature=10 mK:300 K"' });
   }
-  if (eq < 0) return { target };
+  if (eq < 0) return withLabel({ target });
   const parts = text
     .slice(eq + 1)
     .split(":")
@@ -144,7 +152,7 @@ export function parseControlOption(text: string, index: number): ControlSpec {
     throw new QuietframeError({ path, value: text, problem: "does not give a range", allowed: '"target=min:max" or "target=min:max:log", e.g. "membrane.temperature=10 mK:300 K"' });
   }
   const bound = (s: string): string | number => (/^[-+]?(\d+\.?\d*|\.\d+)(e[-+]?\d+)?$/i.test(s) ? Number(s) : s);
-  return { target, min: bound(parts[0]), max: bound(parts[1]), ...(scale ? { scale } : {}) };
+  return withLabel({ target, min: bound(parts[0]), max: bound(parts[1]), ...(scale ? { scale } : {}) });
 }
 
 function requireOutput(output: string | undefined): string {
@@ -171,24 +179,4 @@ function pngScale(text: string | undefined): number {
   const scale = Number(text);
   if (!(scale >= 0.1 && scale <= 16)) throw new QuietframeError({ path: "--scale", value: text, problem: "is not a usable scale", allowed: "a number from 0.1 to 16" });
   return scale;
-}
-
-function readText(path: string): string {
-  try {
-    return readFileSync(path, "utf8");
-  } catch (e) {
-    throw new QuietframeError({ path, problem: `cannot be read (${(e as NodeJS.ErrnoException).code ?? "error"})`, allowed: "a readable file" });
-  }
-}
-
-/** Writes through a temporary file beside the target, so a failure never leaves a partial output. */
-function writeAtomically(path: string, bytes: Uint8Array): void {
-  const temporary = `${path}.${randomBytes(6).toString("hex")}.tmp`;
-  try {
-    writeFileSync(temporary, bytes);
-    renameSync(temporary, path);
-  } catch (e) {
-    rmSync(temporary, { force: true });
-    throw new QuietframeError({ path, problem: `cannot be written (${(e as NodeJS.ErrnoException).code ?? "error"})`, allowed: "a writable path" });
-  }
 }

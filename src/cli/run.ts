@@ -13,6 +13,7 @@ import { evaluate, FALLBACK_GRID, loadSetup, prepare } from "../pipeline";
 import { parseJsonText } from "../setup/parse-json";
 import { readSpectrumFiles } from "../setup/spectrum-files";
 import { QUIETFRAME_VERSION } from "../version";
+import { formatQuantity } from "../units/format";
 import { gridFromOptions } from "./grid-options";
 import { parseOptions } from "./options";
 import { reachLines } from "./reach-lines";
@@ -25,6 +26,7 @@ import { optimizeCommand } from "./optimize-command";
 import { rankCommand } from "./rank-command";
 import { solveCommand } from "./solve-command";
 import { spreadCommand } from "./spread-command";
+import { METHODS_USAGE, methodsCommand } from "./methods-command";
 import { SWEEP_USAGE, sweepCommand } from "./sweep-command";
 
 export type { CliIo } from "./io";
@@ -44,10 +46,10 @@ usage:
       Validates a set-up and reports its size and stability.
   quietframe types [type]
       Lists component types, or one type's parameters and ports.
-${DESIGN_USAGE}${SWEEP_USAGE}${RENDER_USAGE}${KERNEL_USAGE}${EXTENSION_USAGE}`;
+${DESIGN_USAGE}${SWEEP_USAGE}${RENDER_USAGE}${METHODS_USAGE}${KERNEL_USAGE}${EXTENSION_USAGE}`;
 
 /** Every command word, for "did you mean" on a mistyped one. */
-const COMMANDS = ["eval", "summary", "check", "types", "rank", "solve", "optimize", "spread", "sweep", "render", "report", "kernel", "help"];
+const COMMANDS = ["eval", "summary", "check", "types", "rank", "solve", "optimize", "spread", "sweep", "render", "report", "methods", "kernel", "help"];
 
 /** Commands that render figures (Vega renders asynchronously) or run worker threads and chunks; runCliAsync runs them. */
 const ASYNC_COMMANDS: Readonly<Record<string, (args: string[], io: CliIo) => Promise<number>>> = {
@@ -95,6 +97,8 @@ export function runCli(argv: string[], io: CliIo): number {
         return optimizeCommand(rest, io);
       case "spread":
         return spreadCommand(rest, io);
+      case "methods":
+        return methodsCommand(rest, io);
       case undefined:
         io.err(USAGE);
         return 2;
@@ -191,7 +195,7 @@ function summaryCommand(args: string[], io: CliIo): number {
   const frequencies = result.budget.frequencies;
   io.out(
     `${setup.name || positionals[0]}\n` +
-      `${frequencies.length} frequencies from ${frequencies[0]} Hz to ${frequencies[frequencies.length - 1]} Hz; ${setup.signal.kind} on '${setup.signal.on}' referred to ${q.name}\n` +
+      `${frequencies.length} frequencies from ${formatQuantity(frequencies[0], "frequency", 6)} to ${formatQuantity(frequencies[frequencies.length - 1], "frequency", 6)}; ${setup.signal.kind} on '${setup.signal.on}' referred to ${q.name}\n` +
       describeHeadline(headlineFigures(result.budget), spectralDensityUnit(q.unit, "power")) +
       "\n" +
       reachLines(result.budget, against) +

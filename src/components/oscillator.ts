@@ -1,4 +1,4 @@
-import { addSymmetricBath, addViscousBath, allocateBody, applyForceSignal, forceSignalReference, thermalQuadratureNoise, wireBody } from "../physics/mechanics";
+import { addSymmetricBath, addViscousBath, allocateBody, applyForceSignal, forceSignalReference, THERMAL_TERM_NAME, thermalQuadratureNoise, wireBody } from "../physics/mechanics";
 import { cryogenicCautions } from "../safety/cautions";
 import { num, type ComponentKind, type MechanicalBody } from "./types";
 
@@ -53,11 +53,11 @@ export const oscillator: ComponentKind<OscillatorHandle> = {
     if (c.values.damping === "symmetric") {
       body.baths.push({ owner: c.name, kind: "symmetric", gamma, temperature });
       const n = thermalQuadratureNoise(omega, temperature);
-      const bathColumn = builder.addInputs(c.name, ["thermal noise (X)", "thermal noise (P)"], [n, 0, 0, n], "thermal", `${c.name}: thermal noise`, true);
+      const bathColumn = builder.addInputs(c.name, ["thermal noise (X)", "thermal noise (P)"], [n, 0, 0, n], "thermal", `${c.name}: ${THERMAL_TERM_NAME}`, true);
       return { body, bathColumn };
     }
     body.baths.push({ owner: c.name, kind: "viscous", gamma, temperature });
-    const bathColumn = builder.addInputs(c.name, ["thermal force"], [1], "thermal", `${c.name}: thermal force`);
+    const bathColumn = builder.addInputs(c.name, ["thermal force"], [1], "thermal", `${c.name}: thermal force`, false, `${c.name}: ${THERMAL_TERM_NAME}`);
     return { body, bathColumn };
   },
   wire: ({ builder, handle }) => {

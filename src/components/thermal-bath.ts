@@ -1,4 +1,4 @@
-import { addViscousBath } from "../physics/mechanics";
+import { addViscousBath, THERMAL_TERM_NAME } from "../physics/mechanics";
 import { cryogenicCautions } from "../safety/cautions";
 import { num, type ComponentKind, type ThermalBathInfo } from "./types";
 
@@ -22,7 +22,7 @@ export const thermalBath: ComponentKind<BathHandle> = {
   ],
   ports: [{ name: "mechanics", kind: "mechanical-probe", doc: "The body this bath acts on." }],
   allocate: (builder, c) => ({
-    column: builder.addInputs(c.name, ["thermal force"], [1], "thermal", `${c.name}: thermal force`),
+    column: builder.addInputs(c.name, ["thermal force"], [1], "thermal", `${c.name}: thermal force`, false, `${c.name}: ${THERMAL_TERM_NAME}`),
   }),
   wire: ({ builder, component, handle, bodies }) => {
     const body = bodies.mechanics;

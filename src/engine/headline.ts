@@ -1,5 +1,6 @@
 import type { NoiseBudget } from "./budget";
 import { log10 } from "../numeric/portable-math";
+import { formatQuantity } from "../units/format";
 
 /** The figures a reader looks for first, computed from a budget on its grid. */
 export interface HeadlineFigures {
@@ -54,7 +55,8 @@ export function headlineFigures(budget: NoiseBudget): HeadlineFigures {
 
 /** A few lines of plain text for terminals and notebook text/plain output. */
 export function describeHeadline(h: HeadlineFigures, unit: string): string {
-  const hz = (x: number): string => `${x.toPrecision(4)} Hz`;
+  // Frequencies as everywhere else: SI prefixes ("1.467 MHz"), four significant digits.
+  const hz = (x: number): string => formatQuantity(x, "frequency", 4);
   const lines: string[] = [];
   if (Number.isFinite(h.bestMarginDb)) {
     lines.push(

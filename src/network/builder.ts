@@ -13,6 +13,11 @@ interface InputBlock {
   blockLabel: string;
   /** One budget term for the whole block even where its columns are uncorrelated. */
   together: boolean;
+  /**
+   * The name a budget shows for the whole block's term, where it differs from the label that
+   * identifies it (ids stay as they were: fingerprints hash them).
+   */
+  displayLabel?: string;
 }
 
 /**
@@ -55,9 +60,10 @@ export class NetworkBuilder {
 
   /**
    * Claims k white inputs with a k×k one-sided noise matrix (vacuum = identity).
-   * Returns the index of the first input column.
+   * Returns the index of the first input column. `displayLabel` names the whole block's term
+   * in budgets without changing its id.
    */
-  addInputs(owner: string, labels: string[], noise: ArrayLike<number>, category: NoiseCategory, blockLabel?: string, together = false): number {
+  addInputs(owner: string, labels: string[], noise: ArrayLike<number>, category: NoiseCategory, blockLabel?: string, together = false, displayLabel?: string): number {
     this.assertAllocating("addInputs");
     const k = labels.length;
     if (noise.length !== k * k) throw new Error(`noise matrix for ${owner} must be ${k}×${k}`);
@@ -70,6 +76,7 @@ export class NetworkBuilder {
       category,
       blockLabel: blockLabel ?? `${owner}: ${labels.join(" + ")}`,
       together,
+      ...(displayLabel === undefined ? {} : { displayLabel }),
     });
     this.nInputs += k;
     return first;
@@ -283,7 +290,7 @@ function splitIntoCorrelatedGroups(block: InputBlock): NoiseGroup[] {
     groups.push({
       id: label,
       owner: block.owner,
-      label,
+      label: whole && block.displayLabel !== undefined ? block.displayLabel : label,
       category: block.category,
       columns: members.map((a) => block.first + a),
     });

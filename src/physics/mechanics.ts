@@ -15,6 +15,12 @@ import type { NetworkBuilder } from "../network/builder";
 import type { MechanicalBody, ThermalBathInfo } from "./mechanical-body";
 import type { ReferenceCurve, SignalReference } from "./signal-reference";
 
+/**
+ * The one name a body's thermal term has in budgets, whatever the damping model or bath (the
+ * term ids stay as they were, "thermal force" for viscous baths: fingerprints hash them).
+ */
+export const THERMAL_TERM_NAME = "thermal noise";
+
 /** Scale frequency for a free mass; any positive value gives the same spectra. */
 const FREE_MASS_SCALE_OMEGA = 2 * Math.PI;
 

@@ -46,6 +46,28 @@ const PLAIN_ABOVE_MAX = 6;
  * display of a broken computation still renders (they do not parse back).
  */
 export function formatQuantity(si: number, kind: QuantityKind, digits = 4): string {
+  const q = quantityParts(si, kind, digits);
+  if (q.unit === "°") return `${q.sign}${q.number}°`;
+  return q.unit === "" ? `${q.sign}${q.number}` : `${q.sign}${q.number} ${q.unit}`;
+}
+
+/**
+ * The pieces of `formatQuantity`'s text, so that other notations (typeset LaTeX with siunitx,
+ * a methods text's "2 × 10⁷") say exactly the same value in exactly the same unit.
+ */
+export interface QuantityParts {
+  /** "-" for a negative value, "" otherwise. */
+  readonly sign: "" | "-";
+  /** The magnitude as formatQuantity writes it: plain digits ("1.467") or exponent notation ("1.988e+30"), or "NaN"/"Infinity". */
+  readonly number: string;
+  /** The unit as written ("MHz", "kg", "°", "rad", "%", "dB", or "" for a bare number). */
+  readonly unit: string;
+  /** For a prefixed unit: the power of ten of its prefix and the symbol it attaches to ("MHz": 6 and "Hz"). */
+  readonly prefixed?: { readonly pow10: number; readonly base: string };
+}
+
+/** The parts of the text `formatQuantity(si, kind, digits)` returns (same checks, same rounding). */
+export function quantityParts(si: number, kind: QuantityKind, digits = 4): QuantityParts {
   if (!isQuantityKind(kind)) {
     throw new QuietframeError({
       path: "kind",
@@ -58,11 +80,14 @@ export function formatQuantity(si: number, kind: QuantityKind, digits = 4): stri
     throw new QuietframeError({ path: "digits", value: digits, problem: "significant digits must be an integer", allowed: "1 to 17" });
   }
   const siUnit = QUANTITY_KIND_INFO[kind].siUnit;
-  if (!Number.isFinite(si)) return kind === "angle" ? `${si}°` : withUnit(String(si), siUnit);
+  if (!Number.isFinite(si)) {
+    const sign = si < 0 ? "-" : "";
+    return { sign, number: String(Math.abs(si)), unit: kind === "angle" ? "°" : siUnit };
+  }
   if (si === 0) {
-    if (kind === "angle") return "0°";
-    if (kind === "fraction") return "0 %";
-    return withUnit("0", siUnit);
+    if (kind === "angle") return { sign: "", number: "0", unit: "°" };
+    if (kind === "fraction") return { sign: "", number: "0", unit: "%" };
+    return { sign: "", number: "0", unit: siUnit };
   }
 
   const d = toDecimalDigits(si, digits);
@@ -72,31 +97,28 @@ export function formatQuantity(si: number, kind: QuantityKind, digits = 4): stri
     const e = d.exp - style.basePow10; // power of ten of the first digit, in base units
     const p = 3 * Math.floor(e / 3);
     if (p >= style.minPrefix && p <= style.maxPrefix) {
-      return `${sign}${plainText(d.digits, e - p)} ${FORMAT_PREFIX.get(p)}${style.base}`;
+      return { sign, number: plainText(d.digits, e - p), unit: `${FORMAT_PREFIX.get(p)}${style.base}`, prefixed: { pow10: p, base: style.base } };
     }
     if (p > style.maxPrefix && e - style.maxPrefix < PLAIN_ABOVE_MAX) {
-      return `${sign}${plainText(d.digits, e - style.maxPrefix)} ${FORMAT_PREFIX.get(style.maxPrefix)}${style.base}`;
+      const top = style.maxPrefix;
+      return { sign, number: plainText(d.digits, e - top), unit: `${FORMAT_PREFIX.get(top)}${style.base}`, prefixed: { pow10: top, base: style.base } };
     }
-    return `${sign}${scientificText(d.digits, d.exp)} ${siUnit}`;
+    return { sign, number: scientificText(d.digits, d.exp), unit: siUnit };
   }
   switch (kind) {
     case "angle": {
       const degrees = si * (180 / Math.PI);
       // Beyond ~3e306 rad the degree value overflows; radians still say it faithfully.
-      if (!Number.isFinite(degrees)) return `${sign}${scientificText(d.digits, d.exp)} rad`;
+      if (!Number.isFinite(degrees)) return { sign, number: scientificText(d.digits, d.exp), unit: "rad" };
       const deg = toDecimalDigits(degrees, digits);
-      return `${sign}${compactText(deg.digits, deg.exp)}°`;
+      return { sign, number: compactText(deg.digits, deg.exp), unit: "°" };
     }
     case "fraction":
       // Shifting the decimal exponent (not multiplying by 100) keeps the round trip exact.
-      return `${sign}${compactText(d.digits, d.exp + 2)} %`;
+      return { sign, number: compactText(d.digits, d.exp + 2), unit: "%" };
     case "decibel":
-      return `${sign}${compactText(d.digits, d.exp)} dB`;
+      return { sign, number: compactText(d.digits, d.exp), unit: "dB" };
     default:
-      return `${sign}${compactText(d.digits, d.exp)}`;
+      return { sign, number: compactText(d.digits, d.exp), unit: "" };
   }
-}
-
-function withUnit(num: string, unit: string): string {
-  return unit === "" ? num : `${num} ${unit}`;
 }

@@ -2,5 +2,6 @@
 export { QUANTITY_KINDS, QUANTITY_KIND_INFO, isQuantityKind } from "./kinds";
 export type { QuantityKind, QuantityKindInfo } from "./kinds";
 export { parseQuantity } from "./parse";
-export { formatQuantity } from "./format";
+export { formatQuantity, quantityParts, type QuantityParts } from "./format";
+export { siunitxQuantity, unicodeParts, unicodeQuantity } from "./typeset";
 export { SI_PREFIXES } from "./units";

@@ -11,7 +11,9 @@ import { curveRows, type CurveRow } from "../../widgets/explorer/budget-spec";
 import { frequencyAxis } from "../../widgets/core/look/layout";
 import { computeExplorer, createExplorerState, type ExplorerComputation } from "../../widgets/explorer/model";
 import { FINGERPRINT_ATTRIBUTE, STATUS_ATTRIBUTE } from "../../widgets/core/page/names";
-import { escapeLatex, escapeMarkdown } from "../../widgets/explorer/methods/methods";
+import { componentKind } from "../../src/components/registry";
+import { parseQuantity, siunitxQuantity, unicodeQuantity, type QuantityKind } from "../../src/units";
+import { escapeMarkdown } from "../../widgets/explorer/methods/methods";
 import { parseExplorerState, stateDocumentText } from "../../widgets/explorer/document";
 import type { ExplorerState } from "../../widgets/explorer/format";
 import { REPO_ROOT } from "../jupyter/env";
@@ -287,30 +289,35 @@ describe("widget buttons on a standalone page", { timeout: 120_000 }, () => {
   });
 
   it.each([
-    ["Methods (Markdown)", "md", escapeMarkdown, (s: string) => `\`${s}\``],
-    ["Methods (LaTeX)", "tex", escapeLatex, (s: string) => `\\texttt{${s}}`],
-  ] as const)("%s: a paragraph naming every parameter value and the fingerprint", async (label, extension, escape, code) => {
+    ["Methods (Markdown)", "md", (c: string) => `\`${c}\``, (si: number, kind: QuantityKind) => `= ${escapeMarkdown(unicodeQuantity(si, kind))}`],
+    ["Methods (LaTeX)", "tex", (c: string) => `\\texttt{${c}}`, (si: number, kind: QuantityKind) => `= ${siunitxQuantity(si, kind)}`],
+  ] as const)("%s: the methods text naming every parameter value and the fingerprint", async (label, extension, code, shown) => {
     await moveControls();
     const file: DownloadedFile = await downloadFrom(page, actionButton(page, 0, label), downloads);
     expect(file.suggestedFilename).toBe(`${STEM}-methods.${extension}`);
     const text = file.text;
     expect(text).toContain(code(expected.fingerprint));
-    // The controls' current values, each beside its parameter's name.
-    for (const [target, value] of Object.entries(moved)) {
-      const param = target.slice(target.indexOf(".") + 1);
-      expect(text, target).toContain(`${escape(param)} = ${escape(String(value))}`);
-    }
-    // And every other parameter the set-up writes, as written.
-    for (const c of initial.setup.components) {
-      for (const [param, value] of Object.entries(c.params ?? {})) {
-        const current = moved[`${c.name}.${param}`] ?? value;
-        expect(text, `${c.name}.${param}`).toContain(`${escape(param)} = ${escape(String(current))}`);
+    // Every parameter the model used, at the values on screen, in quietframe's units.
+    for (const c of expected.setup.components) {
+      for (const p of componentKind(c.type)!.params) {
+        const value = c.values[p.name];
+        if (typeof value === "number" && p.kind !== "choice") expect(text, `${c.name}.${p.name}`).toContain(shown(value, p.kind));
       }
     }
     // Not the values the page was created with.
-    expect(text).not.toContain(`power = ${escape(String(initial.values[POWER]))}`);
-    expect(text).toContain(`${initial.settings.grid.points} log-spaced frequencies`);
+    const initialPower = parseQuantity(initial.values[POWER], "power", POWER);
+    expect(text).not.toContain(shown(initialPower, "power"));
+    expect(text).toContain(`${initial.settings.grid.points} logarithmically spaced frequencies`);
+    if (extension === "tex") expect(text).toContain(`\\bibliography{${STEM}-methods}`);
     expect(await visibleAlert(page, 0)).toBeNull();
+  });
+
+  it("Methods (BibTeX): the entries the LaTeX cites, with DOIs", async () => {
+    await moveControls();
+    const file: DownloadedFile = await downloadFrom(page, actionButton(page, 0, "Methods (BibTeX)"), downloads);
+    expect(file.suggestedFilename).toBe(`${STEM}-methods.bib`);
+    expect(file.text).toContain("@article{clerk2010,");
+    expect(file.text).toContain("doi = {10.1103/RevModPhys.82.1155}");
   });
 
   it("Copy state: the clipboard (or the fallback text box) holds the same document", async () => {

@@ -15,7 +15,7 @@ type Layer = (typeof LAYERS)[number];
 /** Folders under widgets/ that are widget kinds: those with a kind.ts (core/kind.ts is the interface itself). */
 const KIND_FOLDERS = readdirSync(join(ROOT, "widgets")).filter((name) => name !== "core" && existsSync(join(ROOT, "widgets", name, "kind.ts")));
 /** Files and folders of the application layer (the top). */
-const APPLICATION = ["src/cli/", "widgets/notebook/", "widgets/kernel/", "widgets/runtime/", "widgets/index.ts", "widgets/registry.ts"];
+const APPLICATION = ["src/cli/", "widgets/notebook/", "widgets/kernel/", "widgets/runtime/", "widgets/index.ts", "widgets/registry.ts", "widgets/methods.ts"];
 /** Folders of code that runs in a page (the runtime bundle and the front-end module); `*` is one folder name. */
 const BROWSER_CODE = ["widgets/runtime/", "widgets/core/browser/", "widgets/*/browser/", "widgets/explorer/frontend/"];
 /** The engine's public entries: the only engine files widgets may import. */

@@ -1,10 +1,18 @@
 /** The methods paragraph of a design widget: method, seed, samples, bounds and tolerances, for a paper's methods section. */
-import { QUIETFRAME_VERSION } from "../../src/index";
+import { QUIETFRAME_VERSION, unicodeQuantity } from "../../src/index";
+import { parameterKind } from "../core/methods/parameter-names";
 import type { DesignState } from "./format";
 import { designTitle } from "./summary";
 
 /** Defaults of the engine's design searches (src/design), written out so the paragraph states what was used. */
 const DEFAULTS = { scanPoints: 25, relativeStep: 0.02, starts: 4, seed: 1, tolerance: 1e-10, samples: 1000 };
+
+/** "target from a to b" with both ends in quietframe's units ("arm.power from 1 mW to 1 W"). */
+function rangeText(state: DesignState, target: string, range: readonly [number, number] | readonly number[]): string {
+  const kind = parameterKind(state.setup, target);
+  const shown = (x: number): string => (kind ? unicodeQuantity(x, kind, 6) : String(x));
+  return `${target} from ${shown(range[0])} to ${shown(range[1])}`;
+}
 
 /** A paragraph of plain text; every number the reader needs to repeat the computation is in it. */
 export function designMethods(state: DesignState): string {
@@ -16,7 +24,7 @@ export function designMethods(state: DesignState): string {
   switch (q.kind) {
     case "ranking": {
       if (a.kind !== "ranking") break;
-      const ranges = a.rows.filter((r) => r.best).map((r) => `${r.target} from ${r.best!.range[0]} to ${r.best!.range[1]} (SI units)`);
+      const ranges = a.rows.filter((r) => r.best).map((r) => rangeText(state, r.target, r.best!.range));
       return [
         head,
         `Method: sensitivities of the figure's level in dB by Ridders-extrapolated central differences (first relative step ${q.relativeStep ?? DEFAULTS.relativeStep} of each value, reduced by a factor 1.4 per extrapolation row, with the extrapolation's error estimate), reported as the gain for a 1 % change; the best value of each parameter alone from a scan of ${q.scanPoints ?? DEFAULTS.scanPoints} points refined by Brent's method within its search range.`,
@@ -27,7 +35,7 @@ export function designMethods(state: DesignState): string {
     case "optimum": {
       if (a.kind !== "optimum") break;
       const bounds = a.optimum
-        ? a.optimum.values.map((v) => `${v.target} from ${v.range[0]} to ${v.range[1]} (SI units)`)
+        ? a.optimum.values.map((v) => rangeText(state, v.target, v.range))
         : q.parameters.map((p) => (p.min === undefined ? `${p.target} over its own range` : `${p.target} from ${p.min} to ${p.max}`));
       return [
         head,

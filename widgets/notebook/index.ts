@@ -14,6 +14,8 @@ import { loadSetupFile as readSetupFile } from "../../src/node";
 export { displayBundle, displayMarkdown, encodeBundle, kernelDisplayWriter, type DisplayOptions, type DisplayResult, type MimeBundle } from "../core/notebook/display";
 export { resetDisplaySession } from "../core/notebook/session";
 export { loadWidgetState } from "../registry";
+export { methods, saveMethods, type MethodsSource } from "./methods";
+export type { MethodsDocument, MethodsOptions } from "../methods";
 export type { ControlSpec } from "../core/controls/control-spec";
 export type { SetupDescription } from "../../src/index";
 

@@ -197,11 +197,11 @@ describe("design widget state", () => {
     expect(spread.methods).toContain("detector.efficiency 95 % ± 2 %");
     expect(optimum.methods).toMatch(/Nelder–Mead/);
     expect(optimum.methods).toContain("seed 3");
-    expect(optimum.methods).toContain("arm.power from 0.001 to 1 (SI units)");
+    expect(optimum.methods).toContain("arm.power from 1 mW to 1 W");
     expect(optimum.methods).toMatch(/smaller than 1e-10/);
     expect(ranking.methods).toMatch(/Ridders/);
     expect(ranking.methods).toMatch(/first relative step 0\.02/);
-    expect(ranking.methods).toMatch(/Bounds: .*arm\.power from 0\.00001 to 10 \(SI units\)/);
+    expect(ranking.methods).toMatch(/Bounds: .*arm\.power from 10 µW to 10 W/);
     expect(designMethods(ranking.state)).toBe(ranking.methods);
   });
 });

@@ -1,109 +1,164 @@
 import { describe, expect, test } from "vitest";
 import { componentKind } from "../../../src/components/registry";
 import { QuietframeError } from "../../../src/errors";
+import { siunitxQuantity, unicodeQuantity } from "../../../src/units";
 import { QUIETFRAME_VERSION } from "../../../src/version";
-import { applyValues, computeExplorer, createExplorerState } from "../../../widgets/explorer/model";
-import { escapeLatex, escapeMarkdown, methodsText } from "../../../widgets/explorer/methods/methods";
+import { LATEX_BEGIN_MARK, LATEX_END_MARK } from "../../../widgets/core/methods/document";
+import { parameterWords } from "../../../widgets/core/methods/parameter-names";
+import { computeExplorer, createExplorerState } from "../../../widgets/explorer/model";
+import { escapeLatex, escapeMarkdown, explorerMethods, methodsText } from "../../../widgets/explorer/methods/methods";
 import type { ExplorerState } from "../../../widgets/explorer/format";
 import { exampleFiles, exampleSetup, exampleState } from "./examples";
 
 const both = (state: ExplorerState) => {
   const computation = computeExplorer(state);
-  return { computation, markdown: methodsText(state, computation, "markdown"), latex: methodsText(state, computation, "latex") };
+  const doc = explorerMethods(state, computation);
+  return { computation, markdown: doc.markdown, latex: doc.latex, bibtex: doc.bibtex };
 };
 
-// The references as the brief for this text lists them: journal, volume, first page, year.
+/** The part of the LaTeX a paper pastes: between the two marker comments. */
+const latexBody = (latex: string): string => latex.slice(latex.indexOf(LATEX_BEGIN_MARK) + LATEX_BEGIN_MARK.length, latex.indexOf(LATEX_END_MARK));
+
+// The references as published: journal, volume, first page, year (and the DOI the export prints).
 const REFERENCES = {
-  braginsky: ["Braginsky", "Khalili", "Quantum Measurement", "1992"],
-  clerk: ["Clerk", "82", "1155", "2010"],
-  gardiner: ["Gardiner", "Collett", "31", "3761", "1985"],
-  aspelmeyer: ["Aspelmeyer", "Kippenberg", "Marquardt", "86", "1391", "2014"],
-  caves: ["Caves", "23", "1693", "1981"],
-  kimble: ["Kimble", "65", "022002", "2001"],
-  callen: ["Callen", "Welton", "83", "34", "1951"],
+  braginsky: ["Braginsky", "Khalili", "Quantum Measurement", "1992", "10.1017/CBO9780511622748"],
+  clerk: ["Clerk", "82", "1155", "2010", "10.1103/RevModPhys.82.1155"],
+  gardiner: ["Gardiner", "Collett", "31", "3761", "1985", "10.1103/PhysRevA.31.3761"],
+  aspelmeyer: ["Aspelmeyer", "Kippenberg", "Marquardt", "86", "1391", "2014", "10.1103/RevModPhys.86.1391"],
+  caves: ["Caves", "23", "1693", "1981", "10.1103/PhysRevD.23.1693"],
+  kimble: ["Kimble", "65", "022002", "2001", "10.1103/PhysRevD.65.022002"],
+  callen: ["Callen", "Welton", "83", "34", "1951", "10.1103/PhysRev.83.34"],
 };
 type Reference = keyof typeof REFERENCES;
+const BIB_KEYS: Record<Reference, string> = {
+  braginsky: "braginsky1992",
+  clerk: "clerk2010",
+  gardiner: "gardiner1985",
+  aspelmeyer: "aspelmeyer2014",
+  caves: "caves1981",
+  kimble: "kimble2001",
+  callen: "callen1951",
+};
 
-/** The numbered reference line that starts with the first author. */
+/** The numbered reference line (Markdown) that starts with the first author. */
 function referenceLine(text: string, author: string): string | undefined {
-  return text.split("\n").find((l) => /^(\d+\.|\s*\\item) /.test(l.trimStart()) && l.includes(author));
+  return text.split("\n").find((l) => /^\d+\. /.test(l) && l.includes(author));
 }
 
-function expectReferences(text: string, present: Reference[], absent: Reference[]): void {
+function expectReferences(doc: { markdown: string; latex: string; bibtex: string }, present: Reference[], absent: Reference[]): void {
   for (const r of present) {
-    const line = referenceLine(text, REFERENCES[r][0]);
+    const line = referenceLine(doc.markdown, REFERENCES[r][0]);
     expect(line, `reference ${r}`).toBeDefined();
     for (const part of REFERENCES[r]) expect(line, `${r}: ${part}`).toContain(part);
+    // LaTeX cites the BibTeX key; the .bib holds the entry with its DOI.
+    expect(doc.latex).toMatch(new RegExp(`\\\\cite\\{[^}]*\\b${BIB_KEYS[r]}\\b`));
+    expect(doc.bibtex).toContain(`{${BIB_KEYS[r]},`);
+    expect(doc.bibtex).toContain(`doi = {${REFERENCES[r][REFERENCES[r].length - 1]}}`);
   }
-  for (const r of absent) expect(text, `no ${r}`).not.toContain(REFERENCES[r][0]);
+  for (const r of absent) {
+    expect(doc.markdown, `no ${r}`).not.toContain(REFERENCES[r][0]);
+    expect(doc.latex, `no ${r}`).not.toContain(BIB_KEYS[r]);
+    expect(doc.bibtex, `no ${r}`).not.toContain(BIB_KEYS[r]);
+  }
 }
 
-describe("methodsText on the shipped examples", () => {
-  test.each(exampleFiles())("%s: every parameter with its value as written, in both formats", (file) => {
-    const state = exampleState(file);
-    const { markdown, latex } = both(state);
-    for (const c of applyValues(state.setup, state.values).components) {
-      expect(markdown).toContain(`\`${c.name}\` (${c.type})`);
-      expect(latex).toContain(`\\texttt{${c.name}} (${c.type})`);
-      for (const [name, value] of Object.entries(c.params ?? {})) {
-        const written = String(value);
-        expect(markdown, `${c.name}.${name}`).toContain(`${name} = ${written}`);
-        // Hand-escaped for LaTeX: only "%" occurs in the examples' values.
-        expect(latex, `${c.name}.${name}`).toContain(`${name} = ${written.replace("%", "\\%")}`);
-      }
-      // Defaults are listed too, marked as such.
-      for (const p of componentKind(c.type)!.params) {
-        if (p.default !== undefined && !(p.name in (c.params ?? {}))) expect(markdown).toContain(`${p.name} = ${p.default} (default)`);
-      }
-    }
-  });
-
-  test.each(exampleFiles())("%s: version, grid, fingerprint and conventions", (file) => {
+describe("explorer methods on the shipped examples", () => {
+  test.each(exampleFiles())("%s: every parameter the model used, in words, with its value in quietframe's units", (file) => {
     const state = exampleState(file);
     const { computation, markdown, latex } = both(state);
+    for (const c of computation.setup.components) {
+      expect(markdown).toContain(`\`${c.name}\` (${c.type.replace(/-/g, " ")})`);
+      expect(latex).toContain(`\\texttt{${c.name}} (${c.type.replace(/-/g, " ")})`);
+      for (const p of componentKind(c.type)!.params) {
+        const value = c.values[p.name];
+        if (value === undefined) continue;
+        const words = parameterWords(c.type, p.name).words;
+        if (typeof value === "string" || p.kind === "choice") {
+          expect(markdown, `${c.name}.${p.name}`).toContain(`= ${String(value).replace(/-/g, " ")}`);
+          continue;
+        }
+        // Same value, same unit, in both: Unicode with a true minus, and siunitx.
+        expect(markdown, `${c.name}.${p.name}`).toContain(`${escapeMarkdown(words)}`);
+        expect(markdown, `${c.name}.${p.name}`).toContain(`= ${escapeMarkdown(unicodeQuantity(value, p.kind))}`);
+        expect(latex, `${c.name}.${p.name}`).toContain(`= ${siunitxQuantity(value, p.kind)}`);
+      }
+    }
+    // No internal names: no camelCase identifiers ("measurementRate"; unit symbols such as kHz or dB are not camelCase), no "(default)" marks, no hyphen used as a minus sign.
+    for (const text of [markdown, latexBody(latex)]) {
+      expect(text).not.toContain("(default)");
+      expect(text.replace(/`[^`]*`|\\texttt\{[^}]*\}|sha256:[0-9a-f]+/g, "")).not.toMatch(/\b[a-z]{2,}[A-Z][a-z]+\w*\b/);
+    }
+    expect(markdown).not.toMatch(/(^|[\s(=])-\d/m);
+    // In LaTeX, "-" is a minus sign only in math mode and inside siunitx's macros.
+    expect(latexBody(latex).replace(/\$[^$]*\$/g, "")).not.toMatch(/(^|[\s(=])-\d/m);
+  });
+
+  test("hand-written values of the squeezed membrane: SI prefixes, one angle unit, scientific notation, dB sign and r", () => {
+    const { markdown, latex } = both(exampleState("cryogenic-membrane-squeezed.json"));
+    // Written by hand from the set-up file (siunitx 3 manual: \\qty, \\num, \\ang, \\decibel).
+    expect(markdown).toContain("effective mass m = 5 ng");
+    expect(latex).toContain("effective mass $m$ = \\qty{5}{\\nano\\gram}");
+    expect(markdown).toContain("quality factor Q = 10⁸");
+    expect(latex).toContain("quality factor $Q$ = \\num{1e8}");
+    expect(latex).toContain("= \\ang{60}");
+    expect(markdown).toContain("= 60°");
+    expect(latex).toContain("= \\qty{-10}{\\decibel}");
+    expect(markdown).toContain("= −10 dB");
+    expect(latex).toContain("\\qty{1.2}{\\mega\\hertz}");
+    // r = 10 ln 10 / 20 = 1.1513 (−10 dB of power is a factor 10: e^{−2r} = 0.1).
+    expect(markdown).toContain("−10 dB means r = 1.151");
+    expect(markdown).toContain("negative for noise below vacuum");
+  });
+
+  test.each(exampleFiles())("%s: version, grid, fingerprint, reproducing command and conventions", (file) => {
+    const state = exampleState(file);
+    const { computation, markdown, latex } = both(state);
+    const f = computation.evaluation.budget.frequencies;
     for (const text of [markdown, latex]) {
       expect(text).toContain(computation.fingerprint);
       expect(text).toContain(`quietframe ${QUIETFRAME_VERSION}`);
-      expect(text).toContain(`${state.settings.grid.points} log-spaced frequencies from ${state.settings.grid.from} to ${state.settings.grid.to}`);
+      expect(text).toContain("quietframe render state.json -o state.svg --strict");
       expect(text).toContain("one-sided and symmetrized");
       expect(text).toContain("vacuum noise is 1");
+      expect(text).toContain("little-endian");
       // Only a force signal referred to displacement says so; a strain stays a strain.
-      expect(text.includes("expressed as displacement")).toBe(computation.evaluation.budget.quantity.name === "displacement" && computation.setup.signal.kind === "force");
+      expect(text.includes("expressed as displacement through")).toBe(computation.evaluation.budget.quantity.name === "displacement" && computation.setup.signal.kind === "force");
     }
+    expect(markdown).toContain(`${state.settings.grid.points} logarithmically spaced frequencies from ${unicodeQuantity(f[0], "frequency")} to ${unicodeQuantity(f[f.length - 1], "frequency")}`);
+    expect(latex).toContain(`${state.settings.grid.points} logarithmically spaced frequencies from ${siunitxQuantity(f[0], "frequency")} to ${siunitxQuantity(f[f.length - 1], "frequency")}`);
     expect(markdown).toContain("z(t) = ∫ z(Ω) e^{−iΩt} dΩ/2π");
-    expect(latex).toContain("$z(t) = \\int z(\\Omega)\\, e^{-i\\Omega t}\\, d\\Omega/2\\pi$");
+    expect(latex).toContain("$z(t) = \\int z(\\Omega)\\, e^{-i\\Omega t}\\, \\mathrm{d}\\Omega/2\\pi$");
     expect(markdown).toContain(computation.table.unit);
-    expect(latex).toContain(computation.table.unit.replace("√", "\\ensuremath{\\surd}"));
   });
 
   test("squeezed membrane: squeezing, cavity, thermal and SQL references, the oscillator's SQL", () => {
-    const { markdown, latex } = both(exampleState("cryogenic-membrane-squeezed.json"));
-    for (const text of [markdown, latex]) expectReferences(text, ["braginsky", "clerk", "gardiner", "aspelmeyer", "caves", "kimble", "callen"], []);
-    expect(markdown).toContain("S\\_x^SQL = 2ħ\\|χ(Ω)\\|");
-    expect(latex).toContain("$S_x^{\\mathrm{SQL}} = 2\\hbar|\\chi(\\Omega)|$");
+    const doc = both(exampleState("cryogenic-membrane-squeezed.json"));
+    expectReferences(doc, ["braginsky", "clerk", "gardiner", "aspelmeyer", "caves", "kimble", "callen"], []);
+    expect(doc.markdown).toContain("S\\_x^SQL = 2ħ\\|χ(Ω)\\|");
+    expect(doc.latex).toContain("$S_x^{\\mathrm{SQL}} = 2\\hbar|\\chi(\\Omega)|$");
   });
 
   test("free test mass: no squeezing or thermal references, the free-mass SQL", () => {
-    const { markdown, latex } = both(exampleState("free-test-mass.json"));
-    for (const text of [markdown, latex]) expectReferences(text, ["braginsky", "clerk", "gardiner", "aspelmeyer"], ["caves", "kimble", "callen"]);
-    expect(markdown).toContain("S\\_x^SQL = 2ħ/(mΩ²)");
-    expect(latex).toContain("$S_x^{\\mathrm{SQL}} = 2\\hbar/(m\\Omega^2)$");
-    expect(markdown).not.toContain("Ω\\_m");
+    const doc = both(exampleState("free-test-mass.json"));
+    expectReferences(doc, ["braginsky", "clerk", "gardiner", "aspelmeyer"], ["caves", "kimble", "callen"]);
+    expect(doc.markdown).toContain("S\\_x^SQL = 2ħ/(mΩ²)");
+    expect(doc.latex).toContain("$S_x^{\\mathrm{SQL}} = 2\\hbar/(m\\Omega^2)$");
+    expect(doc.markdown).not.toContain("Ω\\_m");
   });
 
   test("coherent-light membrane: thermal but no squeezing references", () => {
-    const { markdown } = both(exampleState("cryogenic-membrane.json"));
-    expectReferences(markdown, ["braginsky", "clerk", "gardiner", "aspelmeyer", "callen"], ["caves", "kimble"]);
+    expectReferences(both(exampleState("cryogenic-membrane.json")), ["braginsky", "clerk", "gardiner", "aspelmeyer", "callen"], ["caves", "kimble"]);
   });
 
   test("the controls' current values are the ones described", () => {
     const state = exampleState("cryogenic-membrane.json");
     const moved = { ...state, values: { ...state.values, "membrane.temperature": "20 mK", "cavity.photons": 5e7 } };
     const { markdown, latex } = both(moved);
-    expect(markdown).toContain("temperature = 20 mK");
-    expect(markdown).not.toContain("temperature = 6 K");
-    expect(markdown).toContain("photons = 50000000");
-    expect(latex).toContain("temperature = 20 mK");
+    expect(markdown).toContain("bath temperature T = 20 mK");
+    expect(markdown).not.toContain("bath temperature T = 6 K");
+    expect(markdown).toContain("mean intracavity photon number n\\_c = 5 × 10⁷");
+    expect(latex).toContain("bath temperature $T$ = \\qty{20}{\\milli\\kelvin}");
+    expect(latex).toContain("\\num{5e7}");
   });
 
   test("a force-referred budget states the force SQL", () => {
@@ -144,7 +199,11 @@ describe("user text cannot change the markup", () => {
 
   test("a hostile set-up name in LaTeX: escaped, braces balanced, no command from the user", () => {
     const setup = { ...exampleSetup("free-test-mass.json"), name: `${hostile}\n\\end{document}` };
-    const { latex } = both(createExplorerState(setup));
+    const { latex: document } = both(createExplorerState(setup));
+    // The document ends once, where quietframe ends it; the user's text is inside the pasted part.
+    expect(document.match(/\\end\{document\}/g)).toHaveLength(1);
+    expect(document.trimEnd().endsWith("\\end{document}")).toBe(true);
+    const latex = latexBody(document);
     expect(latex).toContain("a \\# \\$ \\% \\& \\_ \\{ \\} \\textasciitilde{} \\textasciicircum{} \\textbackslash{} b \\textless{}script\\textgreater{}alert(1)\\textless{}/script\\textgreater{}");
     expect(latex).not.toContain("\\end{document}");
     const unescaped = (ch: string): number => [...latex.matchAll(new RegExp(`(?<!\\\\)\\${ch}`, "g"))].length;
@@ -159,6 +218,8 @@ describe("user text cannot change the markup", () => {
     // Every "<" is backslash-escaped, so no HTML tag can open.
     expect(markdown).not.toMatch(/(?<!\\)</);
     expect(markdown).toContain("\\<script\\>alert(1)\\</script\\> \\*x\\* \\[l\\](u) \\|t\\| \\`c\\`");
-    expect(markdown.split("\n").some((l) => l.startsWith("#"))).toBe(false);
+    // One heading: quietframe's own first line, with the user's text escaped inside it.
+    expect(markdown.split("\n").filter((l) => l.startsWith("#"))).toEqual([markdown.split("\n")[0]]);
+    expect(markdown.split("\n")[0]).toMatch(/^## Methods: a \\# /);
   });
 });

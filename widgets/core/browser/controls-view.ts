@@ -2,8 +2,8 @@
  * The controls (sliders, number fields, dropdowns) of a widget state in the page, as explorers
  * and trajectory widgets show them.
  */
-import { parseQuantity, type QuantityKind } from "../../../src/index";
-import { sliderPosition, sliderValue, writeValue, type ResolvedControl } from "../controls/setup-controls";
+import { parseQuantity, QuietframeError, type QuantityKind } from "../../../src/index";
+import { exactValue, labelWithUnit, sliderPosition, sliderValue, typedValue, writeValue, type ResolvedControl } from "../controls/setup-controls";
 import { el } from "./dom";
 
 export type ValueListener = (target: string, value: string | number) => void;
@@ -11,7 +11,8 @@ export type ValueListener = (target: string, value: string | number) => void;
 interface ControlRow {
   readonly control: ResolvedControl;
   readonly input: HTMLInputElement | HTMLSelectElement;
-  readonly shown?: HTMLOutputElement;
+  /** What follows the input: the value shown, an exact-value field and its message. */
+  readonly after: readonly HTMLElement[];
   show(value: string | number): void;
 }
 
@@ -31,7 +32,7 @@ export class ControlsView {
       const row = buildRow(c, id, onValue);
       row.show(values[c.target]);
       this.rows.set(c.target, row);
-      this.element.append(el("label", { for: id, title: c.target }, [c.label]), row.input, row.shown ?? el("span", { class: "qf-unit" }, [c.control === "number" ? c.unit : ""]));
+      this.element.append(el("label", { for: id, title: c.target }, [labelWithUnit(c)]), row.input, el("span", { class: "qf-control-value" }, [...row.after]));
     });
   }
 
@@ -66,15 +67,39 @@ function sliderRow(c: ResolvedControl, id: string, onValue: ValueListener): Cont
     shown.textContent = text;
     input.setAttribute("aria-valuetext", text);
   };
+  // A field for an exact value: checked here like any value of the control, so a refused
+  // value says why (value, unit, range) and changes nothing.
+  const exact = el("input", { type: "text", class: "qf-exact", inputmode: "decimal", spellcheck: "false", autocomplete: "off", "aria-label": `exact value of ${c.label}`, placeholder: "exact value" });
+  const message = el("span", { class: "qf-exact-error", role: "alert" });
+  const refuse = (text: string): void => {
+    message.textContent = text;
+    if (text) exact.setAttribute("aria-invalid", "true");
+    else exact.removeAttribute("aria-invalid");
+  };
   input.addEventListener("input", () => {
     const written = writeValue(c, sliderValue(c, Number(input.value)));
     display(written);
+    refuse("");
     onValue(c.target, written);
+  });
+  exact.addEventListener("change", () => {
+    if (exact.value.trim() === "") return refuse("");
+    let checked: { written: string; si: number };
+    try {
+      checked = exactValue(c, exact.value);
+    } catch (e) {
+      if (e instanceof QuietframeError) return refuse(e.message);
+      throw e;
+    }
+    refuse("");
+    input.value = String(sliderPosition(c, checked.si));
+    display(checked.written);
+    onValue(c.target, checked.written);
   });
   return {
     control: c,
     input,
-    shown,
+    after: [shown, exact, message],
     show(value) {
       // A value between slider positions is shown as written and kept until the slider moves.
       const si = safeParse(value, c.kind as QuantityKind);
@@ -87,14 +112,12 @@ function sliderRow(c: ResolvedControl, id: string, onValue: ValueListener): Cont
 function numberRow(c: ResolvedControl, id: string, onValue: ValueListener): ControlRow {
   const input = el("input", { id, type: "text", inputmode: "decimal", spellcheck: "false", autocomplete: "off", "data-target": c.target });
   // On change (Enter or leaving the field), not on every key: half-typed numbers are not values.
-  input.addEventListener("change", () => {
-    const text = input.value.trim();
-    // A bare number is taken in the unit shown beside the field.
-    onValue(c.target, c.unit && /^[-+]?(\d+\.?\d*|\.\d+)(e[-+]?\d+)?$/i.test(text) ? `${text} ${c.unit}` : text);
-  });
+  // A bare number is taken in the unit shown beside the field.
+  input.addEventListener("change", () => onValue(c.target, typedValue(c, input.value)));
   return {
     control: c,
     input,
+    after: [el("span", { class: "qf-unit" }, [c.unit])],
     show(value) {
       input.value = String(value);
     },
@@ -112,6 +135,7 @@ function dropdownRow(c: ResolvedControl, id: string, onValue: ValueListener): Co
   return {
     control: c,
     input,
+    after: [el("span", { class: "qf-unit" }, [""])],
     show(value) {
       const k = choices.findIndex((choice) => sameChoice(c, choice, value));
       input.value = String(Math.max(0, k));

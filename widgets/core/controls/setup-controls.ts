@@ -146,6 +146,33 @@ export function checkValue(c: ResolvedControl, value: unknown, path: string): nu
   return v;
 }
 
+/** The label a page shows beside a control: its label with the unit its values are written in ("bath temperature [K]"). */
+export function labelWithUnit(c: ResolvedControl): string {
+  return c.unit ? `${c.label} [${c.unit}]` : c.label;
+}
+
+/** A number without a unit, as typed into a control ("6.5", "1e-3"). */
+export const BARE_NUMBER = /^[-+]?(\d+\.?\d*|\.\d+)(e[-+]?\d+)?$/i;
+
+/**
+ * What a user typed into a control's exact-value field, checked like any value of the control:
+ * a bare number is taken in the unit shown beside the control ("6.5" next to [K] is "6.5 K").
+ * Returns the value as a set-up writes it and in SI; throws a QuietframeError naming the
+ * control, the value, its unit and the range allowed.
+ */
+export function exactValue(c: ResolvedControl, typed: string): { written: string; si: number } {
+  if (c.kind === "choice") throw new Error("internal: a choice control has no exact-value field");
+  const written = typedValue(c, typed);
+  const si = checkValue(c, written, c.label === c.target ? c.target : `${c.label} (${c.target})`);
+  return { written, si: si as number };
+}
+
+/** Typed text as a value: trimmed, and a bare number gets the unit shown beside the control. */
+export function typedValue(c: ResolvedControl, typed: string): string {
+  const text = typed.trim();
+  return c.unit && BARE_NUMBER.test(text) ? `${text} ${c.unit}` : text;
+}
+
 /** Resolves a state's controls and checks its values: exactly one allowed value per control. */
 export function resolveStateControls(setup: SetupDescription, specs: readonly ControlSpec[], values: Readonly<Record<string, unknown>>): ResolvedControl[] {
   const controls = resolveControls(setup, specs);

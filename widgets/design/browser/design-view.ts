@@ -1,6 +1,8 @@
 /** The design widget in the page: the charts of the answer it carries, its summary, methods and downloads. */
 import type { View } from "vega";
 import { actionButton, downloadText, downloadUrl, fileStem } from "../../core/browser/actions";
+import { methodsButtons } from "../../core/browser/methods-buttons";
+import { designMethodsDocument } from "../methods/document";
 import { messageOf } from "../../core/browser/boot";
 import { replaceCanvasCharts } from "../../core/browser/canvas-charts";
 import { el, injectStyleOnce } from "../../core/browser/dom";
@@ -140,7 +142,11 @@ export class DesignWidgetView {
         each("png", async (view, name) => downloadUrl(await view.toImageURL("png", 2), name)),
       ),
       button("CSV", "Save the plotted numbers (shortest round-trip form)", () => downloadText(designCsv(state.answer), `${stem}.csv`, "text/csv")),
-      button("Methods", "Save the methods paragraph (method, seed, samples, bounds, tolerances)", () => downloadText(`${designMethods(state)}\n`, `${stem}-methods.txt`, "text/plain")),
+      ...methodsButtons(
+        button,
+        () => stem,
+        (options) => designMethodsDocument(state, options),
+      ),
     ]);
   }
 

@@ -10,6 +10,8 @@ import { ellipseSpec, eprSpec, panelSpec, spectrumSpec } from "../specs";
 import { STATUS_ATTRIBUTE } from "../../core/page/names";
 import { actionButton, downloadText, downloadUrl, fileStem } from "../../core/browser/actions";
 import { vega } from "../../core/browser/vega";
+import { methodsButtons } from "../../core/browser/methods-buttons";
+import { entangledMethods } from "../methods/methods";
 import { messageOf } from "../../core/browser/boot";
 import { el, injectStyleOnce } from "../../core/browser/dom";
 import { replaceCanvasCharts } from "../../core/browser/canvas-charts";
@@ -171,7 +173,21 @@ export class EntangledPanelView {
       button("SVG", "Save the three charts as SVG", async (s) => downloadText(await this.withPanelView(s, (v) => v.toSVG()), `${stem(s)}.svg`, "image/svg+xml")),
       button("PNG", "Save the three charts as PNG", async (s) => downloadUrl(await this.withPanelView(s, (v) => v.toImageURL("png", 2)), `${stem(s)}.png`)),
       button("CSV", "Save every plotted number (shortest round-trip form)", (s) => downloadText(entangledCsv(computeEntangled(s)), `${stem(s)}.csv`, "text/csv")),
+      ...methodsButtons(
+        (label, title, action) => actionButton(label, title, action, this.alert),
+        () => fileStem(this.state?.title || "entangled light"),
+        (options) => {
+          const state = this.current();
+          return entangledMethods(state, computeEntangled(state), options);
+        },
+      ),
     ]);
+  }
+
+  /** The state the buttons act on; a panel that never started has none to export. */
+  private current(): EntangledState {
+    if (!this.state) throw new Error("the panel has no valid state");
+    return this.state;
   }
 
   /** The whole figure as `quietframe render` draws it, off-screen, for an export. */

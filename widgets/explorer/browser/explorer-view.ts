@@ -7,13 +7,16 @@ import { FINGERPRINT_ATTRIBUTE, STATUS_ATTRIBUTE } from "../../core/page/names";
 import { STATE_SCRIPT_CLASS } from "../names";
 import { distanceText, headlineSummary, reachSummary } from "../summary";
 import { CAUTION_HEADING } from "../../core/page/summary-line";
-import { methodsText } from "../methods/methods";
+import { explorerMethods } from "../methods/methods";
 import { loadExplorerState, stateDocumentText } from "../document";
 import type { ExplorerState } from "../format";
 import { actionButton, copyText, downloadText, downloadUrl, fileStem } from "../../core/browser/actions";
 import { messageOf } from "../../core/browser/boot";
 import { ChartView } from "./chart-view";
 import { ControlsView } from "../../core/browser/controls-view";
+import { FrequencyRangeView } from "../../core/browser/frequency-range-view";
+import { methodsButtons } from "../../core/browser/methods-buttons";
+import type { GridText } from "../../core/controls/frequency-range";
 import { el, flashText } from "../../core/browser/dom";
 
 export type WidgetStatus = "booting" | "ready" | "error";
@@ -44,6 +47,9 @@ export class ExplorerWidget {
   private shown: Record<string, string | number> = {};
   private readonly chart = new ChartView();
   private controls: ControlsView | undefined;
+  private range: FrequencyRangeView | undefined;
+  /** Frequency range as its control shows it; the grid of `base` once it computed. */
+  private shownGrid: GridText | undefined;
   private readonly alert = el("div", { class: "qf-alert", role: "alert", hidden: "" });
   /** Lasting notices about the loaded state (a fingerprint that does not match). */
   private readonly notice = el("div", { class: "qf-notice", role: "status", hidden: "" });
@@ -143,8 +149,14 @@ export class ExplorerWidget {
     this.shown = { ...state.values };
     const id = `quietframe-w${++widgetCount}`;
     this.controls = new ControlsView(computation.controls, state.values, id, (target, value) => this.setValue(target, value));
+    this.shownGrid = { ...state.settings.grid };
+    this.range = new FrequencyRangeView(state.settings.grid, `${id}-range`, (grid) => {
+      this.shownGrid = grid;
+      this.requestUpdate();
+    });
     const live = el("div", { class: "qf-live" }, [
       this.controls.element,
+      this.range.element,
       this.alert,
       this.notice,
       this.caution,
@@ -213,9 +225,11 @@ export class ExplorerWidget {
     }
     const generation = ++this.generation;
     const values = { ...this.shown };
+    // The frequency range control moves the grid: the curves, the headline and the saved state follow it.
+    const settings = this.shownGrid ? { ...base.settings, grid: { ...this.shownGrid } } : base.settings;
     let computation: ExplorerComputation;
     try {
-      computation = computeExplorer({ ...base, values });
+      computation = computeExplorer({ ...base, settings, values });
     } catch (e) {
       this.refuse(e);
       return;
@@ -229,6 +243,7 @@ export class ExplorerWidget {
     }
     this.running = false;
     if (drawError) return this.refuse(drawError.error);
+    this.base = { ...base, settings };
     this.values = values;
     this.computation = computation;
     this.showFigures({ ...base, values }, computation);
@@ -360,12 +375,7 @@ export class ExplorerWidget {
       button("SVG", "Save the chart as SVG", async () => downloadText(await this.chart.svg(), `${stem()}.svg`, "image/svg+xml")),
       button("PNG", "Save the chart as PNG", async () => downloadUrl(await this.chart.pngDataUrl(2), `${stem()}.png`)),
       button("CSV", "Save the plotted numbers (shortest round-trip form)", () => downloadText(tableToCsv(this.requireComputation().table), `${stem()}.csv`, "text/csv")),
-      button("Methods (Markdown)", "Save a methods paragraph for these values", () =>
-        downloadText(methodsText(this.requireState(), this.requireComputation(), "markdown"), `${stem()}-methods.md`, "text/markdown"),
-      ),
-      button("Methods (LaTeX)", "Save a methods paragraph for these values", () =>
-        downloadText(methodsText(this.requireState(), this.requireComputation(), "latex"), `${stem()}-methods.tex`, "application/x-tex"),
-      ),
+      ...methodsButtons(button, stem, (options) => explorerMethods(this.requireState(), this.requireComputation(), options)),
       button("Reset", "Back to the values this widget was created with", () => this.reset()),
     ]);
   }
@@ -374,6 +384,8 @@ export class ExplorerWidget {
     if (!this.initial) return;
     this.shown = { ...this.initial.values };
     this.controls?.show(this.shown);
+    this.shownGrid = { ...this.initial.settings.grid };
+    this.range?.show(this.shownGrid);
     this.requestUpdate();
   }
 

@@ -11,6 +11,9 @@ import { cellExplorerState, heatmapCells, loadToleranceState, type HeatmapCell, 
 import { SELECTED_CELL_ATTRIBUTE, TOLERANCE_STATE_CLASS } from "../names";
 import { messageOf } from "../../core/browser/boot";
 import { el } from "../../core/browser/dom";
+import { actionButton, fileStem } from "../../core/browser/actions";
+import { methodsButtons } from "../../core/browser/methods-buttons";
+import { toleranceMethods } from "../methods/methods";
 
 export type BootFunction = (root: ParentNode) => unknown;
 
@@ -103,6 +106,21 @@ export class ToleranceWidget {
     this.view = undefined;
   }
 
+  /** The map's methods text (Markdown, LaTeX, BibTeX). */
+  private actions(): HTMLElement {
+    const button = (label: string, title: string, action: () => unknown): HTMLButtonElement => actionButton(label, title, action, this.alert);
+    const state = (): ToleranceWidgetState => {
+      if (!this.state) throw new Error("the map has no valid state");
+      return this.state;
+    };
+    const stem = (): string => fileStem(this.state?.settings.title ?? "tolerance-map");
+    return el(
+      "div",
+      { class: "qf-actions" },
+      methodsButtons(button, stem, (options) => toleranceMethods(state(), options)),
+    );
+  }
+
   private async start(): Promise<void> {
     this.element.setAttribute(STATUS_ATTRIBUTE, "booting");
     this.element.prepend(this.alert);
@@ -133,7 +151,7 @@ export class ToleranceWidget {
     this.element.querySelector<HTMLElement>(".qf-fallback")?.setAttribute("hidden", "");
     this.canvasHost.style.position = "relative";
     this.canvasHost.append(this.highlight);
-    this.element.append(el("div", { class: "qf-live" }, [this.canvasHost, this.cursorNote, this.cellNote, this.slot]));
+    this.element.append(el("div", { class: "qf-live" }, [this.canvasHost, this.cursorNote, this.cellNote, this.actions(), this.slot]));
     this.showCursor();
     this.element.setAttribute(STATUS_ATTRIBUTE, "ready");
   }

@@ -16,6 +16,8 @@ import { resolveSimulation, writeTime } from "../simulation";
 import { trajectoryPanelSpec, trajectorySpecs } from "../specs";
 import { trajectorySummary } from "../summary";
 import { actionButton, copyText, downloadText, downloadUrl, fileStem } from "../../core/browser/actions";
+import { methodsButtons } from "../../core/browser/methods-buttons";
+import { trajectoryMethods } from "../methods/methods";
 import { messageOf } from "../../core/browser/boot";
 import { ControlsView } from "../../core/browser/controls-view";
 import { el, flashText, injectStyleOnce } from "../../core/browser/dom";
@@ -464,6 +466,7 @@ export class TrajectoryWidget {
         }
       }),
       button("CSV", "Save every stored number (shortest round-trip form)", () => downloadText(trajectoryCsv(this.requireComputation().result, this.requireState().joint), `${stem()}.csv`, "text/csv")),
+      ...methodsButtons(button, stem, (options) => trajectoryMethods(this.requireState(), this.requireComputation(), options)),
       button("Reset", "Back to the values and settings this widget was created with", () => this.reset()),
     ]);
   }
