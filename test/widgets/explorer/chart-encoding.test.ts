@@ -87,7 +87,7 @@ describe("encoding by kind and source name", () => {
     };
     // Different set-ups: a plain laser readout and a hybrid set-up with a spin ensemble in the same beam.
     expect(shared("cryogenic-membrane.json", "hybrid-spin-reference.json")).toEqual(expect.arrayContaining(["laser: amplitude quadrature", "laser: phase quadrature", "detector: detection vacuum"]));
-    expect(shared("cryogenic-membrane.json", "cryogenic-membrane-squeezed.json")).toEqual(expect.arrayContaining(["membrane: thermal force", "cavity: internal loss (amplitude)"]));
+    expect(shared("cryogenic-membrane.json", "cryogenic-membrane-squeezed.json")).toEqual(expect.arrayContaining(["membrane: thermal noise", "cavity: internal loss (amplitude)"]));
   });
 
   test("the position of a term in the budget does not change its look", () => {
@@ -111,6 +111,7 @@ describe("encoding by kind and source name", () => {
       loss: ["loss-vacuum"],
       thermal: ["thermal"],
       technical: ["classical"],
+      classical: ["classical"],
     };
     for (const term of computation.evaluation.budget.terms) expect(allowed[term.category], term.label).toContain(termRole(term));
   });
@@ -131,7 +132,7 @@ describe("no duplicate curves", () => {
     const { computation } = specOf("cryogenic-membrane.json");
     const table = computation.table;
     const reference = table.columns.find((c) => c.id === "thermal");
-    const term = table.columns.find((c) => c.label === "membrane: thermal force");
+    const term = table.columns.find((c) => c.label === "membrane: thermal noise");
     expect(reference && term).toBeTruthy();
     // The two are the same curve (relative difference below 1e-12 at every frequency), which is why one is enough.
     (reference as { values: Float64Array }).values.forEach((v, i) => expect(Math.abs(v / (term as { values: Float64Array }).values[i] - 1)).toBeLessThan(1e-12));

@@ -67,8 +67,10 @@ export interface FrequencyAxis {
   readonly unit: string;
   /** Hz per unit. */
   readonly divisor: number;
-  /** Tick positions in Hz, inside the band. */
+  /** Tick positions in Hz, inside the band (to rounding). */
   readonly ticks: number[];
+  /** The scale's domain in Hz: the band, widened to a tick that rounding put just outside it. */
+  readonly domain: [number, number];
 }
 
 const FREQUENCY_UNITS: readonly [string, number][] = [
@@ -87,7 +89,9 @@ export function frequencyAxis(low: number, high: number): FrequencyAxis {
   if (!(low > 0 && high >= low && Number.isFinite(high))) throw new Error(`not a frequency band: ${low} … ${high}`);
   const middle = Math.sqrt(low * high);
   const [unit, divisor] = FREQUENCY_UNITS.find(([, d]) => middle >= d) ?? FREQUENCY_UNITS[FREQUENCY_UNITS.length - 1];
-  return { unit, divisor, ticks: high / low >= 10 ? logTicks(low, high) : linearTicks(low, high) };
+  const ticks = high / low >= 10 ? logTicks(low, high) : linearTicks(low, high);
+  // A grid computed in logarithms can end at 9999.999999999995 Hz; Vega drops a tick outside its domain.
+  return { unit, divisor, ticks, domain: [Math.min(low, ticks[0] ?? low), Math.max(high, ticks[ticks.length - 1] ?? high)] };
 }
 
 function logTicks(low: number, high: number): number[] {
@@ -120,7 +124,7 @@ export function frequencyX(axis: FrequencyAxis, labels: boolean): Record<string,
     field: "f",
     type: "quantitative",
     // nice: false keeps a narrow band (1.1–1.3 MHz) from being stretched to whole decades.
-    scale: { type: "log", nice: false },
+    scale: { type: "log", nice: false, domain: axis.domain },
     axis: {
       values: axis.ticks,
       labelOverlap: false,
@@ -129,7 +133,7 @@ export function frequencyX(axis: FrequencyAxis, labels: boolean): Record<string,
       ticks: true,
       title: labels ? `frequency [${axis.unit}]` : null,
       // Numbers only (no expression text from the state): the divisor is one of four constants.
-      labelExpr: `format(datum.value / ${axis.divisor}, '.4~g')`,
+      labelExpr: `format(datum.value / ${axis.divisor}, '.4~r')`,
     },
   };
 }
