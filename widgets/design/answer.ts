@@ -1,6 +1,7 @@
 /** Computes a design question through the engine and returns the answer as plain JSON values. */
 import {
   CellStatus,
+  checkStopSignal,
   designParameter,
   designProblem,
   loadSetup,
@@ -9,6 +10,7 @@ import {
   optimizeDesign,
   rankParameters,
   spreadAnalysis,
+  stopIfAborted,
   type DesignFigure,
   type FigureSpec,
   type OptimizeResult,
@@ -50,17 +52,20 @@ function figureLabel(f: DesignFigure): FigureLabel {
 /** Told after each step of a long computation: steps done of all there are (parameters of a ranking). */
 export type StepReport = (done: number, total: number) => void;
 
-/** Computes the answer to a question; bad input throws a QuietframeError naming the field (`options.*`, `parameters[…]`, `figure.*`, `grid.*`, `setup`). */
-export function computeAnswer(setup: SetupDescription, figure: FigureSpec, question: DesignQuestion, grid?: GridText, onStep?: StepReport): DesignAnswer {
+/**
+ * Computes the answer to a question; bad input throws a QuietframeError naming the field (`options.*`, `parameters[…]`, `figure.*`, `grid.*`, `setup`).
+ * An aborted `signal` stops the run between parameters, starts or blocks of samples with a DesignRunStopped, and no answer.
+ */
+export function computeAnswer(setup: SetupDescription, figure: FigureSpec, question: DesignQuestion, grid?: GridText, onStep?: StepReport, signal?: AbortSignal): DesignAnswer {
   switch (question.kind) {
     case "ranking":
-      return rankingAnswer(rankOneByOne(setup, figure, question, grid, onStep));
+      return rankingAnswer(rankOneByOne(setup, figure, question, grid, onStep, signal));
     case "optimum": {
-      const options = { starts: question.starts, seed: question.seed, maxEvaluationsPerStart: question.maxEvaluationsPerStart, tolerance: question.tolerance, grid, onProgress: onStep };
+      const options = { starts: question.starts, seed: question.seed, maxEvaluationsPerStart: question.maxEvaluationsPerStart, tolerance: question.tolerance, grid, onProgress: onStep, signal };
       return optimumAnswer(setup, figure, grid, optimizeDesign(setup, figure, question.parameters, options));
     }
     case "spread":
-      return spreadAnswer(spreadAnalysis(setup, figure, question.uncertain, { samples: question.samples, seed: question.seed, target: question.target, grid, onProgress: onStep }));
+      return spreadAnswer(spreadAnalysis(setup, figure, question.uncertain, { samples: question.samples, seed: question.seed, target: question.target, grid, onProgress: onStep, signal }));
   }
 }
 
@@ -70,7 +75,8 @@ export function computeAnswer(setup: SetupDescription, figure: FigureSpec, quest
  * steps and scan), so the rows, their order (largest |gain per 1 %| first, ties in list order) and
  * the evaluation count (the set-up's own value once) are exactly those of one call.
  */
-export function rankOneByOne(setup: SetupDescription, figure: FigureSpec, question: RankingQuestion, grid: GridText | undefined, onStep?: StepReport): Ranking {
+export function rankOneByOne(setup: SetupDescription, figure: FigureSpec, question: RankingQuestion, grid: GridText | undefined, onStep?: StepReport, signal?: AbortSignal): Ranking {
+  checkStopSignal(signal);
   const options = { scanPoints: question.scanPoints, relativeStep: question.relativeStep, grid };
   // Every option, the figure and the grid are checked (and the set-up's figure taken) before the first parameter.
   const head = rankParameters(setup, figure, { ...options, parameters: [] });
@@ -79,6 +85,7 @@ export function rankOneByOne(setup: SetupDescription, figure: FigureSpec, questi
   const rows: Ranking["parameters"][number][] = [];
   let evaluations = head.evaluations;
   targets.forEach((target, i) => {
+    stopIfAborted(signal, "ranking", i, targets.length, "parameters");
     const one = rankParameters(setup, figure, { ...options, parameters: [target] });
     rows.push(one.parameters[0]);
     evaluations += one.evaluations - head.evaluations;
