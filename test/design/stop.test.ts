@@ -11,6 +11,7 @@ import { DesignRunStopped, optimizeDesign, optimizeSteps, runInSlices, spreadAna
 import { QuietframeError } from "../../src/errors";
 import type { SetupDescription } from "../../src/setup/format";
 import { computeAnswer } from "../../widgets/design/answer";
+import type { RankingQuestion } from "../../widgets/design/format";
 import { optimumWidget } from "../../widgets/design/notebook";
 
 const squeezed = JSON.parse(readFileSync(join(__dirname, "..", "..", "examples", "cryogenic-membrane-squeezed.json"), "utf8")) as SetupDescription;
@@ -99,7 +100,7 @@ describe("stopping a Monte Carlo spread", () => {
 describe("stopping the design widget's computation", () => {
   it("a ranking stops between parameters", () => {
     const stop = stopAt(1);
-    const question = { kind: "ranking", parameters: ["detector.efficiency", "squeezer.squeezing", "cavity.inputCoupling"] } as const;
+    const question: RankingQuestion = { kind: "ranking", parameters: ["detector.efficiency", "squeezer.squeezing", "cavity.inputCoupling"] };
     const e = caught(() => computeAnswer(squeezed, FIGURE, question, GRID, stop.onProgress, stop.signal));
     expect(e).toMatchObject({ done: 1, total: 3, unit: "parameters" });
     expect((e as Error).message).toBe("ranking stopped after 1 of 3 parameters; no result is given for a stopped run");
