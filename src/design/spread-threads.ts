@@ -13,7 +13,7 @@ import type { SetupDescription } from "../setup/format";
 import { CHUNKS_AHEAD, nextChunkSize, workerScript } from "../threads/engine-threads";
 import { checkWorkers } from "../threads/worker-count";
 import { runInSlices } from "./slices";
-import { evaluateSamples, finishSpread, planSpread, spreadSteps, type SampleOutcomes, type SpreadOptions, type SpreadPlan, type SpreadResult } from "./spread";
+import { evaluateSamples, finishSpread, planSpread, planSteps, type SampleOutcomes, type SpreadOptions, type SpreadPlan, type SpreadResult } from "./spread";
 import { checkStopSignal, DesignRunStopped, stopIfAborted } from "./stop";
 import type { FromSpreadWorker, SpreadJobData, ToSpreadWorker } from "./spread-job";
 import type { UncertaintySpec } from "./uncertainty";
@@ -36,7 +36,7 @@ export async function spreadAnalysisOnThreads(setup: SetupDescription | string, 
   const plan = planSpread(setup, figure, uncertain, options);
   const workers = Math.min(requested, Math.ceil(plan.samples / SMALLEST_CHUNK));
   // In this thread: in blocks with a turn of the event loop between them, so a stop is heard.
-  if (workers === 1) return options.onProgress || signal ? runInSlices(spreadSteps(setup, figure, uncertain, options)) : finishSpread(plan, [evaluateSamples(plan, 0, plan.samples)]);
+  if (workers === 1) return options.onProgress || signal ? runInSlices(planSteps(plan, options.onProgress, signal)) : finishSpread(plan, [evaluateSamples(plan, 0, plan.samples)]);
   stopIfAborted(signal, "spread", 0, plan.samples, "samples");
   const job: SpreadJobData = { setup, figure, uncertain, options: { grid: options.grid, bands: options.bands }, draws: plan.draws };
   return finishSpread(plan, await samplesOnThreads(plan, job, workers, options.onProgress, signal), plan.samples);

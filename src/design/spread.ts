@@ -94,14 +94,18 @@ export function spreadAnalysis(setup: SetupDescription | string, figure: FigureS
  */
 export function* spreadSteps(setup: SetupDescription | string, figure: FigureSpec, uncertain: readonly UncertaintySpec[], options: SpreadOptions = {}): Generator<number, SpreadResult> {
   const signal = checkStopSignal(options.signal);
-  const plan = planSpread(setup, figure, uncertain, options);
+  return yield* planSteps(planSpread(setup, figure, uncertain, options), options.onProgress, signal);
+}
+
+/** The blocks of samples of a plan made already (spreadSteps without planning again). */
+export function* planSteps(plan: SpreadPlan, onProgress: SpreadOptions["onProgress"], signal: AbortSignal | undefined): Generator<number, SpreadResult> {
   const block = Math.ceil(plan.samples / 100);
   const parts: SampleOutcomes[] = [];
   for (let from = 0; from < plan.samples; from += block) {
     stopIfAborted(signal, "spread", from, plan.samples, "samples");
     const to = Math.min(plan.samples, from + block);
     parts.push(evaluateSamples(plan, from, to));
-    options.onProgress?.(to, plan.samples);
+    onProgress?.(to, plan.samples);
     if (to < plan.samples) yield to;
   }
   return finishSpread(plan, parts);

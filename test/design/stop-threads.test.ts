@@ -55,6 +55,16 @@ describe("stopping a spread on threads", () => {
     expect(tracked.live.size).toBe(0);
   });
 
+  it("on one thread (no workers) stops after the first block of samples", async () => {
+    const created = tracked.created;
+    const stop = stopAtFirst();
+    const e = await spreadAnalysisOnThreads(squeezed, FIGURE, UNCERTAIN, { samples: 400, seed: 3, grid: GRID, workers: 1, ...stop }).catch((x: unknown) => x);
+    // 400 samples in blocks of ⌈400 / 100⌉ = 4.
+    expect(e).toMatchObject({ name: "AbortError", done: 4, total: 400, unit: "samples" });
+    expect(stop.told).toEqual([4]);
+    expect(tracked.created).toBe(created);
+  });
+
   it("an already aborted signal starts no worker", async () => {
     const created = tracked.created;
     const e = await spreadAnalysisOnThreads(squeezed, FIGURE, UNCERTAIN, { samples: 400, grid: GRID, workers: 2, signal: AbortSignal.abort() }).catch((x: unknown) => x);
