@@ -126,6 +126,15 @@ export function rangeOption(text: string, path: string): { min: string; max: str
  * Runs a design search with the API's field names turned into the options a user typed
  * ("parameter" → "--param", "range.min" → "--range", "parameters[1].max" → "--param[1]").
  */
+/** withOptionNames around each step of a stepped run (optimizeSteps, spreadSteps): their checks run in the first step. */
+export function* stepsWithOptionNames<T>(names: Readonly<Record<string, string>>, steps: Generator<unknown, T>): Generator<unknown, T> {
+  for (;;) {
+    const step = withOptionNames(names, () => steps.next());
+    if (step.done) return step.value;
+    yield step.value;
+  }
+}
+
 export function withOptionNames<T>(names: Readonly<Record<string, string>>, run: () => T): T {
   try {
     return run();

@@ -1,12 +1,27 @@
 import { parseOptions } from "./options";
-import { optimizeDesign, shownFigure, type OptimizeParameter, type OptimizeResult } from "../design";
+import { optimizeSteps, runInSlices, runToEnd, shownFigure, type OptimizeParameter, type OptimizeResult } from "../design";
 import { QuietframeError } from "../errors";
 import type { CliIo } from "./io";
-import { DESIGN_OPTIONS, figureOption, formatOption, gridOption, rangeOption, readSetupDescription, splitAssignment, wholeOption, withOptionNames } from "./design-args";
+import { DESIGN_OPTIONS, figureOption, formatOption, gridOption, rangeOption, readSetupDescription, splitAssignment, stepsWithOptionNames, wholeOption } from "./design-args";
+import { untilInterrupted } from "./stop-on-interrupt";
 import { resultJson, textTable } from "./text-table";
 
 /** `quietframe optimize`: the best figure over several parameters within their ranges. */
 export function optimizeCommand(args: string[], io: CliIo): number {
+  const request = optimizeRequest(args);
+  io.out(request.print(runToEnd(request.steps())));
+  return 0;
+}
+
+/** `quietframe optimize` as the binary runs it: a start at a time, Ctrl-C stops it between starts (exit status 130). */
+export async function optimizeCommandAsync(args: string[], io: CliIo): Promise<number> {
+  const request = optimizeRequest(args);
+  const result = await untilInterrupted((signal) => runInSlices(request.steps(signal)));
+  io.out(request.print(result));
+  return 0;
+}
+
+function optimizeRequest(args: string[]): { steps(signal?: AbortSignal): Generator<unknown, OptimizeResult>; print(result: OptimizeResult): string } {
   const { values, positionals } = parseOptions("optimize", args, { ...DESIGN_OPTIONS, param: { type: "string", multiple: true }, starts: { type: "string" }, seed: { type: "string" } });
   const format = formatOption(values.format);
   const { description } = readSetupDescription(positionals);
@@ -17,9 +32,11 @@ export function optimizeCommand(args: string[], io: CliIo): number {
   });
   const options = { grid: gridOption(description, values), starts: wholeOption(values.starts, "--starts"), seed: wholeOption(values.seed, "--seed") };
   const figure = figureOption(values.figure);
-  const result = withOptionNames({ parameters: "--param", figure: "--figure", "options.starts": "--starts", "options.seed": "--seed" }, () => optimizeDesign(description, figure, params, options));
-  io.out(format === "json" ? resultJson(result) : optimizeText(result));
-  return 0;
+  const names = { parameters: "--param", figure: "--figure", "options.starts": "--starts", "options.seed": "--seed" };
+  return {
+    steps: (signal) => stepsWithOptionNames(names, optimizeSteps(description, figure, params, { ...options, signal })),
+    print: (result) => (format === "json" ? resultJson(result) : optimizeText(result)),
+  };
 }
 
 function optimizeText(r: OptimizeResult): string {

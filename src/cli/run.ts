@@ -22,10 +22,11 @@ import { RENDER_USAGE, renderCommand, reportCommand } from "./render";
 import { KERNEL_USAGE, kernelCommand } from "./kernel-install";
 import { EXTENSION_USAGE, extensionCommand } from "./extension-install";
 import { DESIGN_USAGE } from "./design-args";
-import { optimizeCommand } from "./optimize-command";
+import { optimizeCommand, optimizeCommandAsync } from "./optimize-command";
 import { rankCommand } from "./rank-command";
 import { solveCommand } from "./solve-command";
-import { spreadCommand } from "./spread-command";
+import { spreadCommand, spreadCommandAsync } from "./spread-command";
+import { INTERRUPTED_EXIT, isStoppedRun } from "./stop-on-interrupt";
 import { METHODS_USAGE, methodsCommand } from "./methods-command";
 import { SWEEP_USAGE, sweepCommand } from "./sweep-command";
 
@@ -51,11 +52,16 @@ ${DESIGN_USAGE}${SWEEP_USAGE}${RENDER_USAGE}${METHODS_USAGE}${KERNEL_USAGE}${EXT
 /** Every command word, for "did you mean" on a mistyped one. */
 const COMMANDS = ["eval", "summary", "check", "types", "rank", "solve", "optimize", "spread", "sweep", "render", "report", "methods", "kernel", "help"];
 
-/** Commands that render figures (Vega renders asynchronously) or run worker threads and chunks; runCliAsync runs them. */
+/**
+ * Commands that render figures (Vega renders asynchronously), run worker threads and chunks, or
+ * run long enough to be stopped with Ctrl-C (optimize, spread); runCliAsync runs them.
+ */
 const ASYNC_COMMANDS: Readonly<Record<string, (args: string[], io: CliIo) => Promise<number>>> = {
   render: renderCommand,
   report: reportCommand,
   sweep: sweepCommand,
+  optimize: optimizeCommandAsync,
+  spread: spreadCommandAsync,
 };
 
 /** Runs any CLI command, including render and report; resolves to the exit code. */
@@ -129,6 +135,10 @@ function reportFailure(e: unknown, io: CliIo): number {
   if (e instanceof QuietframeError || e instanceof QuietframeErrors) {
     io.err(`quietframe: ${e.message.split("\n").join("\nquietframe: ")}\n`);
     return 1;
+  }
+  if (isStoppedRun(e)) {
+    io.err(`quietframe: ${e.message}\n`);
+    return INTERRUPTED_EXIT;
   }
   throw e;
 }

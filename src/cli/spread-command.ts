@@ -1,12 +1,27 @@
 import { parseOptions } from "./options";
-import { shownFigure, spreadAnalysis, type SpreadResult, type UncertaintySpec } from "../design";
+import { runInSlices, runToEnd, shownFigure, spreadSteps, type SpreadResult, type UncertaintySpec } from "../design";
 import { QuietframeError } from "../errors";
 import type { CliIo } from "./io";
-import { DESIGN_OPTIONS, figureOption, formatOption, gridOption, readSetupDescription, splitAssignment, wholeOption, withOptionNames } from "./design-args";
+import { DESIGN_OPTIONS, figureOption, formatOption, gridOption, readSetupDescription, splitAssignment, stepsWithOptionNames, wholeOption } from "./design-args";
+import { untilInterrupted } from "./stop-on-interrupt";
 import { resultJson, textTable } from "./text-table";
 
 /** `quietframe spread`: what uncertain parameters do to a figure (Monte Carlo beside first-order propagation). */
 export function spreadCommand(args: string[], io: CliIo): number {
+  const request = spreadRequest(args);
+  io.out(request.print(runToEnd(request.steps())));
+  return 0;
+}
+
+/** `quietframe spread` as the binary runs it: a block of samples at a time, Ctrl-C stops it between blocks (exit status 130). */
+export async function spreadCommandAsync(args: string[], io: CliIo): Promise<number> {
+  const request = spreadRequest(args);
+  const result = await untilInterrupted((signal) => runInSlices(request.steps(signal)));
+  io.out(request.print(result));
+  return 0;
+}
+
+function spreadRequest(args: string[]): { steps(signal?: AbortSignal): Generator<unknown, SpreadResult>; print(result: SpreadResult): string } {
   const { values, positionals } = parseOptions("spread", args, {
     ...DESIGN_OPTIONS,
     uncertain: { type: "string", multiple: true },
@@ -27,9 +42,10 @@ export function spreadCommand(args: string[], io: CliIo): number {
   const options = { grid: gridOption(description, values), samples: wholeOption(values.samples, "--samples"), seed: wholeOption(values.seed, "--seed"), target, bands: format === "json" };
   const figure = figureOption(values.figure);
   const names = { target: "--target", figure: "--figure", "options.samples": "--samples", "options.seed": "--seed" };
-  const result = withOptionNames(names, () => spreadAnalysis(description, figure, uncertain, options));
-  io.out(format === "json" ? resultJson(result) : spreadText(result));
-  return 0;
+  return {
+    steps: (signal) => stepsWithOptionNames(names, spreadSteps(description, figure, uncertain, { ...options, signal })),
+    print: (result) => (format === "json" ? resultJson(result) : spreadText(result)),
+  };
 }
 
 function spreadText(r: SpreadResult): string {

@@ -25,6 +25,7 @@ import {
   type SlurmRequest,
 } from "../sweep";
 import type { CliIo } from "./io";
+import { untilInterrupted } from "./stop-on-interrupt";
 import { parseOptions } from "./options";
 import { writeSweepState } from "./sweep-state";
 
@@ -192,7 +193,8 @@ async function localCommand(args: string[], io: CliIo): Promise<number> {
   if (positionals.length !== 1) throw new QuietframeError({ path: "<sweep.json>", value: positionals, problem: "takes one sweep file", allowed: "quietframe sweep local <sweep.json>" });
   const workers = values.threads === undefined ? undefined : wholeNumber(values.threads, "--threads", "worker threads");
   const output = values.output ?? "merged.json";
-  const result = await runSweepLocally(readSweepFile(positionals[0]), { workers });
+  const sweep = readSweepFile(positionals[0]);
+  const result = await untilInterrupted((signal) => runSweepLocally(sweep, { workers, signal }));
   writeSweepState(output, result);
   io.out(`wrote ${output}\nsweep  ${result.sweep}\nresult ${result.fingerprint}\n`);
   return 0;

@@ -2,12 +2,15 @@
  * Design answers: which parameter is the bottleneck (rankParameters), the value a parameter must
  * reach for a target and the window that keeps it (solveForTarget, targetWindow), the best
  * settings within bounds (optimizeDesign), what real-world spread does (spreadAnalysis) and
- * headline figures that do not depend on the grid (refinedHeadline). Platform-free.
+ * headline figures that do not depend on the grid (refinedHeadline). Long runs can be stopped
+ * (options.signal) and run in slices (optimizeSteps, spreadSteps with runInSlices). Platform-free.
  */
 export { rankParameters, type RankOptions, type Ranking, type ParameterSensitivity } from "./rank";
 export { solveForTarget, targetWindow, type SolveOptions, type SolveResult, type WindowResult, type WindowEnd, type SettingFigure } from "./solve";
-export { optimizeDesign, type OptimizeParameter, type OptimizeOptions, type OptimizeResult, type OptimizedValue, type StartReport } from "./optimize";
-export { spreadAnalysis, type SpreadOptions, type SpreadResult } from "./spread";
+export { optimizeDesign, optimizeSteps, type OptimizeParameter, type OptimizeOptions, type OptimizeResult, type OptimizedValue, type StartReport } from "./optimize";
+export { spreadAnalysis, spreadSteps, type SpreadOptions, type SpreadResult } from "./spread";
+export { DesignRunStopped, checkStopSignal, stopIfAborted } from "./stop";
+export { runToEnd, runInSlices, type SliceOptions } from "./slices";
 export { resolveUncertainties, TRUNCATION_SPREADS, type UncertaintySpec, type ResolvedUncertainty, type SpreadDistribution } from "./uncertainty";
 export { refinedHeadline, MAX_REFINED_PEAKS, TOUCHING_DB, type RefinedHeadline, type RefinedBand } from "./refined-headline";
 export { designProblem, levelDb, merit, shownFigure, type DesignProblem, type DesignFigure, type DesignGrid } from "./problem";

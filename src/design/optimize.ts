@@ -5,6 +5,8 @@ import type { SetupDescription } from "../setup/format";
 import { GaussianSource } from "../timedomain/random";
 import { minimizeInBox } from "./nelder-mead";
 import { designParameter, shownValue, type DesignParameter } from "./parameters";
+import { runToEnd } from "./slices";
+import { checkStopSignal, stopIfAborted } from "./stop";
 import { designProblem, merit, valueOfLevel, type DesignFigure, type DesignGrid, type DesignProblem } from "./problem";
 import { defaultRange, fromUnit, givenRange, toUnit, type RangeEnd, type SearchRange } from "./search-range";
 
@@ -36,6 +38,8 @@ export interface OptimizeOptions {
   readonly tolerance?: number;
   /** Called after each start with the starts done and their number, e.g. to show progress. */
   readonly onProgress?: (done: number, total: number) => void;
+  /** Stops the run between starts: it then throws a DesignRunStopped (stop.ts) and gives no result. */
+  readonly signal?: AbortSignal;
 }
 
 export interface OptimizedValue {
@@ -73,13 +77,24 @@ const ON_BOUND = 1e-6;
 
 /** Maximizes the figure (minimizes it for the noise) over the given parameters. */
 export function optimizeDesign(setup: SetupDescription | string, figure: FigureSpec, parameters: readonly OptimizeParameter[], options: OptimizeOptions = {}): OptimizeResult {
+  return runToEnd(optimizeSteps(setup, figure, parameters, options));
+}
+
+/**
+ * optimizeDesign one start at a time: the generator yields the starts done after each start but
+ * the last and returns the result, so a caller can pause between starts (runInSlices) with the
+ * same bits. The signal is looked at before each start.
+ */
+export function* optimizeSteps(setup: SetupDescription | string, figure: FigureSpec, parameters: readonly OptimizeParameter[], options: OptimizeOptions = {}): Generator<number, OptimizeResult> {
+  const signal = checkStopSignal(options.signal);
   const plan = planOptimize(setup, figure, parameters, options);
   const outcomes: StartOutcome[] = [];
   for (let s = 0; s < plan.starts; s++) {
-    if (s > 0) options.onProgress?.(s, plan.starts);
+    stopIfAborted(signal, "optimize", s, plan.starts, "starts");
     outcomes.push(runStart(plan, s));
+    options.onProgress?.(s + 1, plan.starts);
+    if (s + 1 < plan.starts) yield s + 1;
   }
-  options.onProgress?.(plan.starts, plan.starts);
   return finishOptimize(plan, outcomes);
 }
 
@@ -108,7 +123,12 @@ export interface StartOutcome {
 }
 
 /** Checks everything, evaluates the figure at the current values and draws every start. */
-export function planOptimize(setup: SetupDescription | string, figure: FigureSpec, parameters: readonly OptimizeParameter[], options: Omit<OptimizeOptions, "onProgress"> = {}): OptimizePlan {
+export function planOptimize(
+  setup: SetupDescription | string,
+  figure: FigureSpec,
+  parameters: readonly OptimizeParameter[],
+  options: Omit<OptimizeOptions, "onProgress" | "signal"> = {},
+): OptimizePlan {
   const problem = designProblem(setup, figure, options.grid);
   if (!Array.isArray(parameters) || parameters.length === 0) {
     throw new QuietframeError({ path: "parameters", value: parameters, problem: "names no parameter to optimize", allowed: 'one or more { target: "component.parameter", min?, max? }' });

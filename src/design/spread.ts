@@ -8,6 +8,8 @@ import { parameterDerivative } from "./parameter-derivative";
 import { designProblem, merit, type DesignFigure, type DesignGrid, type DesignProblem } from "./problem";
 import { meanAndDeviation, quantileSorted } from "./quantile";
 import { quantilesBySelection } from "./select-quantile";
+import { runToEnd } from "./slices";
+import { checkStopSignal, stopIfAborted } from "./stop";
 import { targetMerit } from "./target";
 import { resolveUncertainties, type ResolvedUncertainty, type SpreadDistribution, type UncertaintySpec } from "./uncertainty";
 
@@ -31,6 +33,8 @@ export interface SpreadOptions {
   readonly bands?: boolean;
   /** Called after each block of samples (about a hundred blocks) with the samples done and their number. */
   readonly onProgress?: (done: number, total: number) => void;
+  /** Stops the run between blocks of samples: it then throws a DesignRunStopped (stop.ts) and gives no result. */
+  readonly signal?: AbortSignal;
 }
 
 export interface SpreadResult {
@@ -76,16 +80,33 @@ export interface SpreadResult {
 const MAX_REDRAWS = 1000;
 
 export function spreadAnalysis(setup: SetupDescription | string, figure: FigureSpec, uncertain: readonly UncertaintySpec[], options: SpreadOptions = {}): SpreadResult {
-  const plan = planSpread(setup, figure, uncertain, options);
-  const report = options.onProgress;
-  if (!report) return finishSpread(plan, [evaluateSamples(plan, 0, plan.samples)]);
-  // In blocks, so a caller can show progress; the parts cover every sample once, which gives the same bits.
+  if (!options.onProgress && !options.signal) {
+    const plan = planSpread(setup, figure, uncertain, options);
+    return finishSpread(plan, [evaluateSamples(plan, 0, plan.samples)]);
+  }
+  return runToEnd(spreadSteps(setup, figure, uncertain, options));
+}
+
+/**
+ * spreadAnalysis in blocks of samples (about a hundred): the generator yields the samples done
+ * after each block but the last and returns the result; the parts cover every sample once, which
+ * gives the same bits as one call. The signal is looked at before each block.
+ */
+export function* spreadSteps(setup: SetupDescription | string, figure: FigureSpec, uncertain: readonly UncertaintySpec[], options: SpreadOptions = {}): Generator<number, SpreadResult> {
+  const signal = checkStopSignal(options.signal);
+  return yield* planSteps(planSpread(setup, figure, uncertain, options), options.onProgress, signal);
+}
+
+/** The blocks of samples of a plan made already (spreadSteps without planning again). */
+export function* planSteps(plan: SpreadPlan, onProgress: SpreadOptions["onProgress"], signal: AbortSignal | undefined): Generator<number, SpreadResult> {
   const block = Math.ceil(plan.samples / 100);
   const parts: SampleOutcomes[] = [];
   for (let from = 0; from < plan.samples; from += block) {
+    stopIfAborted(signal, "spread", from, plan.samples, "samples");
     const to = Math.min(plan.samples, from + block);
     parts.push(evaluateSamples(plan, from, to));
-    report(to, plan.samples);
+    onProgress?.(to, plan.samples);
+    if (to < plan.samples) yield to;
   }
   return finishSpread(plan, parts);
 }

@@ -1,13 +1,15 @@
-import { figureOfSetup } from "../figures/of-setup";
+import { figureAndCurveOfPrepared } from "../figures/of-setup";
 import { CellStatus, type CellStatusCode, type FigureOutcome } from "../figures/outcome";
-import { applyValues } from "../setup/apply-values";
-import type { SetupDescription } from "../setup/format";
+import { SetupPreparer, type SetupValues } from "../prepare";
 import type { TolerancePlan } from "./spec";
 
 /**
  * One cell of a tolerance map: the set-up with the two axis values written in, through the
- * ordinary pipeline (prepare, evaluate), reduced to one number. A cell is refused with the
- * same message any other caller gets for that set-up.
+ * ordinary pipeline (prepare, evaluate), reduced to one number. The set-up is validated once per
+ * plan (a SetupPreparer) and each cell revalidates only the components its two values name: the
+ * same bits and the same refusals as preparing the cell's whole set-up (the preparer's promise,
+ * test/engine/prepared-equivalence.test.ts). A cell is refused with the same message any other
+ * caller gets for that set-up.
  * Pure and platform-free: the in-process run, every worker and a browser run this code.
  */
 
@@ -39,14 +41,27 @@ export interface RowResult {
   readonly messages: CellMessage[];
 }
 
-/** The set-up of cell (i, j): a copy with x value i and y value j written into their parameters. */
-export function cellSetup(plan: Pick<TolerancePlan, "setup" | "x" | "y">, i: number, j: number): SetupDescription {
-  return applyValues(plan.setup, { [plan.x.target]: plan.x.written[i], [plan.y.target]: plan.y.written[j] });
+/** The values of cell (i, j): x value i and y value j as written into their parameters. */
+export function cellValues(plan: Pick<TolerancePlan, "x" | "y">, i: number, j: number): SetupValues {
+  return { [plan.x.target]: plan.x.written[i], [plan.y.target]: plan.y.written[j] };
+}
+
+// One preparer per plan: a worker keeps its map's plan object for every row it is sent.
+const preparers = new WeakMap<TolerancePlan, SetupPreparer>();
+
+function preparerOf(plan: TolerancePlan): SetupPreparer {
+  let preparer = preparers.get(plan);
+  if (!preparer) {
+    preparer = new SetupPreparer(plan.setup);
+    preparers.set(plan, preparer);
+  }
+  return preparer;
 }
 
 /** Value and status of one cell; failures carry a message. */
 export function evaluateCell(plan: TolerancePlan, frequencies: Float64Array, i: number, j: number): FigureOutcome {
-  return figureOfSetup(cellSetup(plan, i, j), plan.figure, frequencies);
+  const preparer = preparerOf(plan);
+  return figureAndCurveOfPrepared(() => preparer.prepare(cellValues(plan, i, j)), plan.figure, frequencies, undefined);
 }
 
 /** Row j of the map (all x values at y value j). */

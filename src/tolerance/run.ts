@@ -1,6 +1,7 @@
 import { logGrid, type FrequencyGridSpec } from "../setup/grid";
 import { QuietframeError } from "../errors";
 import { checkWorkers } from "../threads/worker-count";
+import { yieldToEventLoop } from "../threads/event-loop";
 import { applyValues } from "../setup/apply-values";
 import type { SetupDescription } from "../setup/format";
 import { CellStatus, evaluateRow, MAX_CELL_MESSAGES, type CellMessage, type RowResult } from "./evaluate";
@@ -162,10 +163,8 @@ function axisResult(a: ResolvedAxis): ToleranceAxis {
   return { target: a.target, scale: a.scale, values: Float64Array.from(a.values), written: [...a.written], unit: a.unit };
 }
 
-/** Lets timers, messages, signals and abort events run between rows (also between a sweep chunk's items). */
-export function yieldToEventLoop(): Promise<void> {
-  return new Promise((resolve) => (typeof setImmediate === "function" ? setImmediate(resolve) : setTimeout(resolve, 0)));
-}
+// Lets timers, messages, signals and abort events run between rows (also between a sweep chunk's items).
+export { yieldToEventLoop };
 
 /** Evaluates every row in the calling thread, yielding between rows so progress and cancellation work. */
 export async function runRowsInProcess(plan: TolerancePlan, options: ToleranceMapOptions): Promise<RowCollector> {

@@ -256,6 +256,10 @@ async function main() {
       details.tolerance = await t.runToleranceBench(log);
       rows.push(...t.toleranceRows(details.tolerance));
       if (!details.tolerance.identical) failures.push("tolerance maps differ between runs");
+      const c = require("./cell-path");
+      details.cellPath = await c.runCellPathBench(log);
+      rows.push(...c.cellPathRows(details.cellPath));
+      if (!details.cellPath.identical) failures.push("a tolerance cell differs between the prepared and the whole path");
     },
     prepared: async () => {
       const p = require("./prepared");

@@ -10,6 +10,7 @@ import { answerSpecs, curvePoints, gainBars, spreadHistogram } from "../../widge
 import { optimumWidget, rankingWidget, spreadWidget, type NotebookDesign } from "../../widgets/design/notebook";
 import type { DesignState, OptimumAnswer, RankingAnswer, SpreadAnswer } from "../../widgets/design/format";
 import { DESIGN_CLASS, DESIGN_DRAWN_ATTRIBUTE } from "../../widgets/design/names";
+import { RUN_STATUS_ATTRIBUTE } from "../../widgets/design/browser/page-run";
 import { LOCAL_ONLY, openBrowser, type BrowserSession } from "./helpers/chromium";
 import { WIDGET_WAIT_MS } from "./helpers/widgets";
 
@@ -18,7 +19,9 @@ import { WIDGET_WAIT_MS } from "./helpers/widgets";
  * chart's data are the rows Node plots, and the fingerprint the page computes over the numbers
  * equals the one Node stored), with no console errors and no request outside the page. A page
  * whose numbers were edited says so; a state the strict reader refuses shows the message and
- * keeps the static figure. The page computes nothing, so there is no run to stop.
+ * keeps the static figure. "Compute in this page" computes the question again in the page
+ * in slices: the answer it draws has Node's fingerprint (same bits in both engines), and Stop
+ * ends the run with "stopped after N of M", the saved answer left drawn.
  */
 const ROOT = join(__dirname, "..", "..");
 const setup = JSON.parse(readFileSync(join(ROOT, "examples", "free-test-mass.json"), "utf8")) as SetupDescription;
@@ -95,6 +98,39 @@ describe("design widget in the browser", () => {
     const points = (await chartRows())[0].filter((r) => typeof (r as { psd?: unknown }).psd === "number") as { f: number; curve: string; psd: number }[];
     expect(points.map((p) => [p.f, p.curve, p.psd])).toEqual(curvePoints(optimum.result as OptimumAnswer).map((p) => [p.f, p.curve, p.psd]));
     expect(points.length).toBe(62);
+    expect(session.consoleErrors).toEqual([]);
+  });
+
+  it("computes the optimum again in the page, with progress, and draws Node's answer bit for bit", async () => {
+    await open("optimum-run.html", optimum.state);
+    expect(await session.page.getAttribute(W, RUN_STATUS_ATTRIBUTE)).toBe("idle");
+    await session.page.locator(`${W} .qf-run button`, { hasText: "Compute in this page" }).click();
+    await session.page.waitForFunction(([sel, attr]) => ["done", "error", "stopped"].includes((globalThis as any).document.querySelector(sel)?.getAttribute(attr)), [W, RUN_STATUS_ATTRIBUTE], {
+      timeout: WIDGET_WAIT_MS,
+    });
+    expect(await session.page.getAttribute(W, RUN_STATUS_ATTRIBUTE)).toBe("done");
+    expect(await session.page.getAttribute(W, DESIGN_DRAWN_ATTRIBUTE)).toBe(optimum.fingerprint);
+    expect(await session.page.locator(`${W} .qf-run progress`).evaluate((p) => (p as unknown as { value: number }).value)).toBe(1);
+    expect(session.consoleErrors).toEqual([]);
+  });
+
+  it("Stop ends a run in the page between two steps; the saved answer stays drawn", async () => {
+    const long = spreadWidget(setup, margin, [{ target: "detector.efficiency", value: "95 % ± 2 %" }], { grid, samples: 3000, seed: 7 });
+    await open("spread-stop.html", long.state);
+    // Started and stopped in one task: the first slice runs, then Stop is heard before the second.
+    await session.page.evaluate(async () => {
+      const view = (globalThis as any).quietframeRuntime.designWidgets[0];
+      const running = view.pageRun.run();
+      (globalThis as any).document.querySelectorAll(".qf-run button")[1].click();
+      await running;
+    });
+    expect(await session.page.getAttribute(W, RUN_STATUS_ATTRIBUTE)).toBe("stopped");
+    const line = (await session.page.locator(`${W} .qf-run-line`).textContent()) ?? "";
+    const [, done] = /^spread stopped after (\d+) of 3000 samples; no result is given for a stopped run; the answer shown is the one saved$/.exec(line) ?? [];
+    expect(Number(done)).toBeGreaterThan(0);
+    expect(Number(done)).toBeLessThan(3000);
+    expect(await session.page.getAttribute(W, DESIGN_DRAWN_ATTRIBUTE)).toBe(long.fingerprint);
+    expect(await session.page.locator(`${W} .qf-run button`, { hasText: "Compute in this page" }).isEnabled()).toBe(true);
     expect(session.consoleErrors).toEqual([]);
   });
 

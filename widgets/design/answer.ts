@@ -1,14 +1,17 @@
 /** Computes a design question through the engine and returns the answer as plain JSON values. */
 import {
   CellStatus,
+  checkStopSignal,
   designParameter,
   designProblem,
   loadSetup,
   logGrid,
   numericParameters,
-  optimizeDesign,
+  optimizeSteps,
   rankParameters,
-  spreadAnalysis,
+  runToEnd,
+  spreadSteps,
+  stopIfAborted,
   type DesignFigure,
   type FigureSpec,
   type OptimizeResult,
@@ -19,7 +22,7 @@ import {
 import type { DesignAnswer, DesignQuestion, FigureLabel, GridText, NoiseCurves, OptimumAnswer, PlainNumber, RankingAnswer, RankingQuestion, SpreadAnswer } from "./format";
 
 /**
- * The one place the widget asks the engine (rankParameters, optimizeDesign, spreadAnalysis):
+ * The one place the widget asks the engine (rankParameters, optimizeSteps, spreadSteps):
  * the kernel, `quietframe render` and the state loader all compute through `computeAnswer`, so a
  * saved question gives the same answer, bit for bit, wherever it is computed again.
  */
@@ -50,17 +53,29 @@ function figureLabel(f: DesignFigure): FigureLabel {
 /** Told after each step of a long computation: steps done of all there are (parameters of a ranking). */
 export type StepReport = (done: number, total: number) => void;
 
-/** Computes the answer to a question; bad input throws a QuietframeError naming the field (`options.*`, `parameters[…]`, `figure.*`, `grid.*`, `setup`). */
-export function computeAnswer(setup: SetupDescription, figure: FigureSpec, question: DesignQuestion, grid?: GridText, onStep?: StepReport): DesignAnswer {
+/**
+ * Computes the answer to a question; bad input throws a QuietframeError naming the field (`options.*`, `parameters[…]`, `figure.*`, `grid.*`, `setup`).
+ * An aborted `signal` stops the run between parameters, starts or blocks of samples with a DesignRunStopped, and no answer.
+ */
+export function computeAnswer(setup: SetupDescription, figure: FigureSpec, question: DesignQuestion, grid?: GridText, onStep?: StepReport, signal?: AbortSignal): DesignAnswer {
+  return runToEnd(answerSteps(setup, figure, question, grid, onStep, signal));
+}
+
+/**
+ * computeAnswer one step at a time (a parameter of a ranking, an optimizer start, a block of
+ * Monte Carlo samples): the generator yields between steps and returns the answer, so a page can
+ * run it in slices (runInSlices) and stay responsive, with the same bits.
+ */
+export function* answerSteps(setup: SetupDescription, figure: FigureSpec, question: DesignQuestion, grid?: GridText, onStep?: StepReport, signal?: AbortSignal): Generator<number, DesignAnswer> {
   switch (question.kind) {
     case "ranking":
-      return rankingAnswer(rankOneByOne(setup, figure, question, grid, onStep));
+      return rankingAnswer(yield* rankSteps(setup, figure, question, grid, onStep, signal));
     case "optimum": {
-      const options = { starts: question.starts, seed: question.seed, maxEvaluationsPerStart: question.maxEvaluationsPerStart, tolerance: question.tolerance, grid, onProgress: onStep };
-      return optimumAnswer(setup, figure, grid, optimizeDesign(setup, figure, question.parameters, options));
+      const options = { starts: question.starts, seed: question.seed, maxEvaluationsPerStart: question.maxEvaluationsPerStart, tolerance: question.tolerance, grid, onProgress: onStep, signal };
+      return optimumAnswer(setup, figure, grid, yield* optimizeSteps(setup, figure, question.parameters, options));
     }
     case "spread":
-      return spreadAnswer(spreadAnalysis(setup, figure, question.uncertain, { samples: question.samples, seed: question.seed, target: question.target, grid, onProgress: onStep }));
+      return spreadAnswer(yield* spreadSteps(setup, figure, question.uncertain, { samples: question.samples, seed: question.seed, target: question.target, grid, onProgress: onStep, signal }));
   }
 }
 
@@ -70,7 +85,13 @@ export function computeAnswer(setup: SetupDescription, figure: FigureSpec, quest
  * steps and scan), so the rows, their order (largest |gain per 1 %| first, ties in list order) and
  * the evaluation count (the set-up's own value once) are exactly those of one call.
  */
-export function rankOneByOne(setup: SetupDescription, figure: FigureSpec, question: RankingQuestion, grid: GridText | undefined, onStep?: StepReport): Ranking {
+export function rankOneByOne(setup: SetupDescription, figure: FigureSpec, question: RankingQuestion, grid: GridText | undefined, onStep?: StepReport, signal?: AbortSignal): Ranking {
+  return runToEnd(rankSteps(setup, figure, question, grid, onStep, signal));
+}
+
+/** rankOneByOne as a generator: it yields after each parameter but the last. */
+function* rankSteps(setup: SetupDescription, figure: FigureSpec, question: RankingQuestion, grid: GridText | undefined, onStep?: StepReport, signal?: AbortSignal): Generator<number, Ranking> {
+  checkStopSignal(signal);
   const options = { scanPoints: question.scanPoints, relativeStep: question.relativeStep, grid };
   // Every option, the figure and the grid are checked (and the set-up's figure taken) before the first parameter.
   const head = rankParameters(setup, figure, { ...options, parameters: [] });
@@ -78,12 +99,14 @@ export function rankOneByOne(setup: SetupDescription, figure: FigureSpec, questi
   const targets = question.parameters === undefined ? numericParameters(base).map((p) => p.target) : question.parameters.map((t, i) => designParameter(base, t, `options.parameters[${i}]`).target);
   const rows: Ranking["parameters"][number][] = [];
   let evaluations = head.evaluations;
-  targets.forEach((target, i) => {
+  for (const [i, target] of targets.entries()) {
+    stopIfAborted(signal, "ranking", i, targets.length, "parameters");
     const one = rankParameters(setup, figure, { ...options, parameters: [target] });
     rows.push(one.parameters[0]);
     evaluations += one.evaluations - head.evaluations;
     onStep?.(i + 1, targets.length);
-  });
+    if (i + 1 < targets.length) yield i + 1;
+  }
   const key = (r: Ranking["parameters"][number]): number => (r.gainPer1Percent === null ? -1 : Math.abs(r.gainPer1Percent));
   const ranked = rows
     .map((r, i) => ({ r, i }))

@@ -28,6 +28,11 @@ export interface DesignWidgetOptions {
   grid?: GridText;
   /** Shown above the widget. */
   title?: string;
+  /**
+   * Stops the computation between parameters, starts or blocks of samples: the call then throws
+   * a DesignRunStopped ("stopped after N of M …") and no widget is made (set() keeps the last answer).
+   */
+  signal?: AbortSignal;
 }
 
 export type RankingWidgetOptions = DesignWidgetOptions & Omit<RankingQuestion, "kind">;
@@ -82,14 +87,14 @@ export class NotebookDesign<A extends DesignAnswer = DesignAnswer> {
     return designCautions(this.#state);
   }
 
-  /** Asks the question again with some of its fields changed; on bad input nothing changes. */
-  set(changes: QuestionChanges): this {
+  /** Asks the question again with some of its fields changed; on bad input or a stop (`options.signal`) nothing changes. */
+  set(changes: QuestionChanges, options: Pick<DesignWidgetOptions, "signal"> = {}): this {
     if (typeof changes !== "object" || changes === null || Array.isArray(changes))
       throw new QuietframeError({ path: "changes", value: changes, problem: "must be an object", allowed: "fields of the question, e.g. { seed: 2 }" });
     if ("kind" in changes) throw new QuietframeError({ path: "changes.kind", problem: "cannot change the kind of question", allowed: "a new widget for another question" });
     const s = this.#state;
     const question = checkQuestion({ ...s.question, ...changes }, "changes");
-    this.#state = ask(s.setup, s.figure, question, { grid: s.grid, title: s.title });
+    this.#state = ask(s.setup, s.figure, question, { grid: s.grid, title: s.title, signal: options.signal });
     this.#fingerprintMatches = true;
     return this;
   }
@@ -136,22 +141,22 @@ export class NotebookDesign<A extends DesignAnswer = DesignAnswer> {
 
 /** Which parameters to improve first for a figure: gains per 1 % with errors, direction, bound, best alone. */
 export function rankingWidget(setup: SetupDescription, figure: FigureSpec, options: RankingWidgetOptions = {}): NotebookDesign<RankingAnswer> {
-  const { grid, title, ...rest } = options;
-  return new NotebookDesign<RankingAnswer>(ask(setup, figure, checkQuestion({ kind: "ranking", ...rest }, "options"), { grid, title }));
+  const { grid, title, signal, ...rest } = options;
+  return new NotebookDesign<RankingAnswer>(ask(setup, figure, checkQuestion({ kind: "ranking", ...rest }, "options"), { grid, title, signal }));
 }
 
 /** The best settings of the given parameters within their ranges, with the noise before and after. */
 export function optimumWidget(setup: SetupDescription, figure: FigureSpec, parameters: OptimizeParameter[], options: OptimumWidgetOptions = {}): NotebookDesign<OptimumAnswer> {
-  const { grid, title, ...rest } = options;
+  const { grid, title, signal, ...rest } = options;
   const question = checkQuestion({ kind: "optimum", ...rest, parameters }, "options");
-  return new NotebookDesign<OptimumAnswer>(ask(setup, figure, question, { grid, title }));
+  return new NotebookDesign<OptimumAnswer>(ask(setup, figure, question, { grid, title, signal }));
 }
 
 /** What the spread of uncertain parameters does to the figure: histogram, percentiles, noise bands. */
 export function spreadWidget(setup: SetupDescription, figure: FigureSpec, uncertain: UncertaintySpec[], options: SpreadWidgetOptions = {}): NotebookDesign<SpreadAnswer> {
-  const { grid, title, ...rest } = options;
+  const { grid, title, signal, ...rest } = options;
   const question = checkQuestion({ kind: "spread", ...rest, uncertain }, "options");
-  return new NotebookDesign<SpreadAnswer>(ask(setup, figure, question, { grid, title }));
+  return new NotebookDesign<SpreadAnswer>(ask(setup, figure, question, { grid, title, signal }));
 }
 
 /** A saved design widget (a bare state or a widget-state document, as an object or JSON text), its answer computed again. */
@@ -165,7 +170,7 @@ export function designWidget(saved: DesignState | Record<string, unknown> | stri
 
 function ask(setup: SetupDescription, figure: FigureSpec, question: DesignQuestion, options: DesignWidgetOptions): DesignState {
   const progress = progressReporter(Date.now, (t) => void process.stdout.write(t), PROGRESS_LABELS[question.kind]);
-  const answer = computeAnswer(setup, figure, question, options.grid, progress.onStep);
+  const answer = computeAnswer(setup, figure, question, options.grid, progress.onStep, options.signal);
   progress.finish();
   return designState(setup, figure, question, answer, options);
 }

@@ -13,11 +13,12 @@ import { designCautions } from "../cautions";
 import { designCsv } from "../csv";
 import { designDocumentText, readDesignState } from "../document";
 import { answerFingerprint } from "../fingerprint";
-import type { DesignState } from "../format";
+import type { DesignAnswer, DesignState } from "../format";
 import { designMethods } from "../methods";
 import { DESIGN_CLASS, DESIGN_DRAWN_ATTRIBUTE, DESIGN_STATE_CLASS } from "../names";
 import { answerSpecs } from "../specs";
 import { answerSummary, designTitle } from "../summary";
+import { PageRun } from "./page-run";
 
 const STYLE_ID = "quietframe-design-style";
 const D = `.${DESIGN_CLASS}`;
@@ -27,6 +28,8 @@ ${D} .qf-answer{margin:0;padding-left:0;list-style:none;font-variant-numeric:tab
 ${D} .qf-caution{border:2px solid #c77700;background:#fff6de;color:#3d2600;padding:.45em .7em}
 ${D} .qf-methods p{margin:.3em 0;max-width:60em}
 ${D} .qf-actions button{font:inherit;font-size:13px;padding:.2em .7em;cursor:pointer}
+${D} .qf-run{display:flex;gap:.6em;align-items:center;margin:.4em 0}
+${D} .qf-run button{font:inherit;font-size:13px;padding:.2em .7em;cursor:pointer}
 `;
 
 /** The widget's styles, added to the page once. */
@@ -35,8 +38,9 @@ export function injectDesignStyles(doc: Document = document): void {
 }
 
 /**
- * One live design widget: the answer is drawn from the state the page carries (nothing is
- * computed here but the fingerprint of the numbers it draws, which must equal the stored one).
+ * One live design widget: the answer is drawn from the state the page carries (checked against
+ * its stored fingerprint), and "Compute in this page" computes the question again here in slices,
+ * with progress and Stop (page-run.ts), drawing the new answer once it is whole.
  */
 export class DesignWidgetView {
   readonly element: HTMLElement;
@@ -45,6 +49,9 @@ export class DesignWidgetView {
   private views: View[] = [];
   private readonly alert = el("div", { class: "qf-alert", role: "alert", hidden: "" });
   private readonly charts = el("div", { class: "qf-charts" });
+  private readonly summary = el("ul", { class: "qf-answer" });
+  /** The page's own run of the question (absent until the view has started). */
+  pageRun: PageRun | undefined;
 
   constructor(element: HTMLElement) {
     this.element = element;
@@ -92,6 +99,8 @@ export class DesignWidgetView {
         `The numbers in this page do not match the fingerprint they were saved with (${state.fingerprint}; drawn ${drawn}): the state was edited or damaged. Compute it again with quietframe render.`,
       );
     }
+    this.summary.replaceChildren(...answerSummary(state.answer).map((line) => el("li", {}, [line])));
+    this.pageRun = new PageRun(state, this.element, (answer) => this.showAnswer(answer));
     const cautions = designCautions(state);
     const live = el("div", { class: "qf-live" }, [
       el("strong", { class: "qf-title" }, [designTitle(state)]),
@@ -107,11 +116,8 @@ export class DesignWidgetView {
         : null,
       this.alert,
       this.charts,
-      el(
-        "ul",
-        { class: "qf-answer" },
-        answerSummary(state.answer).map((line) => el("li", {}, [line])),
-      ),
+      this.pageRun.element,
+      this.summary,
       el("details", { class: "qf-methods" }, [el("summary", {}, ["Methods"]), el("p", {}, [designMethods(state)])]),
       this.actions(state),
     ]);
@@ -119,6 +125,13 @@ export class DesignWidgetView {
     this.element.append(live);
     this.element.setAttribute(DESIGN_DRAWN_ATTRIBUTE, drawn);
     this.element.setAttribute(STATUS_ATTRIBUTE, "ready");
+  }
+
+  /** Draws an answer computed in the page: its charts, its summary and the fingerprint of what is drawn. */
+  private async showAnswer(answer: DesignAnswer): Promise<void> {
+    this.views = await replaceCanvasCharts(this.charts, answerSpecs(answer), this.views);
+    this.summary.replaceChildren(...answerSummary(answer).map((line) => el("li", {}, [line])));
+    this.element.setAttribute(DESIGN_DRAWN_ATTRIBUTE, answerFingerprint(answer));
   }
 
   private actions(state: DesignState): HTMLElement {
