@@ -305,6 +305,7 @@ export function explorerFigureSpec(computation: ExplorerComputation, state: Pick
   return budgetSpec(computation.table, computation.evaluation.budget.quantity.name, {
     title: state.settings.title ?? computation.setup.name,
     mechanism: explorerMechanismPanel(computation),
+    targetDb: state.settings.targetDb,
   });
 }
 

@@ -1,4 +1,5 @@
 /** The explorer's state file: strict reading, widget-state document, recomputation. */
+import { checkTargetDb } from "./target";
 import { QuietframeError, loadSetup, QUIETFRAME_VERSION, type SetupDescription } from "../../src/index";
 import { computeExplorer, type ExplorerComputation } from "./model";
 import { EXPLORER_MODEL_NAME, EXPLORER_STATE_FORMAT, EXPLORER_STATE_VERSION, type ExplorerSettings, type ExplorerState } from "./format";
@@ -16,7 +17,7 @@ import { setupGridUnchecked, setupUncheckedFields } from "../core/state/unchecke
  */
 
 const STATE_KEYS = ["format", "version", "quietframe", "setup", "controls", "values", "settings", "fingerprint"] as const;
-const SETTINGS_KEYS = ["grid", "spectralDensity", "title"] as const;
+const SETTINGS_KEYS = ["grid", "spectralDensity", "title", "targetDb"] as const;
 const GRID_KEYS = ["from", "to", "points"] as const;
 const DENSITIES = ["amplitude", "power"] as const;
 // Model error paths that already start at a field of the state rather than of the set-up.
@@ -80,6 +81,7 @@ export function explorerUncheckedFields(state: ExplorerState, path: string): Unc
       reason: "chooses whether the fingerprinted power spectral densities are drawn and exported as they are or as their square roots (amplitude densities); no computed number changes",
     },
     ...(state.settings.title === undefined ? [] : [{ path: `${path}.settings.title`, reason: "the chart's title, text only" }]),
+    ...(state.settings.targetDb === undefined ? [] : [{ path: `${path}.settings.targetDb`, reason: "a target line drawn on the ratio panel; no computed number changes" }]),
   ];
 }
 
@@ -178,6 +180,7 @@ function checkSettings(input: unknown, path: string): ExplorerSettings {
     spectralDensity: expectWord(obj.spectralDensity, DENSITIES, `${path}.spectralDensity`),
   };
   if (obj.title !== undefined) out.title = expectString(obj.title, `${path}.title`, "text");
+  if (obj.targetDb !== undefined) out.targetDb = checkTargetDb(obj.targetDb, `${path}.targetDb`);
   return out;
 }
 

@@ -18,6 +18,11 @@ export interface ExplorerSettings {
   spectralDensity: "amplitude" | "power";
   /** Chart title; defaults to the set-up's name. */
   title?: string;
+  /**
+   * A target level relative to the SQL in dB of power (−3 is a factor 2 below it), drawn as a
+   * line on the ratio panel. Display only: the fingerprint does not cover it.
+   */
+  targetDb?: number;
 }
 
 export interface ExplorerState {

@@ -1,3 +1,4 @@
+import { checkTargetDb } from "./target";
 import {
   QuietframeError,
   headlineFigures,
@@ -85,6 +86,7 @@ export function createExplorerState(setup: SetupDescription, options: ExplorerOp
     spectralDensity: "amplitude",
     ...options.settings,
   };
+  if (settings.targetDb !== undefined) checkTargetDb(settings.targetDb, "settings.targetDb");
   const base = {
     format: EXPLORER_STATE_FORMAT,
     version: EXPLORER_STATE_VERSION,

@@ -16,6 +16,8 @@ export interface ChartInput {
   readonly title: string;
   /** A light source's term by mechanism, when the engine splits one. */
   readonly mechanism?: MechanismPanel;
+  /** The target line on the ratio panel, dB relative to the SQL. */
+  readonly targetDb?: number;
 }
 
 /**
@@ -55,6 +57,7 @@ export class ChartView {
       f[f.length - 1],
       ratioRows.length > 0,
       input.mechanism && input.mechanism.rows.length > 0 ? input.mechanism.source : null,
+      input.targetDb ?? null,
     ]);
     if (this.view && key === this.layoutKey) {
       // The ratio panel has one point per frequency: replaced whole, before the curves run the dataflow.
@@ -102,7 +105,7 @@ export class ChartView {
         this.plotted = rows;
       }
     } else {
-      const spec = liveSpec(budgetSpec(input.table, input.quantity, { title: input.title, mechanism: input.mechanism }));
+      const spec = liveSpec(budgetSpec(input.table, input.quantity, { title: input.title, mechanism: input.mechanism, targetDb: input.targetDb }));
       const { View, parse, compile } = vega();
       const vgSpec = compile(spec as unknown as Parameters<typeof compile>[0]).spec;
       const view = new View(parse(vgSpec), { renderer: "canvas", hover: false });

@@ -193,6 +193,7 @@ export class ExplorerWidget {
       quantity: computation.evaluation.budget.quantity.name,
       title: state.settings.title ?? computation.setup.name,
       mechanism: explorerMechanismPanel(computation),
+      targetDb: state.settings.targetDb,
     };
   }
 

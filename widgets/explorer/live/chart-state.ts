@@ -42,7 +42,7 @@ export function chartPatch(state: ExplorerState, computation: ExplorerComputatio
   const title = chartTitle(state);
   const reach = explorerReach(state, computation);
   const mechanism = explorerMechanismPanel(computation);
-  const spec = budgetSpec(computation.table, quantity, { title, mechanism });
+  const spec = budgetSpec(computation.table, quantity, { title, mechanism, targetDb: state.settings.targetDb });
   return {
     // The rows travel as binary curves; the spec names the datasets they fill.
     spec: { ...spec, datasets: { [CURVES_DATASET]: [], [RATIO_DATASET]: [], ...(mechanism ? { [MECHANISM_DATASET]: [] } : {}) } },
