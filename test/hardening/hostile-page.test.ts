@@ -112,8 +112,9 @@ describe("a standalone page from a hostile state file", () => {
   it("shows the text literally: page heading, control labels and the state the widget holds", async () => {
     expect(await session.page.locator("h1").textContent()).toBe(HOSTILE);
     const labels = await session.page.locator(`${WIDGET} label`).allTextContents();
-    expect(labels).toContain(`${HOSTILE} (squeezing)`);
-    expect(labels).toContain(`${HOSTILE} (efficiency)`);
+    // Each label is the control's own text, literally, followed by its unit where it has one.
+    expect(labels).toContain(`${HOSTILE} (squeezing) [dB]`);
+    expect(labels.filter((l) => l === `${HOSTILE} (efficiency)` || (l.startsWith(`${HOSTILE} (efficiency) [`) && l.endsWith("]")))).toHaveLength(1);
     const state = await pageState(session.page, 0);
     expect(state.settings.title).toBe(HOSTILE);
     expect(state.setup.name).toBe(HOSTILE);

@@ -264,7 +264,7 @@ function mechanismPanelSpec(axis: ReturnType<typeof frequencyAxis>, source: stri
   const y = {
     field: "value",
     type: "quantitative",
-    scale: { domain: { unionWith: [0, 1] }, nice: true },
+    scale: { nice: true },
     axis: leftAxis("share of term", { grid: true, tickCount: 4, format: "~r" }),
   };
   const level = (v: number) => ({ y: { datum: v, type: "quantitative" } });
