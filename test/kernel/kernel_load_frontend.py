@@ -160,6 +160,26 @@ class KernelLoadTests(unittest.TestCase):
         self.assertEqual(k["values"], k["state"])
         self.assertAlmostEqual(percent(k["state"]["detector.efficiency"]), 90, places=9)
 
+    def test_5_drag_over_every_position_is_never_corrected(self):
+        slider = self.ids["slider"]
+        state = self.ids["slider_state"]
+        steps = round((state["max"] - state["min"]) / state["step"])
+        # A drag as a slider sends it: its own positions, min + k·step in its floating point. The kernel reads some
+        # of them a few ulps away (63.75 vs "63.75 %" → 63.74999999999999); a slider given such a number snaps it
+        # back and sends it again, which would replace the drag's newer value, so no position may be corrected.
+        values = [state["min"] + k * state["step"] for k in range(steps, -1, -1)]
+        ids = [self.fe.send_nowait("comm_msg", {"comm_id": slider, "data": update(v)}) for v in values]
+        by_parent, _ = self.fe.collect_many(ids)
+        for msg_id, value in zip(ids, values):
+            slider_msgs = [m for m in comm_msgs(by_parent[msg_id]) if m["content"]["comm_id"] == slider]
+            # messages.md 2.1: the echo_update of what was applied, and no update (the value needs no correction).
+            self.assertEqual([(m["content"]["data"]["method"], m["content"]["data"]["state"]) for m in slider_msgs], [("echo_update", {"value": value})], value)
+        k = self.kernel_side()
+        self.assertEqual(k["slider"], values[-1])
+        self.assertEqual(k["values"], k["state"])
+        self.assertAlmostEqual(percent(k["values"]["detector.efficiency"]), values[-1], places=9)
+        self.assertIsNone(k["error"])
+
 
 if __name__ == "__main__":
     result = unittest.main(module=__name__, argv=[sys.argv[0], "-v"], exit=False).result

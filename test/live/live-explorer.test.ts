@@ -6,6 +6,7 @@ import type { SetupDescription } from "../../src/setup/format";
 import { resolveControls, sliderPosition, sliderValue, writeValue } from "../../widgets/core/controls/setup-controls";
 import { computeExplorer, createExplorerState } from "../../widgets/explorer/model";
 import { curvesFromWire, type WireCurves } from "../../widgets/explorer/live/chart-wire";
+import { controlWidget } from "../../widgets/explorer/live/control-widgets";
 import { LiveExplorer, type LiveChange } from "../../widgets/explorer/live/live-explorer";
 import { CHART_MODEL_NAME, CHART_VIEW_NAME, LIVE_MODULE } from "../../widgets/explorer/live/names";
 import type { ControlSpec } from "../../widgets/core/controls/control-spec";
@@ -258,6 +259,55 @@ describe("LiveExplorer: values the kernel snaps go back to the front-end", () =>
     // A value on a position needs no correction.
     slider.frontEndUpdate({ value: slider.get("value") });
     expect(slider.sent).toHaveLength(1);
+  });
+
+  test("a slider value on a position in the front-end's own rounding is computed there and never sent back", () => {
+    const { w, control } = live();
+    const slider = control("detector.efficiency");
+    const c = resolveControls(membrane(), CONTROLS).find((r) => r.target === "detector.efficiency")!;
+    const min = slider.get("min") as number;
+    const step = slider.get("step") as number;
+    // A front-end slider computes position k as min + k·step in its own floating point
+    // (common practice, no source); 63.75 is one such value, while "63.75 %" reads back as
+    // 63.74999999999999. Sending that back makes the slider snap to its own number and send
+    // again, replacing a newer move that waits in its buffer, so the kernel keeps the old value.
+    const positions = Array.from({ length: c.steps + 1 }, (_, k) => k);
+    // The case arises: some position's number differs between the front-end and the kernel.
+    expect(positions.some((k) => !Object.is(controlWidget(c).toWidget(writeValue(c, sliderValue(c, k))), min + k * step))).toBe(true);
+    for (const k of positions) {
+      slider.frontEndUpdate({ value: min + k * step });
+      expect(slider.sent, `position ${k} (${min + k * step})`).toEqual([]);
+      expect(w.values["detector.efficiency"], `position ${k}`).toBe(writeValue(c, sliderValue(c, k)));
+    }
+    expect(w.state.values["detector.efficiency"]).toBe(writeValue(c, sliderValue(c, c.steps)));
+  });
+
+  test("a drag whose front-end re-snaps every value the kernel sends ends on the drag's last value in kernel and slider", () => {
+    const { w, control } = live();
+    const slider = control("detector.efficiency");
+    const min = slider.get("min") as number;
+    const step = slider.get("step") as number;
+    // The front-end's slider (from memory: @jupyter-widgets/controls' FloatSliderView) moves its
+    // handle to a value the kernel sends, and sends its own stepped value again when that differs.
+    const ownStep = (v: number): number => min + Math.round((v - min) / step) * step;
+    let messages = 0;
+    const frontEndSends = (value: number): void => {
+      let next: number | undefined = value;
+      while (next !== undefined && messages < 100) {
+        const before = slider.sent.length;
+        slider.frontEndUpdate({ value: next });
+        messages += 1;
+        const back = slider.sent
+          .slice(before)
+          .map((p) => p.value as number)
+          .pop();
+        next = back !== undefined && ownStep(back) !== back ? ownStep(back) : undefined;
+      }
+    };
+    for (const v of [72.5, 68.25, 63.75, 59.5]) frontEndSends(ownStep(v));
+    expect(messages).toBe(4);
+    expect(slider.get("value")).toBe(ownStep(59.5));
+    expect(w.values["detector.efficiency"]).toBe("59.5 %");
   });
 });
 

@@ -3,6 +3,9 @@ import { QuietframeError, log10, pow, parseQuantity, type QuantityKind } from ".
 import { checkValue, sliderPosition, sliderValue, writeValue, type ResolvedControl } from "../../core/controls/setup-controls";
 import type { StandardControl } from "./host";
 
+/** Two slider values closer than this fraction of one step are the same position. */
+export const SAME_POSITION_FRACTION = 1e-6;
+
 /**
  * One explorer control as a standard Jupyter control: which widget, its initial state, and
  * the two conversions between a value as a set-up writes it ("6.5 K") and what the widget
@@ -11,6 +14,12 @@ import type { StandardControl } from "./host";
  * Slider values coming back from a front-end are snapped to the control's slider positions
  * with the same functions the kernel-free page uses, so a live notebook and a saved page
  * write the same values and therefore compute the same curves bit for bit.
+ *
+ * A front-end slider computes its positions in its own floating-point steps, a few ulps away
+ * from the kernel's number for the same position ("63.75 %" reads back as 63.74999999999999).
+ * Such a value already shows the right position (`shows`) and is never corrected: a slider
+ * given the kernel's number snaps it to its own and sends that again, which starts an endless
+ * exchange and replaces a newer move still waiting in the front-end's send buffer.
  */
 export interface ControlWidget {
   readonly control: ResolvedControl;
@@ -23,6 +32,8 @@ export interface ControlWidget {
   toWidget(written: string | number): number | string;
   /** Written value of what the widget holds; QuietframeError when it holds nothing usable. */
   fromWidget(held: unknown): string | number;
+  /** Whether a widget holding `held` already shows `written` (fromWidget's answer), so no correction goes back. */
+  shows(held: unknown, written: string | number): boolean;
 }
 
 export function controlWidget(c: ResolvedControl): ControlWidget {
@@ -51,13 +62,14 @@ function numericWidget(c: ResolvedControl): ControlWidget {
   };
   const description = describeControl(c);
   if (c.control === "number") {
+    const asText = (written: string | number): string => String(written);
     return {
       control: c,
       widget: "Text",
       key: "value",
       // Sent on Enter or leaving the field, not on every key: half-typed numbers are not values.
       initialState: (written) => ({ description, value: String(written), continuous_update: false }),
-      toWidget: (written) => String(written),
+      toWidget: asText,
       fromWidget: (held) => {
         if (typeof held !== "string")
           throw new QuietframeError({ path: `values.${c.target}`, value: held, problem: "the field holds no text", allowed: `a value such as "${c.unit ? `1 ${c.unit}` : "1"}"` });
@@ -66,9 +78,15 @@ function numericWidget(c: ResolvedControl): ControlWidget {
         if (/^[-+]?(\d+\.?\d*|\.\d+)(e[-+]?\d+)?$/i.test(text)) return c.unit ? `${text} ${c.unit}` : Number(text);
         return text;
       },
+      shows: sameWidgetValue(asText),
     };
   }
   const snap = (held: unknown): string => writeValue(c, sliderValue(c, sliderPosition(c, fromNumber(held))));
+  // Sliders compare positions on their own axis (the exponent for a log slider), to a tiny fraction of a step.
+  const samePosition =
+    (axis: (v: number) => number, step: number) =>
+    (held: unknown, written: string | number): boolean =>
+      typeof held === "number" && Math.abs(axis(held) - axis(toWidget(written))) <= SAME_POSITION_FRACTION * step;
   if (c.scale === "log") {
     const [lo, hi] = exponentsAround(min, max);
     return {
@@ -78,6 +96,7 @@ function numericWidget(c: ResolvedControl): ControlWidget {
       initialState: (written) => ({ description, base: 10, min: lo, max: hi, step: (hi - lo) / c.steps, value: toWidget(written), readout_format: ".4~g" }),
       toWidget,
       fromWidget: snap,
+      shows: samePosition(log10, (hi - lo) / c.steps),
     };
   }
   return {
@@ -87,6 +106,7 @@ function numericWidget(c: ResolvedControl): ControlWidget {
     initialState: (written) => ({ description, min, max, step: (max - min) / c.steps, value: toWidget(written), readout_format: ".4~g" }),
     toWidget,
     fromWidget: snap,
+    shows: samePosition((v) => v, (max - min) / c.steps),
   };
 }
 
@@ -109,7 +129,13 @@ function dropdownWidget(c: ResolvedControl): ControlWidget {
       }
       return choices[held];
     },
+    shows: sameWidgetValue(indexOf),
   };
+}
+
+/** `shows` for controls without positions: the widget holds exactly the widget value of the written one. */
+function sameWidgetValue(toWidget: (written: string | number) => number | string): ControlWidget["shows"] {
+  return (held, written) => Object.is(toWidget(written), held);
 }
 
 /**

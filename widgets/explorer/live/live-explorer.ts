@@ -213,9 +213,8 @@ export class LiveExplorer {
       this.#showError(e);
       return;
     }
-    // Snapped to a slider position (or normalised): the front-ends get the value that is computed.
-    const computedAs = binding.toWidget(written);
-    if (!Object.is(computedAs, held)) this.#asKernel(() => model.set({ [binding.key]: computedAs }));
+    // Snapped to another slider position (or normalised): the front-ends get the value that is computed.
+    if (!binding.shows(held, written)) this.#asKernel(() => model.set({ [binding.key]: binding.toWidget(written) }));
     this.#shown = { ...this.#shown, [target]: written };
     this.#pending = new Set([...(this.#pending ?? []), target]);
     if (this.#host.defer) this.#host.defer(this, () => this.settle());
