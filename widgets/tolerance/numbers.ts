@@ -21,15 +21,18 @@ const STATUS_LABEL = "status [0 ok, 1 unstable, 2 invalid]";
 const axisLabel = (name: "x" | "y", axis: Pick<ToleranceAxisData, "target">): string => `${name}: ${axis.target} [SI]`;
 const figureLabel = (map: Pick<ToleranceMapData, "figure">): string => `figure [${map.figure.unit || "ratio"}]`;
 
+/** −0 as +0: JSON cannot keep −0, so a map computed in memory and its saved copy give the same fingerprint. */
+const positiveZero = (v: number): number => (v === 0 ? 0 : v);
+
 /** A cell without a value (JSON null: an unstable or invalid cell) is hashed as +0; its status tells it apart. */
 function cellFigures(map: ToleranceMapData): number[] {
-  return map.values.map((v) => (v === null ? 0 : decodeValue(v)));
+  return map.values.map((v) => (v === null ? 0 : positiveZero(decodeValue(v))));
 }
 
 function mapSeries(map: ToleranceMapData): Series[] {
   return [
-    { label: axisLabel("x", map.x), values: map.x.values },
-    { label: axisLabel("y", map.y), values: map.y.values },
+    { label: axisLabel("x", map.x), values: map.x.values.map(positiveZero) },
+    { label: axisLabel("y", map.y), values: map.y.values.map(positiveZero) },
     { label: figureLabel(map), values: cellFigures(map) },
     { label: STATUS_LABEL, values: map.status },
   ];
@@ -55,6 +58,6 @@ export function toleranceCsv(map: ToleranceMapData): string {
   for (let k = 0; k < Math.max(x.values.length, y.values.length); k++) lines.push([x.values[k], y.values[k]].map((v) => (v === undefined ? "" : String(v))).join(","));
   lines.push("", ["x index", "y index", figure.label, status.label].map(csvField).join(","));
   const nx = x.values.length;
-  map.values.forEach((v, k) => lines.push([k % nx, Math.floor(k / nx), v === null ? "" : String(decodeValue(v)), String(status.values[k])].join(",")));
+  map.values.forEach((v, k) => lines.push([k % nx, Math.floor(k / nx), v === null ? "" : String(figure.values[k]), String(status.values[k])].join(",")));
   return `${lines.join("\n")}\n`;
 }
