@@ -133,7 +133,7 @@ describe("render --strict for a tolerance map, which carries its numbers and com
   const EXAMPLE = "tolerance-squeezing-efficiency.json";
   type ToleranceJson = Record<string, unknown> & {
     setup: { components: { name: string; params: Record<string, unknown> }[] };
-    spec: { x: { to: string }; figure: Record<string, unknown> };
+    spec: { x: { from: string; to: string }; figure: Record<string, unknown> };
     map: { values: unknown[] };
   };
   const readMap = (): ToleranceJson => JSON.parse(readFileSync(join(STATES, EXAMPLE), "utf8")) as ToleranceJson;
@@ -168,6 +168,19 @@ describe("render --strict for a tolerance map, which carries its numbers and com
     expect(r.code).toBe(1);
     expect(r.err).toMatch(/tampered-tolerance\.json\.fingerprint = "sha256:[0-9a-f]{64}": the recomputed curves differ/);
     expect(r.out).toBe("");
+  });
+
+  it("a map whose set-up or spec no longer computes: the error names the field in the state file", async () => {
+    const setup = readMap();
+    setup.setup.components.find((c) => c.name === "cavity")!.params.linewidth = "abc";
+    const badSetup = await render(writeState("tolerance-bad-setup.json", setup), "-o", join(dir, "bad-setup.csv"), "--strict");
+    expect(badSetup.code).toBe(1);
+    expect(badSetup.err).toContain('tolerance-bad-setup.json.setup.components.cavity.linewidth = "abc"');
+    const spec = readMap();
+    spec.spec.x.from = "-12 kg";
+    const badSpec = await render(writeState("tolerance-bad-spec.json", spec), "-o", join(dir, "bad-spec.csv"), "--strict");
+    expect(badSpec.code).toBe(1);
+    expect(badSpec.err).toContain('tolerance-bad-spec.json.spec.x.from = "-12 kg"');
   });
 
   it("a plain render draws the stored numbers and checks them against the stored fingerprint", async () => {

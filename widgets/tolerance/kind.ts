@@ -1,7 +1,7 @@
 /** The tolerance map as a widget kind (see core/kind.ts): the registry's entry for it. */
-import { toleranceMapInProcess } from "../../src/index";
+import { toleranceMapInProcess, type ToleranceMap } from "../../src/index";
 import type { LoadedWidget, UncheckedField, WidgetKind } from "../core/kind";
-import { isRecord } from "../core/state/strict-read";
+import { isRecord, rebasedErrors } from "../core/state/strict-read";
 import { toleranceView } from "./browser/view";
 import { toleranceFragment, tolerancePageDocument } from "./fragment";
 import { toleranceHeatmapSpec } from "./heatmap-spec";
@@ -24,11 +24,11 @@ export const toleranceKind: WidgetKind<LoadedWidget<ToleranceWidgetState>> = {
       cautions: [],
     };
   },
-  async recompute(loaded) {
+  async recompute(loaded, source) {
     // A merged sweep's map: computing it again is the whole sweep, so its stored numbers are checked against its fingerprint instead.
     if (loaded.state.sweep) return loaded;
     const { state } = loaded;
-    const map = await toleranceMapInProcess(state.setup, state.spec);
+    const map = await computedMap(state, source);
     // The stored messages may hold more failed cells than the map keeps; they are text, not numbers.
     const data = { ...toleranceMapData(map), messages: state.map.messages };
     return { ...loaded, state: { ...state, map: data }, fingerprint: { stored: state.fingerprint ?? null, recomputed: toleranceFingerprint(data), writtenBy: state.quietframe } };
@@ -40,6 +40,20 @@ export const toleranceKind: WidgetKind<LoadedWidget<ToleranceWidgetState>> = {
   page: ({ state }, parts) => tolerancePageDocument(state, parts),
   view: toleranceView,
 };
+
+/** The map computed again from the state; an engine error names its field in the state (spec.x.from, setup.components…). */
+async function computedMap(state: ToleranceWidgetState, source: string): Promise<ToleranceMap> {
+  try {
+    return await toleranceMapInProcess(state.setup, state.spec);
+  } catch (e) {
+    return rebasedErrors(
+      (path) => `${source}.${/^(spec|setup)(?=$|[.[])/.test(path) ? path : /^(x|y|grid|figure)(?=$|[.[])/.test(path) ? `spec.${path}` : `setup.${path}`}`,
+      () => {
+        throw e;
+      },
+    );
+  }
+}
 
 /** The fields of a map's state its fingerprint does not cover, each with the reason it cannot change the numbers. */
 function toleranceUncheckedFields(state: ToleranceWidgetState, path: string): UncheckedField[] {
