@@ -27,8 +27,9 @@ export const RENDER_USAGE = `  quietframe render <state.json> -o <out.html|out.s
       Recomputes a saved widget state (an explorer, a trajectory widget whose simulation
       runs again from its seed, a tolerance map, an entangled-light panel or a design answer
       computed again from its question) and writes its figure: a standalone interactive page
-      (html), the chart (svg, png at --scale, default 2) or the plotted numbers (csv; not for
-      tolerance maps). Warns when the recomputed numbers differ from the stored fingerprint,
+      (html), the chart (svg, png at --scale, default 2) or the plotted numbers (csv). A
+      tolerance map is computed again under --strict; without it, its stored numbers are
+      checked against its fingerprint. Warns when the recomputed numbers differ from the stored fingerprint,
       when the state records none, or when another quietframe version wrote it; --strict
       makes a difference or a missing fingerprint an error and lists the fields the
       fingerprint does not cover, with the reason (docs/fingerprint.md).
@@ -65,7 +66,10 @@ export async function renderCommand(args: string[], io: CliIo): Promise<number> 
   // A notebook: its widget outputs and live charts, one picked by --widget; otherwise a state file.
   const inNotebook = notebookWidgets(text, basename(input));
   const which = widgetNumber(values.widget);
-  const { kind, loaded } = inNotebook ? pickNotebookWidget(inNotebook, basename(input), which).load() : loadWidgetState(text, basename(input), { widget: which });
+  const picked = inNotebook ? pickNotebookWidget(inNotebook, basename(input), which).load() : loadWidgetState(text, basename(input), { widget: which });
+  const kind = picked.kind;
+  // A kind that recomputes asynchronously (a tolerance map) does so under --strict; a plain render draws its stored numbers.
+  const loaded = values.strict === true && kind.recompute ? await kind.recompute(picked.loaded, basename(input)) : picked.loaded;
   const fingerprint = loaded.fingerprint;
   // Under --strict a doubt about the numbers is an error; the notes say what --strict leaves out and why.
   const reproduction = checkReproduction(loaded, input, values.strict === true);

@@ -128,3 +128,89 @@ describe("render --strict for every kind that recomputes its numbers", { timeout
     expect(r.err).toMatch(/fingerprint: is missing: the state records no curve fingerprint/);
   });
 });
+
+describe("render --strict for a tolerance map, which carries its numbers and computes them again", { timeout: 120_000 }, () => {
+  const EXAMPLE = "tolerance-squeezing-efficiency.json";
+  type ToleranceJson = Record<string, unknown> & {
+    setup: { components: { name: string; params: Record<string, unknown> }[] };
+    spec: { x: { from: string; to: string }; figure: Record<string, unknown> };
+    map: { values: unknown[] };
+  };
+  const readMap = (): ToleranceJson => JSON.parse(readFileSync(join(STATES, EXAMPLE), "utf8")) as ToleranceJson;
+
+  it("the example: --strict computes the map again, its fingerprint is the stored one, and the CSV is the kind's table", async () => {
+    const out = join(dir, "tolerance.csv");
+    const r = await render(join(STATES, EXAMPLE), "-o", out, "--strict");
+    expect(r.err).not.toMatch(/warning|quietframe:/);
+    expect(r.code).toBe(0);
+    const { kind, loaded } = loadWidgetState(readFileSync(join(STATES, EXAMPLE), "utf8"), EXAMPLE);
+    expect(loaded.fingerprint?.stored).toMatch(/^sha256:[0-9a-f]{64}$/);
+    expect(loaded.fingerprint?.recomputed).toBe(loaded.fingerprint?.stored);
+    const recomputed = await kind.recompute!(loaded, EXAMPLE);
+    expect(recomputed.fingerprint?.recomputed).toBe(loaded.fingerprint?.stored);
+    expect(readFileSync(out, "utf8")).toBe(kind.figure(recomputed).csv);
+    expect(r.out).toContain(String(loaded.fingerprint?.stored));
+    // What --strict leaves out, each with its reason: the cells' own values of the mapped parameters, titles, messages.
+    expect(r.err).toMatch(/--strict does not check tolerance-squeezing-efficiency\.json\.setup\.components\[\d\]\.params\.squeezing: every cell writes its own value of squeezer\.squeezing/);
+    expect(r.err).toMatch(/--strict does not check tolerance-squeezing-efficiency\.json\.settings: /);
+  });
+
+  it.each<[string, (s: ToleranceJson) => void]>([
+    ["the cavity's linewidth", (s) => (s.setup.components.find((c) => c.name === "cavity")!.params.linewidth = "9 MHz")],
+    ["the spec's x axis", (s) => (s.spec.x.to = "-1 dB")],
+    ["the figure of merit", (s) => (s.spec.figure = { kind: "margin-at", frequency: "1.2 MHz" })],
+  ])("tampering %s fails --strict, names the fingerprint and writes nothing", async (_what, tamper) => {
+    const state = readMap();
+    tamper(state);
+    const input = writeState("tampered-tolerance.json", state);
+    const out = join(dir, "tampered-tolerance.csv");
+    const r = await render(input, "-o", out, "--strict");
+    expect(r.code).toBe(1);
+    expect(r.err).toMatch(/tampered-tolerance\.json\.fingerprint = "sha256:[0-9a-f]{64}": the recomputed curves differ/);
+    expect(r.out).toBe("");
+  });
+
+  it("a map whose set-up or spec no longer computes: the error names the field in the state file", async () => {
+    const setup = readMap();
+    setup.setup.components.find((c) => c.name === "cavity")!.params.linewidth = "abc";
+    const badSetup = await render(writeState("tolerance-bad-setup.json", setup), "-o", join(dir, "bad-setup.csv"), "--strict");
+    expect(badSetup.code).toBe(1);
+    expect(badSetup.err).toContain('tolerance-bad-setup.json.setup.components.cavity.linewidth = "abc"');
+    const spec = readMap();
+    spec.spec.x.from = "-12 kg";
+    const badSpec = await render(writeState("tolerance-bad-spec.json", spec), "-o", join(dir, "bad-spec.csv"), "--strict");
+    expect(badSpec.code).toBe(1);
+    expect(badSpec.err).toContain('tolerance-bad-spec.json.spec.x.from = "-12 kg"');
+  });
+
+  it("a plain render draws the stored numbers and checks them against the stored fingerprint", async () => {
+    const state = readMap();
+    state.map.values[3] = (state.map.values[3] as number) + 1e-9;
+    const input = writeState("tolerance-edited-number.json", state);
+    const plain = await render(input, "-o", join(dir, "edited.csv"));
+    expect(plain.code).toBe(0);
+    expect(plain.err).toMatch(/^warning: the recomputed curves differ from the ones stored in \S+tolerance-edited-number\.json/);
+  });
+
+  it("a map merged from a sweep: its stored numbers are checked against its fingerprint, and --strict says the set-up is not computed again", async () => {
+    const state = readMap();
+    state.sweep = { fingerprint: `sha256:${"1".repeat(64)}`, result: `sha256:${"2".repeat(64)}` };
+    const merged = await render(writeState("tolerance-sweep.json", state), "-o", join(dir, "sweep.csv"), "--strict");
+    expect(merged.code).toBe(0);
+    expect(merged.err).toMatch(/--strict does not check tolerance-sweep\.json\.setup: a merged sweep's map is checked against its stored fingerprint/);
+    state.map.values[0] = (state.map.values[0] as number) * 2;
+    const tampered = await render(writeState("tolerance-sweep-tampered.json", state), "-o", join(dir, "sweep-tampered.csv"), "--strict");
+    expect(tampered.code).toBe(1);
+    expect(tampered.err).toMatch(/tolerance-sweep-tampered\.json\.fingerprint = "sha256:[0-9a-f]{64}": the recomputed curves differ/);
+  });
+
+  it("a map saved before maps had a fingerprint: named as missing (a warning, an error under --strict)", async () => {
+    const input = join(FIXTURES, "tolerance.json");
+    const plain = await render(input, "-o", join(dir, "old-map.csv"));
+    expect(plain.code).toBe(0);
+    expect(plain.err).toMatch(/^warning: .*tolerance\.json records no fingerprint of its numbers/);
+    const strict = await render(input, "-o", join(dir, "old-map-strict.csv"), "--strict");
+    expect(strict.code).toBe(1);
+    expect(strict.err).toContain("tolerance.json.fingerprint: is missing:");
+  });
+});

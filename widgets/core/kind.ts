@@ -92,6 +92,12 @@ export interface WidgetKind<L extends LoadedWidget = LoadedWidget> {
   recognises(value: unknown): boolean;
   /** Reads a saved state strictly (text or parsed) and recomputes it; errors name the field. */
   load(input: unknown, source: string, options?: LoadOptions): L;
+  /**
+   * For a kind whose recomputation is asynchronous (the tolerance map): computes the loaded
+   * state's numbers again and returns it with them and their fingerprint. `render --strict`
+   * calls it; `load` alone then checks only the stored numbers against the stored fingerprint.
+   */
+  recompute?(loaded: L, source: string): Promise<L>;
   figure(loaded: L): FigureSource;
   /** The state as the kind's "Download state" saves it (what its view boots from). */
   stateText(loaded: L): string;

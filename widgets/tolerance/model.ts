@@ -18,6 +18,10 @@ import type { ExplorerState } from "../explorer/format";
 import type { ControlSpec } from "../core/controls/control-spec";
 import { parseUntrustedJson } from "../core/state/state-text";
 import { FINGERPRINT_PATTERN } from "../core/state/strict-read";
+import { decodeValue, encodeValue, type CellValue } from "./cell-value";
+import { toleranceFingerprint } from "./numbers";
+
+export { decodeValue, encodeValue, type CellValue };
 
 /**
  * The tolerance-map widget's model: a finished map as plain JSON (it travels inside the
@@ -26,9 +30,6 @@ import { FINGERPRINT_PATTERN } from "../core/state/strict-read";
  */
 export const TOLERANCE_STATE_FORMAT = "quietframe.tolerance";
 export const TOLERANCE_STATE_VERSION = 1;
-
-/** A figure in JSON: a number, null (no value: see the status) or an infinite value as text. */
-export type CellValue = number | null | "Infinity" | "-Infinity";
 
 export interface ToleranceAxisData {
   readonly target: string;
@@ -80,21 +81,8 @@ export interface ToleranceWidgetState {
   map: ToleranceMapData;
   /** Present on a map merged from a sweep's chunks (or run as a sweep on one machine). */
   sweep?: SweepMark;
-}
-
-/** Encodes a figure for JSON (which has no NaN or infinity). */
-export function encodeValue(v: number): CellValue {
-  if (Number.isNaN(v)) return null;
-  if (v === Infinity) return "Infinity";
-  if (v === -Infinity) return "-Infinity";
-  return v;
-}
-
-export function decodeValue(v: CellValue): number {
-  if (v === null) return NaN;
-  if (v === "Infinity") return Infinity;
-  if (v === "-Infinity") return -Infinity;
-  return v;
+  /** SHA-256 of the map's numbers (docs/fingerprint.md); absent in states saved before maps had one. */
+  fingerprint?: string;
 }
 
 /** The widget state of a finished map; `messages` may hold more failed cells than the map kept. */
@@ -105,7 +93,7 @@ export function toleranceWidgetState(
   settings: ToleranceSettings = {},
   messages: readonly CellMessage[] = map.messages,
 ): ToleranceWidgetState {
-  const axis = (a: ToleranceMap["x"]): ToleranceAxisData => ({ target: a.target, scale: a.scale, written: [...a.written], values: Array.from(a.values), unit: a.unit });
+  const data = toleranceMapData(map, messages);
   return {
     format: TOLERANCE_STATE_FORMAT,
     version: TOLERANCE_STATE_VERSION,
@@ -113,16 +101,23 @@ export function toleranceWidgetState(
     setup: structuredClone(setup),
     spec: structuredClone(spec),
     settings: structuredClone(settings),
-    map: {
-      x: axis(map.x),
-      y: axis(map.y),
-      grid: { from: map.grid.from, to: map.grid.to, points: map.grid.points },
-      figure: structuredClone(map.figure),
-      values: Array.from(map.values, encodeValue),
-      status: Array.from(map.status),
-      counts: { ...map.counts },
-      messages: structuredClone([...messages]),
-    },
+    map: data,
+    fingerprint: toleranceFingerprint(data),
+  };
+}
+
+/** A computed map as the state stores it; `messages` may hold more failed cells than the map kept. */
+export function toleranceMapData(map: ToleranceMap, messages: readonly CellMessage[] = map.messages): ToleranceMapData {
+  const axis = (a: ToleranceMap["x"]): ToleranceAxisData => ({ target: a.target, scale: a.scale, written: [...a.written], values: Array.from(a.values), unit: a.unit });
+  return {
+    x: axis(map.x),
+    y: axis(map.y),
+    grid: { from: map.grid.from, to: map.grid.to, points: map.grid.points },
+    figure: structuredClone(map.figure),
+    values: Array.from(map.values, encodeValue),
+    status: Array.from(map.status),
+    counts: { ...map.counts },
+    messages: structuredClone([...messages]),
   };
 }
 
@@ -155,6 +150,9 @@ export function loadToleranceState(text: string): ToleranceWidgetState {
       problem: "is not a sweep's mark",
       allowed: '{ "fingerprint": "sha256:…", "result": "sha256:…" } as `quietframe sweep merge` writes it',
     });
+  }
+  if (s.fingerprint !== undefined && !FINGERPRINT_PATTERN.test(String(s.fingerprint))) {
+    throw new QuietframeError({ path: "state.fingerprint", value: s.fingerprint, problem: "is not a fingerprint", allowed: '"sha256:" followed by 64 lowercase hex digits (docs/fingerprint.md)' });
   }
   return { ...(s as ToleranceWidgetState), settings: s.settings ?? {}, map: { ...m, messages: Array.isArray(m.messages) ? m.messages : [] } };
 }

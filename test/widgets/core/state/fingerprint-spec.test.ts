@@ -178,4 +178,30 @@ describe("docs/fingerprint.md", () => {
     expect(names).toEqual(["vacuum", "arm 1 alone", "arm 2 alone", "arm 1 given X2 of arm 2"]);
     expect(f.digest()).toBe(stored);
   });
+  it("a tolerance map's stored fingerprint, recomputed from its CSV alone", { timeout: 60_000 }, async () => {
+    const file = join(STATES, "tolerance-squeezing-efficiency.json");
+    const state = JSON.parse(readFileSync(file, "utf8")) as { fingerprint: string; map: { values: unknown[]; x: { values: number[] } } };
+    const [axes, cells] = csvTables(await renderCsv(file));
+    const f = new SpecFingerprint().label("quietframe tolerance-map fingerprint 1");
+    // The axes: the non-empty fields of each column; then the figure (an empty field as +0) and the status of each cell in row order.
+    axes[0].forEach((name, k) =>
+      f.series(
+        name,
+        axes
+          .slice(1)
+          .map((r) => r[k])
+          .filter((v) => v !== "")
+          .map(Number),
+      ),
+    );
+    for (const k of [2, 3])
+      f.series(
+        cells[0][k],
+        cells.slice(1).map((r) => (r[k] === "" ? 0 : Number(r[k]))),
+      );
+    expect(axes[0]).toEqual(["x: squeezer.squeezing [SI]", "y: detector.efficiency [SI]"]);
+    expect(cells[0]).toEqual(["x index", "y index", "figure [dB]", "status [0 ok, 1 unstable, 2 invalid]"]);
+    expect(cells.length - 1).toBe(state.map.values.length);
+    expect(f.digest()).toBe(state.fingerprint);
+  });
 });
