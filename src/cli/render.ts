@@ -106,7 +106,18 @@ export async function reportCommand(args: string[], io: CliIo): Promise<number> 
   const computation = computeExplorer(state);
   for (const w of computation.evaluation.warnings) io.err(`warning: ${w}\n`);
   for (const c of computation.evaluation.cautions) io.err(`caution: ${c}\n`);
-  const bytes = await kindOutput(explorerKind, { state, computation, warnings: computation.evaluation.warnings, cautions: computation.evaluation.cautions }, "html", 2);
+  const bytes = await kindOutput(
+    explorerKind,
+    {
+      state,
+      computation,
+      fingerprint: { stored: state.fingerprint, recomputed: computation.fingerprint, writtenBy: state.quietframe },
+      warnings: computation.evaluation.warnings,
+      cautions: computation.evaluation.cautions,
+    },
+    "html",
+    2,
+  );
   writeAtomically(output, bytes);
   const grid = computation.evaluation.budget.frequencies;
   io.out(

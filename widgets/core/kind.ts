@@ -19,10 +19,10 @@ export interface LoadOptions {
 export interface LoadedWidget<S = unknown> {
   readonly state: S;
   /**
-   * For kinds that recompute their numbers: the stored fingerprint (null when the state records
-   * none, e.g. one written before its kind had one), this quietframe's, and who wrote the state.
+   * The stored fingerprint (null when the state records none, e.g. one written before its kind
+   * had one), this quietframe's, and who wrote the state.
    */
-  readonly fingerprint?: { readonly stored: string | null; readonly recomputed: string; readonly writtenBy: string };
+  readonly fingerprint: { readonly stored: string | null; readonly recomputed: string; readonly writtenBy: string };
   /** Fields the fingerprint does not cover because they cannot change the numbers; `render --strict` lists them. */
   readonly unchecked?: readonly UncheckedField[];
   /** Warnings of the recomputation (not errors: the widget shows them with its figure). */
@@ -31,11 +31,11 @@ export interface LoadedWidget<S = unknown> {
   readonly cautions: readonly string[];
 }
 
-/** The static figure of a loaded state: its Vega-Lite spec and, where the kind has one, the plotted numbers. */
+/** The static figure of a loaded state: its Vega-Lite spec and the plotted numbers. */
 export interface FigureSource {
   readonly spec: Record<string, unknown>;
-  /** Every plotted number in shortest round-trip form; absent for kinds without a table. */
-  readonly csv?: string;
+  /** Every plotted number in shortest round-trip form. */
+  readonly csv: string;
 }
 
 /** A live widget in a page: its root element, and how to let go of it. */

@@ -24,7 +24,7 @@ function compileWarnings(spec: Record<string, unknown>): string[] {
       return logger;
     },
   };
-  compile(spec as Parameters<typeof compile>[0], { logger: logger as never });
+  compile(spec as unknown as Parameters<typeof compile>[0], { logger: logger as never });
   return warnings;
 }
 

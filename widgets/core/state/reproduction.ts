@@ -15,7 +15,7 @@ export interface UncheckedField {
 
 /** The parts of a loaded state this check reads (see LoadedWidget in ../kind.ts). */
 export interface RecomputedState {
-  readonly fingerprint?: { readonly stored: string | null; readonly recomputed: string; readonly writtenBy: string };
+  readonly fingerprint: { readonly stored: string | null; readonly recomputed: string; readonly writtenBy: string };
   readonly unchecked?: readonly UncheckedField[];
 }
 
@@ -31,17 +31,12 @@ const DROP_STRICT = "drop --strict to render the recomputed numbers anyway";
 /**
  * Compares a recomputed state with what it stores. `source` names the input in messages (the
  * file as the user typed it). Throws a QuietframeError under `strict` where the numbers cannot
- * be shown to be the stored ones; otherwise returns warnings. A state of a kind that stores its
- * numbers instead of recomputing them (no `fingerprint`) gets a note under --strict.
+ * be shown to be the stored ones; otherwise returns warnings.
  */
 export function checkReproduction(loaded: RecomputedState, source: string, strict: boolean, version: string = QUIETFRAME_VERSION): ReproductionReport {
   const warnings: string[] = [];
   const notes: string[] = [];
   const fp = loaded.fingerprint;
-  if (!fp) {
-    if (strict) notes.push(`${source} carries its numbers instead of recomputing them, so --strict has no fingerprint to compare; they are drawn as stored`);
-    return { warnings, notes };
-  }
   const versions = fp.writtenBy === version ? `written by quietframe ${fp.writtenBy}, this quietframe` : `written by quietframe ${fp.writtenBy}, recomputed by quietframe ${version}`;
   if (fp.stored === null) {
     const message = `${source} records no fingerprint of its numbers (${versions}), so nothing shows that the recomputed numbers (${fp.recomputed}) are the ones it was saved with`;
