@@ -232,6 +232,20 @@ describe("standalone page in Chromium", () => {
     expect(await downloadedCsv(".quietframe-trajectory")).toBe(renderedCsv(runText));
   });
 
+  it("opens a tolerance map and a design answer in the loader; each page's CSV is the one render writes", { timeout: 120_000 }, async () => {
+    for (const [file, widget] of [
+      ["tolerance-squeezing-efficiency.json", ".quietframe-tolerance"],
+      ["design-ranking-free-mass.json", ".quietframe-design"],
+    ] as const) {
+      const text = readFileSync(join(ROOT, "examples", "states", file), "utf8");
+      await page.locator(".qf-loader-text").fill(text);
+      await page.locator(".qf-loader-load").click();
+      await page.waitForSelector(`${widget}[data-quietframe-status="ready"]`, { timeout: 110_000 });
+      expect(await page.locator(".qf-loader-alert").isHidden()).toBe(true);
+      expect(await downloadedCsv(widget)).toBe(renderedCsv(text));
+    }
+  });
+
   it("logged no console errors and asked for nothing outside the file", () => {
     expect(consoleErrors).toEqual([]);
     expect(outsideRequests).toEqual([]);

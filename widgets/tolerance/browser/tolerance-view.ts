@@ -11,7 +11,8 @@ import { cellExplorerState, heatmapCells, loadToleranceState, type HeatmapCell, 
 import { SELECTED_CELL_ATTRIBUTE, TOLERANCE_STATE_CLASS } from "../names";
 import { messageOf } from "../../core/browser/boot";
 import { el } from "../../core/browser/dom";
-import { actionButton, fileStem } from "../../core/browser/actions";
+import { actionButton, downloadText, fileStem } from "../../core/browser/actions";
+import { toleranceCsv } from "../numbers";
 import { methodsButtons } from "../../core/browser/methods-buttons";
 import { toleranceMethods } from "../methods/methods";
 
@@ -106,7 +107,7 @@ export class ToleranceWidget {
     this.view = undefined;
   }
 
-  /** The map's methods text (Markdown, LaTeX, BibTeX). */
+  /** The map's numbers (the CSV `quietframe render` writes) and its methods text (Markdown, LaTeX, BibTeX). */
   private actions(): HTMLElement {
     const button = (label: string, title: string, action: () => unknown): HTMLButtonElement => actionButton(label, title, action, this.alert);
     const state = (): ToleranceWidgetState => {
@@ -114,11 +115,10 @@ export class ToleranceWidget {
       return this.state;
     };
     const stem = (): string => fileStem(this.state?.settings.title ?? "tolerance-map");
-    return el(
-      "div",
-      { class: "qf-actions" },
-      methodsButtons(button, stem, (options) => toleranceMethods(state(), options)),
-    );
+    return el("div", { class: "qf-actions" }, [
+      button("CSV", "Save the map's numbers: axes, figure and status of every cell (shortest round-trip form)", () => downloadText(toleranceCsv(state().map), `${stem()}.csv`, "text/csv")),
+      ...methodsButtons(button, stem, (options) => toleranceMethods(state(), options)),
+    ]);
   }
 
   private async start(): Promise<void> {
