@@ -5,20 +5,10 @@
  */
 import { describe, expect, it, vi } from "vitest";
 
-const tracked = vi.hoisted(() => ({ created: 0, live: new Set<object>() }));
+vi.mock("node:worker_threads", async (original) => (await vi.importActual<typeof TrackedWorkers>("../helpers/tracked-workers")).trackedWorkerThreads(await original()));
 
-vi.mock("node:worker_threads", async (importOriginal) => {
-  const original = await importOriginal<typeof import("node:worker_threads")>();
-  class TrackedWorker extends original.Worker {
-    constructor(...args: ConstructorParameters<typeof original.Worker>) {
-      super(...args);
-      tracked.created++;
-      tracked.live.add(this);
-      this.on("exit", () => tracked.live.delete(this));
-    }
-  }
-  return { ...original, default: { ...original, Worker: TrackedWorker }, Worker: TrackedWorker };
-});
+import type * as TrackedWorkers from "../helpers/tracked-workers";
+import { tracked } from "../helpers/tracked-workers";
 
 import { DesignRunStopped, spreadAnalysis } from "../../src/design";
 import { runSweepLocally, spreadAnalysisOnThreads, ToleranceMapCancelled } from "../../src/node";

@@ -1,23 +1,10 @@
 import { describe, expect, it, vi } from "vitest";
 
-/**
- * Every worker the map creates is tracked through Node's own 'exit' event, so "no worker is
- * left running" is observed from outside the code under test.
- */
-const tracked = vi.hoisted(() => ({ created: 0, live: new Set<object>() }));
+// Every worker the map creates is tracked (test/helpers/tracked-workers.ts).
+vi.mock("node:worker_threads", async (original) => (await vi.importActual<typeof TrackedWorkers>("../helpers/tracked-workers")).trackedWorkerThreads(await original()));
 
-vi.mock("node:worker_threads", async (importOriginal) => {
-  const original = await importOriginal<typeof import("node:worker_threads")>();
-  class TrackedWorker extends original.Worker {
-    constructor(...args: ConstructorParameters<typeof original.Worker>) {
-      super(...args);
-      tracked.created++;
-      tracked.live.add(this);
-      this.on("exit", () => tracked.live.delete(this));
-    }
-  }
-  return { ...original, default: { ...original, Worker: TrackedWorker }, Worker: TrackedWorker };
-});
+import type * as TrackedWorkers from "../helpers/tracked-workers";
+import { tracked } from "../helpers/tracked-workers";
 
 import { toleranceMap, ToleranceMapCancelled, type ToleranceMapSpec } from "../../src/node";
 import { example } from "./helpers";
