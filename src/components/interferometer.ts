@@ -81,7 +81,10 @@ import { maybeNum, num, type ComponentKind, type MechanicalBody, type ResolvedCo
  * signal carrier, so the arms act on its sidebands as a detuned cavity: a second differential arm
  * mode with the same half-widths, detuning Δ_i, its own arm-loss vacua, and the signal-recycling
  * loop with the idler's own one-way phase φ_i (`idlerSrDetuning`, default the signal's: the
- * recycling cavity's phase depends on the carrier frequency). No bright field sits at the
+ * recycling cavity's phase depends on the carrier frequency). Instead of φ_i the recycling cavity's
+ * length ℓ (`srcLength`) may be given, for an idler one free spectral range above the signal
+ * carrier: the offset Δω = 2π(c/2L + Δ_i/2π) adds Δω·ℓ/c to the one-way phase, so
+ * φ_i = φ + Δω·ℓ/c (mod 2π) (idlerRecyclingPhase below). No bright field sits at the
  * idler's frequency, so its sidebands neither push the test masses (their beat with the signal
  * carrier falls near the free spectral range, far above the band) nor carry the strain: the
  * interferometer is a filter that turns the idler's quadratures by frequency. Read both beams
@@ -193,6 +196,14 @@ export const interferometer: ComponentKind<InterferometerHandle> = {
       optional: true,
     },
     {
+      name: "srcLength",
+      kind: "length",
+      doc: 'Instead of idlerSrDetuning: the signal-recycling cavity length ℓ, e.g. "56 m" (needs idlerDetuning and srmTransmission). The idler carrier sits one free spectral range above the signal carrier, Δω = 2π(c/2L + Δ_i/2π), and picks up Δω·ℓ/c more one-way phase, so φ_i = φ + Δω·ℓ/c (mod 2π; φ = srDetuning, growing with the carrier frequency).',
+      optional: true,
+      min: 0,
+      minExclusive: true,
+    },
+    {
       name: "lengthControl",
       kind: "choice",
       doc: '"servo": a control loop reading the dark port holds the arm length, so growing optical-spring modes are accepted (it changes signal and noise alike, not the noise referred to strain); "none": growing modes are an error.',
@@ -259,6 +270,22 @@ export const interferometer: ComponentKind<InterferometerHandle> = {
         value: c.raw.idlerSrDetuning,
         problem: "an idler recycling phase needs an idler carrier (idlerDetuning) and a signal-recycling mirror (srmTransmission)",
         allowed: "idlerDetuning and srmTransmission beside idlerSrDetuning, or no idlerSrDetuning",
+      });
+    }
+    if (c.given.has("srcLength") && c.given.has("idlerSrDetuning")) {
+      throw new QuietframeError({
+        path: `${c.path}.srcLength`,
+        value: c.raw.srcLength,
+        problem: "the idler's recycling phase is given twice: by srcLength (derived from the cavity length) and by idlerSrDetuning",
+        allowed: "one of srcLength and idlerSrDetuning",
+      });
+    }
+    if (c.given.has("srcLength") && !(c.given.has("idlerDetuning") && c.given.has("srmTransmission"))) {
+      throw new QuietframeError({
+        path: `${c.path}.srcLength`,
+        value: c.raw.srcLength,
+        problem: "a signal-recycling cavity length sets the idler's recycling phase, so it needs an idler carrier (idlerDetuning) and a signal-recycling mirror (srmTransmission)",
+        allowed: "idlerDetuning and srmTransmission beside srcLength, or no srcLength",
       });
     }
     if (c.given.has("srDetuning") && !c.given.has("srmTransmission")) {
@@ -431,8 +458,31 @@ function optionalIdler(builder: NetworkBuilder, c: ResolvedComponent, gammaIn: n
   const optical = builder.addMode(c.name, "optical", `${c.name} differential arm-cavity mode at the idler carrier`);
   const lossColumn = builder.addInputs(c.name, ["idler arm loss (amplitude)", "idler arm loss (phase)"], [1, 0, 0, 1], "loss", `${c.name}: arm loss at the idler carrier`);
   const srm = maybeNum(c, "srmTransmission");
-  const recycling = srm === undefined ? signalLoop : signalRecyclingLoop(srm, maybeNum(c, "idlerSrDetuning") ?? maybeNum(c, "srDetuning") ?? 0, Math.sqrt(2 * gammaIn));
+  const recycling = srm === undefined ? signalLoop : signalRecyclingLoop(srm, idlerPhase(c, detuningHz), Math.sqrt(2 * gammaIn));
   return { idler: { optical, lossColumn, detuning: 2 * Math.PI * detuningHz, ...(recycling && { recycling }) } };
+}
+
+/** φ_i: given (idlerSrDetuning), derived from srcLength, or the signal's φ. */
+function idlerPhase(c: ResolvedComponent, idlerDetuningHz: number): number {
+  const phi = maybeNum(c, "srDetuning") ?? 0;
+  const given = maybeNum(c, "idlerSrDetuning");
+  if (given !== undefined) return given;
+  const ell = maybeNum(c, "srcLength");
+  return ell === undefined ? phi : idlerRecyclingPhase(phi, num(c, "armLength"), idlerDetuningHz, ell);
+}
+
+/**
+ * The one-way phase φ_i (rad, in [0, 2π)) of a signal-recycling cavity of length ℓ (m) at an idler
+ * carrier one free spectral range c/2L plus Δ_i/2π (Hz) above the signal carrier, whose one-way
+ * phase is φ (rad). Sign: φ is the carrier's one-way phase ω·ℓ/c modulo 2π (the envelope of a field
+ * e^{−iωt} gains e^{iωℓ/c} over ℓ, the rotation e^{iφ} the loop applies), so a higher carrier
+ * frequency has the larger phase: φ_i = φ + Δω·ℓ/c, Δω = 2π(c/2L + Δ_i/2π).
+ */
+export function idlerRecyclingPhase(srDetuning: number, armLength: number, idlerDetuningHz: number, srcLength: number): number {
+  const offset = 2 * Math.PI * (SPEED_OF_LIGHT / (2 * armLength) + idlerDetuningHz);
+  const turn = 2 * Math.PI;
+  const phase = (srDetuning + (offset * srcLength) / SPEED_OF_LIGHT) % turn;
+  return phase < 0 ? phase + turn : phase;
 }
 
 /** The signal-recycling loop from whichever description the component has, if any. */

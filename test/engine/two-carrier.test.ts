@@ -1,9 +1,11 @@
-import { describe, expect, it } from "vitest";
+import { beforeAll, describe, expect, it } from "vitest";
+import { idlerRecyclingPhase } from "../../src/components/interferometer";
 import { HBAR, SPEED_OF_LIGHT } from "../../src/constants";
 import { QuietframeError } from "../../src/errors";
 import { evaluate, loadSetup, prepare } from "../../src/pipeline";
 import { assemble } from "../../src/setup/assemble";
 import type { SetupDescription } from "../../src/setup/format";
+import { loadMathjs, type MathJs } from "../helpers/mathjs";
 import { setup } from "../helpers/setups";
 
 /**
@@ -240,3 +242,106 @@ describe("two-carrier entangled light: set-ups without an idler and bad input", 
     expect(() => loadSetup(desc)).toThrow(/idlerSrDetuning[\s\S]*srmTransmission/);
   });
 });
+
+describe("two-carrier entangled light: the idler's recycling phase from the recycling cavity's length", () => {
+  // φ_i = φ + Δω·ℓ/c (mod 2π), Δω = 2π(c/2L + Δ_i/2π): the extra one-way phase of a carrier Δω above
+  // the signal's over the length ℓ (a plane wave's phase ω·ℓ/c, common practice, no source needed).
+  const T = 0.19;
+  const DELTA_HZ = 35;
+  const signalPhase = (desc: SetupDescription): number => loadSetup(desc).components.find((c) => c.name === "ifo")!.values.srDetuning as number;
+
+  let math: MathJs;
+  beforeAll(async () => {
+    math = await loadMathjs();
+  });
+
+  /** The same phase in 60-digit decimal arithmetic (mathjs BigNumber), reduced to [0, 2π). */
+  function bigPhase(phi: number, armLength: number, deltaHz: number, ell: number): number {
+    const m = math.create(math.all, { number: "BigNumber", precision: 60 });
+    const big = (x: number) => m.bignumber(x.toPrecision(17));
+    const c = m.bignumber(SPEED_OF_LIGHT);
+    const twoPi = m.bignumber(-1).acos().times(2);
+    const offset = twoPi.times(c.div(big(armLength).times(2)).plus(big(deltaHz)));
+    return big(phi)
+      .plus(offset.times(big(ell)).div(c))
+      .mod(twoPi)
+      .toNumber();
+  }
+
+  it.each([
+    ["90 deg", 4000, 35, 56],
+    ["80 deg", 4000, -20, 7000],
+    ["0 deg", 10e3, 12.5, 240],
+    ["170 deg", 3000, 0, 4321.5],
+  ])("φ = %s, L = %f m, Δ_i = %f Hz, ℓ = %f m: the derived phase agrees with a 60-digit evaluation", (sr, armLength, deltaHz, ell) => {
+    const phi = signalPhase(twoCarrier({ idlerDetuningHz: deltaHz, idlerAngle: 0, extra: { srmTransmission: T, srDetuning: sr } }));
+    const derived = idlerRecyclingPhase(phi, armLength, deltaHz, ell);
+    expect(derived).toBeGreaterThanOrEqual(0);
+    expect(derived).toBeLessThan(2 * Math.PI);
+    // A few rounding errors of the double evaluation (phases up to 2π: ulp 8.9e-16).
+    expect(Math.abs(derived - bigPhase(phi, armLength, deltaHz, ell))).toBeLessThan(4e-15);
+  });
+
+  it("ℓ = L adds half a turn plus 2π·Δ_i·L/c: the offset is one free spectral range", () => {
+    const phi = 0.25;
+    const expected = phi + Math.PI + (2 * Math.PI * DELTA_HZ * L) / SPEED_OF_LIGHT;
+    expect(Math.abs(idlerRecyclingPhase(phi, L, DELTA_HZ, L) - expected)).toBeLessThan(4e-15);
+  });
+
+  it("with ℓ chosen so that the derived phase equals a given idlerSrDetuning, the budget is bit-identical to giving idlerSrDetuning", () => {
+    const extra = { srmTransmission: T, srDetuning: "90 deg" };
+    const phi = signalPhase(twoCarrier({ idlerDetuningHz: DELTA_HZ, idlerAngle: 0, extra }));
+    // Targets above φ = π/2 and below 2π need no wrap, so a length within a few ulps hits their exact bits.
+    for (const target of [1.9, 2.6, 3.3]) {
+      // ℓ from φ_i = φ + Δω·ℓ/c, then stepped by one ulp at a time until the double evaluation
+      // gives the target's exact bits.
+      const offset = 2 * Math.PI * (SPEED_OF_LIGHT / (2 * L) + DELTA_HZ);
+      const ell = nudgeUntil((x) => idlerRecyclingPhase(phi, L, DELTA_HZ, x) === target, ((target - phi) * SPEED_OF_LIGHT) / offset);
+      expect(ell, `no length gives exactly ${target} rad`).toBeDefined();
+      const fromLength = evaluate(prepare(loadSetup(twoCarrier({ idlerDetuningHz: DELTA_HZ, idlerAngle: 0.6, signalAngle: 0, extra: { ...extra, srcLength: `${ell} m` } }))), FREQS).budget;
+      const given = evaluate(prepare(loadSetup(twoCarrier({ idlerDetuningHz: DELTA_HZ, idlerAngle: 0.6, signalAngle: 0, extra: { ...extra, idlerSrDetuning: `${target} rad` } }))), FREQS).budget;
+      expect(Array.from(fromLength.total)).toEqual(Array.from(given.total));
+      expect(fromLength.terms.map((t) => [t.id, Array.from(t.psd)])).toEqual(given.terms.map((t) => [t.id, Array.from(t.psd)]));
+    }
+  });
+
+  it("a recycling cavity of another length changes the idler's filter and so the conditional noise", () => {
+    const at = (ell: number) =>
+      evaluate(prepare(loadSetup(twoCarrier({ idlerDetuningHz: DELTA_HZ, idlerAngle: 0.6, signalAngle: 0, extra: { srmTransmission: T, srDetuning: "90 deg", srcLength: `${ell} m` } }))), FREQS).budget
+        .total;
+    const short = at(20);
+    const long = at(400);
+    expect(FREQS.some((_, k) => Math.abs(short[k] / long[k] - 1) > 1e-3)).toBe(true);
+  });
+
+  it("refuses srcLength beside idlerSrDetuning, naming both, and srcLength without a mirror or an idler", () => {
+    const both = twoCarrier({ idlerDetuningHz: 10, idlerAngle: 0, extra: { srmTransmission: T, idlerSrDetuning: "0 deg", srcLength: "56 m" } });
+    let error: unknown;
+    try {
+      loadSetup(both);
+    } catch (e) {
+      error = e;
+    }
+    expect(error).toBeInstanceOf(QuietframeError);
+    expect(String((error as Error).message)).toMatch(/srcLength[\s\S]*idlerSrDetuning/);
+    expect(() => loadSetup(twoCarrier({ idlerDetuningHz: 10, idlerAngle: 0, extra: { srcLength: "56 m" } }))).toThrow(/srcLength[\s\S]*srmTransmission/);
+    const noIdler = twoCarrier({ idlerDetuningHz: 10, idlerAngle: 0, extra: { srmTransmission: T, srcLength: "56 m" } });
+    delete (noIdler.components[1].params as Record<string, unknown>).idlerDetuning;
+    expect(() => loadSetup(noIdler)).toThrow(/srcLength[\s\S]*idlerDetuning/);
+    expect(() => loadSetup(twoCarrier({ idlerDetuningHz: 10, idlerAngle: 0, extra: { srmTransmission: T, srcLength: "-5 m" } }))).toThrow(/srcLength/);
+  });
+});
+
+/** The first x within 200 ulps of `start` (searching outwards) for which `ok` holds. */
+function nudgeUntil(ok: (x: number) => boolean, start: number): number | undefined {
+  const bits = new DataView(new ArrayBuffer(8));
+  const step = (x: number, by: number): number => {
+    bits.setFloat64(0, x);
+    bits.setBigInt64(0, bits.getBigInt64(0) + BigInt(by));
+    return bits.getFloat64(0);
+  };
+  for (let k = 0; k <= 200; k++) {
+    for (const x of k === 0 ? [start] : [step(start, k), step(start, -k)]) if (ok(x)) return x;
+  }
+  return undefined;
+}

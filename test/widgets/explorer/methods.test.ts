@@ -170,6 +170,38 @@ describe("explorer methods on the shipped examples", () => {
     expect(markdown).not.toContain("S\\_x = \\|χ\\|² S\\_F");
   });
 
+  test("an interferometer whose idler phase comes from the recycling cavity's length states the length and the derivation", () => {
+    const twoCarrier: Parameters<typeof createExplorerState>[0] = {
+      format: "quietframe.setup",
+      version: 1,
+      components: [
+        { name: "epr", type: "entangled-source", params: { r: 1 } },
+        {
+          name: "ifo",
+          type: "interferometer",
+          params: { mass: "40 kg", armLength: "4 km", armBandwidth: "100 Hz", power: "500 kW", idlerDetuning: "30 Hz", srmTransmission: 0.2, srDetuning: "90 deg", srcLength: "56 m" },
+        },
+        { name: "detector", type: "homodyne", params: { angle: "0 deg" } },
+        { name: "idlerDetector", type: "homodyne", params: { angle: "0 deg" } },
+      ],
+      connections: [
+        ["epr.out1", "ifo.in"],
+        ["epr.out2", "ifo.idlerIn"],
+        ["ifo.out", "detector.in"],
+        ["ifo.idlerOut", "idlerDetector.in"],
+      ],
+      readout: ["detector", "idlerDetector"],
+      signal: { kind: "strain", on: "ifo" },
+    };
+    const { markdown, latex } = both(createExplorerState(twoCarrier));
+    expect(markdown).toContain("signal-recycling cavity length ℓ = 56 m");
+    expect(markdown).toContain("one free spectral range above the signal carrier");
+    expect(latex).toContain("\\phi_i = \\phi + \\Delta\\omega\\,\\ell/c");
+    // Without srcLength the sentence is absent.
+    delete (twoCarrier.components[1].params as Record<string, unknown>).srcLength;
+    expect(both(createExplorerState(twoCarrier)).markdown).not.toContain("one free spectral range above");
+  });
+
   test("an unknown format is a QuietframeError", () => {
     const state = exampleState("free-test-mass.json");
     expect(() => methodsText(state, computeExplorer(state), "html" as "markdown")).toThrow(QuietframeError);

@@ -72,6 +72,7 @@ const PARAMETERS: Readonly<Record<string, Readonly<Record<string, ParameterWords
     signalDetuning: { words: "detuning of the signal-recycled arm mode", symbol: sym("λ/2π", "\\lambda/2\\pi") },
     idlerDetuning: { words: "detuning of the idler carrier from the nearest arm resonance", symbol: sym("Δ_i/2π", "\\Delta_i/2\\pi") },
     idlerSrDetuning: { words: "one-way detuning phase of the signal-recycling cavity at the idler carrier", symbol: sym("φ_i", "\\phi_i") },
+    srcLength: { words: "signal-recycling cavity length", symbol: sym("ℓ", "\\ell") },
     lengthControl: { words: "arm-length control" },
   },
   "filter-cavity": {

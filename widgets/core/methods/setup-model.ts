@@ -156,6 +156,12 @@ function opticalSentences(w: Writer, setup: ResolvedSetup): string[] {
     out.push(
       `The interferometer follows the two-photon input–output relations of a tuned Michelson interferometer with arm cavities of half-width ${w.math("γ", "\\gamma")} (HWHM in rad/s: the intracavity field decays at ${w.math("γ", "\\gamma")}) and circulating power ${w.math("P_arm", "P_{\\mathrm{arm}}")}${w.cite("kimble2001")}.`,
     );
+    if (setup.components.some((c) => c.type === "interferometer" && c.values.srcLength !== undefined)) {
+      out.push(
+        `The idler carrier sits one free spectral range above the signal carrier, ${w.math("Δω = 2π(c/2L + Δ_i/2π)", "\\Delta\\omega = 2\\pi(c/2L + \\Delta_i/2\\pi)")}; its one-way phase in the signal-recycling cavity of length ${w.math("ℓ", "\\ell")} is ` +
+          `${w.math("φ_i = φ + Δω ℓ/c", "\\phi_i = \\phi + \\Delta\\omega\\,\\ell/c")} modulo 2π, the one-way phase growing with the carrier frequency.`,
+      );
+    }
   }
   const squeezers = setup.components.filter((c) => c.type === "squeezed" || c.type === "entangled-source");
   for (const c of squeezers) {
