@@ -168,3 +168,88 @@ describe("notebooks as committed", () => {
     expect(nb.cells.flatMap((c) => c.outputs ?? [])).toEqual([]);
   });
 });
+
+/**
+ * The upgrade path's invented classical noise: the notebook's table gives each step's budget terms
+ * and range with and without the two classical terms. Classical noise is an independent input, so it
+ * adds its own budget term and only adds to the noise PSD: the range with it can be no larger
+ * (common practice, no source: the range integral falls as the PSD rises).
+ */
+describe("upgrade-path.ipynb: invented classical noise beside the quantum noise", () => {
+  const NAME = "upgrade-path.ipynb";
+  const CLASSICAL_TERMS = ["seismicSuspension", "coatingThermal"];
+
+  beforeAll(async () => {
+    // Run on its own when a filter skipped the notebook's block above.
+    if (!executed.has(NAME)) executed.set(NAME, await executeNotebook(jupyter, join(NOTEBOOK_DIR, NAME), outDir, EXECUTE_TIMEOUT_MS));
+  }, EXECUTE_TIMEOUT_MS + 10_000);
+
+  const markdown = (): string => {
+    const nb = executed.get(NAME)?.notebook;
+    if (!nb) throw new Error(`${NAME} did not execute`);
+    return outputsOf(nb)
+      .map((o) => joined(o.data?.["text/markdown"]))
+      .join("\n");
+  };
+
+  /** The table's rows after the header and rule, as cells. */
+  const rows = (): string[][] =>
+    markdown()
+      .split("\n")
+      .filter((l) => l.startsWith("| ") && !l.startsWith("| step |"))
+      .map((l) =>
+        l
+          .slice(1, -1)
+          .split("|")
+          .map((c) => c.trim()),
+      );
+  const mpc = (cell: string): number => {
+    const m = /^(\d+) Mpc$/.exec(cell);
+    if (!m) throw new Error(`not a range in Mpc: ${cell}`);
+    return Number(m[1]);
+  };
+
+  it("names both classical terms as budget terms of their own", () => {
+    const line = markdown()
+      .split("\n")
+      .find((l) => l.startsWith("Classical terms in every budget"));
+    expect(line).toBeDefined();
+    for (const name of CLASSICAL_TERMS) expect(line).toContain(`${name}: strain on ifo (classical)`);
+  });
+
+  it("the vacuum reference and the four steps each have exactly two more budget terms with classical noise", () => {
+    const table = rows();
+    expect(table.map((r) => r[0])).toEqual([
+      expect.stringMatching(/^Vacuum/),
+      expect.stringMatching(/^Step 1/),
+      expect.stringMatching(/^Step 2/),
+      expect.stringMatching(/^Step 3/),
+      expect.stringMatching(/^Step 4/),
+    ]);
+    for (const r of table) {
+      const [quantum, classical] = r[1].split("/").map((n) => Number(n.trim()));
+      expect(quantum, r[0]).toBeGreaterThan(0);
+      expect(classical, r[0]).toBe(quantum + CLASSICAL_TERMS.length);
+    }
+  });
+
+  it("each step's range with classical noise is at most its quantum-only range, and each step names a bottleneck with classical noise", () => {
+    for (const r of rows()) {
+      expect(mpc(r[3]), r[0]).toBeLessThanOrEqual(mpc(r[2]));
+      expect(mpc(r[3]), r[0]).toBeGreaterThan(0);
+    }
+    for (const r of rows().slice(1)) expect(r[6], r[0]).toMatch(/^[a-zA-Z0-9]+\.[a-zA-Z0-9]+ \((increase|decrease|neither)\)$/);
+  });
+
+  it("the shared state is the last step with both classical terms", () => {
+    const nb = executed.get(NAME)!.notebook!;
+    const last = [...nb.cells].reverse().find((c) => c.cell_type === "code")!;
+    const printed = (last.outputs ?? [])
+      .filter((o) => o.output_type === "stream" && o.name === "stdout")
+      .map((o) => joined(o.text))
+      .join("");
+    const loaded = loadExplorerState(printed, "printed state");
+    expect(loaded.fingerprintMatches).toBe(true);
+    expect((loaded.state.setup.classicalNoise ?? []).map((t) => t.name)).toEqual(CLASSICAL_TERMS);
+  });
+});
