@@ -198,7 +198,7 @@ export const interferometer: ComponentKind<InterferometerHandle> = {
     {
       name: "srcLength",
       kind: "length",
-      doc: 'Instead of idlerSrDetuning: the signal-recycling cavity length ℓ, e.g. "56 m" (needs idlerDetuning and srmTransmission). The idler carrier sits one free spectral range above the signal carrier, Δω = 2π(c/2L + Δ_i/2π), and picks up Δω·ℓ/c more one-way phase, so φ_i = φ + Δω·ℓ/c (mod 2π; φ = srDetuning, growing with the carrier frequency).',
+      doc: 'Instead of idlerSrDetuning: the signal-recycling cavity length ℓ, e.g. "56 m" (needs idlerDetuning and srmTransmission). The idler carrier sits one free spectral range above the signal carrier, Δω = 2π(c/2L + Δ_i/2π), and picks up Δω·ℓ/c more one-way phase, so φ_i = φ + Δω·ℓ/c (mod 2π; φ = srDetuning, growing with the carrier frequency). Like the arms, the cavity is taken as short against c/Ω.',
       optional: true,
       min: 0,
       minExclusive: true,
