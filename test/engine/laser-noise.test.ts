@@ -161,6 +161,21 @@ describe("laser frequency noise", () => {
     }
   });
 
+  it("needs the cavity's drive, not its length: a cavity given g0 with the same coupling gives the same term", () => {
+    // G = ω_L/L (length) and g0 = G·x_zpf with x_zpf = √(ħ/(2mΩ_m)) (Aspelmeyer, Kippenberg & Marquardt
+    // 2014, Sec. III.A) describe the same coupling; frequency noise changes the detuning by 2π·δν either way.
+    const xzpf = Math.sqrt(HBAR / (2 * MASS * 2 * Math.PI * F_M));
+    const g0 = ((OMEGA_L / LENGTH) * xzpf) / (2 * Math.PI);
+    const term = (cavity: Record<string, string | number>) => {
+      const base = oscillatorCavity({ power: "1 mW", ...cavity }, "displacement");
+      const { length: _length, ...withoutLength } = base.components[2].params as Record<string, string | number>;
+      const components = base.components.map((c) => (c.name === "cavity" ? { ...c, params: "g0" in cavity ? withoutLength : c.params } : c));
+      const spectrum = { unit: "Hz/√Hz", points: flat(5) };
+      return sumTerms(evaluate(prepare({ ...base, components, classicalNoise: [{ name: "fnoise", enters: "laser frequency", on: "cavity", spectrum }] })).budget.terms, "fnoise");
+    };
+    expectAllClose(term({ g0: `${g0} Hz` }), term({}), 1e-12, "g0 against length");
+  });
+
   it("is a column of its own in the exported budget, labelled by where it enters", () => {
     const setup = { ...oscillatorCavity({ power: "1 mW" }), classicalNoise: [{ name: "fnoise", enters: "laser frequency", on: "cavity", spectrum: { unit: "kHz/rtHz", points: flat(0.01) } }] };
     const budget = evaluate(prepare(setup)).budget;
