@@ -154,7 +154,7 @@ export function cavityDrivePower(c: ResolvedComponent): number | undefined {
 export function driveAmplitudeDirection(c: ResolvedComponent): [number, number] {
   const { kappa, delta } = cavityRates(c);
   if (delta === 0) return [1, 0];
-  const norm = Math.hypot(kappa / 2, delta);
+  const norm = Math.sqrt((kappa * kappa) / 4 + delta * delta);
   return [kappa / 2 / norm, -delta / norm];
 }
 
