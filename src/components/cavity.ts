@@ -1,12 +1,13 @@
 import { QuietframeError } from "../errors";
 import { laserPowerCautions } from "../safety/cautions";
 import { formatQuantity } from "../units";
+import type { NetworkBuilder } from "../network/builder";
 import type { ModeInfo } from "../network/model";
 import { cavityInputPower, intracavityPhotons, opticalAngularFrequency, pushOnBody, zeroPointDisplacement } from "../physics/optomechanics";
 import { wireOpticalMode } from "../physics/optical-mode";
 import { maybeNum, num, type ComponentKind, type MechanicalBody, type ResolvedComponent } from "./types";
 
-interface CavityHandle {
+export interface CavityHandle {
   mode: ModeInfo;
   lossColumn: number;
 }
@@ -95,7 +96,7 @@ export const cavity: ComponentKind<CavityHandle> = {
     const out = wireOpticalMode(builder, handle.mode, rates, inputs.in, handle.lossColumn);
     const body = bodies.mechanics;
     if (body) {
-      const g = quadratureCoupling(c, body, kappa, delta, kIn);
+      const g = quadratureCoupling(c, body);
       pushOnBody(builder, body, builder.state(handle.mode.x), g);
       builder.couple(handle.mode.p, body.mode.x, g);
     }
@@ -113,20 +114,62 @@ export const cavity: ComponentKind<CavityHandle> = {
     if (power !== undefined) return laserPowerCautions(`'${c.name}' is driven with`, power, "of input light");
     const photons = maybeNum(c, "photons");
     if (photons === undefined) return [];
-    const kappa = 2 * Math.PI * num(c, "linewidth");
-    const input = cavityInputPower(photons, num(c, "wavelength"), kappa, 2 * Math.PI * num(c, "detuning"), kappa * num(c, "inputCoupling"));
+    const input = cavityDrivePower(c)!;
     const drive = `${formatQuantity(photons, "count")} intracavity photons at ${formatQuantity(num(c, "wavelength"), "length")}, linewidth ${formatQuantity(num(c, "linewidth"), "frequency")}, detuning ${formatQuantity(num(c, "detuning"), "frequency")} and input coupling ${formatQuantity(num(c, "inputCoupling"), "fraction")}`;
     return laserPowerCautions(`'${c.name}' holds ${drive}, which implies`, input, "of input light");
   },
 };
 
-function quadratureCoupling(c: ResolvedComponent, body: MechanicalBody, kappa: number, delta: number, kIn: number): number {
+/** κ, Δ and κ_in of a cavity in rad/s. */
+function cavityRates(c: ResolvedComponent): { kappa: number; delta: number; kIn: number } {
+  const kappa = 2 * Math.PI * num(c, "linewidth");
+  return { kappa, delta: 2 * Math.PI * num(c, "detuning"), kIn: kappa * num(c, "inputCoupling") };
+}
+
+/** Mean intracavity photon number: given, or held by the given input power; undefined when the cavity has no drive. */
+export function cavityPhotons(c: ResolvedComponent): number | undefined {
+  if (c.given.has("photons")) return num(c, "photons");
+  if (!c.given.has("power")) return undefined;
+  const { kappa, delta, kIn } = cavityRates(c);
+  return intracavityPhotons(num(c, "power"), num(c, "wavelength"), kappa, delta, kIn);
+}
+
+/** Input power P_in of the drive: given, or the one that holds the given photons; undefined when the cavity has no drive. */
+export function cavityDrivePower(c: ResolvedComponent): number | undefined {
+  const power = maybeNum(c, "power");
+  if (power !== undefined) return power;
+  const photons = maybeNum(c, "photons");
+  if (photons === undefined) return undefined;
+  const { kappa, delta, kIn } = cavityRates(c);
+  return cavityInputPower(photons, num(c, "wavelength"), kappa, delta, kIn);
+}
+
+/**
+ * The incoming field's quadratures (cos θ, −sin θ) that carry a fluctuation of the drive's
+ * amplitude. The mode's quadratures are those of its own mean field ā, taken real; the steady
+ * state ā = √κ_in ā_in/(κ/2 − iΔ) (Aspelmeyer, Kippenberg & Marquardt, Rev. Mod. Phys. 86, 1391
+ * (2014), Sec. II.B) turns the drive's phase by θ = arg(κ/2 + iΔ), so the drive's amplitude
+ * quadrature is the mode frame's amplitude quadrature turned back by θ. Exactly (1, 0) on resonance.
+ */
+export function driveAmplitudeDirection(c: ResolvedComponent): [number, number] {
+  const { kappa, delta } = cavityRates(c);
+  if (delta === 0) return [1, 0];
+  const norm = Math.sqrt((kappa * kappa) / 4 + delta * delta);
+  return [kappa / 2 / norm, -delta / norm];
+}
+
+/**
+ * Drives the mode with a fluctuation of its detuning δΔ = 2π·`column` (the column in hertz):
+ * dδa2/dt += √2·ā·δΔ, which is what a change of the cavity length δL = L·δΔ/ω_c does through
+ * the coupling G = ω_c/L (see quadratureCoupling: the body's position enters as √2·G·ā·x).
+ */
+export function driveDetuningNoise(builder: NetworkBuilder, handle: CavityHandle, column: number, photons: number): void {
+  builder.drive(handle.mode.p, builder.input(column), Math.SQRT2 * Math.sqrt(photons) * 2 * Math.PI);
+}
+
+function quadratureCoupling(c: ResolvedComponent, body: MechanicalBody): number {
   const wavelength = num(c, "wavelength");
-  const photons = c.given.has("photons")
-    ? num(c, "photons")
-    : c.given.has("power")
-      ? intracavityPhotons(num(c, "power"), wavelength, kappa, delta, kIn)
-      : missing(c, "photons", 'the drive: photons (e.g. 1e8) or power (e.g. "10 mW")');
+  const photons = cavityPhotons(c) ?? missing(c, "photons", 'the drive: photons (e.g. 1e8) or power (e.g. "10 mW")');
   let G: number; // dω_c/dx in rad/s per metre
   if (c.given.has("g0")) {
     if (body.omega <= 0) {

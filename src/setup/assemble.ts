@@ -10,6 +10,7 @@ import type { Field } from "../network/linear-form";
 import type { StateSpaceModel } from "../network/model";
 import type { ResolvedSetup } from "./validate";
 import { allocateClassicalNoise } from "./classical-entry";
+import { withDriveNoise } from "./classical-laser";
 
 /** A set-up turned into matrices, plus what is needed to read the results. */
 export interface AssembledSetup {
@@ -34,7 +35,8 @@ export function assemble(setup: ResolvedSetup): AssembledSetup {
   const builder = new NetworkBuilder();
   const handles = new Map<string, unknown>();
   for (const c of setup.components) handles.set(c.name, setup.kinds.get(c.name)!.allocate(builder, c));
-  const enterClassical = setup.classical.map((term) => allocateClassicalNoise(builder, term, setup.kinds.get(term.on)!, () => handles.get(term.on)));
+  const componentNamed = (name: string) => setup.components.find((x) => x.name === name)!;
+  const classical = setup.classical.map((term) => allocateClassicalNoise(builder, term, setup.kinds.get(term.on)!, componentNamed(term.on), () => handles.get(term.on)));
   builder.freeze();
 
   const bodyOf = (name: string): MechanicalBody => {
@@ -48,7 +50,7 @@ export function assemble(setup: ResolvedSetup): AssembledSetup {
 
   for (const c of flowOrder(setup)) {
     const kind = setup.kinds.get(c)!;
-    const component = setup.components.find((x) => x.name === c)!;
+    const component = componentNamed(c);
     const inputs: Record<string, Field> = {};
     const bodies: Record<string, MechanicalBody | undefined> = {};
     for (const port of kind.ports) {
@@ -62,13 +64,15 @@ export function assemble(setup: ResolvedSetup): AssembledSetup {
       }
     }
     linkedBodies.set(c, bodies);
-    const out = kind.wire({ builder, component, handle: handles.get(c), inputs, bodies });
+    // A laser's intensity noise rides on the light arriving at the component that carries its drive.
+    const drives = classical.flatMap((t) => (t.drive?.on === c ? [t.drive] : []));
+    const out = kind.wire({ builder, component, handle: handles.get(c), inputs: withDriveNoise(builder, inputs, drives), bodies });
     for (const [port, field] of Object.entries(out)) emitted.set(`${c}.${port}`, field);
   }
 
   const target = setup.kinds.get(setup.signal.on)!;
   target.applySignal!(builder, handles.get(setup.signal.on), setup.signal.kind);
-  for (const enter of enterClassical) enter();
+  for (const term of classical) term.enter();
   const model = builder.build();
   const signal = target.signalReference!(handles.get(setup.signal.on), setup.signal.kind);
   const referredTo = pickQuantity(signal, setup.signal.referTo);

@@ -4,19 +4,51 @@
  * an interferometer). A displacement of a body enters as the force that would move the body
  * alone that much: F = x/χ₀, with χ₀ the body's own susceptibility (mass, resonance, the
  * damping of its baths; no optical spring), so the readout's dynamics act on it as on any force.
+ * Laser noise enters the coupler that carries the drive (classical-laser.ts): intensity noise as
+ * an input added to the light arriving at it, frequency noise into its dynamics.
  */
-import type { ComponentKind } from "../components/types";
+import type { ComponentKind, ResolvedComponent } from "../components/types";
 import { QuietframeError } from "../errors";
 import type { NetworkBuilder } from "../network/builder";
 import { applyForceSignal, susceptibility } from "../physics/mechanics";
 import type { MechanicalBody } from "../physics/mechanical-body";
 import { formatQuantity } from "../units";
 import type { ResolvedClassicalNoise } from "./classical-noise";
+import { isLaserEntry, laserNoiseEntry } from "./classical-laser";
 
-const LABELS: Readonly<Record<string, string>> = { force: "force on", displacement: "displacement of", strain: "strain on" };
+const LABELS: Readonly<Record<string, string>> = {
+  force: "force on",
+  displacement: "displacement of",
+  strain: "strain on",
+  "laser intensity": "laser intensity at",
+  "laser frequency": "laser frequency at",
+};
 
-/** Claims the term's column (allocation phase); returns a function that wires it in once components are wired. */
-export function allocateClassicalNoise(builder: NetworkBuilder, term: ResolvedClassicalNoise, kind: ComponentKind<unknown>, handle: () => unknown): () => void {
+/** A term's column once claimed: how it enters once components are wired, and any noise it adds to light arriving at a component. */
+export interface ClassicalEntry {
+  readonly enter: () => void;
+  readonly drive?: { readonly on: string; readonly port: string; readonly amplitude: number; readonly phase: number; readonly column: number };
+}
+
+/** Claims the term's column (allocation phase). `component`: the one it enters at. */
+export function allocateClassicalNoise(builder: NetworkBuilder, term: ResolvedClassicalNoise, kind: ComponentKind<unknown>, component: ResolvedComponent, handle: () => unknown): ClassicalEntry {
+  if (isLaserEntry(term.enters)) {
+    const laser = laserNoiseEntry(term, component);
+    const column = builder.addClassicalInput(term.name, label(term), laser.psdAt, (frequencies) => requireCovers(term, frequencies));
+    return {
+      enter: () => laser.enter?.(builder, column, handle()),
+      ...(laser.drive ? { drive: { ...laser.drive, on: term.on, column } } : {}),
+    };
+  }
+  return { enter: allocateOnSignalPath(builder, term, kind, handle) };
+}
+
+function label(term: ResolvedClassicalNoise): string {
+  return `${LABELS[term.enters]} ${term.on} (classical)`;
+}
+
+/** A force, displacement or strain: claims the column and returns a function that enters it where a signal of that kind would. */
+function allocateOnSignalPath(builder: NetworkBuilder, term: ResolvedClassicalNoise, kind: ComponentKind<unknown>, handle: () => unknown): () => void {
   let body: MechanicalBody | undefined;
   const spectrumAt = (f: number): number => term.spectrum.psdAt(f);
   const psdAt =
@@ -26,7 +58,7 @@ export function allocateClassicalNoise(builder: NetworkBuilder, term: ResolvedCl
           return spectrumAt(f) / (re * re + im * im);
         }
       : spectrumAt;
-  const column = builder.addClassicalInput(term.name, `${LABELS[term.enters]} ${term.on} (classical)`, psdAt, (frequencies) => requireCovers(term, frequencies));
+  const column = builder.addClassicalInput(term.name, label(term), psdAt, (frequencies) => requireCovers(term, frequencies));
   return () => {
     if (term.enters === "displacement") {
       body = kind.body!(handle());

@@ -1,6 +1,7 @@
 /**
  * The set-up's classical noise terms (a measured or modelled spectrum entering at a named
- * place: a force on a body, a displacement of a body, a strain on an interferometer), checked
+ * place: a force on a body, a displacement of a body, a strain on an interferometer, the
+ * intensity or frequency noise of the laser that drives a cavity or a probe), checked
  * and resolved into spectra in SI. Assembly turns each into an input of its own, so each is a
  * budget term of its own.
  */
@@ -8,14 +9,16 @@ import type { ComponentKind, ResolvedComponent } from "../components/types";
 import { QuietframeError } from "../errors";
 import { SPECTRUM_EXTENSIONS, type LogLogSpectrum, type SpectrumExtension } from "../numeric/log-log-spectrum";
 import { COMPONENT_NAME_PATTERN } from "./schema";
-import { AMPLITUDE_BASE_UNITS } from "./spectrum-units";
+import { AMPLITUDE_BASE_UNITS, amplitudeWords } from "./spectrum-units";
+import { isLaserEntry, laserEntriesOf, laserEntryRefusal } from "./classical-laser";
+import type { OpticalLink } from "./validate";
 import { checkSpectrum, type SpectrumDescription } from "./spectrum-table";
 
 /** A classical noise term as a set-up writes it. */
 export interface ClassicalNoiseDescription {
   /** The term's name in budgets (a name as components have). */
   name: string;
-  /** Where it enters: "force" or "displacement" on a body, "strain" on an interferometer. */
+  /** Where it enters: "force" or "displacement" on a body, "strain" on an interferometer, "laser intensity" or "laser frequency" on the cavity or probe the laser drives. */
   enters: string;
   /** The component it enters at. */
   on: string;
@@ -49,16 +52,24 @@ export interface ResolvedClassicalNoise {
 export function entriesOf(kind: ComponentKind<unknown>): string[] {
   const entries = (kind.signals ?? []).filter((s) => s in AMPLITUDE_BASE_UNITS);
   if (kind.body && !entries.includes("displacement")) entries.push("displacement");
-  return entries;
+  return [...entries, ...laserEntriesOf(kind.type)];
 }
 
-/** Checks the `classicalNoise` list against the resolved components; names must not repeat those of components. */
-export function resolveClassicalNoise(input: unknown, components: readonly ResolvedComponent[], kinds: ReadonlyMap<string, ComponentKind<unknown>>): ResolvedClassicalNoise[] {
+/**
+ * Checks the `classicalNoise` list against the resolved components; names must not repeat those
+ * of components. `optical`: the connections, to name the coupler a light source drives.
+ */
+export function resolveClassicalNoise(
+  input: unknown,
+  components: readonly ResolvedComponent[],
+  kinds: ReadonlyMap<string, ComponentKind<unknown>>,
+  optical: readonly OpticalLink[] = [],
+): ResolvedClassicalNoise[] {
   if (!Array.isArray(input)) throw new QuietframeError({ path: "classicalNoise", value: input, problem: "must be an array", allowed: "[ { name, enters, on, spectrum }, ... ]" });
   const names = new Set(components.map((c) => c.name));
   return input.map((entry, i) => {
     const path = `classicalNoise[${i}]`;
-    const term = resolveTerm(entry, path, kinds);
+    const term = resolveTerm(entry, path, kinds, optical);
     if (names.has(term.name)) {
       throw new QuietframeError({
         path: `${path}.name`,
@@ -72,7 +83,7 @@ export function resolveClassicalNoise(input: unknown, components: readonly Resol
   });
 }
 
-function resolveTerm(entry: unknown, path: string, kinds: ReadonlyMap<string, ComponentKind<unknown>>): ResolvedClassicalNoise {
+function resolveTerm(entry: unknown, path: string, kinds: ReadonlyMap<string, ComponentKind<unknown>>, optical: readonly OpticalLink[]): ResolvedClassicalNoise {
   const o = plainObject(entry, path, "{ name, enters, on, spectrum }");
   unknownKeys(o, path, CLASSICAL_NOISE_KEYS, "a classical noise term");
   const name = o.name;
@@ -87,11 +98,17 @@ function resolveTerm(entry: unknown, path: string, kinds: ReadonlyMap<string, Co
   const entries = entriesOf(kind);
   const enters = o.enters;
   if (typeof enters !== "string" || !entries.includes(enters)) {
+    const refusal = isLaserEntry(enters) ? laserEntryRefusal(path, enters as string, on, kind, kinds, optical) : undefined;
+    if (refusal) throw refusal;
     throw new QuietframeError({
       path: `${path}.enters`,
       value: enters,
-      problem: entries.length ? `is not a place where noise enters '${on}'` : `'${on}' takes no classical noise (it is neither a body nor an interferometer)`,
-      allowed: entries.length ? entries.map((e) => `"${e}"`).join(" or ") : "a component with a body (free mass, oscillator) or an interferometer",
+      problem: entries.length
+        ? `is not a place where noise enters '${on}'`
+        : `'${on}' takes no classical noise (it is neither a body, an interferometer, nor a cavity or probe that carries a laser's drive)`,
+      allowed: entries.length
+        ? entries.map((e) => `"${e}"`).join(" or ")
+        : "a component with a body (free mass, oscillator), an interferometer, or a cavity or position probe for the noise of the laser that drives it",
       choices: entries,
     });
   }
@@ -116,7 +133,7 @@ function resolveTerm(entry: unknown, path: string, kinds: ReadonlyMap<string, Co
       allowed: "load the set-up from its file in Node, or give the spectrum inline as { unit, points }",
     });
   }
-  const checked = checkSpectrum(description, spectrumPath, AMPLITUDE_BASE_UNITS[enters], beyondRange as SpectrumExtension);
+  const checked = checkSpectrum(description, spectrumPath, AMPLITUDE_BASE_UNITS[enters], beyondRange as SpectrumExtension, amplitudeWords(enters));
   const last = checked.spectrum.frequencies.length - 1;
   return { name, path, enters, on, spectrum: checked.spectrum, origin: checked.origin, firstPoint: checked.where(0), lastPoint: checked.where(last) };
 }

@@ -108,7 +108,11 @@ export function setupJsonSchema(): Schema {
       type: "object",
       properties: {
         name: { $ref: "#/$defs/componentName", description: "The term's name in budgets, different from every component's." },
-        enters: { enum: CLASSICAL_ENTRIES, description: '"force" or "displacement" on a body, "strain" on an interferometer.' },
+        enters: {
+          enum: CLASSICAL_ENTRIES,
+          description:
+            '"force" or "displacement" on a body, "strain" on an interferometer, "laser intensity" or "laser frequency" on the cavity (or, for intensity, the position probe given its power) that the laser drives.',
+        },
         on: { $ref: "#/$defs/componentName", description: "The component the noise enters at." },
         spectrum: {
           type: "object",
@@ -118,7 +122,11 @@ export function setupJsonSchema(): Schema {
               description: "A CSV file (path relative to the set-up file) read when the set-up file is loaded in Node; header with units in brackets, then frequency, ASD lines.",
             },
             frequencyUnit: { type: "string", description: 'Unit of the frequencies, "Hz" (default) with any SI prefix.' },
-            unit: { type: "string", description: 'Unit of the amplitude spectral density: "N/√Hz" for a force, "m/√Hz" for a displacement (any SI prefix), "1/√Hz" for strain.' },
+            unit: {
+              type: "string",
+              description:
+                'Unit of the amplitude spectral density: "N/√Hz" for a force, "m/√Hz" for a displacement, "Hz/√Hz" for laser frequency (any SI prefix), "1/√Hz" for strain and for relative intensity noise.',
+            },
             points: {
               type: "array",
               minItems: 2,

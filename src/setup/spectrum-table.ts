@@ -39,9 +39,10 @@ function pointLocator(description: SpectrumDescription, path: string): { where: 
 
 /**
  * Checks units and points and builds the spectrum in SI (Hz, base unit/√Hz). `base`: the
- * amplitude's SI unit at the place the noise enters ("N", "m", "1").
+ * amplitude's SI unit at the place the noise enters ("N", "m", "1", "Hz"); `amplitude`: that
+ * amplitude in words for messages ("N", "strain", "relative intensity noise (δP/P)").
  */
-export function checkSpectrum(description: SpectrumDescription, path: string, base: string, extension: SpectrumExtension): CheckedSpectrum {
+export function checkSpectrum(description: SpectrumDescription, path: string, base: string, extension: SpectrumExtension, amplitude = base === "1" ? "strain" : base): CheckedSpectrum {
   checkFieldTypes(description, path);
   const { where, origin } = pointLocator(description, path);
   const unitPath = description.file !== undefined && description.lines !== undefined ? `${origin}, header` : path;
@@ -63,7 +64,7 @@ export function checkSpectrum(description: SpectrumDescription, path: string, ba
     throw new QuietframeError({
       path: `${unitPath}${unitPath === path ? ".unit" : ""}`,
       value: description.unit,
-      problem: `is not an amplitude spectral density in ${base === "1" ? "strain" : base} per root hertz, which is what this place of entry takes`,
+      problem: `is not an amplitude spectral density in ${amplitude} per root hertz, which is what this place of entry takes`,
       allowed: asdUnitExamples(base),
     });
   }

@@ -87,7 +87,7 @@ export function validateSetup(input: unknown): ResolvedSetup {
   const readout = attempt(() => resolveReadout(top.readout, kinds));
   const signal = attempt(() => resolveSignal(top.signal, kinds));
   const grid = top.grid === undefined ? undefined : attempt(() => parseGrid(top.grid, "grid"));
-  const classical = top.classicalNoise === undefined ? [] : attempt(() => resolveClassicalNoise(top.classicalNoise, components, kinds));
+  const classical = top.classicalNoise === undefined ? [] : attempt(() => resolveClassicalNoise(top.classicalNoise, components, kinds, links?.optical));
   const name = attempt(() => optionalText(top.name, "name")) ?? "";
   const description = attempt(() => optionalText(top.description, "description")) ?? "";
   if (problems.length || !links || !readout || !signal || !classical) return fail();

@@ -24,6 +24,7 @@ function evalJson(file: string) {
 const sqlClosedForm: Record<string, (f: number) => number> = {
   "free-test-mass.json": (f) => freeMassDisplacementSql(0.1, 2 * Math.PI * f),
   "test-mirror-classical-noise.json": (f) => freeMassDisplacementSql(0.1, 2 * Math.PI * f),
+  "test-mirror-laser-noise.json": (f) => freeMassDisplacementSql(0.1, 2 * Math.PI * f),
   "cryogenic-membrane.json": (f) => membraneSql(f),
   "cryogenic-membrane-squeezed.json": (f) => membraneSql(f),
   "hybrid-spin-reference.json": (f) => hybridMembraneSql(f),
@@ -74,6 +75,12 @@ describe("shipped examples through the CLI", () => {
     const ids = evalJson("test-mirror-classical-noise.json").columns.map((c) => c.id);
     expect(ids.some((id) => id.startsWith("coil-driver"))).toBe(true);
     expect(ids.some((id) => id.startsWith("floor"))).toBe(true);
+  });
+
+  it("test-mirror-laser-noise.json: the drive laser's intensity and frequency noise are columns of their own", () => {
+    const ids = evalJson("test-mirror-laser-noise.json").columns.map((c) => c.id);
+    expect(ids.some((id) => id.startsWith("laser-rin"))).toBe(true);
+    expect(ids.some((id) => id.startsWith("laser-frequency"))).toBe(true);
   });
 
   it("spectra/test-mirror-coil-driver-file.json reads the coil-driver spectrum from its CSV file: the same column as the inline table", () => {

@@ -29,6 +29,10 @@ const CONTROLS: Record<string, ControlSpec[]> = {
     { target: "arm.power", min: "1 mW", max: "1 W", label: "input power" },
     { target: "mirror.mass", min: "10 g", max: "1 kg" },
   ],
+  "test-mirror-laser-noise.json": [
+    { target: "arm.power", min: "1 mW", max: "1 W", label: "input power" },
+    { target: "arm.length", min: "1 cm", max: "1 m" },
+  ],
   "long-baseline-detector.json": [
     { target: "ifo.power", min: "10 kW", max: "3 MW", label: "circulating arm power" },
     { target: "squeezer.squeezing", min: "-12 dB", max: "0 dB", scale: "linear", steps: 24 },

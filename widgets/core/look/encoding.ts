@@ -114,10 +114,11 @@ export function curveStyle(name: CurveName): CurveStyle {
  */
 function kindShade(role: CurveRole, kind: string): number {
   if (role === "imprecision" || role === "back-action" || role === "quantum-light") return 0;
-  // Classical terms by where they enter (src/setup/classical-entry.ts), so a force and a displacement on one body tell apart.
+  // Classical terms by where they enter (src/setup/classical-entry.ts), so a force and a displacement on one body, or
+  // a laser's intensity and frequency noise on one cavity, tell apart (frequency noise is a change of the cavity's length).
   if (role === "classical") {
-    const place = ["force", "displacement", "strain"].findIndex((p) => kind.startsWith(p));
-    if (place >= 0) return place;
+    const place = ["force", "displacement", "strain", "laser intensity", "laser frequency"].findIndex((p) => kind.startsWith(p));
+    if (place >= 0) return place === 4 ? 1 : place;
   }
   if (/\((amplitude|X)\)$/.test(kind)) return 1;
   if (/\((phase|P)\)$/.test(kind)) return 0;

@@ -7,6 +7,7 @@
  * the kinds that compute from a set-up (explorer, trajectory).
  */
 import { componentKind, log, squeezeFactorFromDb, type ResolvedSetup } from "../../../src/index";
+import { classicalSentences } from "./classical-terms";
 import { choiceWords, componentTypeWords, parameterWords } from "./parameter-names";
 import type { Writer } from "./writers";
 
@@ -186,5 +187,5 @@ function opticalSentences(w: Writer, setup: ResolvedSetup): string[] {
 
 /** The model's formulas, component by component, each with its source. */
 export function modelSentences(w: Writer, setup: ResolvedSetup): string[] {
-  return [...mechanicalSentences(w, setup), ...spinSentences(w, setup), ...opticalSentences(w, setup)];
+  return [...mechanicalSentences(w, setup), ...spinSentences(w, setup), ...opticalSentences(w, setup), ...classicalSentences(w, setup)];
 }
