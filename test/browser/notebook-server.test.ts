@@ -243,7 +243,11 @@ describe(`${NOTEBOOK} in the classic notebook server`, { timeout: RUN_TIMEOUT_MS
     const nb = JSON.parse(readFileSync(notebookFile, "utf8")) as Notebook;
     nb.metadata.received_as = RECEIVED;
     // Its pages do carry the inline SVG whose labels must not show loose below.
-    expect(outputsOf(nb).filter(isWidgetOutput).map((o) => joined(o.data?.["text/html"]).includes(SVG_AXIS_TITLE))).toEqual(pngOutputs.map(() => true));
+    expect(
+      outputsOf(nb)
+        .filter(isWidgetOutput)
+        .map((o) => joined(o.data?.["text/html"]).includes(SVG_AXIS_TITLE)),
+    ).toEqual(pngOutputs.map(() => true));
     writeFileSync(join(root!, "notebooks", RECEIVED), JSON.stringify(nb, null, 1));
     await page.goto(`${server!.origin}/notebooks/${RECEIVED}?token=${server!.token}`, { waitUntil: "load" });
     await waitForNotebookPage();
