@@ -1,10 +1,13 @@
 import { buildSync } from "esbuild";
+import { readFileSync } from "node:fs";
 import { join } from "node:path";
 import type { Page } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { STATUS_ATTRIBUTE, VERSION_ATTRIBUTE } from "../../widgets/core/page/names";
 import { HIDDEN_PNG_ATTRIBUTE, PAGE_OUTPUT_CLASS, PNG_DATA_URL_PREFIX, PNG_KEY_ATTRIBUTE, pngOutputKey } from "../../widgets/core/page/png-output";
+import { splitKernelFreeOutput } from "../../widgets/core/notebook/figure-output";
 import { renderPng } from "../../widgets/core/render/static";
+import { explorer, type SetupDescription } from "../../widgets/notebook";
 import { LOCAL_ONLY, openBrowser, type BrowserSession } from "./helpers/chromium";
 
 /**
@@ -121,6 +124,25 @@ describe.each(["lab", "classic"] as const)("a kernel-free output's PNG output, i
     expect(await shown()).toEqual(["a", "b", "b-png"]);
     await setStatus("b", "running");
     expect(await shown()).toEqual(["a", "b"]);
+  });
+});
+
+describe("a page output where styles apply but scripts do not (an export with scripts blocked)", () => {
+  /** The page's HTML with its script elements removed, as such a viewer treats it; whether its inline SVG and summary show. */
+  async function scriptless(html: string): Promise<{ svgShown: boolean; summaryShown: boolean }> {
+    await page.setContent(`<!doctype html><body>${html.replace(/<script\b[\s\S]*?<\/script>/g, "")}</body>`);
+    return page.evaluate(() => ({
+      svgShown: (document.querySelector(".qf-fallback-svg svg") as SVGElement).checkVisibility(),
+      summaryShown: (document.querySelector(".qf-summary") as HTMLElement).checkVisibility(),
+    }));
+  }
+
+  it("shows the summary and leaves the figure to the PNG output: the inline SVG stays hidden, where without the wrapper it shows", async () => {
+    const setup = JSON.parse(readFileSync(join(ROOT, "examples", "cryogenic-membrane.json"), "utf8")) as SetupDescription;
+    const bundle = await explorer(setup).bundle({ includeRuntime: false });
+    const { page: output } = splitKernelFreeOutput(bundle, 1);
+    expect(await scriptless(String(bundle["text/html"]))).toEqual({ svgShown: true, summaryShown: true });
+    expect(await scriptless(String(output["text/html"]))).toEqual({ svgShown: false, summaryShown: true });
   });
 });
 

@@ -17,6 +17,13 @@ export interface SplitOutput {
   readonly figure?: { readonly bundle: MimeBundle; readonly options: DisplayOptions };
 }
 
+/**
+ * Where styles apply but scripts do not (an export with scripts blocked), the page's inline SVG
+ * would show above the PNG output: the same figure twice. Inside the wrapper it stays hidden;
+ * the doubled class outranks the fallback style's `:has(svg)` rule (widgets/core/page/fallback.ts).
+ */
+const WRAPPER_STYLE = `<style>.${PAGE_OUTPUT_CLASS} .qf-fallback .qf-fallback-svg.qf-fallback-svg{display:none}</style>`;
+
 // The PNG signature and the IHDR chunk that must follow it (PNG specification, ISO/IEC 15948, 5.2 and 11.2.2).
 const PNG_SIGNATURE = [0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a];
 const IHDR = [0x49, 0x48, 0x44, 0x52];
@@ -39,7 +46,7 @@ export function splitKernelFreeOutput(bundle: MimeBundle, scale: number): SplitO
   if (!(png instanceof Uint8Array) || typeof rest["text/html"] !== "string") return { page: bundle };
   const size = pngSize(png);
   const key = pngOutputKey(base64(png));
-  const page: MimeBundle = { ...rest, "text/html": `<div class="${PAGE_OUTPUT_CLASS}" ${PNG_KEY_ATTRIBUTE}="${escapeHtml(key)}">${rest["text/html"]}</div>` };
+  const page: MimeBundle = { ...rest, "text/html": `<div class="${PAGE_OUTPUT_CLASS}" ${PNG_KEY_ATTRIBUTE}="${escapeHtml(key)}">${WRAPPER_STYLE}${rest["text/html"]}</div>` };
   const width = Math.round(size.width / scale);
   const height = Math.round(size.height / scale);
   return {
