@@ -11,18 +11,20 @@ import { openBrowser, type BrowserSession } from "./helpers/chromium";
 import { createFrontEndEnv, notebookRoot, startLab, type FrontEndEnv } from "./helpers/front-ends";
 import { APP_TIMEOUT_MS, openNotebook, runAll, screenshotArtifact } from "./helpers/jupyter-app";
 import type { NotebookServer } from "./helpers/notebook-server";
-import { isWidgetOutput, summaryFingerprint } from "./helpers/notebook-widgets";
+import { isWidgetOutput, pngOutputsAfterWidgets, pngOutputViews, summaryFingerprint, type PngOutputView, type StoredPngOutput } from "./helpers/notebook-widgets";
 import { expectPageMatchesEngine, fingerprintOf, moveSlider, otherPosition, pageState, sliderPosition, sliderText, WIDGET, waitAllReady } from "./helpers/widgets";
 
 /**
  * Kernel-free widget outputs in JupyterLab 4 and Notebook 7 (the pinned environment of
  * scripts/ensure-python-env.sh): an example notebook, unchanged, run with plain tslab (the
- * notebook's own kernel; no quietframe kernel, no extension). Its outputs are trusted while
- * they are made and once the server has signed the saved file: the widgets come alive from
- * the HTML and replot the engine's numbers without a kernel. A copy this server never signed
- * (a notebook received from someone) opens untrusted: no script runs, and the reader sees
- * the safety note, the summary and how to trust the notebook, never the figure's loose labels;
- * trusting it brings the widgets to life. Screenshots go to QUIETFRAME_TEST_ARTIFACTS.
+ * notebook's own kernel; no quietframe kernel, no extension). Each widget is two outputs: the
+ * page (HTML) and its figure as a PNG output. Its outputs are trusted while they are made and
+ * once the server has signed the saved file: the widgets come alive from the HTML, replot the
+ * engine's numbers without a kernel and hide their PNG outputs. A copy this server never
+ * signed (a notebook received from someone) opens untrusted: no script runs, and the reader
+ * sees the safety note, the summary, how to trust the notebook and the figure as the PNG,
+ * never the SVG's loose labels; trusting it brings the widgets to life and hides the PNGs.
+ * Screenshots go to QUIETFRAME_TEST_ARTIFACTS.
  */
 const EXAMPLE = "cryogenic-membrane.ipynb";
 const NOTEBOOK = "kernel-free.ipynb";
@@ -43,6 +45,10 @@ let browser: BrowserSession | undefined;
 let page: Page;
 /** The fingerprints tslab computed for the widgets (their text summaries), in page order. */
 let fingerprints: string[] = [];
+/** The PNG outputs tslab sent after the widgets, in page order. */
+let pngOutputs: StoredPngOutput[] = [];
+/** JupyterLab's and Notebook 7's element per output. */
+const OUTPUT_CHILD = ".jp-OutputArea-child";
 
 function quietframeConsoleErrors(): string[] {
   return (browser?.consoleErrors ?? []).filter((m) => /quietframe/i.test(m));
@@ -70,6 +76,19 @@ function receivedCopy(name: string): void {
 /** The code cells' trust flags of the open notebook. */
 async function cellTrust(): Promise<boolean[]> {
   return page.evaluate(() => (globalThis as any).jupyterapp.shell.currentWidget.content.widgets.filter((c: any) => c.model.type === "code").map((c: any) => c.model.trusted as boolean));
+}
+
+/** What the open notebook shows of the PNG outputs after its widget outputs. */
+async function pngViews(): Promise<PngOutputView[]> {
+  const id = await page.evaluate(() => (globalThis as any).jupyterapp.shell.currentWidget.node.id as string);
+  return pngOutputViews(page, `[id="${id}"]`, OUTPUT_CHILD);
+}
+
+/** A trusted notebook shows the live page only: each widget's page hid its own PNG output. */
+async function expectPngOutputsHidden(): Promise<void> {
+  await expect
+    .poll(async () => (await pngViews()).map((v) => ({ visible: v.visible, hiddenByPage: v.hiddenByPage })), { timeout: APP_TIMEOUT_MS })
+    .toEqual(pngOutputs.map(() => ({ visible: false, hiddenByPage: true })));
 }
 
 /** Waits until the open notebook shows its widget outputs (booted or not). */
@@ -105,8 +124,10 @@ async function untrustedViews(): Promise<UntrustedView[]> {
 
 /**
  * The untrusted notebook's widget outputs: sanitized HTML with no script, no control and no
- * figure (JupyterLab's sanitizer drops inline SVG and data: images), and no runtime in the
- * page; the reader sees the safety note, the summary and how to trust, not the SVG's labels.
+ * figure inside (JupyterLab's sanitizer drops inline SVG and data: images), and no runtime in
+ * the page; the reader sees the safety note, the summary and how to trust, not the SVG's
+ * labels, and the figure as the PNG output after each page: the stored PNG at the size its
+ * metadata gives.
  */
 async function expectUntrustedView(): Promise<void> {
   await waitForWidgetOutputs();
@@ -121,6 +142,10 @@ async function expectUntrustedView(): Promise<void> {
     expect(view.visibleText).toContain(TRUST_HINT);
     expect(view.visibleText).not.toContain(AXIS_TITLE);
   }
+  const pngs = await pngViews();
+  expect(pngs).toEqual(
+    pngOutputs.map((p) => ({ visible: true, hiddenByPage: false, naturalWidth: p.width, naturalHeight: p.height, width: String(p.metadata.width), height: String(p.metadata.height) })),
+  );
   await page.evaluate((selector) => (globalThis as any).jupyterapp.shell.currentWidget.node.querySelector(selector).scrollIntoView(), WIDGET);
 }
 
@@ -178,8 +203,17 @@ describe("an example notebook run with plain tslab in JupyterLab 4", { timeout: 
     const outputs = await page.evaluate(() => (globalThis as any).jupyterapp.shell.currentWidget.content.widgets.flatMap((c: any) => (c.model.type === "code" ? c.model.outputs.toJSON() : [])));
     fingerprints = outputs.filter(isWidgetOutput).map(summaryFingerprint);
     expect(fingerprints).toHaveLength(WIDGETS);
+    // Each widget's page is followed by its figure: a PNG at one image pixel per chart pixel, named in its text.
+    pngOutputs = pngOutputsAfterWidgets(outputs);
+    expect(pngOutputs).toHaveLength(WIDGETS);
+    for (const p of pngOutputs) {
+      expect(p.width).toBeGreaterThan(300);
+      expect(p.metadata).toEqual({ width: p.width, height: p.height });
+      expect(p.text).toMatch(/^Figure: /);
+    }
     expect(await cellTrust()).not.toContain(false);
     await expectLiveWidgets();
+    await expectPngOutputsHidden();
     await page.locator(WIDGET).first().scrollIntoViewIfNeeded();
     await screenshot("lab-trusted-live");
   });
@@ -193,6 +227,7 @@ describe("an example notebook run with plain tslab in JupyterLab 4", { timeout: 
     await page.waitForFunction(() => (globalThis as any).jupyterapp.shell.currentWidget.context.model.dirty === false, undefined, { timeout: APP_TIMEOUT_MS });
     const saved = JSON.parse(readFileSync(notebookFile(NOTEBOOK), "utf8")) as Notebook;
     expect(outputsOf(saved).filter(isWidgetOutput).map(summaryFingerprint)).toEqual(fingerprints);
+    expect(pngOutputsAfterWidgets(outputsOf(saved))).toEqual(pngOutputs);
     // nbformat's notary of the pinned environment, with the server's data dir (its signing key), agrees it is signed.
     const check = await run(
       fe!.python,
@@ -203,10 +238,11 @@ describe("an example notebook run with plain tslab in JupyterLab 4", { timeout: 
     // A workspace of its own: the page opens this notebook alone, with nothing booted yet.
     await openNotebook(page, server!, `lab/workspaces/reopened/tree/notebooks/${NOTEBOOK}`);
     await expectLiveWidgets();
+    await expectPngOutputsHidden();
     expect(await cellTrust()).not.toContain(false);
   });
 
-  it("a copy this server never signed opens untrusted: no script runs; the summary and how to trust show, not the figure's loose labels", async () => {
+  it("a copy this server never signed opens untrusted: no script runs; the summary, how to trust and the PNG show, not the figure's loose labels", async () => {
     receivedCopy(RECEIVED_IN_LAB);
     await openNotebook(page, server!, `lab/workspaces/received/tree/notebooks/${RECEIVED_IN_LAB}`);
     await expectUntrustedView();
@@ -214,12 +250,13 @@ describe("an example notebook run with plain tslab in JupyterLab 4", { timeout: 
     expect(quietframeConsoleErrors()).toEqual([]);
   });
 
-  it("Trust Notebook (from the command palette's command) brings its widgets to life in place", async () => {
+  it("Trust Notebook (from the command palette's command) brings its widgets to life in place and hides their PNG outputs", async () => {
     expect(await page.evaluate(() => (globalThis as any).jupyterapp.commands.label("notebook:trust"))).toBe("Trust Notebook");
     // Not awaited in the page: the command resolves only when the dialog closes.
     await page.evaluate(() => void (globalThis as any).jupyterapp.commands.execute("notebook:trust"));
     await acceptTrustDialog();
     await expectLiveWidgets();
+    await expectPngOutputsHidden();
     expect(await cellTrust()).not.toContain(false);
     await page.locator(WIDGET).first().scrollIntoViewIfNeeded();
     await screenshot("lab-trusted-after-trust");
@@ -231,13 +268,14 @@ describe("the same notebook in Notebook 7", { timeout: APP_TIMEOUT_MS * 3 }, () 
   it("opens the signed notebook trusted: the widgets come alive and a slider replots the engine's numbers", async () => {
     await openNotebook(page, server!, `notebooks/notebooks/${NOTEBOOK}`);
     await expectLiveWidgets();
+    await expectPngOutputsHidden();
     expect(await cellTrust()).not.toContain(false);
     await expectSliderReplots(1);
     await page.locator(WIDGET).nth(1).scrollIntoViewIfNeeded();
     await screenshot("notebook7-trusted-live");
   });
 
-  it("a copy this server never signed opens untrusted: Not Trusted shows, with the summary and how to trust", async () => {
+  it("a copy this server never signed opens untrusted: Not Trusted shows, with the summary, how to trust and the PNG", async () => {
     receivedCopy(RECEIVED_IN_NOTEBOOK7);
     await openNotebook(page, server!, `notebooks/notebooks/${RECEIVED_IN_NOTEBOOK7}`);
     // Notebook 7's trust indicator in the toolbar.
@@ -247,11 +285,12 @@ describe("the same notebook in Notebook 7", { timeout: APP_TIMEOUT_MS * 3 }, () 
     expect(quietframeConsoleErrors()).toEqual([]);
   });
 
-  it("File → Trust Notebook brings its widgets to life in place", async () => {
+  it("File → Trust Notebook brings its widgets to life in place and hides their PNG outputs", async () => {
     await page.locator(".lm-MenuBar-itemLabel", { hasText: "File" }).first().click();
     await page.locator(".lm-Menu-itemLabel", { hasText: "Trust Notebook" }).click();
     await acceptTrustDialog();
     await expectLiveWidgets();
+    await expectPngOutputsHidden();
     expect(await page.locator(".jp-NotebookTrustedStatus").innerText()).toBe("Trusted");
     expect(await cellTrust()).not.toContain(false);
     await page.locator(WIDGET).first().scrollIntoViewIfNeeded();

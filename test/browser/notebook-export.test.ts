@@ -8,7 +8,7 @@ import { RUNTIME_FILE } from "../../widgets/core/page/runtime-source";
 import { createJupyterEnv, REPO_ROOT, SYSTEM_PYTHON, type JupyterEnv } from "../jupyter/env";
 import { executeNotebook, outputsOf, run, type Notebook, type NotebookOutput } from "../jupyter/notebook-file";
 import { LOCAL_ONLY, openBrowser, type BrowserSession } from "./helpers/chromium";
-import { fallbackSvg, isWidgetOutput, occurrences, summaryFingerprint } from "./helpers/notebook-widgets";
+import { fallbackSvg, isWidgetOutput, occurrences, pngOutputsAfterWidgets, pngOutputViews, summaryFingerprint } from "./helpers/notebook-widgets";
 import { expectPageMatchesEngine, fingerprintOf, moveSlider, otherPosition, pageState, sliderPosition, sliderText, waitAllReady, WIDGET } from "./helpers/widgets";
 
 /**
@@ -92,6 +92,16 @@ describe(`${NOTEBOOK} exported to HTML by nbconvert`, { timeout: 150_000 }, () =
       expect(f.paths).toBeGreaterThan(3);
       expect(f.texts).toBeGreaterThan(3);
     }
+  });
+
+  it("hides each widget's PNG output once the widget is live (a viewer without scripts shows it instead)", async () => {
+    const stored = pngOutputsAfterWidgets(outputsOf(notebook));
+    expect(stored).toHaveLength(widgetOutputs.length);
+    // nbconvert's template puts each output in a .jp-OutputArea-child, as JupyterLab does.
+    const views = await pngOutputViews(page, "body", ".jp-OutputArea-child");
+    expect(views).toEqual(
+      stored.map((p) => ({ visible: false, hiddenByPage: true, naturalWidth: p.width, naturalHeight: p.height, width: String(p.metadata.width), height: String(p.metadata.height) })),
+    );
   });
 
   it("boots every widget with the curves the kernel computed, bit for bit the engine's", async () => {

@@ -1,4 +1,4 @@
-import { copyFileSync, mkdirSync, mkdtempSync, readFileSync, rmSync, symlinkSync } from "node:fs";
+import { copyFileSync, mkdirSync, mkdtempSync, readFileSync, rmSync, symlinkSync, writeFileSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
 import type { Page } from "playwright-core";
@@ -7,7 +7,10 @@ import { createJupyterEnv, REPO_ROOT, SYSTEM_PYTHON, type JupyterEnv } from "../
 import { joined, outputsOf, run, type Notebook, type NotebookOutput } from "../jupyter/notebook-file";
 import { openBrowser, type BrowserSession } from "./helpers/chromium";
 import { processesMentioning, startNotebookServer, type NotebookServer } from "./helpers/notebook-server";
-import { isWidgetOutput, summaryFingerprint } from "./helpers/notebook-widgets";
+import { TRUST_HINT } from "../../widgets/core/page/fallback";
+import { isWidgetOutput, pngOutputsAfterWidgets, pngOutputViews, summaryFingerprint, type StoredPngOutput } from "./helpers/notebook-widgets";
+import { STATUS_ATTRIBUTE } from "../../widgets/core/page/names";
+import { PAGE_OUTPUT_CLASS } from "../../widgets/core/page/png-output";
 import { expectPageMatchesEngine, fingerprintOf, moveSlider, otherPosition, pageState, sliderPosition, sliderText, waitAllReady } from "./helpers/widgets";
 
 /**
@@ -15,6 +18,8 @@ import { expectPageMatchesEngine, fingerprintOf, moveSlider, otherPosition, page
  * repository's tslab kernel, in Debian's Chromium: every cell runs, the widgets come alive
  * from the live outputs and replot the engine's numbers; saved from the page (which signs
  * it) and reloaded with no kernel allowed, they boot again from the stored outputs alone.
+ * Each widget's page hides the PNG output that follows it once live; a copy the server never
+ * signed opens untrusted and shows the summary, how to trust and that PNG.
  */
 const NOTEBOOK = "cryogenic-membrane.ipynb";
 /** Kernel start, all cells (about 10 s on an idle machine) and the widgets' first charts. */
@@ -29,6 +34,14 @@ let page: Page;
 let notebookFile: string;
 /** Fingerprints the kernel computed for the widgets, in page order. */
 let executedFingerprints: string[] = [];
+/** The PNG outputs the kernel sent after the widgets, in page order. */
+let pngOutputs: StoredPngOutput[] = [];
+/** The classic notebook's element per output, and the notebook's container. */
+const OUTPUT_AREA = ".output_area";
+const NOTEBOOK_CONTAINER = "#notebook-container";
+const RECEIVED = "received-classic.ipynb";
+/** An axis title drawn in the explorer's figure (inline SVG in the page, pixels in the PNG). */
+const SVG_AXIS_TITLE = "share of term";
 const refusedKernelRequests: string[] = [];
 
 /**
@@ -71,6 +84,13 @@ function problems(report: CellReport[]): string[] {
       .filter((o) => o.output_type === "error" || (o.output_type === "stream" && o.name === "stderr"))
       .map((o) => `cell ${c.index}: ${o.output_type === "error" ? `${o.ename}: ${o.evalue}` : joined(o.text)}`.slice(0, 2000)),
   );
+}
+
+/** A trusted notebook shows the live page only: each widget's page hid its own PNG output. */
+async function expectPngOutputsHidden(): Promise<void> {
+  await expect
+    .poll(async () => (await pngOutputViews(page, NOTEBOOK_CONTAINER, OUTPUT_AREA)).map((v) => ({ visible: v.visible, hiddenByPage: v.hiddenByPage })), { timeout: JUPYTER_WAIT_MS })
+    .toEqual(pngOutputs.map(() => ({ visible: false, hiddenByPage: true })));
 }
 
 async function waitForNotebookPage(): Promise<void> {
@@ -145,6 +165,8 @@ describe(`${NOTEBOOK} in the classic notebook server`, { timeout: RUN_TIMEOUT_MS
     const widgets = report.flatMap((c) => c.outputs).filter(isWidgetOutput);
     expect(widgets.length).toBeGreaterThanOrEqual(2);
     executedFingerprints = widgets.map(summaryFingerprint);
+    pngOutputs = pngOutputsAfterWidgets(report.flatMap((c) => c.outputs));
+    expect(pngOutputs.map((p) => p.metadata)).toEqual(pngOutputs.map((p) => ({ width: p.width, height: p.height })));
   });
 
   it("shows the widgets live, with the curves the kernel computed, bit for bit the engine's", async () => {
@@ -154,6 +176,7 @@ describe(`${NOTEBOOK} in the classic notebook server`, { timeout: RUN_TIMEOUT_MS
       expect(await fingerprintOf(page, i)).toBe(executedFingerprints[i]);
       await expectPageMatchesEngine(page, i);
     }
+    await expectPngOutputsHidden();
   });
 
   it("replots exactly the engine's numbers when a slider of the first widget moves", async () => {
@@ -172,6 +195,7 @@ describe(`${NOTEBOOK} in the classic notebook server`, { timeout: RUN_TIMEOUT_MS
     expect(await page.evaluate(() => (globalThis as any).Jupyter.notebook.dirty)).toBe(false);
     const saved = JSON.parse(readFileSync(notebookFile, "utf8")) as Notebook;
     expect(outputsOf(saved).filter(isWidgetOutput).map(summaryFingerprint)).toEqual(executedFingerprints);
+    expect(pngOutputsAfterWidgets(outputsOf(saved))).toEqual(pngOutputs);
     // Debian's nbformat, with the same private data dir (the signing key), agrees it is signed.
     const check = await run(
       SYSTEM_PYTHON,
@@ -199,6 +223,7 @@ describe(`${NOTEBOOK} in the classic notebook server`, { timeout: RUN_TIMEOUT_MS
       expect(await fingerprintOf(page, i)).toBe(executedFingerprints[i]);
       await expectPageMatchesEngine(page, i);
     }
+    await expectPngOutputsHidden();
     // The page did try to start a kernel and was refused, so nothing came from a kernel.
     expect(refusedKernelRequests.length).toBeGreaterThanOrEqual(1);
     expect(await page.evaluate(() => (globalThis as any).Jupyter.notebook.kernel?.info_reply?.implementation ?? null)).toBeNull();
@@ -211,6 +236,38 @@ describe(`${NOTEBOOK} in the classic notebook server`, { timeout: RUN_TIMEOUT_MS
     expect(state.values).toEqual({ ...before.values, [target]: sliderText(before, target, k) });
     // Only the refused kernel requests may have complained.
     expect(consoleErrorsBut([FRONT_END_NOISE, KERNEL_API, NO_KERNEL], errorsBefore)).toEqual([]);
+  });
+
+  it("a copy the server never signed opens untrusted: the summary, how to trust and each widget's PNG output show, no widget boots", async () => {
+    // Someone else's file: a metadata field differs, so no signature of this server covers it.
+    const nb = JSON.parse(readFileSync(notebookFile, "utf8")) as Notebook;
+    nb.metadata.received_as = RECEIVED;
+    // Its pages do carry the inline SVG whose labels must not show loose below.
+    expect(
+      outputsOf(nb)
+        .filter(isWidgetOutput)
+        .map((o) => joined(o.data?.["text/html"]).includes(SVG_AXIS_TITLE)),
+    ).toEqual(pngOutputs.map(() => true));
+    writeFileSync(join(root!, "notebooks", RECEIVED), JSON.stringify(nb, null, 1));
+    await page.goto(`${server!.origin}/notebooks/${RECEIVED}?token=${server!.token}`, { waitUntil: "load" });
+    await waitForNotebookPage();
+    expect(await page.evaluate(() => (globalThis as any).Jupyter.notebook.trusted)).toBe(false);
+    const views = await pngOutputViews(page, NOTEBOOK_CONTAINER, OUTPUT_AREA);
+    expect(views).toEqual(
+      pngOutputs.map((p) => ({ visible: true, hiddenByPage: false, naturalWidth: p.width, naturalHeight: p.height, width: String(p.metadata.width), height: String(p.metadata.height) })),
+    );
+    const pages = await page.evaluate(
+      ([container, wrapper, status]) =>
+        (Array.from(document.querySelector(container)!.querySelectorAll(wrapper)) as HTMLElement[]).map((o) => ({ text: o.innerText, booted: o.querySelector(`[${status}]`) !== null })),
+      [NOTEBOOK_CONTAINER, `.${PAGE_OUTPUT_CLASS}`, STATUS_ATTRIBUTE] as const,
+    );
+    expect(pages).toHaveLength(pngOutputs.length);
+    for (const p of pages) {
+      expect(p.booted).toBe(false);
+      expect(p.text).toContain(TRUST_HINT);
+      // An axis title of the inline SVG: the sanitizer drops the SVG and its style, and its text must not show loose.
+      expect(p.text).not.toContain(SVG_AXIS_TITLE);
+    }
   });
 
   it("stopped the server with SIGTERM, and its kernel with it", async () => {

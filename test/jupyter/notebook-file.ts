@@ -9,6 +9,7 @@ export interface NotebookOutput {
   name?: string;
   text?: string | string[];
   data?: Record<string, unknown>;
+  metadata?: Record<string, unknown>;
   ename?: string;
   evalue?: string;
 }

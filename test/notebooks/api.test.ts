@@ -9,6 +9,8 @@ import { headlineFigures } from "../../src/engine/headline";
 import { evaluateSetup, loadSetup } from "../../src/pipeline";
 import { EXPLORER_CLASS } from "../../widgets/explorer/names";
 import { runtimeSource } from "../../widgets/core/page/runtime-source";
+import { PNG_KEY_ATTRIBUTE, pngOutputKey } from "../../widgets/core/page/png-output";
+import { explorerFigures } from "../../widgets/explorer/figures";
 import { applyValues, chartBundle, displayBundle, encodeBundle, explorer, loadSetupFile, resetDisplaySession, showChart, VEGA_LITE_MIME, type SetupDescription } from "../../widgets/notebook";
 import { REPO_ROOT } from "../jupyter/env";
 
@@ -207,25 +209,54 @@ describe("show() and showChart() in a kernel", () => {
     resetDisplaySession();
   });
 
-  it("displays the widget: HTML with the runtime the first time only, PNG fallback, text summary", async () => {
+  it("displays the widget as two outputs: the page (HTML with the runtime the first time only, text summary), then the PNG sized as the chart", async () => {
     kernel.start();
     const runtime = runtimeSource();
     const w = explorer(membrane, { controls: [{ target: "cavity.photons", min: 1e4, max: 1e8 }] });
     await w.show();
     await w.show();
-    expect(kernel.sent).toHaveLength(2);
-    const [first, second] = kernel.sent.map((s) => s.content.data);
-    for (const data of [first, second]) {
-      expect(Object.keys(data).sort()).toEqual(["image/png", "text/html", "text/plain"]);
-      expect(String(data["text/html"])).toContain(`class="${EXPLORER_CLASS}"`);
-      expect(Buffer.from(String(data["image/png"]), "base64").subarray(0, 8).equals(PNG_SIGNATURE)).toBe(true);
-      expect(String(data["text/plain"])).toContain(w.state.fingerprint);
+    // Each show() sends the page, then the figure as an image/png output of its own.
+    expect(kernel.sent).toHaveLength(4);
+    const [firstPage, firstFigure, secondPage, secondFigure] = kernel.sent.map((s) => s.content);
+    // The chart's size in CSS pixels, from the SVG the page draws as its fallback.
+    const svg = (await explorerFigures(w.computation, w.state, { scale: 1 })).svg;
+    const chart = { width: Number(/<svg[^>]*\swidth="([\d.]+)"/.exec(svg)![1]), height: Number(/<svg[^>]*\sheight="([\d.]+)"/.exec(svg)![1]) };
+    for (const [page, figure] of [
+      [firstPage, firstFigure],
+      [secondPage, secondFigure],
+    ]) {
+      expect(Object.keys(page.data).sort()).toEqual(["text/html", "text/plain"]);
+      expect(String(page.data["text/html"])).toContain(`class="${EXPLORER_CLASS}"`);
+      expect(String(page.data["text/plain"])).toContain(w.state.fingerprint);
+      expect(Object.keys(figure.data).sort()).toEqual(["image/png", "text/plain"]);
+      const png = Buffer.from(String(figure.data["image/png"]), "base64");
+      expect(png.subarray(0, 8).equals(PNG_SIGNATURE)).toBe(true);
+      // IHDR right after the signature, width and height as big-endian 32-bit integers (PNG specification, 11.2.2).
+      expect(png.subarray(12, 16).toString("latin1")).toBe("IHDR");
+      const size = { width: png.readUInt32BE(16), height: png.readUInt32BE(20) };
+      // Scale 1: one image pixel per chart pixel.
+      expect(size).toEqual(chart);
+      expect(figure.metadata).toEqual({ "image/png": size });
+      expect(String(figure.data["text/plain"])).toContain(membrane.name!);
+      // The page names its PNG output by key, so that the live page hides exactly that one.
+      expect(String(page.data["text/html"])).toContain(`${PNG_KEY_ATTRIBUTE}="${pngOutputKey(String(figure.data["image/png"]))}"`);
     }
-    expect(String(first["text/html"]).includes(runtime)).toBe(true);
-    expect(String(second["text/html"]).includes(runtime)).toBe(false);
+    expect(String(firstPage.data["text/html"]).includes(runtime)).toBe(true);
+    expect(String(secondPage.data["text/html"]).includes(runtime)).toBe(false);
     resetDisplaySession();
     await w.show();
-    expect(String(kernel.sent[2].content.data["text/html"]).includes(runtime)).toBe(true);
+    expect(String(kernel.sent[4].content.data["text/html"]).includes(runtime)).toBe(true);
+  });
+
+  it("sizes the PNG output as the chart whatever scale its PNG was rendered at", async () => {
+    kernel.start();
+    const w = explorer(membrane);
+    await w.show({ png: { scale: 1 } });
+    await w.show({ png: { scale: 2 } });
+    const [, atOne, , atTwo] = kernel.sent.map((s) => s.content);
+    const pixels = (c: Sent["content"]) => Buffer.from(String(c.data["image/png"]), "base64").readUInt32BE(16);
+    expect(pixels(atTwo)).toBe(2 * pixels(atOne));
+    expect(atTwo.metadata).toEqual(atOne.metadata);
   });
 
   it("does not count a widget shown outside a kernel as carrying the runtime", async () => {

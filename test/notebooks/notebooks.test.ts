@@ -109,15 +109,23 @@ describe.each(NOTEBOOKS)("%s", (name) => {
     expect(v.stdout.trim()).toBe("valid");
   });
 
-  it("shows live widgets with a PNG fallback and a text summary in one output each", () => {
-    const widgets = outputsOf(get().notebook).filter(isWidget);
+  it("shows each live widget as its page (HTML and a text summary) followed by its figure as a PNG output", () => {
+    const outputs = outputsOf(get().notebook);
+    const widgets = outputs.flatMap((o, i) => (isWidget(o) ? [i] : []));
     expect(widgets.length).toBeGreaterThanOrEqual(1);
-    for (const w of widgets) {
-      const png = Buffer.from(joined(w.data!["image/png"]), "base64");
-      expect(png.subarray(0, 8).equals(PNG_SIGNATURE)).toBe(true);
-      expect(png.length).toBeGreaterThan(10_000);
+    for (const i of widgets) {
+      const w = outputs[i];
+      expect(Object.keys(w.data!).sort()).toEqual(["text/html", "text/plain"]);
       expect(joined(w.data!["text/plain"])).toMatch(/fingerprint: sha256:[0-9a-f]{64}/);
       expect(joined(w.data!["text/html"])).toContain('type="application/json"');
+      const figure = outputs[i + 1];
+      expect(figure.output_type).toBe("display_data");
+      expect(Object.keys(figure.data!).sort()).toEqual(["image/png", "text/plain"]);
+      const png = Buffer.from(joined(figure.data!["image/png"]), "base64");
+      expect(png.subarray(0, 8).equals(PNG_SIGNATURE)).toBe(true);
+      expect(png.length).toBeGreaterThan(10_000);
+      // IHDR's width and height (PNG specification, 11.2.2) are the display size the metadata asks for: scale 1.
+      expect(figure.metadata).toEqual({ "image/png": { width: png.readUInt32BE(16), height: png.readUInt32BE(20) } });
     }
   });
 

@@ -127,7 +127,7 @@ export class NotebookDesign<A extends DesignAnswer = DesignAnswer> {
 
   /** Displays the widget; write `await w.show()`. */
   async show(options: DesignShowOptions = {}): Promise<void> {
-    await showWidgetOutput(options.includeRuntime, (includeRuntime) => this.bundle({ ...options, includeRuntime }));
+    await showWidgetOutput(options, (includeRuntime) => this.bundle({ ...options, includeRuntime }));
   }
 
   toString(): string {

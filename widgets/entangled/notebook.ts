@@ -123,7 +123,7 @@ export class EntangledPanel {
 
   /** Displays the panel; write `await p.show()` (the fallback image is drawn asynchronously). */
   async show(options: EntangledShowOptions = {}): Promise<void> {
-    await showWidgetOutput(options.includeRuntime, (includeRuntime) => this.bundle({ ...options, includeRuntime }));
+    await showWidgetOutput(options, (includeRuntime) => this.bundle({ ...options, includeRuntime }));
   }
 
   toString(): string {

@@ -12,6 +12,7 @@ import type { BootContext, LiveWidget } from "../core/kind";
 import { RUNTIME_READY_EVENT } from "../core/page/names";
 import { loadWidgetState, WIDGET_KINDS } from "../registry";
 import { bootStateLoaders } from "../core/browser/state-loader";
+import { hidePngOutputsOnceLive } from "../core/browser/png-output";
 
 export interface QuietframeRuntime {
   readonly version: string;
@@ -39,6 +40,8 @@ function install(): QuietframeRuntime {
     const started = views.flatMap((view) => [...view.boot(root, context)]);
     // The standalone page's panel opens a saved state of any kind in place of its widget.
     bootStateLoaders(root, context);
+    // A trusted notebook's kernel-free output shows the live page, not its PNG output as well.
+    hidePngOutputsOnceLive(root);
     return started;
   };
   const runtime: Record<string, unknown> = {

@@ -72,7 +72,7 @@ export class NotebookTolerance {
 
   /** Displays the map; write `await w.show()`. */
   async show(options: ToleranceShowOptions = {}): Promise<void> {
-    await showWidgetOutput(options.includeRuntime, (includeRuntime) => this.bundle({ ...options, includeRuntime }));
+    await showWidgetOutput(options, (includeRuntime) => this.bundle({ ...options, includeRuntime }));
   }
 
   toString(): string {

@@ -158,7 +158,7 @@ export class NotebookTrajectory {
 
   /** Displays the widget; write `await w.show()` (the fallback image is drawn asynchronously). */
   async show(options: TrajectoryShowOptions = {}): Promise<void> {
-    await showWidgetOutput(options.includeRuntime, (includeRuntime) => this.bundle({ ...options, includeRuntime }));
+    await showWidgetOutput(options, (includeRuntime) => this.bundle({ ...options, includeRuntime }));
   }
 
   toString(): string {

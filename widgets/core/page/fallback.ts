@@ -55,11 +55,11 @@ export function summaryListHtml(lines: readonly SummaryLine[]): string {
 
 /**
  * How to trust a notebook, under every static fallback: an untrusted notebook shows the
- * fallback without scripts (in JupyterLab and Notebook 7 without any figure: their sanitizer
- * drops inline SVG and data: images).
+ * fallback without scripts, and the figure as the still image of the PNG output that follows
+ * the page (core/notebook/figure-output.ts).
  */
 export const TRUST_HINT =
-  "In a notebook that is not trusted the controls stay off (and in JupyterLab and Notebook 7 the figure too): check where the notebook came from, then trust it (JupyterLab: Trust Notebook in the command palette; Notebook 7 and the classic notebook: File → Trust Notebook).";
+  "In a notebook that is not trusted the controls stay off and the figure is a still image: check where the notebook came from, then trust it (JupyterLab: Trust Notebook in the command palette; Notebook 7 and the classic notebook: File → Trust Notebook).";
 
 /** The note under every static figure, with how to trust a notebook. */
 export function fallbackNote(text: string): string {

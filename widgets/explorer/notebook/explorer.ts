@@ -9,7 +9,7 @@ import { loadExplorerState, stateDocumentText } from "../document";
 import { EXPLORER_STATE_FORMAT, type ExplorerState } from "../format";
 import type { MimeBundle } from "../../core/notebook/display";
 import { notebookFigures, summaryText, type NotebookFigures } from "./figures";
-import { showWidgetOutput } from "../../core/notebook/show-output";
+import { NOTEBOOK_PNG_SCALE, showWidgetOutput } from "../../core/notebook/show-output";
 import { ChangeListeners } from "../../core/notebook/change-listeners";
 import { kernelWidgetHost } from "../live/kernel-host";
 import { LiveExplorer, type ControlValues, type LiveChange } from "../live/live-explorer";
@@ -27,12 +27,6 @@ export interface ShowOptions {
    */
   live?: boolean;
 }
-
-/**
- * Fallbacks cost bytes in every saved notebook: the HTML carries the vector figure, and the
- * PNG (what an untrusted notebook shows) goes once, as the bundle's image/png, at scale 1.
- */
-const NOTEBOOK_PNG_SCALE = 1;
 
 /**
  * A noise-budget explorer held by a notebook cell: the state (set-up + controls + current
@@ -132,7 +126,10 @@ export class NotebookExplorer {
     return stateDocumentText(this.#state);
   }
 
-  /** The widget's mime bundle: live HTML (SVG fallback inside), PNG fallback for untrusted viewers, text summary. */
+  /**
+   * The widget's mime bundle: live HTML (SVG fallback inside), the PNG at scale 1 (what an
+   * untrusted notebook shows; show() sends it as an output of its own), text summary.
+   */
   async bundle(options: ShowOptions & { includeRuntime: boolean }): Promise<MimeBundle> {
     this.#live?.settle();
     const figures = await explorerFigures(this.#computation, this.#state, { scale: NOTEBOOK_PNG_SCALE, ...options.png });
@@ -166,7 +163,7 @@ export class NotebookExplorer {
       if (carry) markLiveRuntimeCarried();
       return;
     }
-    await showWidgetOutput(options.includeRuntime, (includeRuntime) => this.bundle({ ...options, includeRuntime }));
+    await showWidgetOutput(options, (includeRuntime) => this.bundle({ ...options, includeRuntime }));
   }
 
   toString(): string {
