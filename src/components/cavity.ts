@@ -19,7 +19,7 @@ export interface CavityHandle {
  * fluctuation of the intracavity amplitude that pushes the body):
  *   dδa1/dt = −(κ/2) δa1 − Δ δa2 + √κ_in q1 + √κ_0 v1
  *   dδa2/dt = −(κ/2) δa2 + Δ δa1 + √κ_in q2 + √κ_0 v2 + g X
- *   p       = q − √κ_in δa        (Gardiner & Collett input-output relation)
+ *   r       = q − √κ_in δa        (Gardiner & Collett input-output relation; q, r in the mode's frame)
  * Δ = ω_laser − ω_cavity (positive: blue detuning). With a linked body the radiation
  * pressure g·δa1 acts on it; unlinked, the cavity is a plain filter.
  *
@@ -31,7 +31,7 @@ export interface CavityHandle {
  * ā = |ā| e^{iθ}, θ = arg(κ/2 + iΔ); writing δa = e^{iθ}(δa1 + iδa2)/√2 and the port fields
  * likewise, the mode sees the incoming field turned by −θ and the reflected field leaves
  * turned by +θ:
- *   q1 + iq2 = e^{−iθ} (in1 + i in2),   out1 + i out2 = e^{iθ} (p1 + i p2).
+ *   q1 + iq2 = e^{−iθ} (in1 + i in2),   out1 + i out2 = e^{iθ} (r1 + i r2).
  * The reflected carrier ā_out = ā_in (κ/2 − κ_in − iΔ)/(κ/2 − iΔ) has a phase of its own; the
  * out port does not follow it (it vanishes at critical coupling on resonance); a homodyne whose
  * angle is counted from the reflected carrier is modelled with arg(ā_out/ā_in) added to its angle.
