@@ -2,6 +2,7 @@ import { QuietframeError } from "../errors";
 import { laserPowerCautions } from "../safety/cautions";
 import { formatQuantity } from "../units";
 import type { NetworkBuilder } from "../network/builder";
+import { combine, type Field } from "../network/linear-form";
 import type { ModeInfo } from "../network/model";
 import { cavityInputPower, intracavityPhotons, opticalAngularFrequency, pushOnBody, zeroPointDisplacement } from "../physics/optomechanics";
 import { wireOpticalMode } from "../physics/optical-mode";
@@ -13,16 +14,34 @@ export interface CavityHandle {
 }
 
 /**
- * Single optical cavity mode (one-sided, quadratures in the frame of the drive laser):
- *   dδa1/dt = −(κ/2) δa1 − Δ δa2 + √κ_in q1_in + √κ_0 v1
- *   dδa2/dt = −(κ/2) δa2 + Δ δa1 + √κ_in q2_in + √κ_0 v2 + g X
- *   output  = input − √κ_in δa        (Gardiner & Collett input-output relation)
+ * Single optical cavity mode with radiation-pressure coupling to a linked body. The mode's
+ * quadratures δa1, δa2 are those of its own mean field ā (taken real, so δa1 is the
+ * fluctuation of the intracavity amplitude that pushes the body):
+ *   dδa1/dt = −(κ/2) δa1 − Δ δa2 + √κ_in q1 + √κ_0 v1
+ *   dδa2/dt = −(κ/2) δa2 + Δ δa1 + √κ_in q2 + √κ_0 v2 + g X
+ *   r       = q − √κ_in δa        (Gardiner & Collett input-output relation; q, r in the mode's frame)
  * Δ = ω_laser − ω_cavity (positive: blue detuning). With a linked body the radiation
  * pressure g·δa1 acts on it; unlinked, the cavity is a plain filter.
+ *
+ * Frames. The light at the ports (in and out) is in the frame of the drive laser's carrier,
+ * like every other quadrature of a set-up: a squeezer's angle, a coherent source's excess
+ * noise, a laser's intensity noise and a homodyne's angle (its local oscillator taken from
+ * the drive laser) all refer to it. The steady state ā = √κ_in ā_in/(κ/2 − iΔ) (Aspelmeyer,
+ * Kippenberg & Marquardt, Rev. Mod. Phys. 86, 1391 (2014), Sec. II.B), with ā_in real, is
+ * ā = |ā| e^{iθ}, θ = arg(κ/2 + iΔ); writing δa = e^{iθ}(δa1 + iδa2)/√2 and the port fields
+ * likewise, the mode sees the incoming field turned by −θ and the reflected field leaves
+ * turned by +θ:
+ *   q1 + iq2 = e^{−iθ} (in1 + i in2),   out1 + i out2 = e^{iθ} (r1 + i r2).
+ * The reflected carrier ā_out = ā_in (κ/2 − κ_in − iΔ)/(κ/2 − iΔ) has a phase of its own; the
+ * out port does not follow it (it vanishes at critical coupling on resonance); a homodyne whose
+ * angle is counted from the reflected carrier is modelled with arg(ā_out/ā_in) added to its angle.
+ * On resonance (θ = 0) and without a mean field (no drive: nothing to refer to but the
+ * carrier) the two frames are one, and the ports are wired to the mode unchanged.
  */
 export const cavity: ComponentKind<CavityHandle> = {
   type: "cavity",
-  summary: "Optical cavity mode with linearized radiation-pressure coupling to a linked body.",
+  summary:
+    "Optical cavity mode with linearized radiation-pressure coupling to a linked body. The light at its ports is in the frame of the drive laser's carrier (squeezing and readout angles, excess noise), also when detuned; the radiation pressure follows the intracavity amplitude, whose phase is turned from the laser's by arg(κ/2 + iΔ).",
   params: [
     { name: "linewidth", kind: "frequency", doc: "Full linewidth κ/2π (FWHM) in Hz.", min: 0, minExclusive: true },
     { name: "detuning", kind: "frequency", doc: "Δ/2π = (ω_laser − ω_cavity)/2π; positive is blue.", default: "0 Hz" },
@@ -62,8 +81,12 @@ export const cavity: ComponentKind<CavityHandle> = {
     },
   ],
   ports: [
-    { name: "in", kind: "optical-in", doc: "Light driving the cavity through the coupling mirror." },
-    { name: "out", kind: "optical-out", doc: "Light leaving through the coupling mirror." },
+    { name: "in", kind: "optical-in", doc: "Light driving the cavity through the coupling mirror; quadratures in the drive laser's frame." },
+    {
+      name: "out",
+      kind: "optical-out",
+      doc: "Light leaving through the coupling mirror; quadratures in the drive laser's frame (for a homodyne whose angle is counted from the reflected carrier, add arg(ā_out/ā_in) to its angle).",
+    },
     { name: "mechanics", kind: "mechanical-probe", doc: "The body whose position shifts the cavity.", optional: true },
   ],
   crossCheck: (c) => {
@@ -93,7 +116,10 @@ export const cavity: ComponentKind<CavityHandle> = {
     const kIn = kappa * num(c, "inputCoupling");
     const k0 = kappa - kIn;
     const rates = { halfWidth: kappa / 2, detuning: delta, inputCoupling: Math.sqrt(kIn), lossCoupling: Math.sqrt(k0) };
-    const out = wireOpticalMode(builder, handle.mode, rates, inputs.in, handle.lossColumn);
+    const turn = meanFieldTurn(c);
+    const incoming = turn ? turnField(inputs.in, turn[0], -turn[1]) : inputs.in;
+    const reflected = wireOpticalMode(builder, handle.mode, rates, incoming, handle.lossColumn);
+    const out = turn ? turnField(reflected, turn[0], turn[1]) : reflected;
     const body = bodies.mechanics;
     if (body) {
       const g = quadratureCoupling(c, body);
@@ -145,17 +171,23 @@ export function cavityDrivePower(c: ResolvedComponent): number | undefined {
 }
 
 /**
- * The incoming field's quadratures (cos θ, −sin θ) that carry a fluctuation of the drive's
- * amplitude. The mode's quadratures are those of its own mean field ā, taken real; the steady
- * state ā = √κ_in ā_in/(κ/2 − iΔ) (Aspelmeyer, Kippenberg & Marquardt, Rev. Mod. Phys. 86, 1391
- * (2014), Sec. II.B) turns the drive's phase by θ = arg(κ/2 + iΔ), so the drive's amplitude
- * quadrature is the mode frame's amplitude quadrature turned back by θ. Exactly (1, 0) on resonance.
+ * [cos θ, sin θ] of the angle θ = arg(κ/2 + iΔ) by which the mean field ā is turned from the
+ * drive laser's carrier (see the header); undefined where the two frames are one: on resonance
+ * or without a mean field. A plain square root, not hypot, so every engine gives the same bits.
  */
-export function driveAmplitudeDirection(c: ResolvedComponent): [number, number] {
+function meanFieldTurn(c: ResolvedComponent): [number, number] | undefined {
   const { kappa, delta } = cavityRates(c);
-  if (delta === 0) return [1, 0];
+  if (delta === 0 || !cavityPhotons(c)) return undefined;
   const norm = Math.sqrt((kappa * kappa) / 4 + delta * delta);
-  return [kappa / 2 / norm, -delta / norm];
+  return [kappa / 2 / norm, delta / norm];
+}
+
+/** The field multiplied by e^{iφ}, given cos φ and sin φ: (a1 + ia2) → (cos φ a1 − sin φ a2) + i(sin φ a1 + cos φ a2). */
+function turnField(field: Field, cos: number, sin: number): Field {
+  return {
+    amplitude: combine(cos, field.amplitude, -sin, field.phase),
+    phase: combine(sin, field.amplitude, cos, field.phase),
+  };
 }
 
 /**

@@ -27,7 +27,7 @@ const LABELS: Readonly<Record<string, string>> = {
 /** A term's column once claimed: how it enters once components are wired, and any noise it adds to light arriving at a component. */
 export interface ClassicalEntry {
   readonly enter: () => void;
-  readonly drive?: { readonly on: string; readonly port: string; readonly amplitude: number; readonly phase: number; readonly column: number };
+  readonly drive?: { readonly on: string; readonly port: string; readonly column: number };
 }
 
 /** Claims the term's column (allocation phase). `component`: the one it enters at. */

@@ -6,7 +6,7 @@
  * which laser entry, the refusals in words for the others, and each term's column.
  */
 import { HBAR } from "../constants";
-import { cavityDrivePower, cavityPhotons, driveAmplitudeDirection, driveDetuningNoise, type CavityHandle } from "../components/cavity";
+import { cavityDrivePower, cavityPhotons, driveDetuningNoise, type CavityHandle } from "../components/cavity";
 import type { ComponentKind, ResolvedComponent } from "../components/types";
 import { QuietframeError } from "../errors";
 import type { NetworkBuilder } from "../network/builder";
@@ -105,8 +105,8 @@ function driveCouplersOf(source: string, entry: string, kinds: ReadonlyMap<strin
 export interface LaserNoiseEntry {
   /** The column's PSD (its spectrum converted to what the column carries). */
   readonly psdAt: (frequency: number) => number;
-  /** Intensity noise: added to the quadratures of the light arriving at `port` of the coupler, with these coefficients. */
-  readonly drive?: { readonly port: string; readonly amplitude: number; readonly phase: number };
+  /** Intensity noise: added to the amplitude quadrature (in the drive laser's frame) of the light arriving at `port` of the coupler. */
+  readonly drive?: { readonly port: string };
   /** Frequency noise: written into the coupler's dynamics once it is wired. */
   readonly enter?: (builder: NetworkBuilder, column: number, handle: unknown) => void;
 }
@@ -121,8 +121,8 @@ export function laserNoiseEntry(term: ResolvedClassicalNoise, coupler: ResolvedC
     // is the power PSD 2ħω_L P. A relative intensity noise S_RIN = S_δP/P² is therefore an added
     // independent amplitude-quadrature input of PSD P·S_RIN/(2ħω_L) in shot-noise units.
     const shotNoiseUnit = 2 * HBAR * opticalAngularFrequency(coupler.values.wavelength as number);
-    const [amplitude, phase] = coupler.type === "cavity" ? driveAmplitudeDirection(coupler) : [1, 0];
-    return { psdAt: (f) => (power * spectrum.psdAt(f)) / shotNoiseUnit, drive: { port: "in", amplitude, phase } };
+    // The port's light is in the drive laser's frame; a detuned cavity turns it into its mode's frame itself.
+    return { psdAt: (f) => (power * spectrum.psdAt(f)) / shotNoiseUnit, drive: { port: "in" } };
   }
   // Laser frequency noise on a cavity. With the homodyne reference taken from the same laser, a
   // change δν of the laser frequency cannot be told from a change of the cavity length
@@ -144,19 +144,14 @@ function missingDrive(term: ResolvedClassicalNoise, coupler: ResolvedComponent):
   });
 }
 
-/** The light arriving at a coupler's port with the intensity noise of its drive added (the same object when there is none). */
-export function withDriveNoise(
-  builder: NetworkBuilder,
-  inputs: Record<string, Field>,
-  drives: readonly { readonly port: string; readonly amplitude: number; readonly phase: number; readonly column: number }[],
-): Record<string, Field> {
+/** The light arriving at a coupler's port with the intensity noise of its drive added to its amplitude quadrature (the same object when there is none). */
+export function withDriveNoise(builder: NetworkBuilder, inputs: Record<string, Field>, drives: readonly { readonly port: string; readonly column: number }[]): Record<string, Field> {
   if (drives.length === 0) return inputs;
   const out = { ...inputs };
   for (const d of drives) {
     const field = out[d.port];
     if (!field) throw new Error(`internal: the drive port '${d.port}' carries no light`);
-    const noise = builder.input(d.column);
-    out[d.port] = { amplitude: combine(1, field.amplitude, d.amplitude, noise), phase: combine(1, field.phase, d.phase, noise) };
+    out[d.port] = { amplitude: combine(1, field.amplitude, 1, builder.input(d.column)), phase: field.phase };
   }
   return out;
 }

@@ -146,6 +146,14 @@ function opticalSentences(w: Writer, setup: ResolvedSetup): string[] {
         `the mean intracavity photon number and the input power are related by ${w.math("n_c = κ_in P_in/(ħω_L(κ²/4 + Δ²))", "n_c = \\kappa_{\\mathrm{in}}P_{\\mathrm{in}}/\\bigl(\\hbar\\omega_L(\\kappa^2/4 + \\Delta^2)\\bigr)")}. ` +
         `The radiation-pressure coupling to the mechanics is linearized about the mean field, ${w.math("G = g_0 √n_c", "G = g_0\\sqrt{n_c}")}${w.cite("aspelmeyer2014")}.`,
     );
+    if (setup.components.some((c) => c.type === "cavity" && c.values.detuning !== 0)) {
+      // Only a detuned cavity has a mean field turned from its drive; resonant texts stay as they were.
+      out.push(
+        `The quadratures of the light at a detuned cavity's ports, and so every squeezing and readout angle, refer to the carrier of the laser that drives it (the homodyne's local oscillator is taken from that laser); ` +
+          `the mode's own quadratures are those of its mean field ${w.math("ā = √κ_in ā_in/(κ/2 − iΔ)", "\\bar a = \\sqrt{\\kappa_{\\mathrm{in}}}\\,\\bar a_{\\mathrm{in}}/(\\kappa/2 - i\\Delta)")}, turned from the laser's by ${w.math("θ = arg(κ/2 + iΔ)", "\\theta = \\arg(\\kappa/2 + i\\Delta)")}, ` +
+          `so the incoming light enters the mode turned by ${w.math("−θ", "-\\theta")} and the reflected light leaves turned back by ${w.math("+θ", "+\\theta")}.`,
+      );
+    }
   }
   if (types.has("position-probe")) {
     out.push(
