@@ -3,9 +3,10 @@
  * reach for a target and the window that keeps it (solveForTarget, targetWindow), the best
  * settings within bounds (optimizeDesign), what real-world spread does (spreadAnalysis) and
  * headline figures that do not depend on the grid (refinedHeadline). Long runs can be stopped
- * (options.signal) and run in slices (optimizeSteps, spreadSteps with runInSlices). Platform-free.
+ * (options.signal) and run in slices (rankSteps, optimizeSteps, spreadSteps with runInSlices). Platform-free.
  */
 export { rankParameters, type RankOptions, type Ranking, type ParameterSensitivity } from "./rank";
+export { rankSteps, type RankStepOptions } from "./rank-steps";
 export { solveForTarget, targetWindow, type SolveOptions, type SolveResult, type WindowResult, type WindowEnd, type SettingFigure } from "./solve";
 export { optimizeDesign, optimizeSteps, type OptimizeParameter, type OptimizeOptions, type OptimizeResult, type OptimizedValue, type StartReport } from "./optimize";
 export { spreadAnalysis, spreadSteps, type SpreadOptions, type SpreadResult } from "./spread";
