@@ -8,10 +8,11 @@
 export { rankParameters, type RankOptions, type Ranking, type ParameterSensitivity } from "./rank";
 export { rankSteps, type RankStepOptions } from "./rank-steps";
 export { solveForTarget, targetWindow, type SolveOptions, type SolveResult, type WindowResult, type WindowEnd, type SettingFigure } from "./solve";
-export { optimizeDesign, optimizeSteps, type OptimizeParameter, type OptimizeOptions, type OptimizeResult, type OptimizedValue, type StartReport } from "./optimize";
+export { optimizeDesign, optimizeSteps, type ProvisionalOptimum, type OptimizeParameter, type OptimizeOptions, type OptimizeResult, type OptimizedValue, type StartReport } from "./optimize";
 export { spreadAnalysis, spreadSteps, type SpreadOptions, type SpreadResult } from "./spread";
 export { DesignRunStopped, checkStopSignal, stopIfAborted } from "./stop";
 export { runToEnd, runInSlices, type SliceOptions } from "./slices";
+export { yieldToEventLoop } from "../threads/event-loop";
 export { resolveUncertainties, TRUNCATION_SPREADS, type UncertaintySpec, type ResolvedUncertainty, type SpreadDistribution } from "./uncertainty";
 export { refinedHeadline, MAX_REFINED_PEAKS, TOUCHING_DB, type RefinedHeadline, type RefinedBand } from "./refined-headline";
 export { designProblem, levelDb, merit, shownFigure, type DesignProblem, type DesignFigure, type DesignGrid } from "./problem";

@@ -11,6 +11,7 @@ import {
   type DesignFigure,
   type FigureSpec,
   type OptimizeResult,
+  type ProvisionalOptimum,
   type Ranking,
   type SetupDescription,
   type SpreadResult,
@@ -60,14 +61,32 @@ export function computeAnswer(setup: SetupDescription, figure: FigureSpec, quest
 /**
  * computeAnswer one step at a time (a parameter of a ranking, an optimizer start, a block of
  * Monte Carlo samples): the generator yields between steps and returns the answer, so a page can
- * run it in slices (runInSlices) and stay responsive, with the same bits.
+ * run it in slices (runInSlices) and stay responsive, with the same bits. An optimum tells
+ * `onBestSoFar` the best of the starts so far after each start but the last.
  */
-export function* answerSteps(setup: SetupDescription, figure: FigureSpec, question: DesignQuestion, grid?: GridText, onStep?: StepReport, signal?: AbortSignal): Generator<number, DesignAnswer> {
+export function* answerSteps(
+  setup: SetupDescription,
+  figure: FigureSpec,
+  question: DesignQuestion,
+  grid?: GridText,
+  onStep?: StepReport,
+  signal?: AbortSignal,
+  onBestSoFar?: (best: ProvisionalOptimum) => void,
+): Generator<number, DesignAnswer> {
   switch (question.kind) {
     case "ranking":
       return rankingAnswer(yield* rankingSteps(setup, figure, question, grid, onStep, signal));
     case "optimum": {
-      const options = { starts: question.starts, seed: question.seed, maxEvaluationsPerStart: question.maxEvaluationsPerStart, tolerance: question.tolerance, grid, onProgress: onStep, signal };
+      const options = {
+        starts: question.starts,
+        seed: question.seed,
+        maxEvaluationsPerStart: question.maxEvaluationsPerStart,
+        tolerance: question.tolerance,
+        grid,
+        onProgress: onStep,
+        signal,
+        onBestSoFar,
+      };
       return optimumAnswer(setup, figure, grid, yield* optimizeSteps(setup, figure, question.parameters, options));
     }
     case "spread":
