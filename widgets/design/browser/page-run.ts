@@ -12,6 +12,7 @@ import { messageOf } from "../../core/browser/boot";
 import { el } from "../../core/browser/dom";
 import { answerSteps } from "../answer";
 import type { DesignAnswer, DesignState } from "../format";
+import { PROGRESS_LABELS, progressLine } from "../progress";
 import { NewestBest, type ProvisionalAnswer } from "../provisional";
 
 /** Longest stretch of computation between two turns of the page's event loop, in ms. */
@@ -20,11 +21,9 @@ export const PAGE_SLICE_MS = 12;
 /** The run's status on the widget's root: "idle", "running", "done", "stopped" or "error". */
 export const RUN_STATUS_ATTRIBUTE = "data-quietframe-run";
 
-const UNITS = { ranking: "parameters", optimum: "starts", spread: "samples" } as const;
-
 /** A progress line such as "optimum: 2 of 4 starts (50 %)". */
 export function progressText(kind: DesignState["question"]["kind"], done: number, total: number): string {
-  return `${kind}: ${done} of ${total} ${UNITS[kind]} (${((100 * done) / total).toFixed(0)} %)`;
+  return progressLine(PROGRESS_LABELS[kind], done, total);
 }
 
 /** The Compute and Stop buttons and the progress line of one widget. */
