@@ -7,7 +7,7 @@
  * them ends the run between two steps with a DesignRunStopped ("stopped after N of M …") and no
  * answer. Not stopped, the answer has the bits of computeAnswer: the steps are the same.
  */
-import { checkStopSignal, runInSlices, type FigureSpec, type SetupDescription, type SliceOptions } from "../../src/index";
+import { checkStopSignal, runInSlices, yieldToEventLoop, type FigureSpec, type SetupDescription, type SliceOptions } from "../../src/index";
 import type { CommManager } from "../core/comm/comm-manager";
 import { createControl, hbox, html, type ControlModel } from "../core/comm/controls/controls";
 import { displayWidget } from "../core/comm/display-widget";
@@ -51,6 +51,10 @@ export async function computeAnswerInSlices(
   seams: RunSeams = {},
 ): Promise<DesignAnswer> {
   const given = checkStopSignal(options.signal);
+  // tslab runs a cell's synchronous part with vm's breakOnSigint, which takes the SIGINT listeners
+  // away meanwhile and loses a signal handler installed then (the next SIGINT would end the
+  // kernel): listen, and compute, only once that part has returned.
+  await yieldToEventLoop();
   const controller = new AbortController();
   const stopWith = (reason: unknown): void => {
     if (!controller.signal.aborted) controller.abort(reason);
@@ -60,10 +64,12 @@ export async function computeAnswerInSlices(
   if (given?.aborted) stopWith(given.reason);
   given?.addEventListener("abort", onGivenAbort, { once: true });
   process.on("SIGINT", onInterrupt);
-  const comms = seams.comms ?? kernelComms();
-  const control = (options.stopButton ?? comms !== undefined) ? new StopControl(comms, words, () => stopWith(new Error("Stop button"))) : undefined;
+  let control: StopControl | undefined;
   try {
-    const onStep: StepReport | undefined = control ? (done, total) => control.say(progressLine(words, done, total)) : options.onStep;
+    const comms = seams.comms ?? kernelComms();
+    if (options.stopButton ?? comms !== undefined) control = new StopControl(comms, words, () => stopWith(new Error("Stop button")));
+    const shown = control;
+    const onStep: StepReport | undefined = shown ? (done, total) => shown.say(progressLine(words, done, total)) : options.onStep;
     const answer = await runInSlices(answerSteps(setup, figure, question, grid, onStep, controller.signal), seams.slices ?? { sliceMs: KERNEL_SLICE_MS });
     control?.finish(`${words.name}: done`);
     return answer;

@@ -70,6 +70,8 @@ describe("a design run in the kernel, in slices", () => {
       await yieldToEventLoop();
     };
     const run = computeAnswerInSlices(setup, margin, OPTIMUM, grid, PROGRESS_LABELS.optimum, { stopButton: false }, { slices: { pause } });
+    // Not while the caller's synchronous part runs (a tslab cell runs it with vm's breakOnSigint, which loses handlers installed then).
+    expect(process.listenerCount("SIGINT")).toBe(handlers);
     await expect(run).rejects.toThrow("optimize stopped after 1 of 4 starts");
     expect(process.listenerCount("SIGINT")).toBe(handlers);
   });
