@@ -15,7 +15,7 @@ import { kernelComms } from "../core/comm/kernel-comms";
 import { escapeHtml } from "../core/page/escape";
 import { answerSteps, type StepReport } from "./answer";
 import type { DesignAnswer, DesignQuestion, GridText } from "./format";
-import { progressLine, type ProgressWords } from "./progress";
+import { PROGRESS_LABELS, progressLine, type ProgressWords } from "./progress";
 
 /** Longest stretch of computation between two turns of the kernel's event loop, in ms. */
 export const KERNEL_SLICE_MS = 20;
@@ -46,11 +46,11 @@ export async function computeAnswerInSlices(
   figure: FigureSpec,
   question: DesignQuestion,
   grid: GridText | undefined,
-  words: ProgressWords,
   options: StoppableRunOptions & { onStep?: StepReport },
   seams: RunSeams = {},
 ): Promise<DesignAnswer> {
   const given = checkStopSignal(options.signal);
+  const words = PROGRESS_LABELS[question.kind];
   // tslab runs a cell's synchronous part with vm's breakOnSigint, which takes the SIGINT listeners
   // away meanwhile and loses a signal handler installed then (the next SIGINT would end the
   // kernel): listen, and compute, only once that part has returned.

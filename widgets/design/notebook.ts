@@ -240,9 +240,8 @@ function ask(setup: SetupDescription, figure: FigureSpec, question: DesignQuesti
 
 /** ask() in slices, stoppable while the cell runs (notebook-run.ts); progress as a line under a Stop button, or as text without one. */
 async function askInSlices(setup: SetupDescription, figure: FigureSpec, question: DesignQuestion, options: DesignWidgetOptions & StoppableRunOptions): Promise<DesignState> {
-  const words = PROGRESS_LABELS[question.kind];
-  const progress = progressReporter(Date.now, (t) => void process.stdout.write(t), words);
-  const answer = await computeAnswerInSlices(setup, figure, question, options.grid, words, { signal: options.signal, stopButton: options.stopButton, onStep: progress.onStep });
+  const progress = progressReporter(Date.now, (t) => void process.stdout.write(t), PROGRESS_LABELS[question.kind]);
+  const answer = await computeAnswerInSlices(setup, figure, question, options.grid, { signal: options.signal, stopButton: options.stopButton, onStep: progress.onStep });
   progress.finish();
   return designState(setup, figure, question, answer, options);
 }

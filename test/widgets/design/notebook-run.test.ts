@@ -15,7 +15,6 @@ import { computeAnswer } from "../../../widgets/design/answer";
 import type { DesignQuestion } from "../../../widgets/design/format";
 import { optimumWidget, optimumWidgetAsync, rankingWidget, rankingWidgetAsync, spreadWidget } from "../../../widgets/design/notebook";
 import { computeAnswerInSlices } from "../../../widgets/design/notebook-run";
-import { PROGRESS_LABELS } from "../../../widgets/design/progress";
 import { frontEnd, recordingComms, type Published } from "../../kernel/fake-transport";
 
 const setup = JSON.parse(readFileSync("examples/free-test-mass.json", "utf8")) as SetupDescription;
@@ -49,7 +48,7 @@ describe("a design run in the kernel, in slices", () => {
       if (pauses === 2) await frontEnd(comms, opened(sent, "ButtonModel"), CLICK);
       await yieldToEventLoop();
     };
-    const run = computeAnswerInSlices(setup, margin, OPTIMUM, grid, PROGRESS_LABELS.optimum, { stopButton: true }, { comms, slices: { pause } });
+    const run = computeAnswerInSlices(setup, margin, OPTIMUM, grid, { stopButton: true }, { comms, slices: { pause } });
     const stopped = await run.catch((e: unknown) => e);
     expect(stopped).toBeInstanceOf(DesignRunStopped);
     expect((stopped as Error).message).toBe("optimize stopped after 2 of 4 starts; no result is given for a stopped run");
@@ -69,7 +68,7 @@ describe("a design run in the kernel, in slices", () => {
       process.emit("SIGINT");
       await yieldToEventLoop();
     };
-    const run = computeAnswerInSlices(setup, margin, OPTIMUM, grid, PROGRESS_LABELS.optimum, { stopButton: false }, { slices: { pause } });
+    const run = computeAnswerInSlices(setup, margin, OPTIMUM, grid, { stopButton: false }, { slices: { pause } });
     // Not while the caller's synchronous part runs (a tslab cell runs it with vm's breakOnSigint, which loses handlers installed then).
     expect(process.listenerCount("SIGINT")).toBe(handlers);
     await expect(run).rejects.toThrow("optimize stopped after 1 of 4 starts");
@@ -79,10 +78,8 @@ describe("a design run in the kernel, in slices", () => {
   it("the caller's AbortSignal stops it; a signal that is not one is refused by name", async () => {
     const controller = new AbortController();
     controller.abort();
-    await expect(computeAnswerInSlices(setup, margin, OPTIMUM, grid, PROGRESS_LABELS.optimum, { signal: controller.signal, stopButton: false })).rejects.toThrow(
-      "optimize stopped after 0 of 4 starts",
-    );
-    const bad = computeAnswerInSlices(setup, margin, OPTIMUM, grid, PROGRESS_LABELS.optimum, { signal: {} as AbortSignal, stopButton: false });
+    await expect(computeAnswerInSlices(setup, margin, OPTIMUM, grid, { signal: controller.signal, stopButton: false })).rejects.toThrow("optimize stopped after 0 of 4 starts");
+    const bad = computeAnswerInSlices(setup, margin, OPTIMUM, grid, { signal: {} as AbortSignal, stopButton: false });
     await expect(bad).rejects.toThrow(QuietframeError);
     await expect(bad).rejects.toThrow("options.signal");
   });
@@ -94,7 +91,7 @@ describe("a design run in the kernel, in slices", () => {
       { kind: "spread", uncertain: [{ target: "detector.efficiency", value: "95 % ± 2 %" }], samples: 150, seed: 7 },
     ];
     for (const question of questions) {
-      const sliced = await computeAnswerInSlices(setup, margin, question, grid, PROGRESS_LABELS[question.kind], { stopButton: false });
+      const sliced = await computeAnswerInSlices(setup, margin, question, grid, { stopButton: false });
       expect(JSON.stringify(sliced)).toBe(JSON.stringify(computeAnswer(setup, margin, question, grid)));
     }
   });
