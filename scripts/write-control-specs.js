@@ -15,6 +15,7 @@ const MODELS = [
   "DropdownModel",
   "TextModel",
   "HTMLModel",
+  "ButtonModel",
   "VBoxModel",
   "HBoxModel",
   "LayoutModel",
@@ -22,6 +23,7 @@ const MODELS = [
   "DescriptionStyleModel",
   "TextStyleModel",
   "HTMLStyleModel",
+  "ButtonStyleModel",
 ];
 
 function extractControlSpec() {

@@ -24,6 +24,7 @@ export const INTEGRATION_FILES: Readonly<Record<string, string>> = {
   "test/kernel/kernel-hostile.test.ts": "Debian's jupyter_client as a hostile front-end of the built kernel",
   "test/kernel/kernel-load.test.ts": "Debian's jupyter_client loading the built kernel (bursts, long loops, kill -9 and restart)",
   "test/kernel/widget-protocol.test.ts": "Debian's jupyter_client as a widget front-end of the built kernel",
+  "test/kernel/design-stop.test.ts": "Debian's jupyter_client stops a design run in the built kernel (Stop button, interrupt)",
   "test/live/notebooks-live.test.ts": "Debian's nbconvert with the quietframe kernel",
   "test/notebooks/notebooks.test.ts": "Debian's nbconvert with the tslab kernel",
   "test/sweep/slurm.test.ts": "starts Debian's Slurm and munge daemons (as root) and runs the built CLI in array jobs",

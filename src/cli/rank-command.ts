@@ -1,19 +1,36 @@
 import { parseOptions } from "./options";
-import { rankParameters, shownFigure, type Ranking } from "../design";
+import { rankSteps, runInSlices, runToEnd, shownFigure, type Ranking } from "../design";
 import type { CliIo } from "./io";
-import { DESIGN_OPTIONS, figureOption, formatOption, gridOption, readSetupDescription, wholeOption, withOptionNames } from "./design-args";
+import { DESIGN_OPTIONS, figureOption, formatOption, gridOption, readSetupDescription, stepsWithOptionNames, wholeOption } from "./design-args";
+import { untilInterrupted } from "./stop-on-interrupt";
 import { resultJson, textTable } from "./text-table";
 
 /** `quietframe rank`: the parameters of a set-up ranked by what they do for a figure of merit. */
 export function rankCommand(args: string[], io: CliIo): number {
+  const request = rankRequest(args);
+  io.out(request.print(runToEnd(request.steps())));
+  return 0;
+}
+
+/** `quietframe rank` as the binary runs it: a parameter at a time, Ctrl-C stops it between parameters (exit status 130). */
+export async function rankCommandAsync(args: string[], io: CliIo): Promise<number> {
+  const request = rankRequest(args);
+  const ranking = await untilInterrupted((signal) => runInSlices(request.steps(signal)));
+  io.out(request.print(ranking));
+  return 0;
+}
+
+function rankRequest(args: string[]): { steps(signal?: AbortSignal): Generator<unknown, Ranking>; print(ranking: Ranking): string } {
   const { values, positionals } = parseOptions("rank", args, { ...DESIGN_OPTIONS, param: { type: "string", multiple: true }, scan: { type: "string" } });
   const format = formatOption(values.format);
   const { description } = readSetupDescription(positionals);
   const options = { parameters: values.param, grid: gridOption(description, values), scanPoints: wholeOption(values.scan, "--scan") };
   const figure = figureOption(values.figure);
-  const ranking = withOptionNames({ "options.parameters": "--param", "options.scanPoints": "--scan", figure: "--figure" }, () => rankParameters(description, figure, options));
-  io.out(format === "json" ? resultJson(ranking) : rankingText(ranking));
-  return 0;
+  const names = { "options.parameters": "--param", "options.scanPoints": "--scan", figure: "--figure" };
+  return {
+    steps: (signal) => stepsWithOptionNames(names, rankSteps(description, figure, { ...options, signal })),
+    print: (ranking) => (format === "json" ? resultJson(ranking) : rankingText(ranking)),
+  };
 }
 
 export function rankingText(r: Ranking): string {

@@ -23,7 +23,7 @@ import { KERNEL_USAGE, kernelCommand } from "./kernel-install";
 import { EXTENSION_USAGE, extensionCommand } from "./extension-install";
 import { DESIGN_USAGE } from "./design-args";
 import { optimizeCommand, optimizeCommandAsync } from "./optimize-command";
-import { rankCommand } from "./rank-command";
+import { rankCommand, rankCommandAsync } from "./rank-command";
 import { solveCommand } from "./solve-command";
 import { spreadCommand, spreadCommandAsync } from "./spread-command";
 import { INTERRUPTED_EXIT, isStoppedRun } from "./stop-on-interrupt";
@@ -54,12 +54,13 @@ const COMMANDS = ["eval", "summary", "check", "types", "rank", "solve", "optimiz
 
 /**
  * Commands that render figures (Vega renders asynchronously), run worker threads and chunks, or
- * run long enough to be stopped with Ctrl-C (optimize, spread); runCliAsync runs them.
+ * run long enough to be stopped with Ctrl-C (rank, optimize, spread); runCliAsync runs them.
  */
 const ASYNC_COMMANDS: Readonly<Record<string, (args: string[], io: CliIo) => Promise<number>>> = {
   render: renderCommand,
   report: reportCommand,
   sweep: sweepCommand,
+  rank: rankCommandAsync,
   optimize: optimizeCommandAsync,
   spread: spreadCommandAsync,
 };

@@ -1,5 +1,5 @@
 /**
- * Ctrl-C during a long command (optimize, spread, sweep local): SIGINT aborts the run's signal,
+ * Ctrl-C during a long command (rank, optimize, spread, sweep local): SIGINT aborts the run's signal,
  * the run stops between steps with a "stopped after N of M" error, and the CLI prints it and
  * exits with status 130 (128 + SIGINT, what shells expect of an interrupted program). Nothing
  * half-computed is printed or written.

@@ -40,6 +40,19 @@ export interface OptimizeOptions {
   readonly onProgress?: (done: number, total: number) => void;
   /** Stops the run between starts: it then throws a DesignRunStopped (stop.ts) and gives no result. */
   readonly signal?: AbortSignal;
+  /**
+   * Called after each start but the last, once some start has a value, with the best so far
+   * (provisional: the final result replaces it), e.g. to draw it while the run goes on.
+   */
+  readonly onBestSoFar?: (best: ProvisionalOptimum) => void;
+}
+
+/** The best of the starts run so far, as a result, and how many of the starts it covers. */
+export interface ProvisionalOptimum {
+  readonly done: number;
+  readonly total: number;
+  /** Status "ok"; its figure is the search's own value at the best point (the final result evaluates it once more). */
+  readonly result: OptimizeResult;
 }
 
 export interface OptimizedValue {
@@ -93,9 +106,56 @@ export function* optimizeSteps(setup: SetupDescription | string, figure: FigureS
     stopIfAborted(signal, "optimize", s, plan.starts, "starts");
     outcomes.push(runStart(plan, s));
     options.onProgress?.(s + 1, plan.starts);
-    if (s + 1 < plan.starts) yield s + 1;
+    if (s + 1 < plan.starts) {
+      if (options.onBestSoFar) {
+        const best = bestSoFar(plan, outcomes);
+        if (best) options.onBestSoFar(best);
+      }
+      yield s + 1;
+    }
   }
   return finishOptimize(plan, outcomes);
+}
+
+/**
+ * The best point of the starts run so far, chosen as finishOptimize chooses (the lowest cost,
+ * the earlier start on a tie), so after every start it is the final optimum's point. Nothing is
+ * evaluated: the run's evaluation count and the final result stay as they are without it.
+ * Undefined while no start has a value.
+ */
+export function bestSoFar(plan: OptimizePlan, outcomes: readonly StartOutcome[]): ProvisionalOptimum | undefined {
+  const best = bestOutcome(outcomes);
+  if (!best) return undefined;
+  const { problem, starts, current } = plan;
+  const values = optimizedValues(plan, best.u);
+  const figure = figureOf(problem.figure, -best.f);
+  const result: OptimizeResult = {
+    figure: problem.figure,
+    status: "ok",
+    current,
+    optimum: { values, figure },
+    starts: outcomes.map((o) => o.report),
+    evaluations: problem.evaluations,
+    message: `best of ${outcomes.length} of ${starts} starts so far (provisional): ${figure.toPrecision(6)}${problem.figure.unit ? ` ${problem.figure.unit}` : ""} at ${values.map((v) => `${v.target} = ${v.shown}`).join(", ")}`,
+  };
+  return { done: outcomes.length, total: starts, result };
+}
+
+/** The outcome with the lowest cost, the earlier start on a tie; undefined when no start has a value. */
+function bestOutcome(outcomes: readonly StartOutcome[]): { u: Float64Array; f: number } | undefined {
+  let best: { u: Float64Array; f: number } | undefined;
+  for (const o of outcomes) if (o.best && (!best || o.best.f < best.f)) best = o.best;
+  return best;
+}
+
+/** The parameters' values at a point of the unit box, each with its range and the bound it sits on. */
+function optimizedValues(plan: Pick<OptimizePlan, "params" | "ranges">, u: Float64Array): OptimizedValue[] {
+  return plan.params.map((p, k) => {
+    const r = plan.ranges[k];
+    const value = fromUnit(r, u[k]);
+    const end = u[k] <= ON_BOUND ? "low" : u[k] >= 1 - ON_BOUND ? "high" : undefined;
+    return { target: p.target, value, shown: shownValue(value, p), range: [r.lo, r.hi] as const, onBound: end ? { end, kind: end === "low" ? r.loEnd : r.hiEnd } : undefined };
+  });
 }
 
 /**
@@ -127,7 +187,7 @@ export function planOptimize(
   setup: SetupDescription | string,
   figure: FigureSpec,
   parameters: readonly OptimizeParameter[],
-  options: Omit<OptimizeOptions, "onProgress" | "signal"> = {},
+  options: Omit<OptimizeOptions, "onProgress" | "signal" | "onBestSoFar"> = {},
 ): OptimizePlan {
   const problem = designProblem(setup, figure, options.grid);
   if (!Array.isArray(parameters) || parameters.length === 0) {
@@ -197,10 +257,9 @@ export function runStart(plan: OptimizePlan, s: number): StartOutcome {
  * starts made in other threads or processes (they count as evaluations too).
  */
 export function finishOptimize(plan: OptimizePlan, outcomes: readonly StartOutcome[], evaluatedElsewhere = 0): OptimizeResult {
-  const { problem, params, ranges, starts, current } = plan;
+  const { problem, params, starts, current } = plan;
   const reports = outcomes.map((o) => o.report);
-  let best: { u: Float64Array; f: number } | undefined;
-  for (const o of outcomes) if (o.best && (!best || o.best.f < best.f)) best = o.best;
+  const best = bestOutcome(outcomes);
   if (!best) {
     const reasons = [...new Set(reports.map((r) => r.message ?? "no value"))];
     return {
@@ -213,12 +272,7 @@ export function finishOptimize(plan: OptimizePlan, outcomes: readonly StartOutco
     };
   }
   const bestU = best.u;
-  const values: OptimizedValue[] = params.map((p, k) => {
-    const r = ranges[k];
-    const value = fromUnit(r, bestU[k]);
-    const end = bestU[k] <= ON_BOUND ? "low" : bestU[k] >= 1 - ON_BOUND ? "high" : undefined;
-    return { target: p.target, value, shown: shownValue(value, p), range: [r.lo, r.hi] as const, onBound: end ? { end, kind: end === "low" ? r.loEnd : r.hiEnd } : undefined };
-  });
+  const values = optimizedValues(plan, bestU);
   // The figure evaluated once more at the optimum: its own bits, not a value back from the dB scale.
   const final = problem.evaluate(valuesOf(plan, bestU), params);
   const optimumFigure = final.status === CellStatus.ok ? final.value : figureOf(problem.figure, -best.f);

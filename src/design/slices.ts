@@ -25,6 +25,8 @@ export interface SliceOptions {
   readonly now?: () => number;
   /** The pause between slices (default a turn of the event loop). */
   readonly pause?: () => Promise<void>;
+  /** Asked after each step: true ends the slice there (e.g. a step left something to draw). */
+  readonly endSliceAfter?: () => boolean;
 }
 
 /** Runs the steps in slices with a pause between them; resolves to the result (rejects with what a step throws). */
@@ -36,7 +38,7 @@ export async function runInSlices<T>(steps: Generator<unknown, T>, options: Slic
   for (;;) {
     const step = steps.next();
     if (step.done) return step.value;
-    if (now() - sliceStarted >= sliceMs) {
+    if (now() - sliceStarted >= sliceMs || options.endSliceAfter?.()) {
       await pause();
       sliceStarted = now();
     }

@@ -9,7 +9,7 @@ import { designPage } from "../../widgets/design/html";
 import { answerSpecs, curvePoints, gainBars, spreadHistogram } from "../../widgets/design/specs";
 import { optimumWidget, rankingWidget, spreadWidget, type NotebookDesign } from "../../widgets/design/notebook";
 import type { DesignState, OptimumAnswer, RankingAnswer, SpreadAnswer } from "../../widgets/design/format";
-import { DESIGN_CLASS, DESIGN_DRAWN_ATTRIBUTE } from "../../widgets/design/names";
+import { DESIGN_CLASS, DESIGN_DRAWN_ATTRIBUTE, DESIGN_PROVISIONAL_ATTRIBUTE } from "../../widgets/design/names";
 import { RUN_STATUS_ATTRIBUTE } from "../../widgets/design/browser/page-run";
 import { LOCAL_ONLY, openBrowser, type BrowserSession } from "./helpers/chromium";
 import { WIDGET_WAIT_MS } from "./helpers/widgets";
@@ -20,8 +20,9 @@ import { WIDGET_WAIT_MS } from "./helpers/widgets";
  * equals the one Node stored), with no console errors and no request outside the page. A page
  * whose numbers were edited says so; a state the strict reader refuses shows the message and
  * keeps the static figure. "Compute in this page" computes the question again in the page
- * in slices: the answer it draws has Node's fingerprint (same bits in both engines), and Stop
- * ends the run with "stopped after N of M", the saved answer left drawn.
+ * in slices: an optimization draws its best so far after each start, marked provisional, the
+ * answer it ends with has Node's fingerprint (same bits in both engines), and Stop ends the run
+ * with "stopped after N of M", the saved answer left drawn.
  */
 const ROOT = join(__dirname, "..", "..");
 const setup = JSON.parse(readFileSync(join(ROOT, "examples", "free-test-mass.json"), "utf8")) as SetupDescription;
@@ -101,9 +102,21 @@ describe("design widget in the browser", () => {
     expect(session.consoleErrors).toEqual([]);
   });
 
-  it("computes the optimum again in the page, with progress, and draws Node's answer bit for bit", async () => {
+  it("computes the optimum again in the page, with progress and the best so far, and draws Node's answer bit for bit", async () => {
     await open("optimum-run.html", optimum.state);
     expect(await session.page.getAttribute(W, RUN_STATUS_ATTRIBUTE)).toBe("idle");
+    // Every provisional label the page sets on the widget, in order.
+    await session.page.evaluate(
+      ([sel, attr]) => {
+        const g = globalThis as any;
+        g.provisionalLabels = [];
+        new g.MutationObserver(() => {
+          const label = g.document.querySelector(sel).getAttribute(attr);
+          if (label && g.provisionalLabels[g.provisionalLabels.length - 1] !== label) g.provisionalLabels.push(label);
+        }).observe(g.document.querySelector(sel), { attributes: true, attributeFilter: [attr] });
+      },
+      [W, DESIGN_PROVISIONAL_ATTRIBUTE],
+    );
     await session.page.locator(`${W} .qf-run button`, { hasText: "Compute in this page" }).click();
     await session.page.waitForFunction(([sel, attr]) => ["done", "error", "stopped"].includes((globalThis as any).document.querySelector(sel)?.getAttribute(attr)), [W, RUN_STATUS_ATTRIBUTE], {
       timeout: WIDGET_WAIT_MS,
@@ -111,6 +124,8 @@ describe("design widget in the browser", () => {
     expect(await session.page.getAttribute(W, RUN_STATUS_ATTRIBUTE)).toBe("done");
     expect(await session.page.getAttribute(W, DESIGN_DRAWN_ATTRIBUTE)).toBe(optimum.fingerprint);
     expect(await session.page.locator(`${W} .qf-run progress`).evaluate((p) => (p as unknown as { value: number }).value)).toBe(1);
+    expect(await session.page.evaluate(() => (globalThis as any).provisionalLabels)).toEqual(["best of 1 of 2 starts (provisional)"]);
+    expect(await session.page.getAttribute(W, DESIGN_PROVISIONAL_ATTRIBUTE)).toBeNull();
     expect(session.consoleErrors).toEqual([]);
   });
 
@@ -131,6 +146,27 @@ describe("design widget in the browser", () => {
     expect(Number(done)).toBeLessThan(3000);
     expect(await session.page.getAttribute(W, DESIGN_DRAWN_ATTRIBUTE)).toBe(long.fingerprint);
     expect(await session.page.locator(`${W} .qf-run button`, { hasText: "Compute in this page" }).isEnabled()).toBe(true);
+    expect(session.consoleErrors).toEqual([]);
+  });
+
+  it("Stop after a best so far was drawn puts the saved answer back", async () => {
+    await open("optimum-stop.html", optimum.state);
+    // Stop is clicked as soon as the first best so far is on the page.
+    await session.page.evaluate(
+      async ([sel, attr]) => {
+        const g = globalThis as any;
+        const root = g.document.querySelector(sel);
+        new g.MutationObserver(() => {
+          if (root.getAttribute(attr)) root.querySelectorAll(".qf-run button")[1].click();
+        }).observe(root, { attributes: true, attributeFilter: [attr] });
+        await g.quietframeRuntime.designWidgets[0].pageRun.run();
+      },
+      [W, DESIGN_PROVISIONAL_ATTRIBUTE],
+    );
+    expect(await session.page.getAttribute(W, RUN_STATUS_ATTRIBUTE)).toBe("stopped");
+    expect(await session.page.locator(`${W} .qf-run-line`).textContent()).toBe("optimize stopped after 1 of 2 starts; no result is given for a stopped run; the answer shown is the one saved");
+    expect(await session.page.getAttribute(W, DESIGN_PROVISIONAL_ATTRIBUTE)).toBeNull();
+    expect(await session.page.getAttribute(W, DESIGN_DRAWN_ATTRIBUTE)).toBe(optimum.fingerprint);
     expect(session.consoleErrors).toEqual([]);
   });
 

@@ -41,6 +41,20 @@ describe("runInSlices", () => {
     expect(pauses).toBe(9);
   });
 
+  it("ends a slice after a step for which endSliceAfter says so, before the slice time is up", async () => {
+    const clock = { t: 0 };
+    const log: string[] = [];
+    const result = await runInSlices(tenSteps(clock, log), {
+      sliceMs: 1000,
+      now: () => clock.t,
+      pause: async () => void log.push("pause"),
+      endSliceAfter: () => log[log.length - 1] === "step 4" || log[log.length - 1] === "step 7",
+    });
+    expect(result).toBe("done");
+    expect(log.filter((l) => l === "pause")).toHaveLength(2);
+    expect(log.slice(3, 9)).toEqual(["step 4", "pause", "step 5", "step 6", "step 7", "pause"]);
+  });
+
   it("rejects with what a step throws, and runs no step after it", async () => {
     const log: string[] = [];
     function* failing(): Generator<number, string> {

@@ -93,6 +93,8 @@ describe("front-end model defaults from @jupyter-widgets/controls and @jupyter-w
     FloatLogSliderModel: ["_range", "slider_color"],
     DropdownModel: ["button_style"],
     HTMLModel: ["disabled"],
+    // The button class gives its style reference a default; quietframe sends it as a reference (refs), outside the state table.
+    ButtonModel: ["style"],
   };
   // The slider views read `behavior` from the model although the classes give it no default.
   const KERNEL_ONLY: Record<string, string[]> = { FloatSliderModel: ["behavior"], FloatLogSliderModel: ["behavior"] };

@@ -1,20 +1,17 @@
 /** Computes a design question through the engine and returns the answer as plain JSON values. */
 import {
   CellStatus,
-  checkStopSignal,
   designParameter,
   designProblem,
-  loadSetup,
   logGrid,
-  numericParameters,
   optimizeSteps,
-  rankParameters,
+  rankSteps,
   runToEnd,
   spreadSteps,
-  stopIfAborted,
   type DesignFigure,
   type FigureSpec,
   type OptimizeResult,
+  type ProvisionalOptimum,
   type Ranking,
   type SetupDescription,
   type SpreadResult,
@@ -22,7 +19,7 @@ import {
 import type { DesignAnswer, DesignQuestion, FigureLabel, GridText, NoiseCurves, OptimumAnswer, PlainNumber, RankingAnswer, RankingQuestion, SpreadAnswer } from "./format";
 
 /**
- * The one place the widget asks the engine (rankParameters, optimizeSteps, spreadSteps):
+ * The one place the widget asks the engine (rankSteps, optimizeSteps, spreadSteps):
  * the kernel, `quietframe render` and the state loader all compute through `computeAnswer`, so a
  * saved question gives the same answer, bit for bit, wherever it is computed again.
  */
@@ -64,14 +61,32 @@ export function computeAnswer(setup: SetupDescription, figure: FigureSpec, quest
 /**
  * computeAnswer one step at a time (a parameter of a ranking, an optimizer start, a block of
  * Monte Carlo samples): the generator yields between steps and returns the answer, so a page can
- * run it in slices (runInSlices) and stay responsive, with the same bits.
+ * run it in slices (runInSlices) and stay responsive, with the same bits. An optimum tells
+ * `onBestSoFar` the best of the starts so far after each start but the last.
  */
-export function* answerSteps(setup: SetupDescription, figure: FigureSpec, question: DesignQuestion, grid?: GridText, onStep?: StepReport, signal?: AbortSignal): Generator<number, DesignAnswer> {
+export function* answerSteps(
+  setup: SetupDescription,
+  figure: FigureSpec,
+  question: DesignQuestion,
+  grid?: GridText,
+  onStep?: StepReport,
+  signal?: AbortSignal,
+  onBestSoFar?: (best: ProvisionalOptimum) => void,
+): Generator<number, DesignAnswer> {
   switch (question.kind) {
     case "ranking":
-      return rankingAnswer(yield* rankSteps(setup, figure, question, grid, onStep, signal));
+      return rankingAnswer(yield* rankingSteps(setup, figure, question, grid, onStep, signal));
     case "optimum": {
-      const options = { starts: question.starts, seed: question.seed, maxEvaluationsPerStart: question.maxEvaluationsPerStart, tolerance: question.tolerance, grid, onProgress: onStep, signal };
+      const options = {
+        starts: question.starts,
+        seed: question.seed,
+        maxEvaluationsPerStart: question.maxEvaluationsPerStart,
+        tolerance: question.tolerance,
+        grid,
+        onProgress: onStep,
+        signal,
+        onBestSoFar,
+      };
       return optimumAnswer(setup, figure, grid, yield* optimizeSteps(setup, figure, question.parameters, options));
     }
     case "spread":
@@ -79,40 +94,13 @@ export function* answerSteps(setup: SetupDescription, figure: FigureSpec, questi
   }
 }
 
-/**
- * rankParameters one parameter at a time, so that a long ranking can say how far it is: each
- * parameter's row does not depend on the others (the same figure at the set-up's values, the same
- * steps and scan), so the rows, their order (largest |gain per 1 %| first, ties in list order) and
- * the evaluation count (the set-up's own value once) are exactly those of one call.
- */
+/** The ranking one parameter at a time (rankSteps), run to the end: exactly the rows of one rankParameters call. */
 export function rankOneByOne(setup: SetupDescription, figure: FigureSpec, question: RankingQuestion, grid: GridText | undefined, onStep?: StepReport, signal?: AbortSignal): Ranking {
-  return runToEnd(rankSteps(setup, figure, question, grid, onStep, signal));
+  return runToEnd(rankingSteps(setup, figure, question, grid, onStep, signal));
 }
 
-/** rankOneByOne as a generator: it yields after each parameter but the last. */
-function* rankSteps(setup: SetupDescription, figure: FigureSpec, question: RankingQuestion, grid: GridText | undefined, onStep?: StepReport, signal?: AbortSignal): Generator<number, Ranking> {
-  checkStopSignal(signal);
-  const options = { scanPoints: question.scanPoints, relativeStep: question.relativeStep, grid };
-  // Every option, the figure and the grid are checked (and the set-up's figure taken) before the first parameter.
-  const head = rankParameters(setup, figure, { ...options, parameters: [] });
-  const base = loadSetup(setup);
-  const targets = question.parameters === undefined ? numericParameters(base).map((p) => p.target) : question.parameters.map((t, i) => designParameter(base, t, `options.parameters[${i}]`).target);
-  const rows: Ranking["parameters"][number][] = [];
-  let evaluations = head.evaluations;
-  for (const [i, target] of targets.entries()) {
-    stopIfAborted(signal, "ranking", i, targets.length, "parameters");
-    const one = rankParameters(setup, figure, { ...options, parameters: [target] });
-    rows.push(one.parameters[0]);
-    evaluations += one.evaluations - head.evaluations;
-    onStep?.(i + 1, targets.length);
-    if (i + 1 < targets.length) yield i + 1;
-  }
-  const key = (r: Ranking["parameters"][number]): number => (r.gainPer1Percent === null ? -1 : Math.abs(r.gainPer1Percent));
-  const ranked = rows
-    .map((r, i) => ({ r, i }))
-    .sort((a, b) => key(b.r) - key(a.r) || a.i - b.i)
-    .map((e) => e.r);
-  return { figure: head.figure, current: head.current, parameters: ranked, evaluations };
+function rankingSteps(setup: SetupDescription, figure: FigureSpec, question: RankingQuestion, grid: GridText | undefined, onStep?: StepReport, signal?: AbortSignal): Generator<number, Ranking> {
+  return rankSteps(setup, figure, { parameters: question.parameters, scanPoints: question.scanPoints, relativeStep: question.relativeStep, grid, onProgress: onStep, signal });
 }
 
 export function rankingAnswer(r: Ranking): RankingAnswer {

@@ -14,6 +14,11 @@ import { designMethods } from "./methods";
 import { checkQuestion } from "./question-read";
 import { designFigureSpec } from "./specs";
 import { designSummaryText } from "./summary";
+import { computeAnswerInSlices, type StoppableRunOptions } from "./notebook-run";
+import { PROGRESS_LABELS, progressLine, type ProgressWords } from "./progress";
+
+export { PROGRESS_LABELS } from "./progress";
+export type { StoppableRunOptions } from "./notebook-run";
 
 export interface DesignShowOptions {
   /** Carry the browser runtime in this output (default: only if no widget carried it yet in this kernel). */
@@ -54,6 +59,7 @@ const QUIET_MS = 1000;
 export class NotebookDesign<A extends DesignAnswer = DesignAnswer> {
   #state: DesignState;
   #fingerprintMatches: boolean;
+  #running = false;
 
   constructor(state: DesignState, fingerprintMatches = true) {
     this.#state = state;
@@ -89,14 +95,41 @@ export class NotebookDesign<A extends DesignAnswer = DesignAnswer> {
 
   /** Asks the question again with some of its fields changed; on bad input or a stop (`options.signal`) nothing changes. */
   set(changes: QuestionChanges, options: Pick<DesignWidgetOptions, "signal"> = {}): this {
-    if (typeof changes !== "object" || changes === null || Array.isArray(changes))
-      throw new QuietframeError({ path: "changes", value: changes, problem: "must be an object", allowed: "fields of the question, e.g. { seed: 2 }" });
-    if ("kind" in changes) throw new QuietframeError({ path: "changes.kind", problem: "cannot change the kind of question", allowed: "a new widget for another question" });
+    const question = this.#changed(changes);
     const s = this.#state;
-    const question = checkQuestion({ ...s.question, ...changes }, "changes");
     this.#state = ask(s.setup, s.figure, question, { grid: s.grid, title: s.title, signal: options.signal });
     this.#fingerprintMatches = true;
     return this;
+  }
+
+  /**
+   * set() that can be stopped while the cell runs: `await w.run({ starts: 8 })` computes in
+   * slices with the event loop turning between them, shows a Stop button and a progress line
+   * (in the quietframe kernel), and stops on that button, on the kernel's interrupt or on
+   * `options.signal` with a DesignRunStopped ("stopped after N of M …"); the widget then keeps
+   * its last answer and state. Not stopped, the answer has the bits set() gives.
+   */
+  async run(changes: QuestionChanges = {}, options: StoppableRunOptions = {}): Promise<this> {
+    const question = this.#changed(changes);
+    if (this.#running) throw new QuietframeError({ path: "run", problem: "is already computing this widget", allowed: "one run at a time: await it (or stop it) first" });
+    this.#running = true;
+    try {
+      const s = this.#state;
+      const state = await askInSlices(s.setup, s.figure, question, { grid: s.grid, title: s.title, signal: options.signal, stopButton: options.stopButton });
+      this.#state = state;
+      this.#fingerprintMatches = true;
+      return this;
+    } finally {
+      this.#running = false;
+    }
+  }
+
+  /** The question with the changes, checked (bad input throws a message naming the field). */
+  #changed(changes: QuestionChanges): DesignQuestion {
+    if (typeof changes !== "object" || changes === null || Array.isArray(changes))
+      throw new QuietframeError({ path: "changes", value: changes, problem: "must be an object", allowed: "fields of the question, e.g. { seed: 2 }" });
+    if ("kind" in changes) throw new QuietframeError({ path: "changes.kind", problem: "cannot change the kind of question", allowed: "a new widget for another question" });
+    return checkQuestion({ ...this.#state.question, ...changes }, "changes");
   }
 
   /** The widget-state document (Jupyter widget state 2.0) as text. */
@@ -159,6 +192,36 @@ export function spreadWidget(setup: SetupDescription, figure: FigureSpec, uncert
   return new NotebookDesign<SpreadAnswer>(ask(setup, figure, question, { grid, title, signal }));
 }
 
+/** rankingWidget computed in slices, with a Stop button in the kernel: `await rankingWidgetAsync(…)` (see NotebookDesign.run). */
+export async function rankingWidgetAsync(setup: SetupDescription, figure: FigureSpec, options: RankingWidgetOptions & StoppableRunOptions = {}): Promise<NotebookDesign<RankingAnswer>> {
+  const { grid, title, signal, stopButton, ...rest } = options;
+  return new NotebookDesign<RankingAnswer>(await askInSlices(setup, figure, checkQuestion({ kind: "ranking", ...rest }, "options"), { grid, title, signal, stopButton }));
+}
+
+/** optimumWidget computed in slices, with a Stop button in the kernel: `await optimumWidgetAsync(…)` (see NotebookDesign.run). */
+export async function optimumWidgetAsync(
+  setup: SetupDescription,
+  figure: FigureSpec,
+  parameters: OptimizeParameter[],
+  options: OptimumWidgetOptions & StoppableRunOptions = {},
+): Promise<NotebookDesign<OptimumAnswer>> {
+  const { grid, title, signal, stopButton, ...rest } = options;
+  const question = checkQuestion({ kind: "optimum", ...rest, parameters }, "options");
+  return new NotebookDesign<OptimumAnswer>(await askInSlices(setup, figure, question, { grid, title, signal, stopButton }));
+}
+
+/** spreadWidget computed in slices, with a Stop button in the kernel: `await spreadWidgetAsync(…)` (see NotebookDesign.run). */
+export async function spreadWidgetAsync(
+  setup: SetupDescription,
+  figure: FigureSpec,
+  uncertain: UncertaintySpec[],
+  options: SpreadWidgetOptions & StoppableRunOptions = {},
+): Promise<NotebookDesign<SpreadAnswer>> {
+  const { grid, title, signal, stopButton, ...rest } = options;
+  const question = checkQuestion({ kind: "spread", ...rest, uncertain }, "options");
+  return new NotebookDesign<SpreadAnswer>(await askInSlices(setup, figure, question, { grid, title, signal, stopButton }));
+}
+
 /** A saved design widget (a bare state or a widget-state document, as an object or JSON text), its answer computed again. */
 export function designWidget(saved: DesignState | Record<string, unknown> | string): NotebookDesign {
   const value: unknown = typeof saved === "string" ? parseJsonText(saved, "designWidget input") : saved;
@@ -175,12 +238,13 @@ function ask(setup: SetupDescription, figure: FigureSpec, question: DesignQuesti
   return designState(setup, figure, question, answer, options);
 }
 
-/** What a progress line counts, by question: parameters ranked, optimizer starts, Monte Carlo samples. */
-export const PROGRESS_LABELS = {
-  ranking: { name: "ranking", unit: "parameters" },
-  optimum: { name: "optimum", unit: "starts" },
-  spread: { name: "spread", unit: "samples" },
-} as const;
+/** ask() in slices, stoppable while the cell runs (notebook-run.ts); progress as a line under a Stop button, or as text without one. */
+async function askInSlices(setup: SetupDescription, figure: FigureSpec, question: DesignQuestion, options: DesignWidgetOptions & StoppableRunOptions): Promise<DesignState> {
+  const progress = progressReporter(Date.now, (t) => void process.stdout.write(t), PROGRESS_LABELS[question.kind]);
+  const answer = await computeAnswerInSlices(setup, figure, question, options.grid, { signal: options.signal, stopButton: options.stopButton, onStep: progress.onStep });
+  progress.finish();
+  return designState(setup, figure, question, answer, options);
+}
 
 /**
  * Progress as text for computations that take more than a second: how many parameters, starts
@@ -190,7 +254,7 @@ export const PROGRESS_LABELS = {
 export function progressReporter(
   now: () => number = Date.now,
   write: (text: string) => void = (t) => void process.stdout.write(t),
-  label: { readonly name: string; readonly unit: string } = PROGRESS_LABELS.ranking,
+  label: ProgressWords = PROGRESS_LABELS.ranking,
 ): { onStep: StepReport; finish(): void } {
   const started = now();
   let said = started;
@@ -199,7 +263,7 @@ export function progressReporter(
       const t = now();
       if (t - started < QUIET_MS || t - said < QUIET_MS) return;
       said = t;
-      write(`${label.name}: ${done} of ${total} ${label.unit} (${((100 * done) / total).toFixed(0)} %)\n`);
+      write(`${progressLine(label, done, total)}\n`);
     },
     finish() {
       const took = now() - started;

@@ -224,13 +224,20 @@ export function curvePoints(answer: OptimumAnswer): CurvePoint[] {
   return points;
 }
 
-export function curvesSpec(answer: OptimumAnswer): Spec {
+/** `provisional`: the label of a best so far during a run ("best of 2 of 4 starts (provisional)"), shown in the title. */
+export function curvesSpec(answer: OptimumAnswer, provisional?: string): Spec {
   const unit = answer.curves?.unit ?? "";
+  const heading =
+    answer.status !== "ok"
+      ? "No optimum: every start was refused or unstable"
+      : provisional
+        ? `Total noise as given and at the ${provisional}: ${answer.figure.label}`
+        : `Total noise before and after: ${answer.figure.label}`;
   return {
     $schema: SCHEMA,
     width: 460,
     height: 260,
-    title: title(answer.status === "ok" ? `Total noise before and after: ${answer.figure.label}` : "No optimum: every start was refused or unstable"),
+    title: title(heading),
     data: { values: curvePoints(answer) },
     mark: { type: "line", strokeWidth: 2 },
     encoding: {
@@ -261,13 +268,13 @@ function curvesFrequencyX(answer: OptimumAnswer): Spec {
   return frequencyX(frequencyAxis(f[0], f[f.length - 1]), true);
 }
 
-/** The charts of an answer, in the order the page shows them. */
-export function answerSpecs(answer: DesignAnswer): Spec[] {
+/** The charts of an answer, in the order the page shows them (`provisional`: see curvesSpec). */
+export function answerSpecs(answer: DesignAnswer, provisional?: string): Spec[] {
   switch (answer.kind) {
     case "ranking":
       return [rankingSpec(answer)];
     case "optimum":
-      return [curvesSpec(answer)];
+      return [curvesSpec(answer, provisional)];
     case "spread":
       return answer.bands ? [histogramSpec(answer), bandSpec(answer)] : [histogramSpec(answer)];
   }

@@ -33,6 +33,9 @@ export {
   rankingWidget,
   optimumWidget,
   spreadWidget,
+  rankingWidgetAsync,
+  optimumWidgetAsync,
+  spreadWidgetAsync,
   designWidget,
   NotebookDesign,
   type DesignShowOptions,
@@ -41,6 +44,7 @@ export {
   type OptimumWidgetOptions,
   type SpreadWidgetOptions,
   type QuestionChanges,
+  type StoppableRunOptions,
 } from "../design/notebook";
 export type { DesignAnswer, DesignState, RankingAnswer, OptimumAnswer, SpreadAnswer } from "../design/format";
 

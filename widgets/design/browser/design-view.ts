@@ -15,7 +15,8 @@ import { designDocumentText, readDesignState } from "../document";
 import { answerFingerprint } from "../fingerprint";
 import type { DesignAnswer, DesignState } from "../format";
 import { designMethods } from "../methods";
-import { DESIGN_CLASS, DESIGN_DRAWN_ATTRIBUTE, DESIGN_STATE_CLASS } from "../names";
+import { DESIGN_CLASS, DESIGN_DRAWN_ATTRIBUTE, DESIGN_PROVISIONAL_ATTRIBUTE, DESIGN_STATE_CLASS } from "../names";
+import type { ProvisionalAnswer } from "../provisional";
 import { answerSpecs } from "../specs";
 import { answerSummary, designTitle } from "../summary";
 import { PageRun } from "./page-run";
@@ -100,7 +101,12 @@ export class DesignWidgetView {
       );
     }
     this.summary.replaceChildren(...answerSummary(state.answer).map((line) => el("li", {}, [line])));
-    this.pageRun = new PageRun(state, this.element, (answer) => this.showAnswer(answer));
+    this.pageRun = new PageRun(
+      state,
+      this.element,
+      (answer) => this.showAnswer(answer),
+      (best) => this.showBestSoFar(best),
+    );
     const cautions = designCautions(state);
     const live = el("div", { class: "qf-live" }, [
       el("strong", { class: "qf-title" }, [designTitle(state)]),
@@ -127,11 +133,20 @@ export class DesignWidgetView {
     this.element.setAttribute(STATUS_ATTRIBUTE, "ready");
   }
 
-  /** Draws an answer computed in the page: its charts, its summary and the fingerprint of what is drawn. */
+  /** Draws a whole answer (computed in the page, or the last one again after a stop): its charts, its summary and the fingerprint of what is drawn. */
   private async showAnswer(answer: DesignAnswer): Promise<void> {
     this.views = await replaceCanvasCharts(this.charts, answerSpecs(answer), this.views);
     this.summary.replaceChildren(...answerSummary(answer).map((line) => el("li", {}, [line])));
     this.element.setAttribute(DESIGN_DRAWN_ATTRIBUTE, answerFingerprint(answer));
+    this.element.removeAttribute(DESIGN_PROVISIONAL_ATTRIBUTE);
+  }
+
+  /** Draws an optimization's best so far, marked provisional in the chart's title, the summary and an attribute. */
+  private async showBestSoFar(best: ProvisionalAnswer): Promise<void> {
+    this.views = await replaceCanvasCharts(this.charts, answerSpecs(best.answer, best.label), this.views);
+    this.summary.replaceChildren(...[`${best.label[0].toUpperCase()}${best.label.slice(1)}:`, ...answerSummary(best.answer)].map((line) => el("li", {}, [line])));
+    this.element.setAttribute(DESIGN_DRAWN_ATTRIBUTE, answerFingerprint(best.answer));
+    this.element.setAttribute(DESIGN_PROVISIONAL_ATTRIBUTE, best.label);
   }
 
   private actions(state: DesignState): HTMLElement {

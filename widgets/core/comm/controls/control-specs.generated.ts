@@ -4,7 +4,7 @@
 import type { ControlSpec } from "./control-spec-types";
 
 /** The standard models quietframe creates. */
-export type StandardModelName = "FloatSliderModel" | "FloatLogSliderModel" | "DropdownModel" | "TextModel" | "HTMLModel" | "VBoxModel" | "HBoxModel" | "LayoutModel" | "SliderStyleModel" | "DescriptionStyleModel" | "TextStyleModel" | "HTMLStyleModel";
+export type StandardModelName = "FloatSliderModel" | "FloatLogSliderModel" | "DropdownModel" | "TextModel" | "HTMLModel" | "ButtonModel" | "VBoxModel" | "HBoxModel" | "LayoutModel" | "SliderStyleModel" | "DescriptionStyleModel" | "TextStyleModel" | "HTMLStyleModel" | "ButtonStyleModel";
 
 export const CONTROL_SPECS: Readonly<Record<StandardModelName, ControlSpec>> = {
   "FloatSliderModel": {
@@ -479,6 +479,88 @@ export const CONTROL_SPECS: Readonly<Record<StandardModelName, ControlSpec>> = {
       },
       "value": {
         "type": "string"
+      }
+    }
+  },
+  "ButtonModel": {
+    "model": {
+      "module": "@jupyter-widgets/controls",
+      "name": "ButtonModel",
+      "version": "2.0.0"
+    },
+    "view": {
+      "module": "@jupyter-widgets/controls",
+      "name": "ButtonView",
+      "version": "2.0.0"
+    },
+    "state": {
+      "_dom_classes": [],
+      "_model_module": "@jupyter-widgets/controls",
+      "_model_module_version": "2.0.0",
+      "_model_name": "ButtonModel",
+      "_view_module": "@jupyter-widgets/controls",
+      "_view_module_version": "2.0.0",
+      "_view_name": "ButtonView",
+      "button_style": "",
+      "description": "",
+      "disabled": false,
+      "icon": "",
+      "tabbable": null,
+      "tooltip": null
+    },
+    "refs": {
+      "layout": "LayoutModel",
+      "style": "ButtonStyleModel"
+    },
+    "attributes": {
+      "_dom_classes": {
+        "type": "array"
+      },
+      "_model_module": {
+        "type": "string"
+      },
+      "_model_module_version": {
+        "type": "string"
+      },
+      "_model_name": {
+        "type": "string"
+      },
+      "_view_module": {
+        "type": "string"
+      },
+      "_view_module_version": {
+        "type": "string"
+      },
+      "_view_name": {
+        "type": "string"
+      },
+      "button_style": {
+        "type": "string",
+        "enum": [
+          "primary",
+          "success",
+          "info",
+          "warning",
+          "danger",
+          ""
+        ]
+      },
+      "description": {
+        "type": "string"
+      },
+      "disabled": {
+        "type": "bool"
+      },
+      "icon": {
+        "type": "string"
+      },
+      "tabbable": {
+        "type": "bool",
+        "allowNone": true
+      },
+      "tooltip": {
+        "type": "string",
+        "allowNone": true
       }
     }
   },
@@ -1146,6 +1228,87 @@ export const CONTROL_SPECS: Readonly<Record<StandardModelName, ControlSpec>> = {
         "allowNone": true
       },
       "text_color": {
+        "type": "string",
+        "allowNone": true
+      }
+    }
+  },
+  "ButtonStyleModel": {
+    "model": {
+      "module": "@jupyter-widgets/controls",
+      "name": "ButtonStyleModel",
+      "version": "2.0.0"
+    },
+    "view": {
+      "module": "@jupyter-widgets/base",
+      "name": "StyleView",
+      "version": "2.0.0"
+    },
+    "state": {
+      "_model_module": "@jupyter-widgets/controls",
+      "_model_module_version": "2.0.0",
+      "_model_name": "ButtonStyleModel",
+      "_view_module": "@jupyter-widgets/base",
+      "_view_module_version": "2.0.0",
+      "_view_name": "StyleView",
+      "button_color": null,
+      "font_family": null,
+      "font_size": null,
+      "font_style": null,
+      "font_variant": null,
+      "font_weight": null,
+      "text_color": null,
+      "text_decoration": null
+    },
+    "refs": {},
+    "attributes": {
+      "_model_module": {
+        "type": "string"
+      },
+      "_model_module_version": {
+        "type": "string"
+      },
+      "_model_name": {
+        "type": "string"
+      },
+      "_view_module": {
+        "type": "string"
+      },
+      "_view_module_version": {
+        "type": "string"
+      },
+      "_view_name": {
+        "type": "string"
+      },
+      "button_color": {
+        "type": "string",
+        "allowNone": true
+      },
+      "font_family": {
+        "type": "string",
+        "allowNone": true
+      },
+      "font_size": {
+        "type": "string",
+        "allowNone": true
+      },
+      "font_style": {
+        "type": "string",
+        "allowNone": true
+      },
+      "font_variant": {
+        "type": "string",
+        "allowNone": true
+      },
+      "font_weight": {
+        "type": "string",
+        "allowNone": true
+      },
+      "text_color": {
+        "type": "string",
+        "allowNone": true
+      },
+      "text_decoration": {
         "type": "string",
         "allowNone": true
       }
