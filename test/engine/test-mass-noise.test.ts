@@ -3,6 +3,7 @@ import { HBAR, SPEED_OF_LIGHT } from "../../src/constants";
 import { inputTransfer, signalResponse } from "../../src/engine/spectra";
 import { QuietframeError, QuietframeErrors } from "../../src/errors";
 import { evaluate, loadSetup, prepare } from "../../src/pipeline";
+import { SetupPreparer } from "../../src/prepare";
 import type { SetupDescription } from "../../src/setup/format";
 import { expectAllClose } from "../helpers/close";
 import { setup, sumTerms } from "../helpers/setups";
@@ -115,6 +116,30 @@ describe("force and displacement of each test mass, free masses", () => {
     expectAllClose(sumTerms(budget.terms, "forceAtSql"), hSql2, 1e-12, "force SQL in strain");
     expectAllClose(sumTerms(budget.terms, "motionAtSql"), hSql2, 1e-12, "displacement SQL in strain");
     expectAllClose(budget.references.find((r) => r.id === "sql")!.psd, hSql2, 1e-12, "the engine's own strain SQL");
+  });
+});
+
+describe("the terms follow the interferometer's values in searches", () => {
+  it("a SetupPreparer's mass and arm length scale the force term as 1/(m²L²) and the displacement term as 1/L², as prepare(setup, values) does", () => {
+    const s = ifo({ classicalNoise: [term("suspension", "force", forceAsd), term("coating", "displacement", displacementAsd)] });
+    const values = { "ifo.mass": "60 kg", "ifo.armLength": "8 km" };
+    const preparer = new SetupPreparer(s);
+    const base = evaluate(preparer.prepare(), GRID).budget;
+    const changed = evaluate(preparer.prepare(values), GRID).budget;
+    expect(changed.total).toEqual(evaluate(prepare(s, values), GRID).budget.total);
+    // (30 kg · 4 km / (60 kg · 8 km))² = 1/16 and (4 km / 8 km)² = 1/4: powers of two, so the terms scale exactly.
+    expectAllClose(
+      sumTerms(changed.terms, "suspension"),
+      Array.from(sumTerms(base.terms, "suspension"), (v) => v / 16),
+      1e-12,
+      "force term",
+    );
+    expectAllClose(
+      sumTerms(changed.terms, "coating"),
+      Array.from(sumTerms(base.terms, "coating"), (v) => v / 4),
+      1e-12,
+      "displacement term",
+    );
   });
 });
 
