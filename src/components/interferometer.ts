@@ -39,7 +39,8 @@ import { maybeNum, num, type ComponentKind, type MechanicalBody, type NoiseEntry
  * Strain enters as what the light sees: a change L·h of the differential arm length added to
  * the mechanical ΔL in the optical phase quadrature (a frequency-independent column, so the
  * response is exact at every Ω; as a force it would have to be μΩ²L·h). This is the
- * long-wavelength limit (ΩL/c ≪ 1) for an optimally oriented wave.
+ * long-wavelength limit (ΩL/c ≪ 1) for an optimally oriented wave. Classical force and
+ * displacement noise of the test masses enter beside it (testMassForceEntry below).
  *
  * Solving these equations gives (d/dt → −iΩ, β = arctan(Ω/γ), η = γ_in/γ)
  *   b1 = −e^{2iβ} a1 + (loss terms),  b2 = −e^{2iβ}(a2 − K a1) + (loss terms) + signal,
@@ -369,7 +370,7 @@ export const interferometer: ComponentKind<InterferometerHandle> = {
   },
   heldByControl: (c) => c.values.lengthControl === "servo",
   signals: ["strain"],
-  applySignal: (builder, h) => enterAsStrain(builder, h),
+  applySignal: enterAsStrain,
   noiseEntries: { force: testMassForceEntry(), displacement: testMassDisplacementEntry() },
   signalReference: (h) => strainSignalReference(h.mass, h.armLength),
   cautions: (c) => {

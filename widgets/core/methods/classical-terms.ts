@@ -37,7 +37,7 @@ function interferometerSentence(w: Writer, t: ClassicalTerm): string {
       );
     case "displacement":
       return (
-        `${name} is a classical displacement noise of each test mass of ${on} (${oneMass}): the differential arm length changes by the sum of four such motions, ` +
+        `${name} is a classical displacement noise of each test mass of ${on} (${oneMass}): the differential arm length changes by each of four such motions with its sign, ` +
         `which the light sees where it sees the signal, so it adds ${w.math("S_h = 4S_x/L²", "S_h = 4S_x/L^2")} to the strain-referred noise.`
       );
     default:
