@@ -6,10 +6,10 @@ import type { NetworkBuilder } from "../network/builder";
 import { combine, combineFields, type Field } from "../network/linear-form";
 import type { ModeInfo } from "../network/model";
 import { strainSql } from "../reference/limits";
-import { wireBody } from "../physics/mechanics";
+import { applyForceSignal, wireBody } from "../physics/mechanics";
 import { opticalAngularFrequency, pushOnBody } from "../physics/optomechanics";
 import { type QuadratureFactor, type SignalRecyclingLoop, signalRecyclingLoop, signalRecyclingLoopFromPole, springIsRestoring } from "../physics/signal-recycling";
-import { maybeNum, num, type ComponentKind, type MechanicalBody, type ResolvedComponent, type SignalReference } from "./types";
+import { maybeNum, num, type ComponentKind, type MechanicalBody, type NoiseEntry, type ResolvedComponent, type SignalReference } from "./types";
 
 /**
  * Michelson interferometer with a Fabry–Perot cavity in each arm and an optional
@@ -39,7 +39,8 @@ import { maybeNum, num, type ComponentKind, type MechanicalBody, type ResolvedCo
  * Strain enters as what the light sees: a change L·h of the differential arm length added to
  * the mechanical ΔL in the optical phase quadrature (a frequency-independent column, so the
  * response is exact at every Ω; as a force it would have to be μΩ²L·h). This is the
- * long-wavelength limit (ΩL/c ≪ 1) for an optimally oriented wave.
+ * long-wavelength limit (ΩL/c ≪ 1) for an optimally oriented wave. Classical force and
+ * displacement noise of the test masses enter beside it (testMassForceEntry below).
  *
  * Solving these equations gives (d/dt → −iΩ, β = arctan(Ω/γ), η = γ_in/γ)
  *   b1 = −e^{2iβ} a1 + (loss terms),  b2 = −e^{2iβ}(a2 − K a1) + (loss terms) + signal,
@@ -369,7 +370,8 @@ export const interferometer: ComponentKind<InterferometerHandle> = {
   },
   heldByControl: (c) => c.values.lengthControl === "servo",
   signals: ["strain"],
-  applySignal: (builder, h) => builder.driveBySignal(h.optical.p, h.signalGain),
+  applySignal: enterAsStrain,
+  noiseEntries: { force: testMassForceEntry(), displacement: testMassDisplacementEntry() },
   signalReference: (h) => strainSignalReference(h.mass, h.armLength),
   cautions: (c) => {
     const arm = num(c, "power");
@@ -396,6 +398,50 @@ function differentialBody(builder: NetworkBuilder, c: ResolvedComponent, mu: num
     omega: 0,
     baths: [],
   };
+}
+
+/**
+ * Classical noise of the test masses. A spectrum given as "force" or "displacement" on an
+ * interferometer is that of ONE test mass, along its arm's axis; the four test masses are taken as
+ * independent and alike, each with that spectrum.
+ *
+ * Differential mode: ΔL = (x_1e − x_1i) − (x_2e − x_2i) (e end, i input mirror of arms 1 and 2),
+ * so four independent displacements of PSD S_x each give S_ΔL = 4 S_x. Along this mode every
+ * mirror moves by ±ΔL/4, so the generalized force on ΔL is Q = (F_1e − F_1i − F_2e + F_2i)/4, of
+ * PSD 4 S_F/16 = S_F/4, acting on the reduced mass μ = m/4 (see differentialBody). A free body
+ * answers ΔL = −Q/(μΩ²) = −4Q/(mΩ²), so S_ΔL = 16 (S_F/4)/(m²Ω⁴) = 4 S_F/(m²Ω⁴), and with
+ * h = ΔL/L the free-mass strain equivalents are S_h = 4 S_F/(m²Ω⁴L²) and S_h = 4 S_x/L².
+ *
+ * A force enters where the test masses' motion does: Q drives the ΔL body, which answers the arm
+ * mode's radiation pressure too, so the optical spring of detuned signal recycling acts on it. A
+ * displacement enters where the signal does: the light sees ΔL + L·h. Since ΔL = χ₀(Q + F_rp),
+ * χ₀ = −1/(μΩ²), every output answers Q exactly as it answers the strain χ₀Q/L: the spring changes
+ * the response to a force and to the signal by the same factor, so referred to strain a force term
+ * is the free-mass conversion above at every detuning (and a displacement entering as the signal
+ * is the same as the force ΔL/χ₀, the bodies' convention for displacement noise).
+ */
+function testMassForceEntry(): NoiseEntry<InterferometerHandle> {
+  return {
+    label: "force on each test mass of",
+    // Q of PSD S_F/4 on the ΔL body, which the arm mode's radiation pressure (and, detuned, the
+    // optical spring) acts on as on any motion of the test masses.
+    psdScale: () => 1 / 4,
+    apply: (builder, h) => applyForceSignal(builder, h.body),
+  };
+}
+
+function testMassDisplacementEntry(): NoiseEntry<InterferometerHandle> {
+  return {
+    label: "displacement of each test mass of",
+    // ΔL of PSD 4 S_x seen by the light where the strain signal is seen, as L·h: h = ΔL/L.
+    psdScale: (h) => 4 / (h.armLength * h.armLength),
+    apply: enterAsStrain,
+  };
+}
+
+/** The signal column (or a classical one standing in for it) per unit strain: L·h added to ΔL in the optical phase quadrature. */
+function enterAsStrain(builder: NetworkBuilder, h: InterferometerHandle): void {
+  builder.driveBySignal(h.optical.p, h.signalGain);
 }
 
 /**

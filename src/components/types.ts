@@ -102,6 +102,12 @@ export interface ComponentKind<H = unknown> {
   readonly signals?: readonly string[];
   readonly applySignal?: (builder: NetworkBuilder, handle: H, kind: string) => void;
   readonly signalReference?: (handle: H, kind: string) => SignalReference;
+  /**
+   * Places classical noise enters this component besides its signals and its body, by name
+   * ("force" and "displacement" of one of an interferometer's test masses); the unit of each is
+   * that of its name (src/setup/spectrum-units.ts).
+   */
+  readonly noiseEntries?: Readonly<Record<string, NoiseEntry<H>>>;
   /** A sentence on how this component can make a set-up unstable, used in stability messages. */
   readonly instabilityHint?: (c: ResolvedComponent) => string | undefined;
   /**
@@ -117,6 +123,18 @@ export interface ComponentKind<H = unknown> {
    * for hazards implied through a body (a measurement rate needs its mass and frequency).
    */
   readonly cautions?: (c: ResolvedComponent, bodies: Readonly<Record<string, MechanicalBody | undefined>>) => string[];
+}
+
+/**
+ * How a classical noise spectrum enters at one of a component's own places of entry: its PSD
+ * times `psdScale` is the PSD of an input column that `apply` writes into the dynamics, the way
+ * applySignal writes the signal (the engine runs it inside NetworkBuilder.enterAsSignal).
+ */
+export interface NoiseEntry<H> {
+  /** How budgets name the place, followed by the component's name, e.g. "force on each test mass of"; it starts with the entry's name. */
+  readonly label: string;
+  readonly psdScale: (handle: H) => number;
+  readonly apply: (builder: NetworkBuilder, handle: H) => void;
 }
 
 export function num(c: ResolvedComponent, name: string): number {

@@ -1,7 +1,9 @@
 /**
  * Assembly of the classical noise terms: each claims one input column whose PSD is its
  * spectrum, and enters where a signal of the same kind would (a force on a body, a strain on
- * an interferometer). A displacement of a body enters as the force that would move the body
+ * an interferometer), or where a component's own place of entry says (the force on or the
+ * displacement of each test mass of an interferometer, interferometer.ts: the spectrum scaled to
+ * the differential mode's). A displacement of a body enters as the force that would move the body
  * alone that much: F = x/χ₀, with χ₀ the body's own susceptibility (mass, resonance, the
  * damping of its baths; no optical spring), so the readout's dynamics act on it as on any force.
  * Laser noise enters the coupler that carries the drive (classical-laser.ts): intensity noise as
@@ -39,6 +41,17 @@ export function allocateClassicalNoise(builder: NetworkBuilder, term: ResolvedCl
       enter: () => laser.enter?.(builder, column, handle()),
       ...(laser.drive ? { drive: { ...laser.drive, on: term.on, column } } : {}),
     };
+  }
+  const own = kind.noiseEntries?.[term.enters];
+  if (own) {
+    const scale = own.psdScale(handle());
+    const column = builder.addClassicalInput(
+      term.name,
+      `${own.label} ${term.on} (classical)`,
+      (f) => scale * term.spectrum.psdAt(f),
+      (frequencies) => requireCovers(term, frequencies),
+    );
+    return { enter: () => builder.enterAsSignal(column, () => own.apply(builder, handle())) };
   }
   return { enter: allocateOnSignalPath(builder, term, kind, handle) };
 }

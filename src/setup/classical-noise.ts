@@ -1,9 +1,9 @@
 /**
  * The set-up's classical noise terms (a measured or modelled spectrum entering at a named
- * place: a force on a body, a displacement of a body, a strain on an interferometer, the
- * intensity or frequency noise of the laser that drives a cavity or a probe), checked
- * and resolved into spectra in SI. Assembly turns each into an input of its own, so each is a
- * budget term of its own.
+ * place: a force on a body, a displacement of a body, either of them on each test mass of an
+ * interferometer, a strain on an interferometer, the intensity or frequency noise of the laser
+ * that drives a cavity or a probe), checked and resolved into spectra in SI. Assembly turns each
+ * into an input of its own, so each is a budget term of its own.
  */
 import type { ComponentKind, ResolvedComponent } from "../components/types";
 import { QuietframeError } from "../errors";
@@ -18,7 +18,7 @@ import { checkSpectrum, type SpectrumDescription } from "./spectrum-table";
 export interface ClassicalNoiseDescription {
   /** The term's name in budgets (a name as components have). */
   name: string;
-  /** Where it enters: "force" or "displacement" on a body, "strain" on an interferometer, "laser intensity" or "laser frequency" on the cavity or probe the laser drives. */
+  /** Where it enters: "force" or "displacement" on a body or on each test mass of an interferometer, "strain" on an interferometer, "laser intensity" or "laser frequency" on the cavity or probe the laser drives. */
   enters: string;
   /** The component it enters at. */
   on: string;
@@ -52,6 +52,7 @@ export interface ResolvedClassicalNoise {
 export function entriesOf(kind: ComponentKind<unknown>): string[] {
   const entries = (kind.signals ?? []).filter((s) => s in AMPLITUDE_BASE_UNITS);
   if (kind.body && !entries.includes("displacement")) entries.push("displacement");
+  for (const own of Object.keys(kind.noiseEntries ?? {})) if (!entries.includes(own)) entries.push(own);
   return [...entries, ...laserEntriesOf(kind.type)];
 }
 

@@ -111,7 +111,7 @@ export function setupJsonSchema(): Schema {
         enters: {
           enum: CLASSICAL_ENTRIES,
           description:
-            '"force" or "displacement" on a body, "strain" on an interferometer, "laser intensity" or "laser frequency" on the cavity (or, for intensity, the position probe given its power) that the laser drives.',
+            '"force" or "displacement" on a body or on each test mass of an interferometer, "strain" on an interferometer, "laser intensity" or "laser frequency" on the cavity (or, for intensity, the position probe given its power) that the laser drives.',
         },
         on: { $ref: "#/$defs/componentName", description: "The component the noise enters at." },
         spectrum: {
