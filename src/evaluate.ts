@@ -41,7 +41,9 @@ export function evaluate(prepared: PreparedSetup, grid?: FrequencyGridSpec | Flo
     stability: prepared.stability,
     physicality: prepared.physicality,
     budget,
-    cautions: prepared.cautions,
+    get cautions(): readonly string[] {
+      return prepared.cautions;
+    },
     warnings: [...budget.warnings, ...prepared.warnings],
   };
 }

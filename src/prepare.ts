@@ -89,7 +89,16 @@ function checked(resolved: ResolvedSetup): PreparedSetup {
   if (stability.undamped.length > 0 || stability.held.length > 0) warnings.push(stability.summary);
   const physicality = stability.stable ? checkPhysicality(assembled.model) : undefined;
   if (physicality && !physicality.physical) warnings.push(physicality.summary);
-  return { setup: resolved, assembled, stability, physicality, cautions: assembled.cautions, warnings };
+  return {
+    setup: resolved,
+    assembled,
+    stability,
+    physicality,
+    get cautions(): readonly string[] {
+      return assembled.cautions;
+    },
+    warnings,
+  };
 }
 
 /** A validated set-up carries its component kinds in a Map, which no JSON document can hold. */

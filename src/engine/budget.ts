@@ -9,6 +9,7 @@ import type { AssembledSetup } from "../setup/assemble";
 import type { NoiseCategory, NoiseGroup, StateSpaceModel } from "../network/model";
 import type { ReferenceCurve } from "../components/types";
 import { TransferEvaluator } from "./transfer";
+import { TRANSFER_BLOCK, TransferBlock } from "./transfer-block";
 
 export interface BudgetTerm {
   readonly id: string;
@@ -57,37 +58,24 @@ export function noiseBudget(assembled: AssembledSetup, frequencies: Float64Array
   const curves = new Float64Array((1 + nGroups) * nf);
   const total = curves.subarray(0, nf);
   const termPsd = groups.map((_, g) => curves.subarray((1 + g) * nf, (2 + g) * nf));
-  const evaluator = new TransferEvaluator(model, readoutRows);
   for (const input of model.classicalInputs ?? []) input.requireCovers(frequencies);
   const entries = new GroupEntries(model, groups);
-  const referral: SignalReferral = p === 1 ? new SingleOutput(entries) : new OptimalCombination(entries, groups.length, p);
   // The angular frequencies and the referral factor (|χ|² for displacement), which serves the
   // terms and every reference curve, kept for the reference curves.
   const atFrequency = new Float64Array(2 * nf);
   const omegas = atFrequency.subarray(0, nf);
   const factors = atFrequency.subarray(nf);
-  const referred = new Float64Array(nGroups);
-  let blindPoints = 0;
-
   for (let f = 0; f < nf; f++) {
     const omega = 2 * Math.PI * frequencies[f];
     omegas[f] = omega;
-    const factor = referredTo.psdFactor(omega);
-    factors[f] = factor;
-    evaluator.at(omega);
-    entries.atFrequency(frequencies[f]);
-    let sum = Infinity;
-    if (referral.refer(evaluator, referred)) {
-      sum = 0;
-      for (let g = 0; g < nGroups; g++) {
-        const v = referred[g] * factor;
-        curves[(1 + g) * nf + f] = v;
-        sum += v;
-      }
-    }
-    total[f] = sum;
+    factors[f] = referredTo.psdFactor(omega);
+  }
+  if (p === 1) singleOutputCurves(model, readoutRows, entries, frequencies, omegas, factors, curves);
+  else optimalCombinationCurves(model, readoutRows, entries, frequencies, omegas, factors, curves);
+  let blindPoints = 0;
+  for (let f = 0; f < nf; f++) {
     // No response, or one so weak that the referred noise overflows: reported as blind.
-    if (!Number.isFinite(sum)) {
+    if (!Number.isFinite(total[f])) {
       blindPoints++;
       total[f] = Infinity;
       for (let g = 0; g < nGroups; g++) curves[(1 + g) * nf + f] = Infinity;
@@ -126,6 +114,99 @@ export function noiseBudget(assembled: AssembledSetup, frequencies: Float64Array
     references,
     warnings,
   };
+}
+
+/**
+ * The total (first nf entries of `curves`) and each group's referred noise (the next nf each) with
+ * several outputs combined optimally, one frequency at a time; a point where the readout is blind
+ * gets a total of Infinity.
+ */
+function optimalCombinationCurves(
+  model: StateSpaceModel,
+  readoutRows: readonly number[],
+  entries: GroupEntries,
+  frequencies: Float64Array,
+  omegas: Float64Array,
+  factors: Float64Array,
+  curves: Float64Array,
+): void {
+  const nf = frequencies.length;
+  const nGroups = model.groups.length;
+  const evaluator = new TransferEvaluator(model, readoutRows);
+  const referral = new OptimalCombination(entries, nGroups, readoutRows.length);
+  const referred = new Float64Array(nGroups);
+  for (let f = 0; f < nf; f++) {
+    evaluator.at(omegas[f]);
+    entries.atFrequency(frequencies[f]);
+    let sum = Infinity;
+    if (referral.refer(evaluator, referred)) {
+      sum = 0;
+      for (let g = 0; g < nGroups; g++) {
+        const v = referred[g] * factors[f];
+        curves[(1 + g) * nf + f] = v;
+        sum += v;
+      }
+    }
+    curves[f] = sum;
+  }
+}
+
+/**
+ * The same for one output, a block of frequencies at a time (TransferBlock): S_g = Σ N_ij H_i
+ * conj(H_j) over the group's entries, over |h|², times the referral factor; the total sums the
+ * groups in order. Every frequency gets the operations of the one-at-a-time path, so the same bits.
+ */
+function singleOutputCurves(
+  model: StateSpaceModel,
+  readoutRows: readonly number[],
+  entries: GroupEntries,
+  frequencies: Float64Array,
+  omegas: Float64Array,
+  factors: Float64Array,
+  curves: Float64Array,
+): void {
+  const nf = frequencies.length;
+  const size = Math.min(nf, TRANSFER_BLOCK);
+  const transfer = new TransferBlock(model, readoutRows, size);
+  const { hRe, hIm, sRe, sIm } = transfer;
+  const { start, ni, nj, nv } = entries;
+  const classical = entries.classicalBlock(size);
+  const h2 = new Float64Array(size);
+  const sr = new Float64Array(size);
+  for (let from = 0; from < nf; from += size) {
+    const count = Math.min(size, nf - from);
+    transfer.solve(omegas, from, count);
+    classical.fill(frequencies, from, count);
+    for (let f = 0; f < count; f++) {
+      h2[f] = sRe[f] * sRe[f] + sIm[f] * sIm[f];
+      curves[from + f] = 0;
+    }
+    for (let g = 0; g + 1 < start.length; g++) {
+      sr.fill(0, 0, count);
+      for (let e = start[g]; e < start[g + 1]; e++) {
+        const i = ni[e] * size;
+        const j = nj[e] * size;
+        const spectrum = classical.spectrumOf(e);
+        const w = nv[e];
+        for (let f = 0; f < count; f++) {
+          // Re(H_i N_ij conj(H_j)), written as the p×p product of OptimalCombination writes it.
+          const ar = hRe[i + f];
+          const ai = hIm[i + f];
+          const br = hRe[j + f];
+          const bi = -hIm[j + f];
+          sr[f] += (spectrum ? spectrum[f] : w) * (ar * br - ai * bi);
+        }
+      }
+      const o = (1 + g) * nf + from;
+      for (let f = 0; f < count; f++) {
+        const v = (sr[f] / h2[f]) * factors[from + f];
+        curves[o + f] = v;
+        curves[from + f] += v;
+      }
+    }
+    // A readout blind to the signal here: the total is infinite, whatever the groups gave.
+    for (let f = 0; f < count; f++) if (h2[f] === 0) curves[from + f] = Infinity;
+  }
 }
 
 function allZero(xs: Float64Array): boolean {
@@ -200,39 +281,30 @@ class GroupEntries {
   atFrequency(frequency: number): void {
     for (const c of this.classical) this.nv[c.entry] = c.psdAt(frequency);
   }
+
+  /** The classical inputs' PSDs over a block of up to `size` frequencies, in place of their placeholders. */
+  classicalBlock(size: number): ClassicalBlock {
+    const spectra = new Map(this.classical.map((c) => [c.entry, { psdAt: c.psdAt, values: new Float64Array(size) }]));
+    return {
+      fill(frequencies, from, count) {
+        for (const s of spectra.values()) for (let f = 0; f < count; f++) s.values[f] = s.psdAt(frequencies[from + f]);
+      },
+      spectrumOf: (entry) => spectra.get(entry)?.values,
+    };
+  }
+}
+
+interface ClassicalBlock {
+  /** Takes the PSDs at frequencies[from … from + count − 1] (Hz). */
+  fill(frequencies: Float64Array, from: number, count: number): void;
+  /** The PSDs of the entry at the block's frequencies, or undefined for a white input's entry. */
+  spectrumOf(entry: number): Float64Array | undefined;
 }
 
 /** Turns the transfer functions at one frequency into each group's signal-referred noise. */
 interface SignalReferral {
   /** Fills `referred` (one value per group); false when the readout is blind to the signal. */
   refer(transfer: TransferEvaluator, referred: Float64Array): boolean;
-}
-
-/** One output: S_g / |h|², with S_g = Σ N_ij H_i conj(H_j) over the group's entries. */
-class SingleOutput implements SignalReferral {
-  constructor(private readonly entries: GroupEntries) {}
-
-  refer(transfer: TransferEvaluator, referred: Float64Array): boolean {
-    const { hRe, hIm, sRe, sIm } = transfer;
-    const h2 = sRe[0] * sRe[0] + sIm[0] * sIm[0];
-    if (h2 === 0) return false;
-    const { start, ni, nj, nv } = this.entries;
-    for (let g = 0; g + 1 < start.length; g++) {
-      let sr = 0;
-      for (let e = start[g]; e < start[g + 1]; e++) {
-        // Re(H_i N_ij conj(H_j)), written as the p×p product of OptimalCombination writes it.
-        const i = ni[e];
-        const j = nj[e];
-        const ar = hRe[i];
-        const ai = hIm[i];
-        const br = hRe[j];
-        const bi = -hIm[j];
-        sr += nv[e] * (ar * br - ai * bi);
-      }
-      referred[g] = sr / h2;
-    }
-    return true;
-  }
 }
 
 /**
