@@ -167,12 +167,20 @@ function singleOutputCurves(
 ): void {
   const nf = frequencies.length;
   const size = Math.min(nf, TRANSFER_BLOCK);
-  const transfer = new TransferBlock(model, readoutRows, size);
+  const transfer = new TransferBlock(model, readoutRows, size, 2);
+  try {
+    blockCurves(transfer, entries, frequencies, factors, omegas, curves, size);
+  } finally {
+    transfer.release();
+  }
+}
+
+function blockCurves(transfer: TransferBlock, entries: GroupEntries, frequencies: Float64Array, factors: Float64Array, omegas: Float64Array, curves: Float64Array, size: number): void {
+  const nf = frequencies.length;
   const { hRe, hIm, sRe, sIm } = transfer;
+  const [h2, sr] = transfer.work;
   const { start, ni, nj, nv } = entries;
   const classical = entries.classicalBlock(size);
-  const h2 = new Float64Array(size);
-  const sr = new Float64Array(size);
   for (let from = 0; from < nf; from += size) {
     const count = Math.min(size, nf - from);
     transfer.solve(omegas, from, count);

@@ -12,6 +12,40 @@ import { TransferEvaluator, undampedModeError } from "./transfer";
 /** Frequencies per block: long enough for the loops, short enough that a large model's block stays in cache. */
 export const TRANSFER_BLOCK = 64;
 
+/**
+ * Memory lent from one block to the next: a budget per trial (a search, a Monte Carlo sample)
+ * would otherwise allocate tens of kilobytes of typed arrays each time, whose allocation and
+ * collection cost more than a small model's solves. A block takes the spare buffers when they
+ * are large enough and gives them back on `release`; one made while another holds them gets
+ * its own. Every value a block reads it has written first, so what a buffer held before changes
+ * nothing.
+ */
+let spareFloats: Float64Array | undefined;
+let spareInts: Int32Array | undefined;
+
+function takeFloats(length: number): Float64Array {
+  const spare = spareFloats;
+  if (spare && spare.length >= length) {
+    spareFloats = undefined;
+    return spare;
+  }
+  return new Float64Array(length);
+}
+
+function takeInts(length: number): Int32Array {
+  const spare = spareInts;
+  if (spare && spare.length >= length) {
+    spareInts = undefined;
+    return spare;
+  }
+  return new Int32Array(length);
+}
+
+function giveBack(floats: Float64Array, ints: Int32Array): void {
+  if (!spareFloats || spareFloats.length < floats.length) spareFloats = floats;
+  if (!spareInts || spareInts.length < ints.length) spareInts = ints;
+}
+
 export class TransferBlock {
   /** H after `solve`: input c of output k at frequency f of the block at (k·m + c)·B + f. */
   readonly hRe: Float64Array;
@@ -39,7 +73,11 @@ export class TransferBlock {
   private readonly gRe: Float64Array;
   private readonly gIm: Float64Array;
   /** Per frequency: whether the current row is eliminated at this step (its entry below the pivot is not zero). */
-  private readonly eliminate: Uint8Array;
+  private readonly eliminate: Int32Array;
+  /** Arrays of one value per frequency of the block, for the caller's own sums. */
+  readonly work: readonly Float64Array[];
+  private readonly floats: Float64Array;
+  private readonly ints: Int32Array;
   /** The one-frequency evaluator of one-mode models. */
   private readonly single?: TransferEvaluator;
 
@@ -47,6 +85,7 @@ export class TransferBlock {
     model: StateSpaceModel,
     rows: readonly number[],
     private readonly size: number = TRANSFER_BLOCK,
+    workArrays = 0,
   ) {
     const n = model.nStates;
     const m = model.nInputs;
@@ -55,10 +94,25 @@ export class TransferBlock {
     this.n = n;
     this.m = m;
     this.p = p;
-    this.hRe = new Float64Array(p * m * B);
-    this.hIm = new Float64Array(p * m * B);
-    this.sRe = new Float64Array(p * B);
-    this.sIm = new Float64Array(p * B);
+    const lu = n === 2 ? 0 : n;
+    // Every per-frequency array is a view of one lent buffer (see takeFloats).
+    this.floats = takeFloats(B * (2 * p * m + 2 * p + 2 * lu * lu + 2 * lu + 2 * n * p + workArrays));
+    this.ints = takeInts(B * (lu + 1));
+    let at = 0;
+    const next = (length: number): Float64Array => this.floats.subarray(at, (at += length));
+    this.hRe = next(p * m * B);
+    this.hIm = next(p * m * B);
+    this.sRe = next(p * B);
+    this.sIm = next(p * B);
+    this.mRe = next(lu * lu * B);
+    this.mIm = next(lu * lu * B);
+    this.invRe = next(lu * B);
+    this.invIm = next(lu * B);
+    this.gRe = next(n * p * B);
+    this.gIm = next(n * p * B);
+    this.work = Array.from({ length: workArrays }, () => next(B));
+    this.piv = this.ints.subarray(0, lu * B);
+    this.eliminate = this.ints.subarray(lu * B, (lu + 1) * B);
     // The Ω-independent parts, laid out as TransferEvaluator lays them out.
     this.negA = new Float64Array(n * n);
     for (let i = 0; i < n * n; i++) this.negA[i] = -model.A[i];
@@ -95,16 +149,12 @@ export class TransferBlock {
     }
     this.sRow = Int32Array.from(sRow);
     this.sVal = Float64Array.from(sVal);
-    const lu = n === 2 ? 0 : n;
-    this.mRe = new Float64Array(lu * lu * B);
-    this.mIm = new Float64Array(lu * lu * B);
-    this.piv = new Int32Array(lu * B);
-    this.invRe = new Float64Array(lu * B);
-    this.invIm = new Float64Array(lu * B);
-    this.gRe = new Float64Array(n * p * B);
-    this.gIm = new Float64Array(n * p * B);
-    this.eliminate = new Uint8Array(B);
     if (n === 2) this.single = new TransferEvaluator(model, rows);
+  }
+
+  /** Gives the block's memory to the next block made; this one is not used after. */
+  release(): void {
+    giveBack(this.floats, this.ints);
   }
 
   /**
@@ -204,6 +254,8 @@ export class TransferBlock {
       }
       for (let i = k + 1; i < n; i++) {
         const ik = (i * n + k) * B;
+        // A row with nothing below the pivot at any frequency of the block (a structural zero of A) is left as it is.
+        let any = false;
         for (let f = 0; f < good; f++) {
           const ar = re[ik + f];
           const ai = im[ik + f];
@@ -211,12 +263,14 @@ export class TransferBlock {
             eliminate[f] = 0;
             continue;
           }
+          any = true;
           eliminate[f] = 1;
           const ir = invRe[k * B + f];
           const ii = invIm[k * B + f];
           re[ik + f] = ar * ir - ai * ii;
           im[ik + f] = ar * ii + ai * ir;
         }
+        if (!any) continue;
         for (let j = k + 1; j < n; j++) {
           const ij = (i * n + j) * B;
           const kj = (k * n + j) * B;
