@@ -74,6 +74,8 @@ export class TransferBlock {
   private readonly gIm: Float64Array;
   /** Per frequency: whether the current row is eliminated at this step (its entry below the pivot is not zero). */
   private readonly eliminate: Int32Array;
+  /** The size of each frequency's pivot candidate (|re| + |im|) during the search. */
+  private readonly best: Float64Array;
   /** Arrays of one value per frequency of the block, for the caller's own sums. */
   readonly work: readonly Float64Array[];
   private readonly floats: Float64Array;
@@ -96,7 +98,7 @@ export class TransferBlock {
     this.p = p;
     const lu = n === 2 ? 0 : n;
     // Every per-frequency array is a view of one lent buffer (see takeFloats).
-    this.floats = takeFloats(B * (2 * p * m + 2 * p + 2 * lu * lu + 2 * lu + 2 * n * p + workArrays));
+    this.floats = takeFloats(B * (2 * p * m + 2 * p + 2 * lu * lu + 3 * lu + 2 * n * p + workArrays));
     this.ints = takeInts(B * (lu + 1));
     let at = 0;
     const next = (length: number): Float64Array => this.floats.subarray(at, (at += length));
@@ -108,6 +110,7 @@ export class TransferBlock {
     this.mIm = next(lu * lu * B);
     this.invRe = next(lu * B);
     this.invIm = next(lu * B);
+    this.best = next(lu === 0 ? 0 : B);
     this.gRe = next(n * p * B);
     this.gIm = next(n * p * B);
     this.work = Array.from({ length: workArrays }, () => next(B));
@@ -199,14 +202,11 @@ export class TransferBlock {
    * frequencies factorised: the first whose pivot is zero or not finite ends the block.
    */
   private factor(omegas: Float64Array, from: number, count: number): number {
-    const { n, size: B, negA, mRe: re, mIm: im, piv, invRe, invIm, eliminate } = this;
+    const { n, size: B, negA, mRe: re, mIm: im, piv, invRe, invIm, eliminate, best } = this;
     for (let e = 0; e < n * n; e++) {
-      const a = negA[e];
       const o = e * B;
-      for (let f = 0; f < count; f++) {
-        re[o + f] = a;
-        im[o + f] = 0;
-      }
+      re.fill(negA[e], o, o + count);
+      im.fill(0, o, o + count);
     }
     for (let i = 0; i < n; i++) {
       const o = (i * n + i) * B;
@@ -215,42 +215,53 @@ export class TransferBlock {
     let good = count;
     for (let k = 0; k < n; k++) {
       const kk = (k * n + k) * B;
+      const kB = k * B;
+      // The pivot search of each frequency, row by row over all of them: the diagonal first,
+      // then each row below in order, as the one-frequency search visits them.
       for (let f = 0; f < good; f++) {
-        let pivot = k;
-        let best = Math.abs(re[kk + f]) + Math.abs(im[kk + f]);
-        for (let i = k + 1; i < n; i++) {
-          const ik = (i * n + k) * B + f;
-          const size = Math.abs(re[ik]) + Math.abs(im[ik]);
+        best[f] = Math.abs(re[kk + f]) + Math.abs(im[kk + f]);
+        piv[kB + f] = k;
+      }
+      for (let i = k + 1; i < n; i++) {
+        const ik = (i * n + k) * B;
+        for (let f = 0; f < good; f++) {
+          const size = Math.abs(re[ik + f]) + Math.abs(im[ik + f]);
+          const b = best[f];
           // A NaN candidate is taken as pivot so it is reported rather than skipped.
-          if (size > best || (size !== size && best === best)) {
-            best = size;
-            pivot = i;
+          if (size > b || (size !== size && b === b)) {
+            best[f] = size;
+            piv[kB + f] = i;
           }
         }
-        piv[k * B + f] = pivot;
-        if (best === 0 || !Number.isFinite(best)) {
+      }
+      for (let f = 0; f < good; f++) {
+        if (best[f] === 0 || !Number.isFinite(best[f])) {
           good = f;
           break;
         }
-        if (pivot !== k) {
-          for (let j = 0; j < n; j++) {
-            const a = (k * n + j) * B + f;
-            const b = (pivot * n + j) * B + f;
-            let t = re[a];
-            re[a] = re[b];
-            re[b] = t;
-            t = im[a];
-            im[a] = im[b];
-            im[b] = t;
-          }
+      }
+      for (let f = 0; f < good; f++) {
+        const pivot = piv[kB + f];
+        if (pivot === k) continue;
+        for (let j = 0; j < n; j++) {
+          const a = (k * n + j) * B + f;
+          const b = (pivot * n + j) * B + f;
+          let t = re[a];
+          re[a] = re[b];
+          re[b] = t;
+          t = im[a];
+          im[a] = im[b];
+          im[b] = t;
         }
+      }
+      for (let f = 0; f < good; f++) {
         // Reciprocal of the pivot, pre-scaled so |re|²+|im|² cannot overflow or underflow.
-        const s = 1 / best;
+        const s = 1 / best[f];
         const pr = re[kk + f] * s;
         const pi = im[kk + f] * s;
         const d = s / (pr * pr + pi * pi);
-        invRe[k * B + f] = pr * d;
-        invIm[k * B + f] = -pi * d;
+        invRe[kB + f] = pr * d;
+        invIm[kB + f] = -pi * d;
       }
       for (let i = k + 1; i < n; i++) {
         const ik = (i * n + k) * B;

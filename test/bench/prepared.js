@@ -60,6 +60,32 @@ function readAll(evaluation) {
 
 // ---------------------------------------------------------------- 7a
 
+/** CPU milliseconds (user + system) of this process so far. */
+function cpuMs() {
+  const u = process.cpuUsage();
+  return (u.user + u.system) / 1e3;
+}
+
+/**
+ * The candidates again, interleaved as compare does, timed by this process's CPU time: on a
+ * machine shared with other jobs, time spent waiting for a core counts in the wall clock but
+ * not here. Returns the median CPU ms per call of each, with the repetitions compare calibrated.
+ */
+function cpuCompare(candidates, timed, rounds = 15) {
+  const names = Object.keys(candidates);
+  const samples = Object.fromEntries(names.map((n) => [n, []]));
+  for (let r = 0; r < rounds; r++) {
+    for (let k = 0; k < names.length; k++) {
+      const name = names[(r + k) % names.length];
+      const reps = timed[name].reps;
+      const t0 = cpuMs();
+      for (let i = 0; i < reps; i++) candidates[name]();
+      samples[name].push((cpuMs() - t0) / reps);
+    }
+  }
+  return Object.fromEntries(names.map((n) => [n, median(samples[n])]));
+}
+
 /** The error fn throws, or undefined. */
 function refusalOf(fn) {
   try {
@@ -74,6 +100,7 @@ function preparedEvaluation() {
   const baselineDir = process.env.QUIETFRAME_BASELINE_DIST;
   const old = baselineDir ? require(resolve(baselineDir, "src", "index.js")) : undefined;
   const rows = [];
+  const load0 = os.loadavg()[0];
   for (const { file, setup } of examples()) {
     const grid = gridOf(setup);
     const values = valueSets(setup);
@@ -98,6 +125,7 @@ function preparedEvaluation() {
       };
     }
     const t = compare(candidates, { rounds: 15, sampleMs: 20 });
+    const cpu = cpuCompare(candidates, t);
     if (!Number.isFinite(sink)) throw new Error("unreachable");
     const timedBefore = candidates.before !== undefined;
     rows.push({
@@ -112,9 +140,10 @@ function preparedEvaluation() {
       // The older build computes every reference curve whether read or not.
       totalOnlyOverBefore: timedBefore ? t.before.ms / t.fastTotal.ms : undefined,
       refusedByBefore: old !== undefined && !timedBefore,
+      cpu: { fastUs: cpu.fast * 1e3, fastTotalUs: cpu.fastTotal * 1e3, beforeUs: timedBefore ? cpu.before * 1e3 : undefined },
     });
   }
-  return { points: POINTS, baseline: baselineDir ? "QUIETFRAME_BASELINE_DIST" : undefined, rows };
+  return { points: POINTS, baseline: baselineDir ? "QUIETFRAME_BASELINE_DIST" : undefined, rows, loadAverage1m: { start: load0, end: os.loadavg()[0] } };
 }
 
 // ---------------------------------------------------------------- 7b
@@ -192,6 +221,7 @@ function exportModel(assembled, frequencies) {
     signalD: list(m.signalD),
     frequencies: list(frequencies),
     factors,
+    classical: (m.classicalInputs ?? []).map((c) => ({ column: c.column, psd: Array.from(frequencies, (f) => c.psdAt(f)) })),
   };
 }
 
@@ -251,6 +281,8 @@ function preparedRows(r) {
   const low = Math.min(...p.rows.map((e) => e.speedup));
   const timedBefore = p.rows.filter((e) => e.speedupOverBefore !== undefined);
   const before = timedBefore.length > 0 ? Math.min(...timedBefore.map((e) => e.speedupOverBefore)) : undefined;
+  const cpuBefore = timedBefore.length > 0 ? Math.min(...timedBefore.map((e) => e.cpu.beforeUs / e.cpu.fastUs)) : undefined;
+  const cpuBeforeTotal = timedBefore.length > 0 ? Math.min(...timedBefore.map((e) => e.cpu.beforeUs / e.cpu.fastTotalUs)) : undefined;
   const mc = r.mc;
   const worstNumpy = Math.max(...r.numpy.rows.map((e) => e.check));
   const numpyOk = r.numpy.rows.every((e) => e.checkPassed);
@@ -266,8 +298,12 @@ function preparedRows(r) {
           (e) =>
             `${e.file}: fast ${fmtUs(e.fastUs)} · plain ${fmtUs(e.plainUs)} (${x(e.speedup)}) · total only ${fmtUs(e.fastTotalUs)} (${x(e.totalOnlySpeedup)})` +
             (e.beforeUs === undefined ? "" : ` · older build ${fmtUs(e.beforeUs)} (${x(e.speedupOverBefore)}; total only ${x(e.totalOnlyOverBefore)})`) +
-            (e.refusedByBefore ? " · the older build refuses this example (a later format)" : ""),
+            (e.refusedByBefore ? " · the older build refuses this example (a later format)" : "") +
+            ` · by CPU time: fast ${fmtUs(e.cpu.fastUs)}, total only ${fmtUs(e.cpu.fastTotalUs)}` +
+            (e.cpu.beforeUs === undefined ? "" : `, older build ${fmtUs(e.cpu.beforeUs)} (${x(e.cpu.beforeUs / e.cpu.fastUs)}; total only ${x(e.cpu.beforeUs / e.cpu.fastTotalUs)})`),
         ),
+        `load avg (1 min) ${p.loadAverage1m.start.toFixed(1)} → ${p.loadAverage1m.end.toFixed(1)} on ${os.availableParallelism()} cores` +
+          (cpuBefore === undefined ? "" : ` · by CPU time, at least ${x(cpuBefore)} faster than the older build (total only ${x(cpuBeforeTotal)})`),
         before === undefined
           ? "set QUIETFRAME_BASELINE_DIST to an older build's dist folder to time it in the same run (the goal is against it)"
           : `fast vs plain way in this build: at least ${x(low)}; "total only" reads no reference curve (what noise bands and maps read)`,
