@@ -175,6 +175,7 @@ function singleOutputCurves(
   }
 }
 
+/** singleOutputCurves' loop over the blocks of frequencies, with the block solver it made. */
 function blockCurves(transfer: TransferBlock, entries: GroupEntries, frequencies: Float64Array, factors: Float64Array, omegas: Float64Array, curves: Float64Array, size: number): void {
   const nf = frequencies.length;
   const { hRe, hIm, sRe, sIm } = transfer;

@@ -6,6 +6,8 @@
  *       validated once, values written into the validated set-up) against the plain way
  *       (prepare(description, values)), interleaved; optionally against an older build too
  *       (QUIETFRAME_BASELINE_DIST=<its dist folder>), which measures "before" in the same run;
+ *       timed by the wall clock and again by the process's CPU time (on a shared machine the
+ *       wall clock also counts the time spent waiting for a core), with the load average;
  *   7b. a 100,000-sample Monte Carlo of cryogenic-membrane-squeezed.json at 256 frequencies on
  *       worker threads (every core) against the same in this thread, with the same bits;
  *   7c. the same state-space algebra as a NumPy script (numpy.linalg.solve batched over the
