@@ -36,6 +36,7 @@ export interface Evaluation {
  */
 export function evaluate(prepared: PreparedSetup, grid?: FrequencyGridSpec | Float64Array): Evaluation {
   const budget = noiseBudget(prepared.assembled, frequenciesOf(grid ?? prepared.setup.grid ?? FALLBACK_GRID));
+  let warnings: readonly string[] | undefined;
   return {
     assembled: prepared.assembled,
     stability: prepared.stability,
@@ -44,7 +45,9 @@ export function evaluate(prepared: PreparedSetup, grid?: FrequencyGridSpec | Flo
     get cautions(): readonly string[] {
       return prepared.cautions;
     },
-    warnings: [...budget.warnings, ...prepared.warnings],
+    get warnings(): readonly string[] {
+      return (warnings ??= [...budget.warnings, ...prepared.warnings]);
+    },
   };
 }
 
