@@ -70,8 +70,9 @@ export function noiseBudget(assembled: AssembledSetup, frequencies: Float64Array
     omegas[f] = omega;
     factors[f] = referredTo.psdFactor(omega);
   }
-  if (p === 1) singleOutputCurves(model, readoutRows, entries, frequencies, omegas, factors, curves);
-  else optimalCombinationCurves(model, readoutRows, entries, frequencies, omegas, factors, curves);
+  // A few frequencies (a figure at one frequency) go one at a time: a block solver costs more to set up than they take.
+  if (p === 1 && nf >= BLOCK_FROM) singleOutputCurves(model, readoutRows, entries, frequencies, omegas, factors, curves);
+  else oneAtATimeCurves(model, readoutRows, entries, frequencies, omegas, factors, curves);
   let blindPoints = 0;
   for (let f = 0; f < nf; f++) {
     // No response, or one so weak that the referred noise overflows: reported as blind.
@@ -116,12 +117,15 @@ export function noiseBudget(assembled: AssembledSetup, frequencies: Float64Array
   };
 }
 
+/** Frequencies from which a one-output budget is solved in blocks. */
+const BLOCK_FROM = 16;
+
 /**
- * The total (first nf entries of `curves`) and each group's referred noise (the next nf each) with
- * several outputs combined optimally, one frequency at a time; a point where the readout is blind
- * gets a total of Infinity.
+ * The total (first nf entries of `curves`) and each group's referred noise (the next nf each),
+ * one frequency at a time (several outputs combined optimally, or one output); a point where the
+ * readout is blind gets a total of Infinity.
  */
-function optimalCombinationCurves(
+function oneAtATimeCurves(
   model: StateSpaceModel,
   readoutRows: readonly number[],
   entries: GroupEntries,
@@ -133,7 +137,7 @@ function optimalCombinationCurves(
   const nf = frequencies.length;
   const nGroups = model.groups.length;
   const evaluator = new TransferEvaluator(model, readoutRows);
-  const referral = new OptimalCombination(entries, nGroups, readoutRows.length);
+  const referral: SignalReferral = readoutRows.length === 1 ? new SingleOutput(entries) : new OptimalCombination(entries, nGroups, readoutRows.length);
   const referred = new Float64Array(nGroups);
   for (let f = 0; f < nf; f++) {
     evaluator.at(omegas[f]);
@@ -314,6 +318,33 @@ interface ClassicalBlock {
 interface SignalReferral {
   /** Fills `referred` (one value per group); false when the readout is blind to the signal. */
   refer(transfer: TransferEvaluator, referred: Float64Array): boolean;
+}
+
+/** One output, one frequency at a time: S_g / |h|², with S_g = Σ N_ij H_i conj(H_j) over the group's entries (blockCurves' arithmetic). */
+class SingleOutput implements SignalReferral {
+  constructor(private readonly entries: GroupEntries) {}
+
+  refer(transfer: TransferEvaluator, referred: Float64Array): boolean {
+    const { hRe, hIm, sRe, sIm } = transfer;
+    const h2 = sRe[0] * sRe[0] + sIm[0] * sIm[0];
+    if (h2 === 0) return false;
+    const { start, ni, nj, nv } = this.entries;
+    for (let g = 0; g + 1 < start.length; g++) {
+      let sr = 0;
+      for (let e = start[g]; e < start[g + 1]; e++) {
+        // Re(H_i N_ij conj(H_j)), written as the p×p product of OptimalCombination writes it.
+        const i = ni[e];
+        const j = nj[e];
+        const ar = hRe[i];
+        const ai = hIm[i];
+        const br = hRe[j];
+        const bi = -hIm[j];
+        sr += nv[e] * (ar * br - ai * bi);
+      }
+      referred[g] = sr / h2;
+    }
+    return true;
+  }
 }
 
 /**

@@ -10,6 +10,7 @@ import { readdirSync, readFileSync } from "node:fs";
 import { join } from "node:path";
 import fc from "fast-check";
 import { describe, expect, it } from "vitest";
+import { noiseBudget } from "../../src/engine/budget";
 import { TransferBlock } from "../../src/engine/transfer-block";
 import { TransferEvaluator } from "../../src/engine/transfer";
 import type { StateSpaceModel } from "../../src/network/model";
@@ -146,5 +147,23 @@ describe("TransferBlock gives TransferEvaluator's bits", () => {
     }
     expect(expected).toMatch(/undamped mode exactly at/);
     expect(() => new TransferBlock(mdl, [0], 4).solve(omegas, 0, 4)).toThrow(expected);
+  });
+});
+
+describe("a budget of a few frequencies (one at a time) and of many (in blocks) give the same bits at each frequency", () => {
+  it.each(examples)("%s: each of 9 frequencies alone against the same frequencies inside a 200-point grid", (file) => {
+    const { assembled, setup } = prepare(readFileSync(join(EXAMPLES, file), "utf8"));
+    const range = setup.grid ?? { from: 1, to: 1e5 };
+    const grid = Float64Array.from(logOmegas(range.from, range.to, 200), (w) => w / (2 * Math.PI));
+    const many = noiseBudget(assembled, grid);
+    for (const k of [0, 1, 15, 16, 63, 64, 100, 128, 199]) {
+      const one = noiseBudget(assembled, grid.slice(k, k + 1));
+      expect(hex(one.total[0]), `total at point ${k}`).toBe(hex(many.total[k]));
+      for (const term of one.terms) {
+        const same = many.terms.find((t) => t.id === term.id);
+        expect(same, `term ${term.id}`).toBeDefined();
+        expect(hex(term.psd[0]), `${term.id} at point ${k}`).toBe(hex(same!.psd[k]));
+      }
+    }
   });
 });
