@@ -36,13 +36,18 @@ export interface Evaluation {
  */
 export function evaluate(prepared: PreparedSetup, grid?: FrequencyGridSpec | Float64Array): Evaluation {
   const budget = noiseBudget(prepared.assembled, frequenciesOf(grid ?? prepared.setup.grid ?? FALLBACK_GRID));
+  let warnings: readonly string[] | undefined;
   return {
     assembled: prepared.assembled,
     stability: prepared.stability,
     physicality: prepared.physicality,
     budget,
-    cautions: prepared.cautions,
-    warnings: [...budget.warnings, ...prepared.warnings],
+    get cautions(): readonly string[] {
+      return prepared.cautions;
+    },
+    get warnings(): readonly string[] {
+      return (warnings ??= [...budget.warnings, ...prepared.warnings]);
+    },
   };
 }
 

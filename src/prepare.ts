@@ -85,11 +85,25 @@ function checked(resolved: ResolvedSetup): PreparedSetup {
   requireSomeDetection(resolved);
   const assembled = assemble(resolved);
   const stability = requireNoGrowingModes(assembled, analyzeStability(assembled));
-  const warnings: string[] = [];
-  if (stability.undamped.length > 0 || stability.held.length > 0) warnings.push(stability.summary);
   const physicality = stability.stable ? checkPhysicality(assembled.model) : undefined;
-  if (physicality && !physicality.physical) warnings.push(physicality.summary);
-  return { setup: resolved, assembled, stability, physicality, cautions: assembled.cautions, warnings };
+  // Written when read, as the stability summary is.
+  let warnings: readonly string[] | undefined;
+  const written = (): readonly string[] => [
+    ...(stability.undamped.length > 0 || stability.held.length > 0 ? [stability.summary] : []),
+    ...(physicality && !physicality.physical ? [physicality.summary] : []),
+  ];
+  return {
+    setup: resolved,
+    assembled,
+    stability,
+    physicality,
+    get cautions(): readonly string[] {
+      return assembled.cautions;
+    },
+    get warnings(): readonly string[] {
+      return (warnings ??= written());
+    },
+  };
 }
 
 /** A validated set-up carries its component kinds in a Map, which no JSON document can hold. */

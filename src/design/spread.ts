@@ -214,31 +214,28 @@ export function evaluateSamples(plan: SampleJob, from: number, to: number): Samp
  */
 export function finishSpread(plan: SpreadPlan, parts: readonly SampleOutcomes[], evaluatedElsewhere = 0): SpreadResult {
   const { problem, list, samples, seed, target, nominal, centres, frequencies, draws, redrawn } = plan;
-  const nf = frequencies?.length ?? 0;
   const whole = parts.length === 1 && parts[0].values.length === samples;
-  // One part (the in-process run) is used as it is: its curves alone can be hundreds of megabytes.
+  // The parts' curves (hundreds of megabytes in a large run) are read where they are, never joined.
   const values = whole ? parts[0].values : new Float64Array(samples);
   const status = whole ? parts[0].status : new Uint8Array(samples);
-  const curves = whole ? parts[0].curves : new Float64Array(samples * nf);
   let firstFailure: SampleOutcomes["firstFailure"];
   for (const part of parts) {
     if (!whole) {
       values.set(part.values, part.from);
       status.set(part.status, part.from);
-      curves.set(part.curves, part.from * nf);
     }
     if (part.firstFailure && (!firstFailure || part.firstFailure.sample < firstFailure.sample)) firstFailure = part.firstFailure;
   }
   let unstable = 0;
   let invalid = 0;
   let reached = 0;
-  const withValue: number[] = [];
+  let withValue = 0;
   for (let s = 0; s < samples; s++) {
     if (status[s] === CellStatus.unstable) unstable++;
     if (status[s] === CellStatus.invalid) invalid++;
     if (status[s] !== CellStatus.ok) continue;
     if (target && merit(problem.figure, { value: values[s], status: CellStatus.ok }) >= target.merit) reached++;
-    withValue.push(s);
+    withValue++;
   }
   const ok = values.filter((v) => !Number.isNaN(v)).sort();
   const stats = meanAndDeviation(ok);
@@ -257,7 +254,7 @@ export function finishSpread(plan: SpreadPlan, parts: readonly SampleOutcomes[],
     linear,
     draws,
     values,
-    bands: frequencies && withValue.length > 0 ? percentileBands(frequencies, curves, withValue, problem.noiseUnit) : undefined,
+    bands: frequencies && withValue > 0 ? percentileBands(frequencies, parts, status, withValue, problem.noiseUnit) : undefined,
     evaluations: problem.evaluations + evaluatedElsewhere,
   };
 }
@@ -308,15 +305,33 @@ function linearPropagation(
   return { mean: nominal, deviation, terms: withShares, holds, note };
 }
 
-function percentileBands(frequencies: Float64Array, curves: Float64Array, withValue: readonly number[], unit: string): NonNullable<SpreadResult["bands"]> {
+/** Columns of the noise bands gathered in one pass over the samples (a 64-byte memory line holds 8 values). */
+const BAND_COLUMNS = 8;
+
+/** The 5/50/95 % curves over the samples with a value, read from the parts' own curves. */
+function percentileBands(frequencies: Float64Array, parts: readonly SampleOutcomes[], status: Uint8Array, withValue: number, unit: string): NonNullable<SpreadResult["bands"]> {
   const nf = frequencies.length;
   const p5 = new Float64Array(nf);
   const median = new Float64Array(nf);
   const p95 = new Float64Array(nf);
-  const column = new Float64Array(withValue.length);
-  for (let i = 0; i < nf; i++) {
-    for (let k = 0; k < withValue.length; k++) column[k] = curves[withValue[k] * nf + i];
-    [p5[i], median[i], p95[i]] = quantilesBySelection(column, [0.05, 0.5, 0.95]);
+  // In sample order: the quantiles do not depend on it, but each column then holds what one joined array would.
+  const ordered = [...parts].sort((a, b) => a.from - b.from);
+  // Columns are gathered a few at a time: a sample's curve is one row, and one pass over the
+  // rows fills several columns from the same memory lines.
+  const columns = Array.from({ length: Math.min(nf, BAND_COLUMNS) }, () => new Float64Array(withValue));
+  for (let first = 0; first < nf; first += columns.length) {
+    const width = Math.min(columns.length, nf - first);
+    let k = 0;
+    for (const part of ordered) {
+      const { curves } = part;
+      for (let r = 0; r < part.values.length; r++) {
+        if (status[part.from + r] !== CellStatus.ok) continue;
+        const row = r * nf + first;
+        for (let c = 0; c < width; c++) columns[c][k] = curves[row + c];
+        k++;
+      }
+    }
+    for (let c = 0; c < width; c++) [p5[first + c], median[first + c], p95[first + c]] = quantilesBySelection(columns[c], [0.05, 0.5, 0.95]);
   }
   return { frequencies, p5, median, p95, unit };
 }

@@ -9,6 +9,7 @@ import type { AssembledSetup } from "../setup/assemble";
 import type { NoiseCategory, NoiseGroup, StateSpaceModel } from "../network/model";
 import type { ReferenceCurve } from "../components/types";
 import { TransferEvaluator } from "./transfer";
+import { TRANSFER_BLOCK, TransferBlock } from "./transfer-block";
 
 export interface BudgetTerm {
   readonly id: string;
@@ -57,37 +58,25 @@ export function noiseBudget(assembled: AssembledSetup, frequencies: Float64Array
   const curves = new Float64Array((1 + nGroups) * nf);
   const total = curves.subarray(0, nf);
   const termPsd = groups.map((_, g) => curves.subarray((1 + g) * nf, (2 + g) * nf));
-  const evaluator = new TransferEvaluator(model, readoutRows);
   for (const input of model.classicalInputs ?? []) input.requireCovers(frequencies);
   const entries = new GroupEntries(model, groups);
-  const referral: SignalReferral = p === 1 ? new SingleOutput(entries) : new OptimalCombination(entries, groups.length, p);
   // The angular frequencies and the referral factor (|χ|² for displacement), which serves the
   // terms and every reference curve, kept for the reference curves.
   const atFrequency = new Float64Array(2 * nf);
   const omegas = atFrequency.subarray(0, nf);
   const factors = atFrequency.subarray(nf);
-  const referred = new Float64Array(nGroups);
-  let blindPoints = 0;
-
   for (let f = 0; f < nf; f++) {
     const omega = 2 * Math.PI * frequencies[f];
     omegas[f] = omega;
-    const factor = referredTo.psdFactor(omega);
-    factors[f] = factor;
-    evaluator.at(omega);
-    entries.atFrequency(frequencies[f]);
-    let sum = Infinity;
-    if (referral.refer(evaluator, referred)) {
-      sum = 0;
-      for (let g = 0; g < nGroups; g++) {
-        const v = referred[g] * factor;
-        curves[(1 + g) * nf + f] = v;
-        sum += v;
-      }
-    }
-    total[f] = sum;
+    factors[f] = referredTo.psdFactor(omega);
+  }
+  // A few frequencies (a figure at one frequency) go one at a time: a block solver costs more to set up than they take.
+  if (p === 1 && nf >= BLOCK_FROM) singleOutputCurves(model, readoutRows, entries, frequencies, omegas, factors, curves);
+  else oneAtATimeCurves(model, readoutRows, entries, frequencies, omegas, factors, curves);
+  let blindPoints = 0;
+  for (let f = 0; f < nf; f++) {
     // No response, or one so weak that the referred noise overflows: reported as blind.
-    if (!Number.isFinite(sum)) {
+    if (!Number.isFinite(total[f])) {
       blindPoints++;
       total[f] = Infinity;
       for (let g = 0; g < nGroups; g++) curves[(1 + g) * nf + f] = Infinity;
@@ -126,6 +115,111 @@ export function noiseBudget(assembled: AssembledSetup, frequencies: Float64Array
     references,
     warnings,
   };
+}
+
+/** Frequencies from which a one-output budget is solved in blocks. */
+const BLOCK_FROM = 16;
+
+/**
+ * The total (first nf entries of `curves`) and each group's referred noise (the next nf each),
+ * one frequency at a time (several outputs combined optimally, or one output); a point where the
+ * readout is blind gets a total of Infinity.
+ */
+function oneAtATimeCurves(
+  model: StateSpaceModel,
+  readoutRows: readonly number[],
+  entries: GroupEntries,
+  frequencies: Float64Array,
+  omegas: Float64Array,
+  factors: Float64Array,
+  curves: Float64Array,
+): void {
+  const nf = frequencies.length;
+  const nGroups = model.groups.length;
+  const evaluator = new TransferEvaluator(model, readoutRows);
+  const referral: SignalReferral = readoutRows.length === 1 ? new SingleOutput(entries) : new OptimalCombination(entries, nGroups, readoutRows.length);
+  const referred = new Float64Array(nGroups);
+  for (let f = 0; f < nf; f++) {
+    evaluator.at(omegas[f]);
+    entries.atFrequency(frequencies[f]);
+    let sum = Infinity;
+    if (referral.refer(evaluator, referred)) {
+      sum = 0;
+      for (let g = 0; g < nGroups; g++) {
+        const v = referred[g] * factors[f];
+        curves[(1 + g) * nf + f] = v;
+        sum += v;
+      }
+    }
+    curves[f] = sum;
+  }
+}
+
+/**
+ * The same for one output, a block of frequencies at a time (TransferBlock): S_g = Σ N_ij H_i
+ * conj(H_j) over the group's entries, over |h|², times the referral factor; the total sums the
+ * groups in order. Every frequency gets the operations of the one-at-a-time path, so the same bits.
+ */
+function singleOutputCurves(
+  model: StateSpaceModel,
+  readoutRows: readonly number[],
+  entries: GroupEntries,
+  frequencies: Float64Array,
+  omegas: Float64Array,
+  factors: Float64Array,
+  curves: Float64Array,
+): void {
+  const nf = frequencies.length;
+  const size = Math.min(nf, TRANSFER_BLOCK);
+  const transfer = new TransferBlock(model, readoutRows, size, 2);
+  try {
+    blockCurves(transfer, entries, frequencies, factors, omegas, curves, size);
+  } finally {
+    transfer.release();
+  }
+}
+
+/** singleOutputCurves' loop over the blocks of frequencies, with the block solver it made. */
+function blockCurves(transfer: TransferBlock, entries: GroupEntries, frequencies: Float64Array, factors: Float64Array, omegas: Float64Array, curves: Float64Array, size: number): void {
+  const nf = frequencies.length;
+  const { hRe, hIm, sRe, sIm } = transfer;
+  const [h2, sr] = transfer.work;
+  const { start, ni, nj, nv } = entries;
+  const classical = entries.classicalBlock(size);
+  for (let from = 0; from < nf; from += size) {
+    const count = Math.min(size, nf - from);
+    transfer.solve(omegas, from, count);
+    classical.fill(frequencies, from, count);
+    for (let f = 0; f < count; f++) {
+      h2[f] = sRe[f] * sRe[f] + sIm[f] * sIm[f];
+      curves[from + f] = 0;
+    }
+    for (let g = 0; g + 1 < start.length; g++) {
+      sr.fill(0, 0, count);
+      for (let e = start[g]; e < start[g + 1]; e++) {
+        const i = ni[e] * size;
+        const j = nj[e] * size;
+        const spectrum = classical.spectrumOf(e);
+        const w = nv[e];
+        for (let f = 0; f < count; f++) {
+          // Re(H_i N_ij conj(H_j)), written as the p×p product of OptimalCombination writes it.
+          const ar = hRe[i + f];
+          const ai = hIm[i + f];
+          const br = hRe[j + f];
+          const bi = -hIm[j + f];
+          sr[f] += (spectrum ? spectrum[f] : w) * (ar * br - ai * bi);
+        }
+      }
+      const o = (1 + g) * nf + from;
+      for (let f = 0; f < count; f++) {
+        const v = (sr[f] / h2[f]) * factors[from + f];
+        curves[o + f] = v;
+        curves[from + f] += v;
+      }
+    }
+    // A readout blind to the signal here: the total is infinite, whatever the groups gave.
+    for (let f = 0; f < count; f++) if (h2[f] === 0) curves[from + f] = Infinity;
+  }
 }
 
 function allZero(xs: Float64Array): boolean {
@@ -200,6 +294,24 @@ class GroupEntries {
   atFrequency(frequency: number): void {
     for (const c of this.classical) this.nv[c.entry] = c.psdAt(frequency);
   }
+
+  /** The classical inputs' PSDs over a block of up to `size` frequencies, in place of their placeholders. */
+  classicalBlock(size: number): ClassicalBlock {
+    const spectra = new Map(this.classical.map((c) => [c.entry, { psdAt: c.psdAt, values: new Float64Array(size) }]));
+    return {
+      fill(frequencies, from, count) {
+        for (const s of spectra.values()) for (let f = 0; f < count; f++) s.values[f] = s.psdAt(frequencies[from + f]);
+      },
+      spectrumOf: (entry) => spectra.get(entry)?.values,
+    };
+  }
+}
+
+interface ClassicalBlock {
+  /** Takes the PSDs at frequencies[from … from + count − 1] (Hz). */
+  fill(frequencies: Float64Array, from: number, count: number): void;
+  /** The PSDs of the entry at the block's frequencies, or undefined for a white input's entry. */
+  spectrumOf(entry: number): Float64Array | undefined;
 }
 
 /** Turns the transfer functions at one frequency into each group's signal-referred noise. */
@@ -208,7 +320,7 @@ interface SignalReferral {
   refer(transfer: TransferEvaluator, referred: Float64Array): boolean;
 }
 
-/** One output: S_g / |h|², with S_g = Σ N_ij H_i conj(H_j) over the group's entries. */
+/** One output, one frequency at a time: S_g / |h|², with S_g = Σ N_ij H_i conj(H_j) over the group's entries (blockCurves' arithmetic). */
 class SingleOutput implements SignalReferral {
   constructor(private readonly entries: GroupEntries) {}
 

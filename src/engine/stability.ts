@@ -56,7 +56,7 @@ export function analyzeStability(assembled: AssembledSetup): StabilityReport {
     if (re[i] > resolution) {
       const mode = describeMode(assembled, re[i], im[i]);
       (controlled.size > 0 && mainOwners(mode).every((o) => controlled.has(o)) ? held : growing).push(mode);
-    } else if (re[i] >= -resolution) undamped.push(describeMode(assembled, re[i], im[i]));
+    } else if (re[i] >= -resolution) undamped.push(modeDescribedWhenRead(assembled, re[i], im[i]));
   }
   if (growing.length === 0 && held.length === 0 && undamped.length > 0 && everyModeDissipates(assembled)) {
     // A high-Q mode (Q ≳ 1e9) or a slow one beside a fast cavity decays more slowly than the
@@ -67,9 +67,35 @@ export function analyzeStability(assembled: AssembledSetup): StabilityReport {
     return { stable: true, growing, held, undamped: [], summary };
   }
   const stable = growing.length === 0 && undamped.length === 0 && held.length === 0;
-  let summary = summarize(assembled, growing, undamped);
-  if (held.length > 0) summary = growing.length === 0 && undamped.length === 0 ? heldSummary(assembled, held) : `${summary}; ${heldSummary(assembled, held)}`;
-  return { stable, growing, held, undamped, summary };
+  // Written when read (an error, a warning shown): it names where undamped modes live, which
+  // takes their eigenvectors, and a search that only grades set-ups never reads it.
+  let summary: string | undefined;
+  const written = (): string => {
+    const text = summarize(assembled, growing, undamped);
+    if (held.length === 0) return text;
+    return growing.length === 0 && undamped.length === 0 ? heldSummary(assembled, held) : `${text}; ${heldSummary(assembled, held)}`;
+  };
+  return {
+    stable,
+    growing,
+    held,
+    undamped,
+    get summary(): string {
+      return (summary ??= written());
+    },
+  };
+}
+
+/** An undamped mode whose participation (an eigenvector by inverse iteration) is computed when first read. */
+function modeDescribedWhenRead(assembled: AssembledSetup, rate: number, imag: number): Eigenmode {
+  let participation: Readonly<Record<string, number>> | undefined;
+  return {
+    rate,
+    frequency: Math.abs(imag) / (2 * Math.PI),
+    get participation(): Readonly<Record<string, number>> {
+      return (participation ??= describeMode(assembled, rate, imag).participation);
+    },
+  };
 }
 
 /** Names of the components whose declared control loop holds their growing modes. */

@@ -2,6 +2,11 @@ import { complexLuFactor, complexLuSolveTransposed, type PivotInverses } from ".
 import { SingularMatrixError } from "../linalg/singular-error";
 import type { StateSpaceModel } from "../network/model";
 
+/** M = −iΩ I − A is singular at this angular frequency: an undamped mode exactly there. */
+export function undampedModeError(omega: number): Error {
+  return new Error(`the set-up has an undamped mode exactly at ${omega / (2 * Math.PI)} Hz; its response is infinite there`);
+}
+
 /**
  * Evaluates, at one angular frequency at a time, the transfer from every input and from
  * the signal to the chosen output rows:
@@ -155,9 +160,7 @@ export class TransferEvaluator {
     try {
       complexLuFactor(re, im, n, piv, this.inverses);
     } catch (e) {
-      if (e instanceof SingularMatrixError) {
-        throw new Error(`the set-up has an undamped mode exactly at ${omega / (2 * Math.PI)} Hz; its response is infinite there`);
-      }
+      if (e instanceof SingularMatrixError) throw undampedModeError(omega);
       throw e;
     }
   }

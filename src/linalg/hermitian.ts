@@ -37,3 +37,31 @@ export function minEigenvalueHermitian(re: Float64Array, im: Float64Array, n: nu
   }
   return symmetricEigenvalues(hermitianEmbedding(re, im, n), 2 * n)[0];
 }
+
+/**
+ * Whether every eigenvalue of the Hermitian part of H is above −shift, decided without
+ * eigenvalues: a Cholesky factorisation of the embedding plus shift·I succeeds when that
+ * matrix is positive definite, and its success proves it up to the factorisation's backward
+ * error, at most about (2n)²·eps·‖embedding‖. So true means the smallest eigenvalue is above
+ * −shift minus that error; false (also for a non-finite entry) decides nothing, and the caller
+ * computes the eigenvalue.
+ */
+export function shiftedPositiveDefinite(re: ArrayLike<number>, im: ArrayLike<number>, n: number, shift: number): boolean {
+  const m = 2 * n;
+  const a = hermitianEmbedding(re, im, n);
+  for (let i = 0; i < m; i++) a[i * m + i] += shift;
+  // Row-oriented Cholesky in place: the lower triangle becomes L with L Lᵀ = a.
+  for (let j = 0; j < m; j++) {
+    let d = a[j * m + j];
+    for (let k = 0; k < j; k++) d -= a[j * m + k] * a[j * m + k];
+    if (!(d > 0) || !Number.isFinite(d)) return false;
+    const root = Math.sqrt(d);
+    a[j * m + j] = root;
+    for (let i = j + 1; i < m; i++) {
+      let s = a[i * m + j];
+      for (let k = 0; k < j; k++) s -= a[i * m + k] * a[j * m + k];
+      a[i * m + j] = s / root;
+    }
+  }
+  return true;
+}

@@ -7,7 +7,7 @@ export type { ComplexVector, EigenvalueOptions } from "./eigen";
 export { solveLyapunov } from "./lyapunov";
 export { symmetricEigenvalues } from "./symmetric-eigen";
 export { smallestSymmetricEigenvalue } from "./smallest-eigenvalue";
-export { hermitianEmbedding, minEigenvalueHermitian } from "./hermitian";
+export { hermitianEmbedding, minEigenvalueHermitian, shiftedPositiveDefinite } from "./hermitian";
 export { findNonDecayingMode } from "./non-decaying-mode";
 export type { NonDecayingMode } from "./non-decaying-mode";
 export { expm } from "./expm";

@@ -77,8 +77,18 @@ export function assemble(setup: ResolvedSetup): AssembledSetup {
   const signal = target.signalReference!(handles.get(setup.signal.on), setup.signal.kind);
   const referredTo = pickQuantity(signal, setup.signal.referTo);
   const readoutRows = setup.readout.map((d) => model.outputs.findIndex((o) => o.owner === d));
-  const cautions = setup.components.flatMap((c) => setup.kinds.get(c.name)!.cautions?.(c, linkedBodies.get(c.name) ?? {}) ?? []);
-  return { setup, model, readoutRows, signal, referredTo, cautions };
+  // Written when first read: their text costs more than a small model's assembly, and searches never read them.
+  let cautions: readonly string[] | undefined;
+  return {
+    setup,
+    model,
+    readoutRows,
+    signal,
+    referredTo,
+    get cautions(): readonly string[] {
+      return (cautions ??= setup.components.flatMap((c) => setup.kinds.get(c.name)!.cautions?.(c, linkedBodies.get(c.name) ?? {}) ?? []));
+    },
+  };
 }
 
 /** The light leaving `from`; an optional output that carries none in this configuration is refused by name. */

@@ -2,7 +2,8 @@
 """The signal-referred noise of a state-space model written the way a NumPy user writes it.
 
 Bench row: the engine exports a set-up's model (A, B, C, D, N, the signal column, the readout
-rows, the referral factor at each frequency) as JSON; this script computes the total one-sided
+rows, the referral factor at each frequency, and each classical noise input's PSD at each frequency, which
+replaces that input's placeholder entry of N) as JSON; this script computes the total one-sided
 PSD over all frequencies at once with numpy.linalg.solve batched over frequencies:
 
     M(Ω) = −iΩ I − A,  H = C_r M⁻¹ B + D_r,  h = C_r M⁻¹ b_s + d_s,
@@ -32,7 +33,11 @@ def load(path):
     ds = np.array(d["signalD"], dtype=float)[rows]
     f = np.array(d["frequencies"], dtype=float)
     factor = np.array(d["factors"], dtype=float)
-    return A, B, C, D, N, bs, ds, f, factor
+    # N at each frequency: the white inputs' constant entries, each classical input's own spectrum.
+    Nf = np.broadcast_to(N, (len(f), m, m)).copy()
+    for c in d.get("classical", []):
+        Nf[:, c["column"], c["column"]] = np.array(c["psd"], dtype=float)
+    return A, B, C, D, Nf, bs, ds, f, factor
 
 
 def total_psd(A, B, C, D, N, bs, ds, f, factor):

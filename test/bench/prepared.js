@@ -6,6 +6,8 @@
  *       validated once, values written into the validated set-up) against the plain way
  *       (prepare(description, values)), interleaved; optionally against an older build too
  *       (QUIETFRAME_BASELINE_DIST=<its dist folder>), which measures "before" in the same run;
+ *       timed by the wall clock and again by the process's CPU time (on a shared machine the
+ *       wall clock also counts the time spent waiting for a core), with the load average;
  *   7b. a 100,000-sample Monte Carlo of cryogenic-membrane-squeezed.json at 256 frequencies on
  *       worker threads (every core) against the same in this thread, with the same bits;
  *   7c. the same state-space algebra as a NumPy script (numpy.linalg.solve batched over the
@@ -60,10 +62,47 @@ function readAll(evaluation) {
 
 // ---------------------------------------------------------------- 7a
 
+/** CPU milliseconds (user + system) of this process so far. */
+function cpuMs() {
+  const u = process.cpuUsage();
+  return (u.user + u.system) / 1e3;
+}
+
+/**
+ * The candidates again, interleaved as compare does, timed by this process's CPU time: on a
+ * machine shared with other jobs, time spent waiting for a core counts in the wall clock but
+ * not here. Returns the median CPU ms per call of each, with the repetitions compare calibrated.
+ */
+function cpuCompare(candidates, timed, rounds = 15) {
+  const names = Object.keys(candidates);
+  const samples = Object.fromEntries(names.map((n) => [n, []]));
+  for (let r = 0; r < rounds; r++) {
+    for (let k = 0; k < names.length; k++) {
+      const name = names[(r + k) % names.length];
+      const reps = timed[name].reps;
+      const t0 = cpuMs();
+      for (let i = 0; i < reps; i++) candidates[name]();
+      samples[name].push((cpuMs() - t0) / reps);
+    }
+  }
+  return Object.fromEntries(names.map((n) => [n, median(samples[n])]));
+}
+
+/** The error fn throws, or undefined. */
+function refusalOf(fn) {
+  try {
+    fn();
+    return undefined;
+  } catch (e) {
+    return e;
+  }
+}
+
 function preparedEvaluation() {
   const baselineDir = process.env.QUIETFRAME_BASELINE_DIST;
   const old = baselineDir ? require(resolve(baselineDir, "src", "index.js")) : undefined;
   const rows = [];
+  const load0 = os.loadavg()[0];
   for (const { file, setup } of examples()) {
     const grid = gridOf(setup);
     const values = valueSets(setup);
@@ -81,13 +120,16 @@ function preparedEvaluation() {
         sink += qf.evaluate(preparer.prepare(values[k++ % 3]), grid).budget.total[3];
       },
     };
-    if (old) {
+    // The older build may refuse an example written in a later format (a field it does not know).
+    if (old && refusalOf(() => old.evaluate(old.prepare(setup, values[0]), grid)) === undefined) {
       candidates.before = () => {
         sink += readAll(old.evaluate(old.prepare(setup, values[k++ % 3]), grid));
       };
     }
     const t = compare(candidates, { rounds: 15, sampleMs: 20 });
+    const cpu = cpuCompare(candidates, t);
     if (!Number.isFinite(sink)) throw new Error("unreachable");
+    const timedBefore = candidates.before !== undefined;
     rows.push({
       file,
       plainUs: t.plain.ms * 1e3,
@@ -95,13 +137,15 @@ function preparedEvaluation() {
       fastTotalUs: t.fastTotal.ms * 1e3,
       speedup: 1 / t.fast.ratio,
       totalOnlySpeedup: 1 / t.fastTotal.ratio,
-      beforeUs: old ? t.before.ms * 1e3 : undefined,
-      speedupOverBefore: old ? t.before.ms / t.fast.ms : undefined,
+      beforeUs: timedBefore ? t.before.ms * 1e3 : undefined,
+      speedupOverBefore: timedBefore ? t.before.ms / t.fast.ms : undefined,
       // The older build computes every reference curve whether read or not.
-      totalOnlyOverBefore: old ? t.before.ms / t.fastTotal.ms : undefined,
+      totalOnlyOverBefore: timedBefore ? t.before.ms / t.fastTotal.ms : undefined,
+      refusedByBefore: old !== undefined && !timedBefore,
+      cpu: { fastUs: cpu.fast * 1e3, fastTotalUs: cpu.fastTotal * 1e3, beforeUs: timedBefore ? cpu.before * 1e3 : undefined },
     });
   }
-  return { points: POINTS, baseline: baselineDir ? "QUIETFRAME_BASELINE_DIST" : undefined, rows };
+  return { points: POINTS, baseline: baselineDir ? "QUIETFRAME_BASELINE_DIST" : undefined, rows, loadAverage1m: { start: load0, end: os.loadavg()[0] } };
 }
 
 // ---------------------------------------------------------------- 7b
@@ -179,6 +223,7 @@ function exportModel(assembled, frequencies) {
     signalD: list(m.signalD),
     frequencies: list(frequencies),
     factors,
+    classical: (m.classicalInputs ?? []).map((c) => ({ column: c.column, psd: Array.from(frequencies, (f) => c.psdAt(f)) })),
   };
 }
 
@@ -236,7 +281,10 @@ function preparedRows(r) {
   const x = (v) => `${v.toFixed(2)}×`;
   const p = r.prepared;
   const low = Math.min(...p.rows.map((e) => e.speedup));
-  const before = p.rows.every((e) => e.speedupOverBefore !== undefined) ? Math.min(...p.rows.map((e) => e.speedupOverBefore)) : undefined;
+  const timedBefore = p.rows.filter((e) => e.speedupOverBefore !== undefined);
+  const before = timedBefore.length > 0 ? Math.min(...timedBefore.map((e) => e.speedupOverBefore)) : undefined;
+  const cpuBefore = timedBefore.length > 0 ? Math.min(...timedBefore.map((e) => e.cpu.beforeUs / e.cpu.fastUs)) : undefined;
+  const cpuBeforeTotal = timedBefore.length > 0 ? Math.min(...timedBefore.map((e) => e.cpu.beforeUs / e.cpu.fastTotalUs)) : undefined;
   const mc = r.mc;
   const worstNumpy = Math.max(...r.numpy.rows.map((e) => e.check));
   const numpyOk = r.numpy.rows.every((e) => e.checkPassed);
@@ -246,13 +294,18 @@ function preparedRows(r) {
       measure:
         `one prepared evaluation (values written in, checks, budget at ${p.points} pts, every number read): SetupPreparer` +
         (before === undefined ? " vs prepare(description, values)" : " vs the older build"),
-      result: `${x(before ?? low)} faster (least over the examples)`,
+      result: `${x(before ?? low)} faster (least over the examples${before === undefined ? "" : " the older build reads"})`,
       detail: [
         ...p.rows.map(
           (e) =>
             `${e.file}: fast ${fmtUs(e.fastUs)} · plain ${fmtUs(e.plainUs)} (${x(e.speedup)}) · total only ${fmtUs(e.fastTotalUs)} (${x(e.totalOnlySpeedup)})` +
-            (e.beforeUs === undefined ? "" : ` · older build ${fmtUs(e.beforeUs)} (${x(e.speedupOverBefore)}; total only ${x(e.totalOnlyOverBefore)})`),
+            (e.beforeUs === undefined ? "" : ` · older build ${fmtUs(e.beforeUs)} (${x(e.speedupOverBefore)}; total only ${x(e.totalOnlyOverBefore)})`) +
+            (e.refusedByBefore ? " · the older build refuses this example (a later format)" : "") +
+            ` · by CPU time: fast ${fmtUs(e.cpu.fastUs)}, total only ${fmtUs(e.cpu.fastTotalUs)}` +
+            (e.cpu.beforeUs === undefined ? "" : `, older build ${fmtUs(e.cpu.beforeUs)} (${x(e.cpu.beforeUs / e.cpu.fastUs)}; total only ${x(e.cpu.beforeUs / e.cpu.fastTotalUs)})`),
         ),
+        `load avg (1 min) ${p.loadAverage1m.start.toFixed(1)} → ${p.loadAverage1m.end.toFixed(1)} on ${os.availableParallelism()} cores` +
+          (cpuBefore === undefined ? "" : ` · by CPU time, at least ${x(cpuBefore)} faster than the older build (total only ${x(cpuBeforeTotal)})`),
         before === undefined
           ? "set QUIETFRAME_BASELINE_DIST to an older build's dist folder to time it in the same run (the goal is against it)"
           : `fast vs plain way in this build: at least ${x(low)}; "total only" reads no reference curve (what noise bands and maps read)`,
@@ -286,7 +339,7 @@ function preparedRows(r) {
   ];
 }
 
-module.exports = { runPreparedBench, preparedRows };
+module.exports = { runPreparedBench, preparedRows, preparedEvaluation, monteCarlo, againstNumpy };
 
 if (require.main === module) {
   const t0 = nowMs();

@@ -1,6 +1,7 @@
 import { beforeAll, describe, expect, it } from "vitest";
 import { HBAR, SPEED_OF_LIGHT } from "../../src/constants";
 import { quantileSorted, spreadAnalysis } from "../../src/design";
+import { evaluateSamples, planSpread } from "../../src/design/spread";
 import { GaussianSource } from "../../src/timedomain/random";
 import { loadMathjs, type MathJs } from "../helpers/mathjs";
 import { probedBody, setup } from "../helpers/setups";
@@ -106,6 +107,22 @@ describe("Monte Carlo spread against an exact distribution (a figure linear in t
       expect(Math.abs(bands.median[i] / noiseAt(quantileSorted(sorted, 0.5), f) - 1)).toBeLessThan(1e-12);
       expect(Math.abs(bands.p5[i] / noiseAt(quantileSorted(sorted, decreasing ? 0.95 : 0.05), f) - 1)).toBeLessThan(1e-12);
       expect(Math.abs(bands.p95[i] / noiseAt(quantileSorted(sorted, decreasing ? 0.05 : 0.95), f) - 1)).toBeLessThan(1e-12);
+    }
+  });
+
+  it("noise bands are the 5/50/95 % order statistics of each frequency's column of sample curves, bit for bit, on a grid of 13 points (columns gathered 8 at a time; common practice, no source: the definition itself)", () => {
+    const options = { samples: 300, seed, grid: { from: 10, to: 1e4, points: 13 } };
+    const uncertain = [{ target: "path.transmission", value: "50 % ± 5 %" }];
+    const figure = { kind: "noise-at", frequency: `${F} Hz` } as const;
+    const r = spreadAnalysis(lossy, figure, uncertain, options);
+    const plan = planSpread(lossy, figure, uncertain, options);
+    const outcomes = evaluateSamples(plan, 0, plan.samples);
+    const nf = 13;
+    for (let i = 0; i < nf; i++) {
+      const column = Float64Array.from({ length: plan.samples }, (_, s) => outcomes.curves[s * nf + i]).sort();
+      expect(Object.is(r.bands!.p5[i], quantileSorted(column, 0.05)), `p5 at point ${i}`).toBe(true);
+      expect(Object.is(r.bands!.median[i], quantileSorted(column, 0.5)), `median at point ${i}`).toBe(true);
+      expect(Object.is(r.bands!.p95[i], quantileSorted(column, 0.95)), `p95 at point ${i}`).toBe(true);
     }
   });
 

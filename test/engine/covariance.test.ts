@@ -1,6 +1,6 @@
 import { beforeAll, describe, expect, it } from "vitest";
 import { loadMathjs, type MathJs } from "../helpers/mathjs";
-import { diffusionMatrix, fastUncertaintyMargin, stationaryCovariance, uncertaintyMargin } from "../../src/engine/covariance";
+import { checkPhysicality, diffusionMatrix, fastUncertaintyMargin, stationaryCovariance, uncertaintyMargin } from "../../src/engine/covariance";
 import { assemble } from "../../src/setup/assemble";
 import { evaluateSetup, loadSetup } from "../../src/pipeline";
 import { thermalOccupation } from "../../src/reference/limits";
@@ -97,6 +97,35 @@ describe("damping models and the uncertainty relation", () => {
     const e = evaluateSetup(strongLowQ("viscous"), { from: 1e5, to: 1e7, points: 5 });
     expect(e.physicality!.physical).toBe(false);
     expect(e.warnings.join(" ")).toMatch(/violates the uncertainty relation.*symmetric/);
+  });
+
+  it("decides as the smallest eigenvalue of V + iΣ/2 does, and reports that eigenvalue, on both sides of the validity range (common practice, no source: the rule itself)", () => {
+    let physical = 0;
+    let unphysical = 0;
+    for (const damping of ["viscous", "symmetric"] as const) {
+      for (const Q of [0.5, 2, 10, 100, 1e4]) {
+        for (const temperature of ["0 K", "1 mK", "1 K", "300 K"]) {
+          const s = cavityReadout({
+            body: { mass: "1 ng", frequency: "1 MHz", Q, temperature, damping },
+            cavity: { linewidth: "2 MHz", detuning: "-1 MHz", g0: "100 Hz", photons: 1e6 },
+          });
+          const model = assemble(loadSetup(s)).model;
+          const v = stationaryCovariance(model);
+          let largest = 0;
+          for (let i = 0; i < model.nStates; i++) largest = Math.max(largest, v[i * model.nStates + i]);
+          const margin = uncertaintyMargin(model, v);
+          const report = checkPhysicality(model);
+          const where = `${damping}, Q = ${Q}, ${temperature}`;
+          expect(report.physical, where).toBe(margin >= -1e-9 * largest);
+          expect(Object.is(report.margin, margin), where).toBe(true);
+          expect(report.largestVariance, where).toBe(largest);
+          if (report.physical) physical++;
+          else unphysical++;
+        }
+      }
+    }
+    expect(physical).toBeGreaterThan(5);
+    expect(unphysical).toBeGreaterThan(2);
   });
 
   it("keeps the symmetric (Lindblad) model physical in the same set-up", () => {

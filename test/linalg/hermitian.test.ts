@@ -1,6 +1,6 @@
 import { beforeAll, describe, expect, it } from "vitest";
 import fc from "fast-check";
-import { hermitianEmbedding, minEigenvalueHermitian } from "../../src/linalg/hermitian";
+import { hermitianEmbedding, minEigenvalueHermitian, shiftedPositiveDefinite } from "../../src/linalg/hermitian";
 import { randomMatrix, seededRandom } from "./helpers";
 import { type MathJsStatic, loadMathjs } from "./mathjs-reference";
 
@@ -140,5 +140,46 @@ describe("minEigenvalueHermitian", () => {
       }),
       { seed: 42, numRuns: 200 },
     );
+  });
+});
+
+describe("shiftedPositiveDefinite", () => {
+  /** The smallest eigenvalue of the Hermitian matrix by mathjs eigs of its real embedding (reference). */
+  function mathjsMin(re: Float64Array, im: Float64Array, n: number): number {
+    const emb = hermitianEmbedding(re, im, n);
+    const rows = Array.from({ length: 2 * n }, (_, i) => Array.from(emb.subarray(2 * n * i, 2 * n * (i + 1))));
+    return realEigsSorted(math.eigs(rows, { eigenvectors: false }).values)[0];
+  }
+
+  it("agrees with mathjs eigs: true when the smallest eigenvalue is above −shift, false when below, away from the boundary", () => {
+    const rand = seededRandom(31);
+    let yes = 0;
+    let no = 0;
+    for (let trial = 0; trial < 120; trial++) {
+      const n = 1 + (trial % 6);
+      const { re, im } = randomHermitian(rand, n);
+      const lmin = mathjsMin(re, im, n);
+      // Shifts on both sides of −λmin, at least 1e-6 away from it (far beyond rounding).
+      const shift = -lmin + (trial % 2 === 0 ? 1 : -1) * (1e-6 + rand());
+      const expected = lmin > -shift;
+      expect(shiftedPositiveDefinite(re, im, n, shift), `n = ${n}, λmin = ${lmin}, shift = ${shift}`).toBe(expected);
+      if (expected) yes++;
+      else no++;
+    }
+    expect(yes).toBeGreaterThan(30);
+    expect(no).toBeGreaterThan(30);
+  });
+
+  it("a pure state's V + iΣ/2 (smallest eigenvalue exactly 0): true for any positive shift, false for none (vacuum V = I/2, from memory)", () => {
+    // One mode: V = diag(1/2, 1/2), Σ/2 = [[0, 1/2], [−1/2, 0]]: eigenvalues 0 and 1.
+    const re = Float64Array.from([0.5, 0, 0, 0.5]);
+    const im = Float64Array.from([0, 0.5, -0.5, 0]);
+    expect(shiftedPositiveDefinite(re, im, 2, 1e-12)).toBe(true);
+    expect(shiftedPositiveDefinite(re, im, 2, -1e-12)).toBe(false);
+  });
+
+  it("decides nothing (false) for a non-finite entry", () => {
+    expect(shiftedPositiveDefinite(Float64Array.from([Number.NaN]), Float64Array.from([0]), 1, 1)).toBe(false);
+    expect(shiftedPositiveDefinite(Float64Array.from([Infinity]), Float64Array.from([0]), 1, 1)).toBe(false);
   });
 });

@@ -1,0 +1,407 @@
+/**
+ * The transfer functions of TransferEvaluator for a block of frequencies at once: the same
+ * factorisation, solve and products, operation for operation and so bit for bit, with the
+ * frequency as the innermost loop. Each matrix entry holds its values at every frequency of the
+ * block side by side (entry e, frequency f at e·B + f), so the loops run long and without calls
+ * instead of over the few entries of a small model; pivoting stays per frequency. A one-mode
+ * model keeps TransferEvaluator's closed-form 2×2 inverse, one frequency at a time.
+ */
+import type { StateSpaceModel } from "../network/model";
+import { TransferEvaluator, undampedModeError } from "./transfer";
+
+/** Frequencies per block: long enough for the loops, short enough that a large model's block stays in cache. */
+export const TRANSFER_BLOCK = 64;
+
+/**
+ * Memory lent from one block to the next: a budget per trial (a search, a Monte Carlo sample)
+ * would otherwise allocate tens of kilobytes of typed arrays each time, whose allocation and
+ * collection cost more than a small model's solves. A block takes the spare buffers when they
+ * are large enough and gives them back on `release`; one made while another holds them gets
+ * its own. Every value a block reads it has written first, so what a buffer held before changes
+ * nothing.
+ */
+let spareFloats: Float64Array | undefined;
+let spareInts: Int32Array | undefined;
+
+function takeFloats(length: number): Float64Array {
+  const spare = spareFloats;
+  if (spare && spare.length >= length) {
+    spareFloats = undefined;
+    return spare;
+  }
+  return new Float64Array(length);
+}
+
+function takeInts(length: number): Int32Array {
+  const spare = spareInts;
+  if (spare && spare.length >= length) {
+    spareInts = undefined;
+    return spare;
+  }
+  return new Int32Array(length);
+}
+
+function giveBack(floats: Float64Array, ints: Int32Array): void {
+  if (!spareFloats || spareFloats.length < floats.length) spareFloats = floats;
+  if (!spareInts || spareInts.length < ints.length) spareInts = ints;
+}
+
+export class TransferBlock {
+  /** H after `solve`: input c of output k at frequency f of the block at (k·m + c)·B + f. */
+  readonly hRe: Float64Array;
+  readonly hIm: Float64Array;
+  /** The signal's response of output k at frequency f at k·B + f. */
+  readonly sRe: Float64Array;
+  readonly sIm: Float64Array;
+  private readonly n: number;
+  private readonly m: number;
+  private readonly p: number;
+  private readonly negA: Float64Array;
+  private readonly cT: Float64Array;
+  private readonly dRows: Float64Array;
+  private readonly sD: Float64Array;
+  private readonly bStart: Int32Array;
+  private readonly bRow: Int32Array;
+  private readonly bVal: Float64Array;
+  private readonly sRow: Int32Array;
+  private readonly sVal: Float64Array;
+  private readonly mRe: Float64Array;
+  private readonly mIm: Float64Array;
+  private readonly piv: Int32Array;
+  private readonly invRe: Float64Array;
+  private readonly invIm: Float64Array;
+  private readonly gRe: Float64Array;
+  private readonly gIm: Float64Array;
+  /** Per frequency: whether the current row is eliminated at this step (its entry below the pivot is not zero). */
+  private readonly eliminate: Int32Array;
+  /** The size of each frequency's pivot candidate (|re| + |im|) during the search. */
+  private readonly best: Float64Array;
+  /** Arrays of one value per frequency of the block, for the caller's own sums. */
+  readonly work: readonly Float64Array[];
+  private readonly floats: Float64Array;
+  private readonly ints: Int32Array;
+  /** The one-frequency evaluator of one-mode models. */
+  private readonly single?: TransferEvaluator;
+
+  constructor(
+    model: StateSpaceModel,
+    rows: readonly number[],
+    private readonly size: number = TRANSFER_BLOCK,
+    workArrays = 0,
+  ) {
+    const n = model.nStates;
+    const m = model.nInputs;
+    const p = rows.length;
+    const B = size;
+    this.n = n;
+    this.m = m;
+    this.p = p;
+    const lu = n === 2 ? 0 : n;
+    // Every per-frequency array is a view of one lent buffer (see takeFloats).
+    this.floats = takeFloats(B * (2 * p * m + 2 * p + 2 * lu * lu + 3 * lu + 2 * n * p + workArrays));
+    this.ints = takeInts(B * (lu + 1));
+    let at = 0;
+    const next = (length: number): Float64Array => this.floats.subarray(at, (at += length));
+    this.hRe = next(p * m * B);
+    this.hIm = next(p * m * B);
+    this.sRe = next(p * B);
+    this.sIm = next(p * B);
+    this.mRe = next(lu * lu * B);
+    this.mIm = next(lu * lu * B);
+    this.invRe = next(lu * B);
+    this.invIm = next(lu * B);
+    this.best = next(lu === 0 ? 0 : B);
+    this.gRe = next(n * p * B);
+    this.gIm = next(n * p * B);
+    this.work = Array.from({ length: workArrays }, () => next(B));
+    this.piv = this.ints.subarray(0, lu * B);
+    this.eliminate = this.ints.subarray(lu * B, (lu + 1) * B);
+    // The Ω-independent parts, laid out as TransferEvaluator lays them out.
+    this.negA = new Float64Array(n * n);
+    for (let i = 0; i < n * n; i++) this.negA[i] = -model.A[i];
+    this.cT = new Float64Array(n * p);
+    this.dRows = new Float64Array(p * m);
+    this.sD = new Float64Array(p);
+    for (let k = 0; k < p; k++) {
+      const row = rows[k];
+      for (let j = 0; j < n; j++) this.cT[j * p + k] = model.C[row * n + j];
+      for (let c = 0; c < m; c++) this.dRows[k * m + c] = model.D[row * m + c];
+      this.sD[k] = model.signalD[row];
+    }
+    const start: number[] = [0];
+    const bRow: number[] = [];
+    const bVal: number[] = [];
+    for (let c = 0; c < m; c++) {
+      for (let j = 0; j < n; j++) {
+        const b = model.B[j * m + c];
+        if (b === 0) continue;
+        bRow.push(j);
+        bVal.push(b);
+      }
+      start.push(bRow.length);
+    }
+    this.bStart = Int32Array.from(start);
+    this.bRow = Int32Array.from(bRow);
+    this.bVal = Float64Array.from(bVal);
+    const sRow: number[] = [];
+    const sVal: number[] = [];
+    for (let j = 0; j < n; j++) {
+      if (model.signalB[j] === 0) continue;
+      sRow.push(j);
+      sVal.push(model.signalB[j]);
+    }
+    this.sRow = Int32Array.from(sRow);
+    this.sVal = Float64Array.from(sVal);
+    if (n === 2) this.single = new TransferEvaluator(model, rows);
+  }
+
+  /** Gives the block's memory to the next block made; this one is not used after. */
+  release(): void {
+    giveBack(this.floats, this.ints);
+  }
+
+  /**
+   * Fills hRe/hIm/sRe/sIm for the angular frequencies omegas[from … from + count − 1] (count ≤
+   * the block size). Throws where TransferEvaluator.at throws: at the first of them where
+   * M = −iΩ I − A is singular (an undamped mode exactly there).
+   */
+  solve(omegas: Float64Array, from: number, count: number): void {
+    if (count > this.size) throw new Error(`TransferBlock: ${count} frequencies exceed the block of ${this.size}`);
+    const { single } = this;
+    if (single) {
+      this.solveOneAtATime(single, omegas, from, count);
+      return;
+    }
+    if (this.n > 0) {
+      const good = this.factor(omegas, from, count);
+      if (good < count) throw undampedModeError(omegas[from + good]);
+      this.solveTransposed(count);
+    }
+    this.products(count);
+  }
+
+  /** One-mode models: TransferEvaluator frequency by frequency (its closed form, or its LU when that fails). */
+  private solveOneAtATime(single: TransferEvaluator, omegas: Float64Array, from: number, count: number): void {
+    const { m, p, size: B, hRe, hIm, sRe, sIm } = this;
+    for (let f = 0; f < count; f++) {
+      single.at(omegas[from + f]);
+      for (let i = 0; i < p * m; i++) {
+        hRe[i * B + f] = single.hRe[i];
+        hIm[i * B + f] = single.hIm[i];
+      }
+      for (let k = 0; k < p; k++) {
+        sRe[k * B + f] = single.sRe[k];
+        sIm[k * B + f] = single.sIm[k];
+      }
+    }
+  }
+
+  /**
+   * P M = L U of M = −iΩ I − A at every frequency, as complexLuFactor does it for one (the same
+   * pivot choice, reciprocals and updates, so the same bits). Returns the number of leading
+   * frequencies factorised: the first whose pivot is zero or not finite ends the block.
+   */
+  private factor(omegas: Float64Array, from: number, count: number): number {
+    const { n, size: B, negA, mRe: re, mIm: im, piv, invRe, invIm, eliminate, best } = this;
+    for (let e = 0; e < n * n; e++) {
+      const o = e * B;
+      re.fill(negA[e], o, o + count);
+      im.fill(0, o, o + count);
+    }
+    for (let i = 0; i < n; i++) {
+      const o = (i * n + i) * B;
+      for (let f = 0; f < count; f++) im[o + f] = -omegas[from + f];
+    }
+    let good = count;
+    for (let k = 0; k < n; k++) {
+      const kk = (k * n + k) * B;
+      const kB = k * B;
+      // The pivot search of each frequency, row by row over all of them: the diagonal first,
+      // then each row below in order, as the one-frequency search visits them.
+      for (let f = 0; f < good; f++) {
+        best[f] = Math.abs(re[kk + f]) + Math.abs(im[kk + f]);
+        piv[kB + f] = k;
+      }
+      for (let i = k + 1; i < n; i++) {
+        const ik = (i * n + k) * B;
+        for (let f = 0; f < good; f++) {
+          const size = Math.abs(re[ik + f]) + Math.abs(im[ik + f]);
+          const b = best[f];
+          // A NaN candidate is taken as pivot so it is reported rather than skipped.
+          if (size > b || (size !== size && b === b)) {
+            best[f] = size;
+            piv[kB + f] = i;
+          }
+        }
+      }
+      for (let f = 0; f < good; f++) {
+        if (best[f] === 0 || !Number.isFinite(best[f])) {
+          good = f;
+          break;
+        }
+      }
+      for (let f = 0; f < good; f++) {
+        const pivot = piv[kB + f];
+        if (pivot === k) continue;
+        for (let j = 0; j < n; j++) {
+          const a = (k * n + j) * B + f;
+          const b = (pivot * n + j) * B + f;
+          let t = re[a];
+          re[a] = re[b];
+          re[b] = t;
+          t = im[a];
+          im[a] = im[b];
+          im[b] = t;
+        }
+      }
+      for (let f = 0; f < good; f++) {
+        // Reciprocal of the pivot, pre-scaled so |re|²+|im|² cannot overflow or underflow.
+        const s = 1 / best[f];
+        const pr = re[kk + f] * s;
+        const pi = im[kk + f] * s;
+        const d = s / (pr * pr + pi * pi);
+        invRe[kB + f] = pr * d;
+        invIm[kB + f] = -pi * d;
+      }
+      for (let i = k + 1; i < n; i++) {
+        const ik = (i * n + k) * B;
+        // A row with nothing below the pivot at any frequency of the block (a structural zero of A) is left as it is.
+        let any = false;
+        for (let f = 0; f < good; f++) {
+          const ar = re[ik + f];
+          const ai = im[ik + f];
+          if (ar === 0 && ai === 0) {
+            eliminate[f] = 0;
+            continue;
+          }
+          any = true;
+          eliminate[f] = 1;
+          const ir = invRe[k * B + f];
+          const ii = invIm[k * B + f];
+          re[ik + f] = ar * ir - ai * ii;
+          im[ik + f] = ar * ii + ai * ir;
+        }
+        if (!any) continue;
+        for (let j = k + 1; j < n; j++) {
+          const ij = (i * n + j) * B;
+          const kj = (k * n + j) * B;
+          for (let f = 0; f < good; f++) {
+            if (eliminate[f] === 0) continue;
+            const lr = re[ik + f];
+            const li = im[ik + f];
+            const ur = re[kj + f];
+            const ui = im[kj + f];
+            re[ij + f] -= lr * ur - li * ui;
+            im[ij + f] -= lr * ui + li * ur;
+          }
+        }
+      }
+    }
+    return good;
+  }
+
+  /** Gᵀ from Mᵀ Gᵀ = C_rᵀ at every frequency, as complexLuSolveTransposed does it with the kept reciprocals. */
+  private solveTransposed(count: number): void {
+    const { n, p, size: B, piv, invRe, invIm, cT, gRe, gIm } = this;
+    for (let r = 0; r < n * p; r++) {
+      const c = cT[r];
+      const o = r * B;
+      for (let f = 0; f < count; f++) {
+        gRe[o + f] = c;
+        gIm[o + f] = 0;
+      }
+    }
+    // Uᵀ w = b: row i of U is column i of Uᵀ.
+    for (let i = 0; i < n; i++) {
+      for (let c = 0; c < p; c++) {
+        const o = (i * p + c) * B;
+        for (let f = 0; f < count; f++) {
+          const ir = invRe[i * B + f];
+          const ii = invIm[i * B + f];
+          const xr = gRe[o + f];
+          const xi = gIm[o + f];
+          gRe[o + f] = xr * ir - xi * ii;
+          gIm[o + f] = xr * ii + xi * ir;
+        }
+      }
+      for (let j = i + 1; j < n; j++) this.subtractRow((i * n + j) * B, j, i, count);
+    }
+    // Lᵀ z = w: row i of L (left of the diagonal) is column i of Lᵀ above the diagonal.
+    for (let i = n - 1; i > 0; i--) {
+      for (let j = 0; j < i; j++) this.subtractRow((i * n + j) * B, j, i, count);
+    }
+    // x = Pᵀ z: the exchanges undone in reverse order.
+    for (let k = n - 1; k >= 0; k--) {
+      for (let f = 0; f < count; f++) {
+        const q = piv[k * B + f];
+        if (q === k) continue;
+        for (let c = 0; c < p; c++) {
+          const a = (k * p + c) * B + f;
+          const b = (q * p + c) * B + f;
+          let t = gRe[a];
+          gRe[a] = gRe[b];
+          gRe[b] = t;
+          t = gIm[a];
+          gIm[a] = gIm[b];
+          gIm[b] = t;
+        }
+      }
+    }
+  }
+
+  /** Row dst of G += −(factor at entry offset o) · row src, where the factor is not zero (axpyRow of the solve). */
+  private subtractRow(o: number, dst: number, src: number, count: number): void {
+    const { p, size: B, mRe: re, mIm: im, gRe, gIm } = this;
+    for (let c = 0; c < p; c++) {
+      const d = (dst * p + c) * B;
+      const s = (src * p + c) * B;
+      for (let f = 0; f < count; f++) {
+        const ur = re[o + f];
+        const ui = im[o + f];
+        if (ur === 0 && ui === 0) continue;
+        const fr = -ur;
+        const fi = -ui;
+        const xr = gRe[s + f];
+        const xi = gIm[s + f];
+        gRe[d + f] += fr * xr - fi * xi;
+        gIm[d + f] += fr * xi + fi * xr;
+      }
+    }
+  }
+
+  /** H = G B + D and h = G b_s + d_s over the non-zero entries of B and b_s, in TransferEvaluator's order. */
+  private products(count: number): void {
+    const { m, p, size: B, gRe, gIm, hRe, hIm, sRe, sIm, dRows, bStart, bRow, bVal, sRow, sVal, sD } = this;
+    for (let k = 0; k < p; k++) {
+      for (let c = 0; c < m; c++) {
+        const o = (k * m + c) * B;
+        const d = dRows[k * m + c];
+        for (let f = 0; f < count; f++) {
+          hRe[o + f] = d;
+          hIm[o + f] = 0;
+        }
+        for (let e = bStart[c]; e < bStart[c + 1]; e++) {
+          const g = (bRow[e] * p + k) * B;
+          const b = bVal[e];
+          for (let f = 0; f < count; f++) {
+            hRe[o + f] += gRe[g + f] * b;
+            hIm[o + f] += gIm[g + f] * b;
+          }
+        }
+      }
+      const o = k * B;
+      for (let f = 0; f < count; f++) {
+        sRe[o + f] = sD[k];
+        sIm[o + f] = 0;
+      }
+      for (let e = 0; e < sRow.length; e++) {
+        const g = (sRow[e] * p + k) * B;
+        const b = sVal[e];
+        for (let f = 0; f < count; f++) {
+          sRe[o + f] += gRe[g + f] * b;
+          sIm[o + f] += gIm[g + f] * b;
+        }
+      }
+    }
+  }
+}
