@@ -130,28 +130,23 @@ function susceptibilityInto(body: MechanicalBody, omega: number, out: [number, n
   return out;
 }
 
+/** |χ|² of a pair susceptibilityInto has just filled (read after the call that fills it). */
+function modulusSquared(chi: [number, number]): number {
+  return chi[0] * chi[0] + chi[1] * chi[1];
+}
+
 /** Signal "force" on a body: noise can be referred to force (N) or displacement (m = force·|χ|). */
 export function forceSignalReference(body: MechanicalBody): SignalReference {
   // Each closure owns its pair of scratch numbers: nothing is allocated per frequency.
   const referralChi: [number, number] = [0, 0];
-  const abs2 = (omega: number): number => {
-    susceptibilityInto(body, omega, referralChi);
-    const re = referralChi[0];
-    const im = referralChi[1];
-    return re * re + im * im;
-  };
+  const abs2 = (omega: number): number => modulusSquared(susceptibilityInto(body, omega, referralChi));
   const sqlChi: [number, number] = [0, 0];
   const curves: ReferenceCurve[] = [
     {
       id: "sql",
       label: body.omega > 0 ? "SQL (oscillator, 2ħ|χ|)" : "SQL (free mass, 2ħ/(mΩ²))",
       // Force SQL 2ħ/|χ|; displacement 2ħ|χ| follows through the |χ|² referral.
-      psd: (omega) => {
-        susceptibilityInto(body, omega, sqlChi);
-        const re = sqlChi[0];
-        const im = sqlChi[1];
-        return displacementSql(sqlChi) / (re * re + im * im);
-      },
+      psd: (omega) => displacementSql(susceptibilityInto(body, omega, sqlChi)) / modulusSquared(sqlChi),
     },
   ];
   if (body.baths.length > 0) {
@@ -159,12 +154,7 @@ export function forceSignalReference(body: MechanicalBody): SignalReference {
     curves.push({
       id: "zero-point",
       label: "zero-point motion (2ħ|Im χ|)",
-      psd: (omega) => {
-        susceptibilityInto(body, omega, zeroPointChi);
-        const re = zeroPointChi[0];
-        const im = zeroPointChi[1];
-        return zeroPointDisplacementPsd(zeroPointChi) / (re * re + im * im);
-      },
+      psd: (omega) => zeroPointDisplacementPsd(susceptibilityInto(body, omega, zeroPointChi)) / modulusSquared(zeroPointChi),
     });
     if (body.baths.some((b) => b.temperature > 0)) {
       curves.push({
