@@ -1,9 +1,9 @@
 import { componentKind } from "../components/registry";
 import type { QuantityParam } from "../components/types";
 import { QuietframeError } from "../errors";
-import { describeRange } from "../setup/params";
+import { describeRange, exactSiText } from "../setup/params";
 import type { ResolvedSetup } from "../setup/validate";
-import { formatQuantity, parseQuantity, QUANTITY_KIND_INFO } from "../units";
+import { formatQuantity, parseQuantity } from "../units";
 
 /**
  * The parameters a design search varies: "component.parameter" targets resolved against a
@@ -93,8 +93,7 @@ export function withinBounds(p: DesignParameter, x: number): boolean {
  * in the SI unit of the quantity), so a trial value is what the search asked for, bit for bit.
  */
 export function exactText(x: number, p: DesignParameter): string | number {
-  const unit = QUANTITY_KIND_INFO[p.spec.kind].siUnit;
-  return unit === "" ? x : `${String(x)} ${unit}`;
+  return exactSiText(x, p.spec.kind);
 }
 
 /** A value for display (six significant digits, the quantity's usual unit). */

@@ -19,12 +19,17 @@ export function quantilesBySelection(values: Float64Array, ps: readonly number[]
       return ps.map((p) => quantileSorted(values, p));
     }
   }
+  // Every selection leaves its order statistic in place with nothing larger left of it, so a
+  // later, higher one is selected right of it only (the quantiles come in rising order).
+  let selected = 0;
   return ps.map((p) => {
     if (n === 0) return NaN;
     const h = (n - 1) * p;
     const lo = Math.floor(h);
-    if (lo >= n - 1) return orderStatistic(values, n - 1);
-    const a = orderStatistic(values, lo);
+    const k = lo >= n - 1 ? n - 1 : lo;
+    const a = orderStatistic(values, k, k >= selected ? selected : 0);
+    selected = k;
+    if (lo >= n - 1) return a;
     // After selecting lo, everything right of it is ≥ it: the next order statistic is their minimum.
     let b = values[lo + 1];
     for (let i = lo + 2; i < n; i++) if (values[i] < b) b = values[i];
@@ -32,9 +37,12 @@ export function quantilesBySelection(values: Float64Array, ps: readonly number[]
   });
 }
 
-/** The k-th smallest (0-based) of values; on return values[k] holds it, smaller ones lie left and larger ones right. */
-function orderStatistic(values: Float64Array, k: number): number {
-  let left = 0;
+/**
+ * The k-th smallest (0-based) of values; on return values[k] holds it, smaller ones lie left and
+ * larger ones right. `from` ≤ k: the first index that can hold it (none left of it is larger).
+ */
+function orderStatistic(values: Float64Array, k: number, from: number): number {
+  let left = from;
   let right = values.length - 1;
   while (right > left) {
     // Median of three as the pivot, so sorted or reversed data cost no more than random data.

@@ -10,7 +10,7 @@
  *   both; always physical; χ = 1/(m(Ω_m² + γ²/4 − Ω² − iγΩ)).
  */
 import { BOLTZMANN, HBAR } from "../constants";
-import { displacementSql, oscillatorSusceptibility, thermalForcePsd, thermalOccupation, zeroPointDisplacementPsd } from "../reference/limits";
+import { displacementSql, thermalForcePsd, thermalOccupation, zeroPointDisplacementPsd } from "../reference/limits";
 import type { NetworkBuilder } from "../network/builder";
 import type { MechanicalBody, ThermalBathInfo } from "./mechanical-body";
 import type { ReferenceCurve, SignalReference } from "./signal-reference";
@@ -95,42 +95,79 @@ export function totalDamping(body: MechanicalBody): number {
  * χ = 1/(m(Ω_m² + (γ_s/2 − iΩ)(γ_s/2 + γ_v − iΩ))), which is the textbook form when γ_s = 0.
  */
 export function susceptibility(body: MechanicalBody, omega: number): [number, number] {
-  const gs = body.baths.reduce((sum, b) => sum + (b.kind === "symmetric" ? b.gamma : 0), 0);
-  if (gs === 0) return oscillatorSusceptibility(body.massSign * body.mass, body.omega, totalDamping(body), omega);
-  const gv = totalDamping(body) - gs;
+  return susceptibilityInto(body, omega, [0, 0]);
+}
+
+/**
+ * susceptibility() written into `out` and returned: the same operations in the same order, so
+ * the same bits, without a new pair. Reference curves call it at every frequency of every budget.
+ */
+function susceptibilityInto(body: MechanicalBody, omega: number, out: [number, number]): [number, number] {
+  // Sums in bath order from 0, as totalDamping() does, so the damping rates keep their bits.
+  let gs = 0;
+  let total = 0;
+  for (let k = 0; k < body.baths.length; k++) {
+    const bath = body.baths[k]!;
+    if (bath.kind === "symmetric") gs += bath.gamma;
+    total += bath.gamma;
+  }
   const m = body.massSign * body.mass;
-  // (γ_s/2 − iΩ)(γ_s/2 + γ_v − iΩ) = γ_s/2 (γ_s/2 + γ_v) − Ω² − iΩ(γ_s + γ_v)
-  const dr = m * (body.omega * body.omega + (gs / 2) * (gs / 2 + gv) - omega * omega);
-  const di = -m * omega * (gs + gv);
+  let dr: number;
+  let di: number;
+  if (gs === 0) {
+    // The textbook form, as oscillatorSusceptibility(m, Ω_m, γ, Ω) writes it.
+    dr = m * (body.omega * body.omega - omega * omega);
+    di = -m * total * omega;
+  } else {
+    const gv = total - gs;
+    // (γ_s/2 − iΩ)(γ_s/2 + γ_v − iΩ) = γ_s/2 (γ_s/2 + γ_v) − Ω² − iΩ(γ_s + γ_v)
+    dr = m * (body.omega * body.omega + (gs / 2) * (gs / 2 + gv) - omega * omega);
+    di = -m * omega * (gs + gv);
+  }
   const d2 = dr * dr + di * di;
-  return [dr / d2, -di / d2];
+  out[0] = dr / d2;
+  out[1] = -di / d2;
+  return out;
+}
+
+/** |χ|² of a pair susceptibilityInto has just filled (read after the call that fills it). */
+function modulusSquared(chi: [number, number]): number {
+  return chi[0] * chi[0] + chi[1] * chi[1];
 }
 
 /** Signal "force" on a body: noise can be referred to force (N) or displacement (m = force·|χ|). */
 export function forceSignalReference(body: MechanicalBody): SignalReference {
-  const abs2 = (omega: number): number => {
-    const [re, im] = susceptibility(body, omega);
-    return re * re + im * im;
-  };
+  // Each closure owns its pair of scratch numbers: nothing is allocated per frequency.
+  const referralChi: [number, number] = [0, 0];
+  const abs2 = (omega: number): number => modulusSquared(susceptibilityInto(body, omega, referralChi));
+  const sqlChi: [number, number] = [0, 0];
   const curves: ReferenceCurve[] = [
     {
       id: "sql",
       label: body.omega > 0 ? "SQL (oscillator, 2ħ|χ|)" : "SQL (free mass, 2ħ/(mΩ²))",
       // Force SQL 2ħ/|χ|; displacement 2ħ|χ| follows through the |χ|² referral.
-      psd: (omega) => displacementSql(susceptibility(body, omega)) / abs2(omega),
+      psd: (omega) => displacementSql(susceptibilityInto(body, omega, sqlChi)) / modulusSquared(sqlChi),
     },
   ];
   if (body.baths.length > 0) {
+    const zeroPointChi: [number, number] = [0, 0];
     curves.push({
       id: "zero-point",
       label: "zero-point motion (2ħ|Im χ|)",
-      psd: (omega) => zeroPointDisplacementPsd(susceptibility(body, omega)) / abs2(omega),
+      psd: (omega) => zeroPointDisplacementPsd(susceptibilityInto(body, omega, zeroPointChi)) / modulusSquared(zeroPointChi),
     });
     if (body.baths.some((b) => b.temperature > 0)) {
       curves.push({
         id: "thermal",
         label: "thermal force (quantum FDT)",
-        psd: (omega) => body.baths.reduce((s, b) => s + thermalForcePsd(body.mass, b.gamma, b.temperature, omega), 0),
+        psd: (omega) => {
+          let sum = 0;
+          for (let k = 0; k < body.baths.length; k++) {
+            const bath = body.baths[k]!;
+            sum += thermalForcePsd(body.mass, bath.gamma, bath.temperature, omega);
+          }
+          return sum;
+        },
       });
     }
   }

@@ -1,6 +1,7 @@
 import { QuietframeError } from "../errors";
 import type { ChoiceParam, ComponentKind, ParamValues, QuantityParam } from "../components/types";
-import { formatQuantity, parseQuantity, type QuantityKind } from "../units";
+import { formatQuantity, parseQuantity, QUANTITY_KIND_INFO, type QuantityKind } from "../units";
+import { unitScale } from "../units/units";
 
 /**
  * Parses one component's parameters into SI numbers, once, at the edge. Unknown names,
@@ -58,7 +59,7 @@ function resolveQuantity(spec: QuantityParam, input: unknown, path: string): num
  * re-validating a set-up for each value set would otherwise parse its unchanged texts again.
  */
 function parseText(text: string, kind: QuantityKind, path: string): number {
-  const key = `${kind}\u0000${text}`;
+  const key = textKey(kind, text);
   const known = parsedTexts.get(key);
   if (known !== undefined) return known;
   const v = parseQuantity(text, kind, path);
@@ -70,6 +71,32 @@ function parseText(text: string, kind: QuantityKind, path: string): number {
 /** Texts remembered at most (a few hundred bytes each); the memory starts over when full. */
 const MAX_PARSED_TEXTS = 4096;
 const parsedTexts = new Map<string, number>();
+const textKey = (kind: QuantityKind, text: string): string => `${kind}\u0000${text}`;
+
+/**
+ * An SI value as text in the SI unit of its kind that parses back to exactly the same double
+ * (shortest round-trip digits): a number for kinds without a unit, else "<digits> <unit>".
+ * The text's parse is remembered too, so a search that writes each trial this way and
+ * re-validates the set-up does not parse it again: with the SI unit's scale exactly 1, the
+ * parse is Number("<digits>e0"), which is x itself for every finite x but ±0 ("0" loses the sign
+ * of −0, so zeros are parsed as written).
+ */
+export function exactSiText(x: number, kind: QuantityKind): string | number {
+  const unit = QUANTITY_KIND_INFO[kind].siUnit;
+  if (unit === "") return x;
+  const text = `${String(x)} ${unit}`;
+  if (Number.isFinite(x) && x !== 0 && hasUnitScale(kind, unit)) {
+    if (parsedTexts.size >= MAX_PARSED_TEXTS) parsedTexts.clear();
+    parsedTexts.set(textKey(kind, text), x);
+  }
+  return text;
+}
+
+/** Whether `unit` of `kind` is the SI unit itself: no power of ten, no factor. */
+function hasUnitScale(kind: QuantityKind, unit: string): boolean {
+  const scale = unitScale(kind, unit);
+  return scale !== undefined && scale.pow10 === 0 && scale.factor === 1;
+}
 
 export function describeRange(spec: QuantityParam): string {
   const show = (x: number): string => formatQuantity(x, spec.kind);

@@ -32,6 +32,19 @@ describe("quantilesBySelection", () => {
     );
   });
 
+  it("gives the same quantiles asked in any order (later selections reuse earlier ones only when they lie to the right)", () => {
+    const shuffled = [0.95, 0.05, 1, 0.5, 0, 0.25, 0.25, 0.9];
+    fc.assert(
+      fc.property(fc.array(fc.integer({ min: -20, max: 20 }), { minLength: 1, maxLength: 200 }), (ints) => {
+        const values = ints.map((k) => k * 0.25 + 0.125);
+        const sorted = Float64Array.from(values).sort();
+        const expected = shuffled.map((p) => quantileSorted(sorted, p));
+        expect(quantilesBySelection(Float64Array.from(values), shuffled)).toEqual(expected);
+      }),
+      { seed: 20261205, numRuns: 300 },
+    );
+  });
+
   it("sorted, reversed and constant columns of 100,001 values", () => {
     const n = 100_001;
     const up = Float64Array.from({ length: n }, (_, i) => 1 + i * 1e-3);
