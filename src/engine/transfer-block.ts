@@ -7,7 +7,7 @@
  * model keeps TransferEvaluator's closed-form 2×2 inverse, one frequency at a time.
  */
 import type { StateSpaceModel } from "../network/model";
-import { TransferEvaluator, undampedModeError } from "./transfer";
+import { layOutFixedParts, TransferEvaluator, undampedModeError } from "./transfer";
 
 /** Frequencies per block: long enough for the loops, short enough that a large model's block stays in cache. */
 export const TRANSFER_BLOCK = 64;
@@ -117,41 +117,16 @@ export class TransferBlock {
     this.piv = this.ints.subarray(0, lu * B);
     this.eliminate = this.ints.subarray(lu * B, (lu + 1) * B);
     // The Ω-independent parts, laid out as TransferEvaluator lays them out.
-    this.negA = new Float64Array(n * n);
-    for (let i = 0; i < n * n; i++) this.negA[i] = -model.A[i];
-    this.cT = new Float64Array(n * p);
-    this.dRows = new Float64Array(p * m);
-    this.sD = new Float64Array(p);
-    for (let k = 0; k < p; k++) {
-      const row = rows[k];
-      for (let j = 0; j < n; j++) this.cT[j * p + k] = model.C[row * n + j];
-      for (let c = 0; c < m; c++) this.dRows[k * m + c] = model.D[row * m + c];
-      this.sD[k] = model.signalD[row];
-    }
-    const start: number[] = [0];
-    const bRow: number[] = [];
-    const bVal: number[] = [];
-    for (let c = 0; c < m; c++) {
-      for (let j = 0; j < n; j++) {
-        const b = model.B[j * m + c];
-        if (b === 0) continue;
-        bRow.push(j);
-        bVal.push(b);
-      }
-      start.push(bRow.length);
-    }
-    this.bStart = Int32Array.from(start);
-    this.bRow = Int32Array.from(bRow);
-    this.bVal = Float64Array.from(bVal);
-    const sRow: number[] = [];
-    const sVal: number[] = [];
-    for (let j = 0; j < n; j++) {
-      if (model.signalB[j] === 0) continue;
-      sRow.push(j);
-      sVal.push(model.signalB[j]);
-    }
-    this.sRow = Int32Array.from(sRow);
-    this.sVal = Float64Array.from(sVal);
+    const fixed = layOutFixedParts(model, rows);
+    this.negA = fixed.negA;
+    this.cT = fixed.cT;
+    this.dRows = fixed.dRows;
+    this.sD = fixed.sD;
+    this.bStart = fixed.bStart;
+    this.bRow = fixed.bRow;
+    this.bVal = fixed.bVal;
+    this.sRow = fixed.sRow;
+    this.sVal = fixed.sVal;
     if (n === 2) this.single = new TransferEvaluator(model, rows);
   }
 

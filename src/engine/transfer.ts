@@ -44,7 +44,6 @@ export class TransferEvaluator {
   private readonly mRe: Float64Array;
   private readonly mIm: Float64Array;
   private readonly piv: Int32Array;
-  /** Reciprocals of the pivots of the last factorisation. */
   /** Reciprocals of the pivots, kept by the factorisation for the solve. */
   private readonly inverses: PivotInverses;
   /** G = C_r (−iΩ I − A)⁻¹ after `at`, stored transposed (n×p: G[k, j] at j·p + k). */
@@ -63,41 +62,16 @@ export class TransferEvaluator {
     this.hIm = new Float64Array(p * m);
     this.sRe = new Float64Array(p);
     this.sIm = new Float64Array(p);
-    this.negA = new Float64Array(n * n);
-    for (let i = 0; i < n * n; i++) this.negA[i] = -model.A[i];
-    this.cT = new Float64Array(n * p);
-    this.dRows = new Float64Array(p * m);
-    this.sD = new Float64Array(p);
-    for (let k = 0; k < p; k++) {
-      const row = rows[k];
-      for (let j = 0; j < n; j++) this.cT[j * p + k] = model.C[row * n + j];
-      for (let c = 0; c < m; c++) this.dRows[k * m + c] = model.D[row * m + c];
-      this.sD[k] = model.signalD[row];
-    }
-    const start: number[] = [0];
-    const bRow: number[] = [];
-    const bVal: number[] = [];
-    for (let c = 0; c < m; c++) {
-      for (let j = 0; j < n; j++) {
-        const b = model.B[j * m + c];
-        if (b === 0) continue;
-        bRow.push(j);
-        bVal.push(b);
-      }
-      start.push(bRow.length);
-    }
-    this.bStart = Int32Array.from(start);
-    this.bRow = Int32Array.from(bRow);
-    this.bVal = Float64Array.from(bVal);
-    const sRow: number[] = [];
-    const sVal: number[] = [];
-    for (let j = 0; j < n; j++) {
-      if (model.signalB[j] === 0) continue;
-      sRow.push(j);
-      sVal.push(model.signalB[j]);
-    }
-    this.sRow = Int32Array.from(sRow);
-    this.sVal = Float64Array.from(sVal);
+    const fixed = layOutFixedParts(model, rows);
+    this.negA = fixed.negA;
+    this.cT = fixed.cT;
+    this.dRows = fixed.dRows;
+    this.sD = fixed.sD;
+    this.bStart = fixed.bStart;
+    this.bRow = fixed.bRow;
+    this.bVal = fixed.bVal;
+    this.sRow = fixed.sRow;
+    this.sVal = fixed.sVal;
     this.mRe = new Float64Array(n * n);
     this.mIm = new Float64Array(n * n);
     this.piv = new Int32Array(n);
@@ -210,4 +184,69 @@ export class TransferEvaluator {
       sIm[k] = im;
     }
   }
+}
+
+/** The Ω-independent parts of a transfer solve, laid out once per model. */
+export interface FixedParts {
+  /** −A (n×n, row-major): the matrix −iΩ I − A is this with −Ω on the diagonal's imaginary part. */
+  readonly negA: Float64Array;
+  /** C_rᵀ (n×p), the right-hand side of every solve. */
+  readonly cT: Float64Array;
+  readonly dRows: Float64Array;
+  readonly sD: Float64Array;
+  /** Non-zero entries of B by column (compressed columns): state index and value. */
+  readonly bStart: Int32Array;
+  readonly bRow: Int32Array;
+  readonly bVal: Float64Array;
+  /** Non-zero entries of the signal's column b_s. */
+  readonly sRow: Int32Array;
+  readonly sVal: Float64Array;
+}
+
+/** Lays out the Ω-independent parts of `model` for the output `rows`. */
+export function layOutFixedParts(model: StateSpaceModel, rows: readonly number[]): FixedParts {
+  const n = model.nStates;
+  const m = model.nInputs;
+  const p = rows.length;
+  const negA = new Float64Array(n * n);
+  for (let i = 0; i < n * n; i++) negA[i] = -model.A[i];
+  const cT = new Float64Array(n * p);
+  const dRows = new Float64Array(p * m);
+  const sD = new Float64Array(p);
+  for (let k = 0; k < p; k++) {
+    const row = rows[k];
+    for (let j = 0; j < n; j++) cT[j * p + k] = model.C[row * n + j];
+    for (let c = 0; c < m; c++) dRows[k * m + c] = model.D[row * m + c];
+    sD[k] = model.signalD[row];
+  }
+  const start: number[] = [0];
+  const bRow: number[] = [];
+  const bVal: number[] = [];
+  for (let c = 0; c < m; c++) {
+    for (let j = 0; j < n; j++) {
+      const b = model.B[j * m + c];
+      if (b === 0) continue;
+      bRow.push(j);
+      bVal.push(b);
+    }
+    start.push(bRow.length);
+  }
+  const sRow: number[] = [];
+  const sVal: number[] = [];
+  for (let j = 0; j < n; j++) {
+    if (model.signalB[j] === 0) continue;
+    sRow.push(j);
+    sVal.push(model.signalB[j]);
+  }
+  return {
+    negA,
+    cT,
+    dRows,
+    sD,
+    bStart: Int32Array.from(start),
+    bRow: Int32Array.from(bRow),
+    bVal: Float64Array.from(bVal),
+    sRow: Int32Array.from(sRow),
+    sVal: Float64Array.from(sVal),
+  };
 }
