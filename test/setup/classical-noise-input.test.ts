@@ -2,12 +2,12 @@ import { mkdtempSync, rmSync, writeFileSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { afterAll, describe, expect, it } from "vitest";
-import { QuietframeError, QuietframeErrors } from "../../src/errors";
 import { evaluate, loadSetup, prepare } from "../../src/pipeline";
 import type { SetupDescription } from "../../src/setup/format";
 import { loadSetupFile } from "../../src/setup/load-file";
 import { parseSpectrumCsv } from "../../src/setup/spectrum-csv";
 import { probedBody } from "../helpers/setups";
+import { singleProblemOf } from "../helpers/errors";
 
 const folder = mkdtempSync(join(tmpdir(), "quietframe-spectra-"));
 afterAll(() => rmSync(folder, { recursive: true, force: true }));
@@ -29,17 +29,6 @@ function files(csv: string, name: string): string {
   const path = join(folder, `${name}.json`);
   writeFileSync(path, JSON.stringify(setupWith({ file: `${name}.csv` })));
   return path;
-}
-
-function problemOf(fn: () => unknown): QuietframeError {
-  try {
-    fn();
-  } catch (e) {
-    if (e instanceof QuietframeError) return e;
-    if (e instanceof QuietframeErrors && e.problems.length === 1) return e.problems[0];
-    throw e;
-  }
-  throw new Error("expected a QuietframeError");
 }
 
 describe("spectrum files", () => {
@@ -72,7 +61,7 @@ describe("spectrum files", () => {
     ["a single point", "frequency [Hz], ASD [N/√Hz]\n1, 1e-12", '"single.csv"', "needs at least two"],
   ])("refuse %s, naming the file and the line", (label, csv, where, problem) => {
     const name = label === "a single point" ? "single" : label.replace(/[^a-z]+/g, "-");
-    const e = problemOf(() => loadSetupFile(files(csv, name)));
+    const e = singleProblemOf(() => loadSetupFile(files(csv, name)));
     expect(e.path).toContain(`"${name}.csv"`);
     expect(e.path).toContain(where);
     expect(e.message).toContain(problem);
@@ -81,7 +70,7 @@ describe("spectrum files", () => {
 
   it("refuse a grid the spectrum does not cover, naming the file and the line of the end point", () => {
     const description = loadSetupFile(files(GOOD_CSV, "narrow"));
-    const e = problemOf(() => evaluate(prepare(description), { from: 0.5, to: 100, points: 11 }));
+    const e = singleProblemOf(() => evaluate(prepare(description), { from: 0.5, to: 100, points: 11 }));
     expect(e.path).toBe('"narrow.csv", line 3');
     expect(e.message).toContain("covers 1 Hz to 1 kHz");
     expect(e.allowed).toContain('"power-law"');
@@ -90,13 +79,13 @@ describe("spectrum files", () => {
   it("that are missing are named with the folder looked in", () => {
     const path = join(folder, "missing.json");
     writeFileSync(path, JSON.stringify(setupWith({ file: "nowhere.csv" })));
-    const e = problemOf(() => loadSetupFile(path));
+    const e = singleProblemOf(() => loadSetupFile(path));
     expect(e.path).toBe("classicalNoise[0].spectrum.file");
     expect(e.message).toContain("does not exist");
   });
 
   it("are not read by the browser-safe loader, which says how to load them", () => {
-    const e = problemOf(() => loadSetup(setupWith({ file: "good.csv" })));
+    const e = singleProblemOf(() => loadSetup(setupWith({ file: "good.csv" })));
     expect(e.path).toBe("classicalNoise[0].spectrum.file");
     expect(e.message).toContain("read when a set-up file is loaded in Node");
   });
@@ -218,7 +207,7 @@ describe("classical noise in a set-up", () => {
       "takes no classical noise",
     ],
   ])("refuses %s, naming the field", (_, description, path, problem) => {
-    const e = problemOf(() => loadSetup(description));
+    const e = singleProblemOf(() => loadSetup(description));
     expect(e.path).toBe(path);
     expect(e.message).toContain(problem);
   });

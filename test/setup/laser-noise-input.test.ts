@@ -7,11 +7,11 @@ import { mkdtempSync, rmSync, writeFileSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { afterAll, describe, expect, it } from "vitest";
-import { QuietframeError, QuietframeErrors } from "../../src/errors";
 import { evaluate, prepare } from "../../src/pipeline";
 import type { SetupDescription } from "../../src/setup/format";
 import { loadSetupFile } from "../../src/setup/load-file";
 import { cavityReadout, probedBody, setup, sumTerms } from "../helpers/setups";
+import { singleProblemOf } from "../helpers/errors";
 
 const folder = mkdtempSync(join(tmpdir(), "quietframe-laser-spectra-"));
 afterAll(() => rmSync(folder, { recursive: true, force: true }));
@@ -33,17 +33,6 @@ const rin = (
     [1e5, 1e-8],
   ],
 ) => ({ enters: "laser intensity", spectrum: { unit, points } });
-
-function problemOf(fn: () => unknown): QuietframeError {
-  try {
-    fn();
-  } catch (e) {
-    if (e instanceof QuietframeError) return e;
-    if (e instanceof QuietframeErrors && e.problems.length === 1) return e.problems[0];
-    throw e;
-  }
-  throw new Error("expected a QuietframeError");
-}
 
 describe("laser-noise units", () => {
   it.each(["1/√Hz", "1/sqrtHz", "1/sqrt(Hz)", "1/rtHz", "Hz^-1/2", "Hz^(-1/2)", "/√Hz"])("relative intensity noise in %s is the same term", (unit) => {
@@ -88,7 +77,7 @@ describe("laser-noise units", () => {
 
 describe("laser-noise refusals", () => {
   it("RIN given as a displacement ASD: the unit is refused, naming what relative intensity noise takes", () => {
-    const e = problemOf(() => prepare(cavityWith(rin("m/√Hz"))));
+    const e = singleProblemOf(() => prepare(cavityWith(rin("m/√Hz"))));
     expect(e.path).toBe("classicalNoise[0].spectrum.unit");
     expect(e.message).toContain('"m/√Hz"');
     expect(e.message).toContain("relative intensity noise (δP/P) per root hertz");
@@ -96,7 +85,7 @@ describe("laser-noise refusals", () => {
   });
 
   it("frequency noise given in 1/√Hz: refused, naming hertz of laser frequency", () => {
-    const e = problemOf(() =>
+    const e = singleProblemOf(() =>
       prepare(
         cavityWith({
           enters: "laser frequency",
@@ -116,7 +105,7 @@ describe("laser-noise refusals", () => {
   });
 
   it("a negative RIN value: refused, naming the point", () => {
-    const e = problemOf(() =>
+    const e = singleProblemOf(() =>
       prepare(
         cavityWith(
           rin("1/√Hz", [
@@ -132,7 +121,7 @@ describe("laser-noise refusals", () => {
   });
 
   it("a cavity given neither power nor photons: refused at the cavity's power, naming the term", () => {
-    const e = problemOf(() => prepare(cavityWith(rin("1/√Hz"), { linewidth: "100 kHz", length: "10 cm" })));
+    const e = singleProblemOf(() => prepare(cavityWith(rin("1/√Hz"), { linewidth: "100 kHz", length: "10 cm" })));
     expect(e.path).toBe("components.cavity.power");
     expect(e.message).toContain("'laser-noise'");
     expect(e.allowed).toContain("photons");
@@ -153,7 +142,7 @@ describe("laser-noise refusals", () => {
         } as never,
       ],
     };
-    const e = problemOf(() => prepare(description));
+    const e = singleProblemOf(() => prepare(description));
     expect(e.path).toBe("components.probe.power");
     expect(e.message).toContain("measurement rate");
   });
@@ -176,7 +165,7 @@ describe("laser-noise refusals", () => {
         } as never,
       ],
     };
-    const e = problemOf(() => prepare(description));
+    const e = singleProblemOf(() => prepare(description));
     expect(e.path).toBe("classicalNoise[0].enters");
     expect(e.message).toContain("no resonator");
     expect(e.allowed).toContain('"laser intensity"');
@@ -211,7 +200,7 @@ describe("laser-noise refusals", () => {
         ],
       },
     );
-    const e = problemOf(() => prepare(description));
+    const e = singleProblemOf(() => prepare(description));
     expect(e.path).toBe("classicalNoise[0].enters");
     expect(e.message).toContain("dark port");
     expect(e.message).toContain("imbalance of the arms");
@@ -235,7 +224,7 @@ describe("laser-noise refusals", () => {
       ],
       { classicalNoise: [{ name: "laser-noise", on: "light", ...rin("1/√Hz") } as never] },
     );
-    const e = problemOf(() => prepare(description));
+    const e = singleProblemOf(() => prepare(description));
     expect(e.path).toBe("classicalNoise[0].on");
     expect(e.message).toContain("'light' is a light source");
     expect(e.message).toContain("attach it to the component that carries the drive");
