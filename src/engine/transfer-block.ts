@@ -7,7 +7,7 @@
  * model keeps TransferEvaluator's closed-form 2×2 inverse, one frequency at a time.
  */
 import type { StateSpaceModel } from "../network/model";
-import { layOutFixedParts, TransferEvaluator, undampedModeError } from "./transfer";
+import { type FixedParts, layOutFixedParts, TransferEvaluator, undampedModeError } from "./transfer";
 
 /** Frequencies per block: long enough for the loops, short enough that a large model's block stays in cache. */
 export const TRANSFER_BLOCK = 64;
@@ -56,15 +56,8 @@ export class TransferBlock {
   private readonly n: number;
   private readonly m: number;
   private readonly p: number;
-  private readonly negA: Float64Array;
-  private readonly cT: Float64Array;
-  private readonly dRows: Float64Array;
-  private readonly sD: Float64Array;
-  private readonly bStart: Int32Array;
-  private readonly bRow: Int32Array;
-  private readonly bVal: Float64Array;
-  private readonly sRow: Int32Array;
-  private readonly sVal: Float64Array;
+  /** The Ω-independent parts (layOutFixedParts). */
+  private readonly fixed: FixedParts;
   private readonly mRe: Float64Array;
   private readonly mIm: Float64Array;
   private readonly piv: Int32Array;
@@ -117,16 +110,7 @@ export class TransferBlock {
     this.piv = this.ints.subarray(0, lu * B);
     this.eliminate = this.ints.subarray(lu * B, (lu + 1) * B);
     // The Ω-independent parts, laid out as TransferEvaluator lays them out.
-    const fixed = layOutFixedParts(model, rows);
-    this.negA = fixed.negA;
-    this.cT = fixed.cT;
-    this.dRows = fixed.dRows;
-    this.sD = fixed.sD;
-    this.bStart = fixed.bStart;
-    this.bRow = fixed.bRow;
-    this.bVal = fixed.bVal;
-    this.sRow = fixed.sRow;
-    this.sVal = fixed.sVal;
+    this.fixed = layOutFixedParts(model, rows);
     if (n === 2) this.single = new TransferEvaluator(model, rows);
   }
 
@@ -177,7 +161,8 @@ export class TransferBlock {
    * frequencies factorised: the first whose pivot is zero or not finite ends the block.
    */
   private factor(omegas: Float64Array, from: number, count: number): number {
-    const { n, size: B, negA, mRe: re, mIm: im, piv, invRe, invIm, eliminate, best } = this;
+    const { n, size: B, mRe: re, mIm: im, piv, invRe, invIm, eliminate, best } = this;
+    const { negA } = this.fixed;
     for (let e = 0; e < n * n; e++) {
       const o = e * B;
       re.fill(negA[e], o, o + count);
@@ -277,7 +262,8 @@ export class TransferBlock {
 
   /** Gᵀ from Mᵀ Gᵀ = C_rᵀ at every frequency, as complexLuSolveTransposed does it with the kept reciprocals. */
   private solveTransposed(count: number): void {
-    const { n, p, size: B, piv, invRe, invIm, cT, gRe, gIm } = this;
+    const { n, p, size: B, piv, invRe, invIm, gRe, gIm } = this;
+    const { cT } = this.fixed;
     for (let r = 0; r < n * p; r++) {
       const c = cT[r];
       const o = r * B;
@@ -346,7 +332,8 @@ export class TransferBlock {
 
   /** H = G B + D and h = G b_s + d_s over the non-zero entries of B and b_s, in TransferEvaluator's order. */
   private products(count: number): void {
-    const { m, p, size: B, gRe, gIm, hRe, hIm, sRe, sIm, dRows, bStart, bRow, bVal, sRow, sVal, sD } = this;
+    const { m, p, size: B, gRe, gIm, hRe, hIm, sRe, sIm } = this;
+    const { dRows, bStart, bRow, bVal, sRow, sVal, sD } = this.fixed;
     for (let k = 0; k < p; k++) {
       for (let c = 0; c < m; c++) {
         const o = (k * m + c) * B;

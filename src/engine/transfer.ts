@@ -30,17 +30,8 @@ export class TransferEvaluator {
   private readonly n: number;
   private readonly m: number;
   private readonly p: number;
-  private readonly negA: Float64Array;
-  /** C_rᵀ (n×p), the right-hand side of every solve. */
-  private readonly cT: Float64Array;
-  private readonly dRows: Float64Array;
-  private readonly sD: Float64Array;
-  /** Non-zero entries of B by column (compressed columns): state index and value. */
-  private readonly bStart: Int32Array;
-  private readonly bRow: Int32Array;
-  private readonly bVal: Float64Array;
-  private readonly sRow: Int32Array;
-  private readonly sVal: Float64Array;
+  /** The Ω-independent parts (layOutFixedParts). */
+  private readonly fixed: FixedParts;
   private readonly mRe: Float64Array;
   private readonly mIm: Float64Array;
   private readonly piv: Int32Array;
@@ -62,16 +53,7 @@ export class TransferEvaluator {
     this.hIm = new Float64Array(p * m);
     this.sRe = new Float64Array(p);
     this.sIm = new Float64Array(p);
-    const fixed = layOutFixedParts(model, rows);
-    this.negA = fixed.negA;
-    this.cT = fixed.cT;
-    this.dRows = fixed.dRows;
-    this.sD = fixed.sD;
-    this.bStart = fixed.bStart;
-    this.bRow = fixed.bRow;
-    this.bVal = fixed.bVal;
-    this.sRow = fixed.sRow;
-    this.sVal = fixed.sVal;
+    this.fixed = layOutFixedParts(model, rows);
     this.mRe = new Float64Array(n * n);
     this.mIm = new Float64Array(n * n);
     this.piv = new Int32Array(n);
@@ -87,7 +69,8 @@ export class TransferEvaluator {
    * or not finite.
    */
   private oneMode(omega: number): boolean {
-    const { p, negA, cT, gRe, gIm } = this;
+    const { p, gRe, gIm } = this;
+    const { negA, cT } = this.fixed;
     // M = −iΩ I − A
     const m00r = negA[0];
     const m01r = negA[1];
@@ -124,7 +107,8 @@ export class TransferEvaluator {
 
   /** M = −iΩ I − A factorised in place as P M = L U, keeping the pivots' reciprocals for the solve. */
   private factor(omega: number): void {
-    const { n, negA, mRe: re, mIm: im, piv } = this;
+    const { n, mRe: re, mIm: im, piv } = this;
+    const { negA } = this.fixed;
     // Plain loops: for the few entries of a small model they beat set/fill calls.
     for (let i = 0; i < n * n; i++) {
       re[i] = negA[i];
@@ -141,7 +125,8 @@ export class TransferEvaluator {
 
   /** Gᵀ (n×p) from Mᵀ Gᵀ = C_rᵀ with the factors of `factor`. */
   private solveTransposed(): void {
-    const { n, p, mRe, mIm, piv, cT, gRe, gIm } = this;
+    const { n, p, mRe, mIm, piv, gRe, gIm } = this;
+    const { cT } = this.fixed;
     for (let i = 0; i < n * p; i++) {
       gRe[i] = cT[i];
       gIm[i] = 0;
@@ -158,7 +143,8 @@ export class TransferEvaluator {
       this.factor(omega);
       this.solveTransposed();
     }
-    const { gRe, gIm, hRe, hIm, sRe, sIm, dRows, bStart, bRow, bVal, sRow, sVal } = this;
+    const { gRe, gIm, hRe, hIm, sRe, sIm } = this;
+    const { dRows, bStart, bRow, bVal, sRow, sVal } = this.fixed;
     for (let k = 0; k < p; k++) {
       for (let c = 0; c < m; c++) {
         let re = dRows[k * m + c];
@@ -172,7 +158,7 @@ export class TransferEvaluator {
         hRe[k * m + c] = re;
         hIm[k * m + c] = im;
       }
-      let re = this.sD[k];
+      let re = this.fixed.sD[k];
       let im = 0;
       for (let e = 0; e < sRow.length; e++) {
         const j = sRow[e];
