@@ -1,16 +1,20 @@
 /**
  * Monte Carlo spreads with their samples evaluated on worker threads (Node only, exported from
- * the "quietframe/node" entry). The main thread checks the request, evaluates the nominal figure
- * and makes every draw; workers evaluate chunks of samples with the same code as the
- * in-process run; the result is assembled in sample order, so it has the same bits as
- * spreadAnalysis with the same seed, whatever the number of threads. Progress is told per chunk
- * of samples; a stop (options.signal) terminates every worker before the promise rejects.
+ * the "quietframe/node" entry): fresh threads started for the run, or the warm threads of a
+ * pool (`options.pool`, the TolerancePool a tolerance map takes). The main thread checks the
+ * request, evaluates the nominal figure and makes every draw; workers evaluate chunks of
+ * samples with the same code as the in-process run; the result is assembled in sample order,
+ * so it has the same bits as spreadAnalysis with the same seed, whatever the threads. Progress
+ * is told per chunk of samples; a stop (options.signal) or a failure stops every thread the
+ * run used before the promise rejects (a pool starts fresh ones for its next job).
  */
 import { availableParallelism } from "node:os";
-import { Worker } from "node:worker_threads";
+import type { Worker } from "node:worker_threads";
+import { QuietframeError } from "../errors";
 import type { FigureSpec } from "../figures/spec";
 import type { SetupDescription } from "../setup/format";
-import { CHUNKS_AHEAD, nextChunkSize, workerScript } from "../threads/engine-threads";
+import { CHUNKS_AHEAD, nextChunkSize } from "../threads/engine-threads";
+import { EngineThreadPool, type JobOutcome, type PoolJob } from "../threads/pool";
 import { checkWorkers } from "../threads/worker-count";
 import { runInSlices } from "./slices";
 import { evaluateSamples, finishSpread, planSpread, planSteps, type SampleOutcomes, type SpreadOptions, type SpreadPlan, type SpreadResult } from "./spread";
@@ -21,9 +25,17 @@ import type { UncertaintySpec } from "./uncertainty";
 export interface SpreadThreadOptions extends SpreadOptions {
   /**
    * Threads evaluating samples: an integer ≥ 1, default every core (os.availableParallelism()).
-   * 1 evaluates in this thread, without workers. The result does not depend on it (bit for bit).
+   * 1 evaluates in this thread, without workers. With a pool: at most this many of its threads
+   * (default all of them). The result does not depend on it (bit for bit).
    */
   readonly workers?: number;
+  /**
+   * Warm worker threads (`await TolerancePool.start(n)`, the pool tolerance maps take): the
+   * samples are evaluated on its threads, after the jobs asked of it before, instead of on
+   * threads started and stopped for this run. A stop or failure stops the pool's threads; the
+   * pool stays usable and starts fresh ones for its next job.
+   */
+  readonly pool?: EngineThreadPool;
 }
 
 /** Smallest chunk of samples handed to a worker (a message per sample would cost more than the sample). */
@@ -31,71 +43,118 @@ const SMALLEST_CHUNK = 16;
 
 /** spreadAnalysis with the samples evaluated on worker threads; rejects with the errors spreadAnalysis throws. */
 export async function spreadAnalysisOnThreads(setup: SetupDescription | string, figure: FigureSpec, uncertain: readonly UncertaintySpec[], options: SpreadThreadOptions = {}): Promise<SpreadResult> {
-  const requested = checkWorkers(options.workers, availableParallelism());
+  const pool = checkPool(options.pool);
+  const requested = checkWorkers(options.workers, pool ? pool.size : availableParallelism());
   const signal = checkStopSignal(options.signal);
   const plan = planSpread(setup, figure, uncertain, options);
-  const workers = Math.min(requested, Math.ceil(plan.samples / SMALLEST_CHUNK));
+  const workers = Math.min(requested, Math.ceil(plan.samples / SMALLEST_CHUNK), pool ? pool.size : Infinity);
   // In this thread: in blocks with a turn of the event loop between them, so a stop is heard.
-  if (workers === 1) return options.onProgress || signal ? runInSlices(planSteps(plan, options.onProgress, signal)) : finishSpread(plan, [evaluateSamples(plan, 0, plan.samples)]);
+  if (workers === 1 && !pool) return options.onProgress || signal ? runInSlices(planSteps(plan, options.onProgress, signal)) : finishSpread(plan, [evaluateSamples(plan, 0, plan.samples)]);
   stopIfAborted(signal, "spread", 0, plan.samples, "samples");
   const job: SpreadJobData = { setup, figure, uncertain, options: { grid: options.grid, bands: options.bands }, draws: plan.draws };
-  return finishSpread(plan, await samplesOnThreads(plan, job, workers, options.onProgress, signal), plan.samples);
+  const run: PoolJob<SampleOutcomes[]> = (threads, spread, release) => dispatchSamples(threads, plan, { job, spread }, options.onProgress, signal, release);
+  return finishSpread(plan, await (pool ? pool.runJob(workers, run) : onFreshThreads(workers, run)), plan.samples);
+}
+
+function checkPool(pool: unknown): EngineThreadPool | undefined {
+  if (pool === undefined || pool instanceof EngineThreadPool) return pool;
+  throw new QuietframeError({ path: "options.pool", value: typeof pool, problem: "is not a pool of worker threads", allowed: "await TolerancePool.start(threads)" });
+}
+
+/** A job on `count` threads started for it and stopped before the promise settles. */
+async function onFreshThreads<T>(count: number, run: PoolJob<T>): Promise<T> {
+  const threads = await EngineThreadPool.start(count);
+  try {
+    return await threads.runJob(count, run);
+  } finally {
+    await threads.close();
+  }
 }
 
 /**
- * Every sample of the plan, evaluated on `count` fresh worker threads, which are stopped before
- * the promise settles; an abort stops them and rejects with a DesignRunStopped.
+ * Hands every sample of the plan to the given (started) threads, the job with each thread's
+ * first chunk, and collects the outcomes of spread number `spread`; other replies are not looked
+ * at. On an abort or failure it stops feeding and rejects; `release` is called once, before the
+ * promise settles.
  */
-function samplesOnThreads(plan: SpreadPlan, job: SpreadJobData, count: number, onProgress: SpreadOptions["onProgress"], signal: AbortSignal | undefined): Promise<SampleOutcomes[]> {
-  const script = workerScript();
-  const threads = Array.from({ length: count }, () => new Worker(script, { workerData: { spread: job } }));
+function dispatchSamples(
+  threads: readonly Worker[],
+  plan: SpreadPlan,
+  { job, spread }: { readonly job: SpreadJobData; readonly spread: number },
+  onProgress: SpreadOptions["onProgress"],
+  signal: AbortSignal | undefined,
+  release: (outcome: JobOutcome) => Promise<void>,
+): Promise<SampleOutcomes[]> {
   const parts: SampleOutcomes[] = [];
   return new Promise<SampleOutcomes[]>((resolve, reject) => {
     let next = 0;
     let done = 0;
     let settled = false;
-    // An abort heard once every sample is in (from the last progress call) stops nothing: the result is whole.
-    const onAbort = (): void => {
-      if (done < plan.samples) settle(() => reject(new DesignRunStopped("spread", done, plan.samples, "samples", signal?.reason)));
-    };
-    const settle = (finish: () => void): void => {
+    const jobSent = new Set<Worker>();
+    const cleanups: (() => void)[] = [];
+    const settle = (outcome: JobOutcome, finish: () => void): void => {
       if (settled) return;
       settled = true;
       signal?.removeEventListener("abort", onAbort);
-      void Promise.all(threads.map((w) => w.terminate())).then(finish, finish);
+      for (const c of cleanups) c();
+      void release(outcome).then(finish, finish);
     };
-    signal?.addEventListener("abort", onAbort, { once: true });
+    const fail = (error: unknown): void => settle("failed", () => reject(error));
+    // An abort heard once every sample is in (from the last progress call) stops nothing: the result is whole.
+    function onAbort(): void {
+      if (done < plan.samples) fail(new DesignRunStopped("spread", done, plan.samples, "samples", signal?.reason));
+    }
     const feed = (w: Worker): void => {
-      if (next >= plan.samples) return;
-      const to = next + nextChunkSize(plan.samples - next, count, SMALLEST_CHUNK);
-      w.postMessage({ from: next, to } satisfies ToSpreadWorker);
+      if (next >= plan.samples || settled) return;
+      const to = next + nextChunkSize(plan.samples - next, threads.length, SMALLEST_CHUNK);
+      const withJob = !jobSent.has(w);
+      jobSent.add(w);
+      w.postMessage((withJob ? { spread, job, from: next, to } : { spread, from: next, to }) satisfies ToSpreadWorker);
       next = to;
     };
-    for (const w of threads) {
-      w.on("message", (m: FromSpreadWorker) => {
-        if (settled) return;
-        if (m.type === "ready") {
-          for (let k = 0; k < CHUNKS_AHEAD; k++) feed(w);
-        } else if (m.type === "samples") {
-          parts.push(m.part);
-          done += m.part.values.length;
-          try {
-            onProgress?.(done, plan.samples);
-          } catch (e) {
-            settle(() => reject(e));
-            return;
+    // Aborted while waiting for the pool's earlier jobs: no sample was handed out, the threads are fine.
+    if (signal?.aborted) {
+      settled = true;
+      void release("done").then(() => reject(new DesignRunStopped("spread", 0, plan.samples, "samples", signal.reason)));
+      return;
+    }
+    signal?.addEventListener("abort", onAbort, { once: true });
+    try {
+      for (const w of threads) {
+        const onMessage = (m: FromSpreadWorker): void => {
+          if (settled || m.spread !== spread) return;
+          if (m.type === "samples") {
+            parts.push(m.part);
+            done += m.part.values.length;
+            try {
+              onProgress?.(done, plan.samples);
+            } catch (e) {
+              fail(e);
+              return;
+            }
+            if (done === plan.samples) settle("done", () => resolve(parts));
+            else feed(w);
+          } else {
+            const error = new Error(`spread: samples failed in a worker: ${m.message}`);
+            error.stack = `${error.message}\n--- in the worker ---\n${m.stack}`;
+            fail(error);
           }
-          if (settled) return;
-          if (done === plan.samples) settle(() => resolve(parts));
-          else feed(w);
-        } else {
-          const error = new Error(`spread: samples failed in a worker: ${m.message}`);
-          error.stack = `${error.message}\n--- in the worker ---\n${m.stack}`;
-          settle(() => reject(error));
-        }
-      });
-      w.on("error", (e) => settle(() => reject(e)));
-      w.on("exit", (code) => settle(() => reject(new Error(`a spread worker stopped (exit code ${code}) before the samples were done`))));
+        };
+        const onExit = (code: number): void => fail(new Error(`a spread worker stopped (exit code ${code}) before the samples were done`));
+        w.on("message", onMessage);
+        w.on("error", fail);
+        w.on("messageerror", fail);
+        w.on("exit", onExit);
+        cleanups.push(() => {
+          w.off("message", onMessage);
+          w.off("error", fail);
+          w.off("messageerror", fail);
+          w.off("exit", onExit);
+        });
+        for (let k = 0; k < CHUNKS_AHEAD; k++) feed(w);
+      }
+    } catch (e) {
+      fail(e);
     }
   });
 }

@@ -1,5 +1,6 @@
 import { Worker } from "node:worker_threads";
 import { CHUNKS_AHEAD, nextChunkSize, workerScript } from "../threads/engine-threads";
+import { EngineThreadPool, type JobOutcome } from "../threads/pool";
 import type { RowResult } from "./evaluate";
 import { RowCollector, ToleranceMapCancelled, type ToleranceMapOptions } from "./run";
 import type { TolerancePlan } from "./spec";
@@ -38,7 +39,7 @@ function dispatchRows(
   map: number,
   sendPlan: boolean,
   options: ToleranceMapOptions,
-  release: (outcome: "done" | "failed") => Promise<void>,
+  release: (outcome: JobOutcome) => Promise<void>,
 ): Promise<RowCollector> {
   const collector = new RowCollector(plan);
   const rows = collector.rows;
@@ -54,7 +55,7 @@ function dispatchRows(
     const planSent = new Set<Worker>();
     const cleanups: (() => void)[] = [];
 
-    const settle = (outcome: "done" | "failed", finish: () => void): void => {
+    const settle = (outcome: JobOutcome, finish: () => void): void => {
       if (settled) return;
       settled = true;
       signal?.removeEventListener("abort", onAbort);
@@ -133,82 +134,22 @@ export function runRowsInWorkers(plan: TolerancePlan, workers: number, options: 
 }
 
 /**
- * Worker threads kept running between tolerance maps, so a map does not pay for starting
- * threads and compiling the engine again: start one with `TolerancePool.start()`, pass it as
- * `toleranceMap(setup, spec, { pool })` any number of times (maps on one pool run one after
- * another), and `close()` it when done. A map that fails or is cancelled stops the pool's
- * threads and the pool starts fresh ones for the next map, so no stale row is ever computing.
+ * Worker threads kept running between jobs, so a job does not pay for starting threads and
+ * compiling the engine again: start one with `TolerancePool.start(threads)`, pass it as
+ * `toleranceMap(setup, spec, { pool })` or `spreadAnalysisOnThreads(setup, figure, uncertain,
+ * { pool })` any number of times (jobs on one pool run one after another, in the order they
+ * were asked for), and `close()` it when done. A map or spread that fails or is stopped stops
+ * the pool's threads and the pool starts fresh ones for the next job, so no stale row or
+ * sample is ever computing.
  */
-export class TolerancePool {
-  private workers: Worker[] = [];
-  private maps = 0;
-  private queue: Promise<unknown> = Promise.resolve();
-  private closed = false;
-
-  private constructor(readonly size: number) {}
-
-  /** Starts `size` worker threads (default: every core) and resolves once each has loaded the engine. */
-  static async start(size: number): Promise<TolerancePool> {
-    if (!Number.isInteger(size) || size < 1) throw new RangeError(`a tolerance pool needs an integer number of threads ≥ 1, got ${size}`);
-    const pool = new TolerancePool(size);
-    await pool.spawn();
-    return pool;
+export class TolerancePool extends EngineThreadPool {
+  /** Starts `size` worker threads and resolves once each has loaded the engine. */
+  static override start(size: number): Promise<TolerancePool> {
+    return EngineThreadPool.started(new TolerancePool(size));
   }
 
-  private async spawn(): Promise<void> {
-    const script = workerScript();
-    const workers = Array.from({ length: this.size }, () => new Worker(script));
-    this.workers = workers;
-    await Promise.all(
-      this.workers.map(
-        (w) =>
-          new Promise<void>((resolve, reject) => {
-            const onMessage = (m: FromWorker): void => {
-              if (m.type !== "ready") return;
-              w.off("message", onMessage);
-              w.off("error", reject);
-              resolve();
-            };
-            w.on("message", onMessage);
-            w.once("error", reject);
-          }),
-      ),
-    );
-    // Idle threads do not keep the process alive; a running map holds them (see run).
-    for (const w of workers) w.unref();
-  }
-
-  /** Rows of one map on the pool's threads (at most `limit` of them); waits for maps started before. */
+  /** Rows of one map on the pool's threads (at most `limit` of them); waits for the jobs asked for before. */
   run(plan: TolerancePlan, limit: number, options: ToleranceMapOptions): Promise<RowCollector> {
-    const turn = this.queue.then(async () => {
-      if (this.closed) throw new Error("this tolerance pool is closed");
-      if (this.workers.length === 0) await this.spawn();
-      const map = ++this.maps;
-      const used = this.workers.slice(0, Math.max(1, Math.min(limit, this.workers.length)));
-      for (const w of used) w.ref();
-      return dispatchRows(used, plan, map, true, options, async (outcome) => {
-        for (const w of used) w.unref();
-        // Threads still busy with rows of a failed or cancelled map are stopped, not waited for.
-        if (outcome === "failed") await this.stop();
-      });
-    });
-    this.queue = turn.catch(() => undefined);
-    return turn;
-  }
-
-  private async stop(): Promise<void> {
-    const workers = this.workers;
-    this.workers = [];
-    await Promise.all(workers.map((w) => w.terminate())).then(
-      () => undefined,
-      () => undefined,
-    );
-  }
-
-  /** Stops every thread once the maps already started are done. */
-  async close(): Promise<void> {
-    this.closed = true;
-    await this.queue;
-    await this.stop();
+    return this.runJob(limit, (used, map, release) => dispatchRows(used, plan, map, true, options, release));
   }
 }

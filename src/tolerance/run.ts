@@ -24,9 +24,10 @@ export interface ToleranceMapOptions {
   /** Aborting stops the workers and rejects with a ToleranceMapCancelled. */
   signal?: AbortSignal;
   /**
-   * Node only: worker threads kept warm between maps (`await TolerancePool.start(n)`). The map
-   * then runs on the pool's threads (at most `workers` of them, when given) instead of
-   * starting and stopping its own. The values do not depend on it (bit for bit).
+   * Node only: worker threads kept warm between jobs (`await TolerancePool.start(n)`; maps and
+   * Monte Carlo spreads take the same pool). The map then runs on the pool's threads (at most
+   * `workers` of them, when given) instead of starting and stopping its own. The values do not
+   * depend on it (bit for bit).
    */
   pool?: WarmThreads;
 }

@@ -1,5 +1,5 @@
 import { parentPort, workerData, type MessagePort } from "node:worker_threads";
-import { spreadChunkHandler, type FromSpreadWorker, type SpreadJobData, type ToSpreadWorker } from "../design/spread-job";
+import { spreadChunkHandler, type FromSpreadWorker, type ToSpreadWorker } from "../design/spread-job";
 import { logGrid } from "../setup/grid";
 import { evaluateRow } from "./evaluate";
 import type { TolerancePlan } from "./spec";
@@ -9,21 +9,22 @@ import type { ToWorker, FromWorker } from "./parallel";
  * Entry point of the engine's worker threads (run as the compiled dist/src/tolerance/worker.js).
  * Tolerance maps: a one-map worker receives its plan in workerData; a pooled worker receives a
  * plan with the first chunk of each map. It answers each finished row, then "idle" after each
- * chunk. Monte Carlo spreads: the job comes in workerData (`spread`), and each chunk of samples
- * is answered with their outcomes. Internal errors are reported, not thrown, so the main thread
- * can stop the rest.
+ * chunk. Monte Carlo spreads: the job comes with a thread's first chunk of samples of each
+ * spread, and each chunk is answered with their outcomes. One thread serves maps and spreads
+ * in any order. Internal errors are reported, not thrown, so the main thread can stop the rest.
  */
 const port = parentPort;
 if (!port) throw new Error("the engine's worker must run in a worker thread");
-const data = workerData as { plan?: TolerancePlan; spread?: SpreadJobData } | undefined;
-if (data?.spread) serveSpread(port, data.spread);
-else serveMaps(port, data?.plan);
+const first = (workerData as { plan?: TolerancePlan } | undefined)?.plan;
+const mapRows = mapRowsHandler(port, first);
+const spreadSamples = spreadSamplesHandler(port);
+port.on("message", (message: ToWorker | ToSpreadWorker) => ("spread" in message ? spreadSamples(message) : mapRows(message)));
+port.postMessage({ type: "ready", map: 0 } satisfies FromWorker);
 
-function serveMaps(port: MessagePort, first: TolerancePlan | undefined): void {
+function mapRowsHandler(port: MessagePort, first: TolerancePlan | undefined): (message: ToWorker) => void {
   let plan = first;
   let frequencies = plan ? logGrid(plan.grid) : new Float64Array(0);
-
-  port.on("message", (message: ToWorker) => {
+  return (message) => {
     const { map } = message;
     if (message.plan) {
       plan = message.plan;
@@ -42,20 +43,19 @@ function serveMaps(port: MessagePort, first: TolerancePlan | undefined): void {
       port.postMessage(reply, [reply.row.values.buffer, reply.row.status.buffer] as ArrayBuffer[]);
     }
     port.postMessage({ type: "idle", map } satisfies FromWorker);
-  });
-  port.postMessage({ type: "ready", map: 0 } satisfies FromWorker);
+  };
 }
 
-function serveSpread(port: MessagePort, job: SpreadJobData): void {
-  const evaluate = spreadChunkHandler(job);
-  port.on("message", (chunk: ToSpreadWorker) => {
+function spreadSamplesHandler(port: MessagePort): (chunk: ToSpreadWorker) => void {
+  const evaluate = spreadChunkHandler();
+  return (chunk) => {
+    const { spread } = chunk;
     try {
       const part = evaluate(chunk);
-      port.postMessage({ type: "samples", part } satisfies FromSpreadWorker, [part.values.buffer, part.status.buffer, part.curves.buffer] as ArrayBuffer[]);
+      port.postMessage({ type: "samples", spread, part } satisfies FromSpreadWorker, [part.values.buffer, part.status.buffer, part.curves.buffer] as ArrayBuffer[]);
     } catch (e) {
       const error = e instanceof Error ? e : new Error(String(e));
-      port.postMessage({ type: "failed", message: error.message, stack: error.stack ?? "" } satisfies FromSpreadWorker);
+      port.postMessage({ type: "failed", spread, message: error.message, stack: error.stack ?? "" } satisfies FromSpreadWorker);
     }
-  });
-  port.postMessage({ type: "ready" } satisfies FromSpreadWorker);
+  };
 }
