@@ -10,7 +10,7 @@
  *       wall clock also counts the time spent waiting for a core), with the load average;
  *   7b. a 100,000-sample Monte Carlo of cryogenic-membrane-squeezed.json at 256 frequencies on
  *       a warm pool of worker threads (every core; warmed by a smaller spread), beside fresh
- *       threads and this thread, with the same bits;
+ *       threads and this thread, in rounds that rotate the order, with the same bits;
  *   7c. the same state-space algebra as a NumPy script (numpy.linalg.solve batched over the
  *       frequencies) against the engine's budget, after checking that their numbers agree.
  * Nothing here asserts a time.
@@ -190,42 +190,61 @@ function sameSpread(a, b) {
   );
 }
 
+/** The three ways of running the spread, in the order of the first round; each round starts one later (load drifts on a shared machine). */
+const MC_KINDS = ["pool", "fresh", "one"];
+const MC_ROUNDS = 3;
+
 async function monteCarlo(log) {
   const setup = JSON.parse(readFileSync(join(ROOT, "examples", "cryogenic-membrane-squeezed.json"), "utf8"));
   const cores = os.availableParallelism();
   const options = { samples: MC_SAMPLES, seed: 1, grid: { from: "1.1 MHz", to: "1.3 MHz", points: POINTS }, target: "2 dB" };
   const load0 = os.loadavg()[0];
-  const ceiling = await parallelCeiling(cores);
   // Warm-up of this thread's code, and of the pool's threads by a smaller spread (as the map bench warms its pool).
   qf.spreadAnalysis(setup, MC_FIGURE, MC_UNCERTAIN, { ...options, samples: 2000 });
   log(`monte carlo: warm pool of ${cores} worker threads, warmed by ${MC_WARM_SAMPLES_PER_THREAD * cores} samples`);
   const pool = await qf.TolerancePool.start(cores);
-  let pooled;
+  const runs = {
+    pool: () => qf.spreadAnalysisOnThreads(setup, MC_FIGURE, MC_UNCERTAIN, { ...options, pool }),
+    fresh: () => qf.spreadAnalysisOnThreads(setup, MC_FIGURE, MC_UNCERTAIN, { ...options, workers: cores }),
+    one: async () => qf.spreadAnalysis(setup, MC_FIGURE, MC_UNCERTAIN, options),
+  };
+  const rounds = [];
+  let reference;
+  let identical = true;
   try {
     await qf.spreadAnalysisOnThreads(setup, MC_FIGURE, MC_UNCERTAIN, { ...options, samples: MC_WARM_SAMPLES_PER_THREAD * cores, seed: 2, pool });
-    log(`monte carlo: ${MC_SAMPLES} samples on the warm pool`);
-    pooled = await timedSpread(() => qf.spreadAnalysisOnThreads(setup, MC_FIGURE, MC_UNCERTAIN, { ...options, pool }));
+    for (let r = 0; r < MC_ROUNDS; r++) {
+      const round = { ceiling: await parallelCeiling(cores) };
+      for (let k = 0; k < MC_KINDS.length; k++) {
+        const kind = MC_KINDS[(r + k) % MC_KINDS.length];
+        log(`monte carlo, round ${r + 1} of ${MC_ROUNDS}: ${MC_SAMPLES} samples, ${kind}`);
+        const { ms, cpuMs, result } = await timedSpread(runs[kind]);
+        reference ??= result;
+        identical &&= sameSpread(result, reference);
+        round[kind] = { ms, cpuMs };
+      }
+      rounds.push(round);
+    }
   } finally {
     await pool.close();
   }
-  log(`monte carlo: ${MC_SAMPLES} samples on ${cores} fresh worker threads`);
-  const fresh = await timedSpread(() => qf.spreadAnalysisOnThreads(setup, MC_FIGURE, MC_UNCERTAIN, { ...options, workers: cores }));
-  log(`monte carlo: ${MC_SAMPLES} samples in this thread`);
-  const one = await timedSpread(() => qf.spreadAnalysis(setup, MC_FIGURE, MC_UNCERTAIN, options));
+  const med = (kind, field) => median(rounds.map((r) => r[kind][field]));
   return {
     samples: MC_SAMPLES,
     points: POINTS,
     cores,
-    poolMs: pooled.ms,
-    threadedMs: fresh.ms,
-    oneMs: one.ms,
-    poolCpuMs: pooled.cpuMs,
-    threadedCpuMs: fresh.cpuMs,
-    oneCpuMs: one.cpuMs,
-    speedup: one.ms / pooled.ms,
-    ceiling,
-    failed: one.result.failed,
-    identical: sameSpread(pooled.result, one.result) && sameSpread(fresh.result, one.result),
+    rounds,
+    poolMs: med("pool", "ms"),
+    threadedMs: med("fresh", "ms"),
+    oneMs: med("one", "ms"),
+    poolCpuMs: med("pool", "cpuMs"),
+    threadedCpuMs: med("fresh", "cpuMs"),
+    oneCpuMs: med("one", "cpuMs"),
+    speedup: median(rounds.map((r) => r.one.ms / r.pool.ms)),
+    overFresh: median(rounds.map((r) => r.fresh.ms / r.pool.ms)),
+    ceiling: median(rounds.map((r) => r.ceiling)),
+    failed: reference.failed,
+    identical,
     loadAverage1m: { start: load0, end: os.loadavg()[0] },
   };
 }
@@ -342,10 +361,11 @@ function preparedRows(r) {
     },
     {
       id: "7b",
-      measure: `Monte Carlo, ${mc.samples.toLocaleString("en")} samples × ${mc.points} pts (cryogenic-membrane-squeezed): warm pool of ${mc.cores} worker threads vs this thread`,
+      measure: `Monte Carlo, ${mc.samples.toLocaleString("en")} samples × ${mc.points} pts (cryogenic-membrane-squeezed): warm pool of ${mc.cores} worker threads vs this thread (medians of ${mc.rounds.length} rounds)`,
       result: `${(mc.poolMs / 1000).toFixed(2)} s (${Math.round(mc.samples / (mc.poolMs / 1000)).toLocaleString("en")} samples/s)`,
       detail: [
-        `${mc.cores} fresh threads ${(mc.threadedMs / 1000).toFixed(2)} s · one thread ${(mc.oneMs / 1000).toFixed(2)} s (${Math.round(mc.samples / (mc.oneMs / 1000)).toLocaleString("en")} samples/s) · pool ${x(mc.speedup)} faster than one thread, ${x(mc.threadedMs / mc.poolMs)} than fresh threads · the machine's ceiling now (a fixed loop on ${mc.cores} threads vs 1): ${x(mc.ceiling)}`,
+        `${mc.cores} fresh threads ${(mc.threadedMs / 1000).toFixed(2)} s · one thread ${(mc.oneMs / 1000).toFixed(2)} s (${Math.round(mc.samples / (mc.oneMs / 1000)).toLocaleString("en")} samples/s) · pool ${x(mc.speedup)} faster than one thread, ${x(mc.overFresh)} than fresh threads (medians of the rounds' ratios) · the machine's ceiling (median of the rounds) (a fixed loop on ${mc.cores} threads vs 1): ${x(mc.ceiling)}`,
+        `rounds (pool / fresh / one thread): ${mc.rounds.map((r) => [r.pool, r.fresh, r.one].map((e) => (e.ms / 1000).toFixed(1)).join(" / ")).join(" · ")} s`,
         `CPU time of the process: pool ${(mc.poolCpuMs / 1000).toFixed(2)} s · fresh threads ${(mc.threadedCpuMs / 1000).toFixed(2)} s · one thread ${(mc.oneCpuMs / 1000).toFixed(2)} s · load avg (1 min) ${mc.loadAverage1m.start.toFixed(1)} → ${mc.loadAverage1m.end.toFixed(1)}`,
         `same bits on the pool, on fresh threads and in this thread: ${mc.identical ? "yes" : "NO"} · samples without a value: ${mc.failed.unstable + mc.failed.invalid}`,
       ],
