@@ -13,7 +13,8 @@ import type { Worker } from "node:worker_threads";
 import { QuietframeError } from "../errors";
 import type { FigureSpec } from "../figures/spec";
 import type { SetupDescription } from "../setup/format";
-import { CHUNKS_AHEAD, nextChunkSize } from "../threads/engine-threads";
+import { dispatchOnThreads } from "../threads/dispatch";
+import { nextChunkSize } from "../threads/engine-threads";
 import { EngineThreadPool, type JobOutcome, type PoolJob } from "../threads/pool";
 import { checkWorkers } from "../threads/worker-count";
 import { runInSlices } from "./slices";
@@ -73,9 +74,9 @@ async function onFreshThreads<T>(count: number, run: PoolJob<T>): Promise<T> {
 
 /**
  * Hands every sample of the plan to the given (started) threads, the job with each thread's
- * first chunk, and collects the outcomes of spread number `spread`; other replies are not looked
- * at. On an abort or failure it stops feeding and rejects; `release` is called once, before the
- * promise settles.
+ * first chunk, and collects the outcomes of spread number `spread` (other replies are not looked
+ * at). On an abort or failure it stops feeding and rejects (dispatch.ts calls `release` once
+ * first).
  */
 function dispatchSamples(
   threads: readonly Worker[],
@@ -86,75 +87,43 @@ function dispatchSamples(
   release: (outcome: JobOutcome) => Promise<void>,
 ): Promise<SampleOutcomes[]> {
   const parts: SampleOutcomes[] = [];
-  return new Promise<SampleOutcomes[]>((resolve, reject) => {
-    let next = 0;
-    let done = 0;
-    let settled = false;
-    const jobSent = new Set<Worker>();
-    const cleanups: (() => void)[] = [];
-    const settle = (outcome: JobOutcome, finish: () => void): void => {
-      if (settled) return;
-      settled = true;
-      signal?.removeEventListener("abort", onAbort);
-      for (const c of cleanups) c();
-      void release(outcome).then(finish, finish);
-    };
-    const fail = (error: unknown): void => settle("failed", () => reject(error));
+  let next = 0;
+  let done = 0;
+  const jobSent = new Set<Worker>();
+  const feed = (w: Worker): void => {
+    if (next >= plan.samples) return;
+    const to = next + nextChunkSize(plan.samples - next, threads.length, SMALLEST_CHUNK);
+    const withJob = !jobSent.has(w);
+    jobSent.add(w);
+    w.postMessage((withJob ? { spread, job, from: next, to } : { spread, from: next, to }) satisfies ToSpreadWorker);
+    next = to;
+  };
+  return dispatchOnThreads<SampleOutcomes[], FromSpreadWorker>({
+    threads,
+    signal,
+    release,
+    feed,
     // An abort heard once every sample is in (from the last progress call) stops nothing: the result is whole.
-    function onAbort(): void {
-      if (done < plan.samples) fail(new DesignRunStopped("spread", done, plan.samples, "samples", signal?.reason));
-    }
-    const feed = (w: Worker): void => {
-      if (next >= plan.samples || settled) return;
-      const to = next + nextChunkSize(plan.samples - next, threads.length, SMALLEST_CHUNK);
-      const withJob = !jobSent.has(w);
-      jobSent.add(w);
-      w.postMessage((withJob ? { spread, job, from: next, to } : { spread, from: next, to }) satisfies ToSpreadWorker);
-      next = to;
-    };
-    // Aborted while waiting for the pool's earlier jobs: no sample was handed out, the threads are fine.
-    if (signal?.aborted) {
-      settled = true;
-      void release("done").then(() => reject(new DesignRunStopped("spread", 0, plan.samples, "samples", signal.reason)));
-      return;
-    }
-    signal?.addEventListener("abort", onAbort, { once: true });
-    try {
-      for (const w of threads) {
-        const onMessage = (m: FromSpreadWorker): void => {
-          if (settled || m.spread !== spread) return;
-          if (m.type === "samples") {
-            parts.push(m.part);
-            done += m.part.values.length;
-            try {
-              onProgress?.(done, plan.samples);
-            } catch (e) {
-              fail(e);
-              return;
-            }
-            if (done === plan.samples) settle("done", () => resolve(parts));
-            else feed(w);
-          } else {
-            const error = new Error(`spread: samples failed in a worker: ${m.message}`);
-            error.stack = `${error.message}\n--- in the worker ---\n${m.stack}`;
-            fail(error);
-          }
-        };
-        const onExit = (code: number): void => fail(new Error(`a spread worker stopped (exit code ${code}) before the samples were done`));
-        w.on("message", onMessage);
-        w.on("error", fail);
-        w.on("messageerror", fail);
-        w.on("exit", onExit);
-        cleanups.push(() => {
-          w.off("message", onMessage);
-          w.off("error", fail);
-          w.off("messageerror", fail);
-          w.off("exit", onExit);
-        });
-        for (let k = 0; k < CHUNKS_AHEAD; k++) feed(w);
+    stopped: () => (done < plan.samples ? new DesignRunStopped("spread", done, plan.samples, "samples", signal?.reason) : undefined),
+    exited: (code) => new Error(`a spread worker stopped (exit code ${code}) before the samples were done`),
+    onMessage: (w, m, { finish, fail }) => {
+      if (m.spread !== spread) return;
+      if (m.type === "samples") {
+        parts.push(m.part);
+        done += m.part.values.length;
+        try {
+          onProgress?.(done, plan.samples);
+        } catch (e) {
+          fail(e);
+          return;
+        }
+        if (done === plan.samples) finish(parts);
+        else feed(w);
+      } else {
+        const error = new Error(`spread: samples failed in a worker: ${m.message}`);
+        error.stack = `${error.message}\n--- in the worker ---\n${m.stack}`;
+        fail(error);
       }
-    } catch (e) {
-      fail(e);
-    }
+    },
   });
 }

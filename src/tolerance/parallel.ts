@@ -1,5 +1,6 @@
 import { Worker } from "node:worker_threads";
-import { CHUNKS_AHEAD, nextChunkSize, workerScript } from "../threads/engine-threads";
+import { dispatchOnThreads } from "../threads/dispatch";
+import { nextChunkSize, workerScript } from "../threads/engine-threads";
 import { EngineThreadPool, type JobOutcome } from "../threads/pool";
 import type { RowResult } from "./evaluate";
 import { RowCollector, ToleranceMapCancelled, type ToleranceMapOptions } from "./run";
@@ -30,8 +31,8 @@ export type FromWorker =
 /**
  * Hands the rows of one map to the given (started) workers and collects them. `sendPlan`:
  * the plan goes with each worker's first chunk (pooled workers serve many maps). Resolves
- * when every row is in; on failure or abort it stops feeding and rejects; `release` is then
- * called once, after which no message of this map is looked at.
+ * when every row is in; on failure or abort it stops feeding and rejects (dispatch.ts calls
+ * `release` once first, after which no message of this map is looked at).
  */
 function dispatchRows(
   workers: readonly Worker[],
@@ -44,78 +45,43 @@ function dispatchRows(
   const collector = new RowCollector(plan);
   const rows = collector.rows;
   const { signal, onProgress } = options;
-  if (signal?.aborted) {
-    const cancelled = new ToleranceMapCancelled(0, rows, signal.reason);
-    return release("done").then(() => Promise.reject(cancelled));
-  }
-
-  return new Promise<RowCollector>((resolve, reject) => {
-    let next = 0;
-    let settled = false;
-    const planSent = new Set<Worker>();
-    const cleanups: (() => void)[] = [];
-
-    const settle = (outcome: JobOutcome, finish: () => void): void => {
-      if (settled) return;
-      settled = true;
-      signal?.removeEventListener("abort", onAbort);
-      for (const c of cleanups) c();
-      void release(outcome).then(finish, finish);
-    };
-    const fail = (error: unknown): void => settle("failed", () => reject(error));
-    function onAbort(): void {
-      fail(new ToleranceMapCancelled(collector.rowsDone, rows, signal?.reason));
-    }
-    const feed = (w: Worker): void => {
-      if (next >= rows || settled) return;
-      const chunk = nextChunkSize(rows - next, workers.length);
-      const batch: number[] = [];
-      while (batch.length < chunk && next < rows) batch.push(next++);
-      const withPlan = sendPlan && !planSent.has(w);
-      planSent.add(w);
-      w.postMessage((withPlan ? { map, plan, rows: batch } : { map, rows: batch }) satisfies ToWorker);
-    };
-
-    signal?.addEventListener("abort", onAbort, { once: true });
-    try {
-      for (const w of workers) {
-        const onMessage = (m: FromWorker): void => {
-          if (settled || m.map !== map) return;
-          if (m.type === "idle") {
-            feed(w);
-          } else if (m.type === "row") {
-            const done = collector.add(m.y, m.row);
-            try {
-              onProgress?.(done, rows);
-            } catch (e) {
-              fail(e);
-              return;
-            }
-            if (done === rows) settle("done", () => resolve(collector));
-          } else if (m.type === "failed") {
-            const error = new Error(`tolerance map: row ${m.y} failed in a worker: ${m.message}`);
-            error.stack = `${error.message}\n--- in the worker ---\n${m.stack}`;
-            fail(error);
-          }
-        };
-        const onExit = (code: number): void => {
-          if (!settled) fail(new Error(`a tolerance-map worker stopped (exit code ${code}) before the map was done`));
-        };
-        w.on("message", onMessage);
-        w.on("error", fail);
-        w.on("messageerror", fail);
-        w.on("exit", onExit);
-        cleanups.push(() => {
-          w.off("message", onMessage);
-          w.off("error", fail);
-          w.off("messageerror", fail);
-          w.off("exit", onExit);
-        });
-        for (let k = 0; k < CHUNKS_AHEAD; k++) feed(w);
+  let next = 0;
+  const planSent = new Set<Worker>();
+  const feed = (w: Worker): void => {
+    if (next >= rows) return;
+    const chunk = nextChunkSize(rows - next, workers.length);
+    const batch: number[] = [];
+    while (batch.length < chunk && next < rows) batch.push(next++);
+    const withPlan = sendPlan && !planSent.has(w);
+    planSent.add(w);
+    w.postMessage((withPlan ? { map, plan, rows: batch } : { map, rows: batch }) satisfies ToWorker);
+  };
+  return dispatchOnThreads<RowCollector, FromWorker>({
+    threads: workers,
+    signal,
+    release,
+    feed,
+    stopped: () => new ToleranceMapCancelled(collector.rowsDone, rows, signal?.reason),
+    exited: (code) => new Error(`a tolerance-map worker stopped (exit code ${code}) before the map was done`),
+    onMessage: (w, m, { finish, fail }) => {
+      if (m.map !== map) return;
+      if (m.type === "idle") {
+        feed(w);
+      } else if (m.type === "row") {
+        const done = collector.add(m.y, m.row);
+        try {
+          onProgress?.(done, rows);
+        } catch (e) {
+          fail(e);
+          return;
+        }
+        if (done === rows) finish(collector);
+      } else if (m.type === "failed") {
+        const error = new Error(`tolerance map: row ${m.y} failed in a worker: ${m.message}`);
+        error.stack = `${error.message}\n--- in the worker ---\n${m.stack}`;
+        fail(error);
       }
-    } catch (e) {
-      fail(e);
-    }
+    },
   });
 }
 
