@@ -121,15 +121,7 @@ export function checkPhysicality(model: StateSpaceModel): PhysicalityReport {
   // to the 40 states the Lyapunov solve takes, is far inside the other half of the tolerance), so
   // the smallest eigenvalue, the same number as always, is computed when it is read.
   if (n > 0 && shiftedPositiveDefinite(v, halfSymplecticForm(model.modes, n), n, tolerance / 2)) {
-    let margin: number | undefined;
-    return {
-      get margin(): number {
-        return (margin ??= uncertaintyMargin(model, v));
-      },
-      largestVariance,
-      physical: true,
-      summary: PHYSICAL_SUMMARY,
-    };
+    return new PlainlyPhysical(model, v, largestVariance);
   }
   const margin = n > 0 ? uncertaintyMargin(model, v) : 0;
   const physical = margin >= -tolerance;
@@ -138,4 +130,36 @@ export function checkPhysicality(model: StateSpaceModel): PhysicalityReport {
     : `the stationary state violates the uncertainty relation (smallest eigenvalue of V + iΣ/2 is ${margin.toPrecision(3)}): ` +
       `viscous damping is not a valid quantum model at low Q and low temperature; use damping "symmetric" there`;
   return { margin, largestVariance, physical, summary };
+}
+
+/**
+ * The report of a plainly physical state, its margin computed when read. A class rather than
+ * an object literal with a getter: a getter closure in a literal gives every report a hidden
+ * class of its own, slow to make and a burden on garbage collection.
+ */
+class PlainlyPhysical implements PhysicalityReport {
+  readonly physical = true;
+  readonly summary = PHYSICAL_SUMMARY;
+  readonly #model: StateSpaceModel;
+  readonly #covariance: Float64Array;
+  #margin: number | undefined;
+
+  constructor(
+    model: StateSpaceModel,
+    covariance: Float64Array,
+    readonly largestVariance: number,
+  ) {
+    this.#model = model;
+    this.#covariance = covariance;
+  }
+
+  get margin(): number {
+    return (this.#margin ??= uncertaintyMargin(this.#model, this.#covariance));
+  }
+
+  /** In JSON as a plain object would be, margin included. */
+  toJSON(): PhysicalityReport {
+    const { margin, largestVariance, physical, summary } = this;
+    return { margin, largestVariance, physical, summary };
+  }
 }

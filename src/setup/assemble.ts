@@ -77,18 +77,41 @@ export function assemble(setup: ResolvedSetup): AssembledSetup {
   const signal = target.signalReference!(handles.get(setup.signal.on), setup.signal.kind);
   const referredTo = pickQuantity(signal, setup.signal.referTo);
   const readoutRows = setup.readout.map((d) => model.outputs.findIndex((o) => o.owner === d));
-  // Written when first read: their text costs more than a small model's assembly, and searches never read them.
-  let cautions: readonly string[] | undefined;
-  return {
-    setup,
-    model,
-    readoutRows,
-    signal,
-    referredTo,
-    get cautions(): readonly string[] {
-      return (cautions ??= setup.components.flatMap((c) => setup.kinds.get(c.name)!.cautions?.(c, linkedBodies.get(c.name) ?? {}) ?? []));
-    },
-  };
+  return new Assembled(setup, model, readoutRows, signal, referredTo, linkedBodies);
+}
+
+/**
+ * An assembled set-up whose cautions are written when first read: their text costs more than a
+ * small model's assembly, and searches never read them. A class rather than an object literal
+ * with a getter: a getter closure in a literal gives every result a hidden class of its own,
+ * which is slow to make and keeps short-lived objects alive through garbage collections.
+ */
+class Assembled implements AssembledSetup {
+  readonly #linkedBodies: ReadonlyMap<string, Record<string, MechanicalBody | undefined>>;
+  #cautions: readonly string[] | undefined;
+
+  constructor(
+    readonly setup: ResolvedSetup,
+    readonly model: StateSpaceModel,
+    readonly readoutRows: readonly number[],
+    readonly signal: SignalReference,
+    readonly referredTo: ReferredQuantity,
+    linkedBodies: ReadonlyMap<string, Record<string, MechanicalBody | undefined>>,
+  ) {
+    this.#linkedBodies = linkedBodies;
+  }
+
+  get cautions(): readonly string[] {
+    const setup = this.setup;
+    const linkedBodies = this.#linkedBodies;
+    return (this.#cautions ??= setup.components.flatMap((c) => setup.kinds.get(c.name)!.cautions?.(c, linkedBodies.get(c.name) ?? {}) ?? []));
+  }
+
+  /** In JSON as a plain object would be: its fields and its cautions. */
+  toJSON(): AssembledSetup {
+    const { setup, model, readoutRows, signal, referredTo, cautions } = this;
+    return { setup, model, readoutRows, signal, referredTo, cautions };
+  }
 }
 
 /** The light leaving `from`; an optional output that carries none in this configuration is refused by name. */
