@@ -16,22 +16,43 @@ export interface Field {
   readonly phase: LinearForm;
 }
 
+/**
+ * Numbers for forms are cut from shared blocks: an assembly makes dozens of short-lived forms,
+ * and a typed array over more than a few numbers is otherwise a separate allocation each.
+ * A block is never reused, so every cut starts as zeros.
+ */
+const BLOCK_LENGTH = 4096;
+let block = new Float64Array(BLOCK_LENGTH);
+let blockUsed = 0;
+
+function zeros(length: number): Float64Array {
+  if (blockUsed + length > block.length) {
+    block = new Float64Array(Math.max(BLOCK_LENGTH, length));
+    blockUsed = 0;
+  }
+  const cut = block.subarray(blockUsed, blockUsed + length);
+  blockUsed += length;
+  return cut;
+}
+
 export function zeroForm(nStates: number, nInputs: number): LinearForm {
-  return { z: new Float64Array(nStates), w: new Float64Array(nInputs), s: 0 };
+  return { z: zeros(nStates), w: zeros(nInputs), s: 0 };
 }
 
 /** Returns a·x + b·y as a new form (inputs unchanged). */
 export function combine(a: number, x: LinearForm, b: number, y: LinearForm): LinearForm {
-  const z = new Float64Array(x.z.length);
-  const w = new Float64Array(x.w.length);
+  const z = zeros(x.z.length);
+  const w = zeros(x.w.length);
   for (let i = 0; i < z.length; i++) z[i] = a * x.z[i] + b * y.z[i];
   for (let i = 0; i < w.length; i++) w[i] = a * x.w[i] + b * y.w[i];
   return { z, w, s: a * x.s + b * y.s };
 }
 
 export function scaleForm(a: number, x: LinearForm): LinearForm {
-  const z = x.z.map((v) => a * v);
-  const w = x.w.map((v) => a * v);
+  const z = zeros(x.z.length);
+  const w = zeros(x.w.length);
+  for (let i = 0; i < z.length; i++) z[i] = a * x.z[i];
+  for (let i = 0; i < w.length; i++) w[i] = a * x.w[i];
   return { z, w, s: a * x.s };
 }
 
