@@ -1,4 +1,5 @@
 import { combine, type Field, type LinearForm, zeroForm } from "./linear-form";
+import { zeros } from "./number-blocks";
 import type { ClassicalInput, InputInfo, ModeInfo, ModeKind, NoiseCategory, NoiseGroup, OutputInfo, StateSpaceModel } from "./model";
 
 /** A block of white inputs declared by one component, with its own noise matrix. */
@@ -20,11 +21,7 @@ interface InputBlock {
   displayLabel: string | undefined;
 }
 
-/**
- * What the wiring phase writes: A and B; the same without forces of light on bodies (rest) and
- * those forces alone (see pushByLight); the signal column. Views of one buffer: a typed array
- * of more than a few numbers costs a separate allocation, and a search assembles a model per value set.
- */
+/** What the wiring phase writes: A and B; the same without forces of light on bodies (rest) and those forces alone (see pushByLight); the signal column. */
 interface Wiring {
   readonly A: Float64Array;
   readonly B: Float64Array;
@@ -33,19 +30,6 @@ interface Wiring {
   readonly forceA: Float64Array;
   readonly forceB: Float64Array;
   readonly signalB: Float64Array;
-}
-
-/** Zero arrays of the given lengths, as consecutive views of one buffer. */
-function zeroArrays(lengths: readonly number[]): Float64Array[] {
-  let total = 0;
-  for (const length of lengths) total += length;
-  const all = new Float64Array(total);
-  let at = 0;
-  return lengths.map((length) => {
-    const view = all.subarray(at, at + length);
-    at += length;
-    return view;
-  });
 }
 
 /**
@@ -111,8 +95,7 @@ export class NetworkBuilder {
     this.phase = "wiring";
     const nn = this.nStates * this.nStates;
     const nm = this.nStates * this.nInputs;
-    const [A, B, restA, restB, forceA, forceB, signalB] = zeroArrays([nn, nm, nn, nm, nn, nm, this.nStates]);
-    this.wiring = { A, B, restA, restB, forceA, forceB, signalB };
+    this.wiring = { A: zeros(nn), B: zeros(nm), restA: zeros(nn), restB: zeros(nm), forceA: zeros(nn), forceB: zeros(nm), signalB: zeros(this.nStates) };
   }
 
   // ---- wiring phase -----------------------------------------------------------------
@@ -226,7 +209,10 @@ export class NetworkBuilder {
     const n = this.nStates;
     const m = this.nInputs;
     const p = this.outputRows.length;
-    const [C, D, signalD, N] = zeroArrays([p * n, p * m, p, m * m]);
+    const C = zeros(p * n);
+    const D = zeros(p * m);
+    const signalD = zeros(p);
+    const N = zeros(m * m);
     const outputs: OutputInfo[] = [];
     for (let k = 0; k < p; k++) {
       const row = this.outputRows[k];

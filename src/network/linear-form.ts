@@ -1,4 +1,5 @@
 import { cos, sin } from "../numeric/portable-math";
+import { zeros } from "./number-blocks";
 /**
  * A linear form over the network's unknowns: system states z, white inputs w and the
  * signal s. Every optical field quadrature, detector output and coupling term is one of
@@ -14,25 +15,6 @@ export interface LinearForm {
 export interface Field {
   readonly amplitude: LinearForm;
   readonly phase: LinearForm;
-}
-
-/**
- * Numbers for forms are cut from shared blocks: an assembly makes dozens of short-lived forms,
- * and a typed array over more than a few numbers is otherwise a separate allocation each.
- * A block is never reused, so every cut starts as zeros.
- */
-const BLOCK_LENGTH = 4096;
-let block = new Float64Array(BLOCK_LENGTH);
-let blockUsed = 0;
-
-function zeros(length: number): Float64Array {
-  if (blockUsed + length > block.length) {
-    block = new Float64Array(Math.max(BLOCK_LENGTH, length));
-    blockUsed = 0;
-  }
-  const cut = block.subarray(blockUsed, blockUsed + length);
-  blockUsed += length;
-  return cut;
 }
 
 export function zeroForm(nStates: number, nInputs: number): LinearForm {
