@@ -90,9 +90,8 @@ function checked(resolved: ResolvedSetup): PreparedSetup {
 }
 
 /**
- * A prepared set-up whose warnings are written when read, as the stability summary is. A class
- * rather than an object literal with getters: getter closures in a literal give every result a
- * hidden class of its own, slow to make and a burden on garbage collection.
+ * A prepared set-up whose warnings are written when read, as the stability summary is (a class:
+ * see docs/performance.md on getters).
  */
 class Prepared implements PreparedSetup {
   #warnings: readonly string[] | undefined;

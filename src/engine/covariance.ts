@@ -139,9 +139,8 @@ export function checkPhysicality(model: StateSpaceModel): PhysicalityReport {
 }
 
 /**
- * The report of a plainly physical state, its margin computed when read. A class rather than
- * an object literal with a getter: a getter closure in a literal gives every report a hidden
- * class of its own, slow to make and a burden on garbage collection.
+ * The report of a plainly physical state, its margin computed when read (a class: see
+ * docs/performance.md on getters).
  */
 class PlainlyPhysical implements PhysicalityReport {
   readonly physical = true;

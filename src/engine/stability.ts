@@ -73,9 +73,7 @@ export function analyzeStability(assembled: AssembledSetup): StabilityReport {
 /**
  * A stability report whose summary is written when read (an error, a warning shown): it names
  * where undamped modes live, which takes their eigenvectors, and a search that only grades
- * set-ups never reads it. Classes rather than object literals with getters here and below: a
- * getter closure in a literal gives every object a hidden class of its own, slow to make and a
- * burden on garbage collection, and searches make one per value set.
+ * set-ups never reads it (classes here and below: see docs/performance.md on getters).
  */
 class Report implements StabilityReport {
   // Private slots, not properties: a report's properties are its findings alone.

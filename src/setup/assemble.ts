@@ -102,9 +102,7 @@ function lastLinkInto(links: readonly OpticalLink[], port: string): OpticalLink 
 
 /**
  * An assembled set-up whose cautions are written when first read: their text costs more than a
- * small model's assembly, and searches never read them. A class rather than an object literal
- * with a getter: a getter closure in a literal gives every result a hidden class of its own,
- * which is slow to make and keeps short-lived objects alive through garbage collections.
+ * small model's assembly, and searches never read them (a class: see docs/performance.md on getters).
  */
 class Assembled implements AssembledSetup {
   /** The bodies on each component's probe ports, by the component's index. */

@@ -55,8 +55,7 @@ export class SetupRevaluer {
 /**
  * The validated set-up with values written in. The description with the values written in is
  * made only when something reads `source` (a saved state, a methods text); the computation
- * never does. A class rather than an object with a getter property: a getter closure gives
- * every object a hidden class of its own, slow to make and a burden on garbage collection.
+ * never does (a class: see docs/performance.md on getters).
  */
 class Revalued implements ResolvedSetup {
   readonly name: string;
