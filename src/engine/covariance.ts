@@ -3,10 +3,9 @@
  * it is built from, and the uncertainty-relation margin that says whether a covariance
  * belongs to a physical state.
  */
-import { hermitianEmbedding, minEigenvalueHermitian, shiftedPositiveDefinite, smallestSymmetricEigenvalue, solveLyapunov } from "../linalg";
+import { hermitianEmbedding, minEigenvalueHermitian, shiftedPositiveDefinite, smallestSymmetricEigenvalue, solveLyapunov, WorkArray } from "../linalg";
 import type { ModeInfo, StateSpaceModel } from "../network/model";
 import { QuietframeError } from "../errors";
-import { WorkArray } from "../linalg/work-array";
 
 // Work arrays of checkPhysicality, which runs once per prepared value set: B·N/2, the diffusion matrix, Σ/2.
 const productWork = new WorkArray();
