@@ -292,11 +292,11 @@ function joinGroups(root: number[], a: number, b: number): void {
 
 /** A second group with the same id gets " #2", a third " #3", … (in place). */
 function disambiguateGroupIds(groups: NoiseGroup[]): void {
-  const seen = new Map<string, number>();
-  for (let k = 0; k < groups.length; k++) {
-    const g = groups[k];
-    const count = seen.get(g.id) ?? 0;
-    seen.set(g.id, count + 1);
-    if (count > 0) groups[k] = { ...g, id: `${g.id} #${count + 1}` };
+  // Pairwise: a model has a few dozen groups at most, and a map would hash every id.
+  const ids = groups.map((g) => g.id);
+  for (let k = 1; k < ids.length; k++) {
+    let count = 0;
+    for (let j = 0; j < k; j++) if (ids[j] === ids[k]) count++;
+    if (count > 0) groups[k] = { ...groups[k], id: `${ids[k]} #${count + 1}` };
   }
 }

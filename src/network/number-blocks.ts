@@ -11,17 +11,18 @@ const BLOCK_LENGTH = 8192;
 /** Longer arrays get a buffer of their own. */
 const LONGEST_CUT = BLOCK_LENGTH / 8;
 
-let block = new Float64Array(BLOCK_LENGTH);
+let block = new ArrayBuffer(8 * BLOCK_LENGTH);
 let used = 0;
 
 /** `length` zeros: a cut of the current block, or an array of its own when long. */
 export function zeros(length: number): Float64Array {
   if (length > LONGEST_CUT) return new Float64Array(length);
   if (used + length > BLOCK_LENGTH) {
-    block = new Float64Array(BLOCK_LENGTH);
+    block = new ArrayBuffer(8 * BLOCK_LENGTH);
     used = 0;
   }
-  const cut = block.subarray(used, used + length);
+  // A view by constructor: subarray would look up a species constructor on every call.
+  const cut = new Float64Array(block, 8 * used, length);
   used += length;
   return cut;
 }
