@@ -86,24 +86,42 @@ function checked(resolved: ResolvedSetup): PreparedSetup {
   const assembled = assemble(resolved);
   const stability = requireNoGrowingModes(assembled, analyzeStability(assembled));
   const physicality = stability.stable ? checkPhysicality(assembled.model) : undefined;
-  // Written when read, as the stability summary is.
-  let warnings: readonly string[] | undefined;
-  const written = (): readonly string[] => [
-    ...(stability.undamped.length > 0 || stability.held.length > 0 ? [stability.summary] : []),
-    ...(physicality && !physicality.physical ? [physicality.summary] : []),
-  ];
-  return {
-    setup: resolved,
-    assembled,
-    stability,
-    physicality,
-    get cautions(): readonly string[] {
-      return assembled.cautions;
-    },
-    get warnings(): readonly string[] {
-      return (warnings ??= written());
-    },
-  };
+  return new Prepared(resolved, assembled, stability, physicality);
+}
+
+/**
+ * A prepared set-up whose warnings are written when read, as the stability summary is (a class:
+ * see docs/performance.md on getters).
+ */
+class Prepared implements PreparedSetup {
+  #warnings: readonly string[] | undefined;
+
+  constructor(
+    readonly setup: ResolvedSetup,
+    readonly assembled: AssembledSetup,
+    readonly stability: StabilityReport,
+    readonly physicality: PhysicalityReport | undefined,
+  ) {}
+
+  get cautions(): readonly string[] {
+    return this.assembled.cautions;
+  }
+
+  get warnings(): readonly string[] {
+    return (this.#warnings ??= this.#written());
+  }
+
+  #written(): readonly string[] {
+    const { stability, physicality } = this;
+    const dynamics = stability.undamped.length > 0 || stability.held.length > 0 ? [stability.summary] : [];
+    return physicality && !physicality.physical ? [...dynamics, physicality.summary] : dynamics;
+  }
+
+  /** In JSON as a plain object would be: its fields, cautions and warnings. */
+  toJSON(): PreparedSetup {
+    const { setup, assembled, stability, physicality, cautions, warnings } = this;
+    return { setup, assembled, stability, physicality, cautions, warnings };
+  }
 }
 
 /** A validated set-up carries its component kinds in a Map, which no JSON document can hold. */

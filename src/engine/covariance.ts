@@ -3,9 +3,14 @@
  * it is built from, and the uncertainty-relation margin that says whether a covariance
  * belongs to a physical state.
  */
-import { hermitianEmbedding, minEigenvalueHermitian, shiftedPositiveDefinite, smallestSymmetricEigenvalue, solveLyapunov } from "../linalg";
+import { hermitianEmbedding, minEigenvalueHermitian, shiftedPositiveDefinite, smallestSymmetricEigenvalue, solveLyapunov, WorkArray } from "../linalg";
 import type { ModeInfo, StateSpaceModel } from "../network/model";
 import { QuietframeError } from "../errors";
+
+// Work arrays of checkPhysicality, which runs once per prepared value set: B·N/2, the diffusion matrix, Σ/2.
+const productWork = new WorkArray();
+const diffusionWork = new WorkArray();
+const symplecticWork = new WorkArray();
 
 /**
  * Stationary covariance of the states, V_ij = ⟨{z_i, z_j}⟩/2, from
@@ -35,10 +40,11 @@ export function diffusionMatrix(model: StateSpaceModel): Float64Array {
   return whiteDiffusionMatrix(model);
 }
 
-function whiteDiffusionMatrix(model: StateSpaceModel): Float64Array {
+/** B (N/2) Bᵀ into `q` (n×n zeros; a new array unless given). */
+function whiteDiffusionMatrix(model: StateSpaceModel, q = new Float64Array(model.nStates * model.nStates)): Float64Array {
   const n = model.nStates;
   const m = model.nInputs;
-  const bn = new Float64Array(n * m);
+  const bn = productWork.zeros(n * m);
   for (let i = 0; i < n; i++) {
     for (let k = 0; k < m; k++) {
       const b = model.B[i * m + k];
@@ -46,7 +52,6 @@ function whiteDiffusionMatrix(model: StateSpaceModel): Float64Array {
       for (let j = 0; j < m; j++) bn[i * m + j] += b * model.N[k * m + j] * 0.5;
     }
   }
-  const q = new Float64Array(n * n);
   for (let i = 0; i < n; i++) {
     for (let j = 0; j < n; j++) {
       let s = 0;
@@ -84,8 +89,8 @@ function withoutClassicalInputs(model: StateSpaceModel): StateSpaceModel {
   return { ...model, N };
 }
 
-function halfSymplecticForm(modes: readonly Pick<ModeInfo, "x" | "p">[], n: number): Float64Array {
-  const im = new Float64Array(n * n);
+/** Σ/2 into `im` (n×n zeros; a new array unless given). */
+function halfSymplecticForm(modes: readonly Pick<ModeInfo, "x" | "p">[], n: number, im = new Float64Array(n * n)): Float64Array {
   for (const mode of modes) {
     im[mode.x * n + mode.p] = 0.5;
     im[mode.p * n + mode.x] = -0.5;
@@ -111,7 +116,7 @@ const PHYSICALITY_TOLERANCE = 1e-9;
 export function checkPhysicality(model: StateSpaceModel): PhysicalityReport {
   // The uncertainty relation concerns the quantum noise: classical terms (which can only add
   // to the covariance) are left out, so a set-up with them is checked as well as one without.
-  const v = solveLyapunov(model.A, whiteDiffusionMatrix(withoutClassicalInputs(model)), model.nStates);
+  const v = solveLyapunov(model.A, whiteDiffusionMatrix(withoutClassicalInputs(model), diffusionWork.zeros(model.nStates * model.nStates)), model.nStates);
   const n = model.nStates;
   let largestVariance = 0;
   for (let i = 0; i < n; i++) largestVariance = Math.max(largestVariance, v[i * n + i]);
@@ -120,16 +125,8 @@ export function checkPhysicality(model: StateSpaceModel): PhysicalityReport {
   // shows that without eigenvalues (its backward error, below 1e-10 of the largest variance up
   // to the 40 states the Lyapunov solve takes, is far inside the other half of the tolerance), so
   // the smallest eigenvalue, the same number as always, is computed when it is read.
-  if (n > 0 && shiftedPositiveDefinite(v, halfSymplecticForm(model.modes, n), n, tolerance / 2)) {
-    let margin: number | undefined;
-    return {
-      get margin(): number {
-        return (margin ??= uncertaintyMargin(model, v));
-      },
-      largestVariance,
-      physical: true,
-      summary: PHYSICAL_SUMMARY,
-    };
+  if (n > 0 && shiftedPositiveDefinite(v, halfSymplecticForm(model.modes, n, symplecticWork.zeros(n * n)), n, tolerance / 2)) {
+    return new PlainlyPhysical(model, v, largestVariance);
   }
   const margin = n > 0 ? uncertaintyMargin(model, v) : 0;
   const physical = margin >= -tolerance;
@@ -138,4 +135,35 @@ export function checkPhysicality(model: StateSpaceModel): PhysicalityReport {
     : `the stationary state violates the uncertainty relation (smallest eigenvalue of V + iΣ/2 is ${margin.toPrecision(3)}): ` +
       `viscous damping is not a valid quantum model at low Q and low temperature; use damping "symmetric" there`;
   return { margin, largestVariance, physical, summary };
+}
+
+/**
+ * The report of a plainly physical state, its margin computed when read (a class: see
+ * docs/performance.md on getters).
+ */
+class PlainlyPhysical implements PhysicalityReport {
+  readonly physical = true;
+  readonly summary = PHYSICAL_SUMMARY;
+  readonly #model: StateSpaceModel;
+  readonly #covariance: Float64Array;
+  #margin: number | undefined;
+
+  constructor(
+    model: StateSpaceModel,
+    covariance: Float64Array,
+    readonly largestVariance: number,
+  ) {
+    this.#model = model;
+    this.#covariance = covariance;
+  }
+
+  get margin(): number {
+    return (this.#margin ??= uncertaintyMargin(this.#model, this.#covariance));
+  }
+
+  /** In JSON as a plain object would be, margin included. */
+  toJSON(): PhysicalityReport {
+    const { margin, largestVariance, physical, summary } = this;
+    return { margin, largestVariance, physical, summary };
+  }
 }

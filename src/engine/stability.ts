@@ -56,7 +56,7 @@ export function analyzeStability(assembled: AssembledSetup): StabilityReport {
     if (re[i] > resolution) {
       const mode = describeMode(assembled, re[i], im[i]);
       (controlled.size > 0 && mainOwners(mode).every((o) => controlled.has(o)) ? held : growing).push(mode);
-    } else if (re[i] >= -resolution) undamped.push(modeDescribedWhenRead(assembled, re[i], im[i]));
+    } else if (re[i] >= -resolution) undamped.push(new ModeDescribedWhenRead(assembled, re[i], im[i]));
   }
   if (growing.length === 0 && held.length === 0 && undamped.length > 0 && everyModeDissipates(assembled)) {
     // A high-Q mode (Q ≳ 1e9) or a slow one beside a fast cavity decays more slowly than the
@@ -67,35 +67,74 @@ export function analyzeStability(assembled: AssembledSetup): StabilityReport {
     return { stable: true, growing, held, undamped: [], summary };
   }
   const stable = growing.length === 0 && undamped.length === 0 && held.length === 0;
-  // Written when read (an error, a warning shown): it names where undamped modes live, which
-  // takes their eigenvectors, and a search that only grades set-ups never reads it.
-  let summary: string | undefined;
-  const written = (): string => {
+  return new Report(assembled, stable, growing, held, undamped);
+}
+
+/**
+ * A stability report whose summary is written when read (an error, a warning shown): it names
+ * where undamped modes live, which takes their eigenvectors, and a search that only grades
+ * set-ups never reads it (classes here and below: see docs/performance.md on getters).
+ */
+class Report implements StabilityReport {
+  // Private slots, not properties: a report's properties are its findings alone.
+  readonly #assembled: AssembledSetup;
+  #summary: string | undefined;
+
+  constructor(
+    assembled: AssembledSetup,
+    readonly stable: boolean,
+    readonly growing: readonly Eigenmode[],
+    readonly held: readonly Eigenmode[],
+    readonly undamped: readonly Eigenmode[],
+  ) {
+    this.#assembled = assembled;
+  }
+
+  get summary(): string {
+    return (this.#summary ??= this.#written());
+  }
+
+  /** In JSON as a plain object would be: its findings and its summary. */
+  toJSON(): StabilityReport {
+    const { stable, growing, held, undamped, summary } = this;
+    return { stable, growing, held, undamped, summary };
+  }
+
+  #written(): string {
+    const { growing, held, undamped } = this;
+    const assembled = this.#assembled;
     const text = summarize(assembled, growing, undamped);
     if (held.length === 0) return text;
     return growing.length === 0 && undamped.length === 0 ? heldSummary(assembled, held) : `${text}; ${heldSummary(assembled, held)}`;
-  };
-  return {
-    stable,
-    growing,
-    held,
-    undamped,
-    get summary(): string {
-      return (summary ??= written());
-    },
-  };
+  }
 }
 
 /** An undamped mode whose participation (an eigenvector by inverse iteration) is computed when first read. */
-function modeDescribedWhenRead(assembled: AssembledSetup, rate: number, imag: number): Eigenmode {
-  let participation: Readonly<Record<string, number>> | undefined;
-  return {
-    rate,
-    frequency: Math.abs(imag) / (2 * Math.PI),
-    get participation(): Readonly<Record<string, number>> {
-      return (participation ??= describeMode(assembled, rate, imag).participation);
-    },
-  };
+class ModeDescribedWhenRead implements Eigenmode {
+  readonly frequency: number;
+  readonly #assembled: AssembledSetup;
+  readonly #imag: number;
+  #participation: Readonly<Record<string, number>> | undefined;
+
+  constructor(
+    assembled: AssembledSetup,
+    readonly rate: number,
+    imag: number,
+  ) {
+    this.frequency = Math.abs(imag) / (2 * Math.PI);
+    this.#assembled = assembled;
+    this.#imag = imag;
+  }
+
+  get participation(): Readonly<Record<string, number>> {
+    return (this.#participation ??= describeMode(this.#assembled, this.rate, this.#imag).participation);
+  }
+
+  /** In JSON as a plain object would be, participation included. */
+  toJSON(): Eigenmode {
+    const { rate, frequency, participation } = this;
+    return { rate, frequency, participation };
+  }
 }
 
 /** Names of the components whose declared control loop holds their growing modes. */
@@ -173,7 +212,7 @@ function describeMode(assembled: AssembledSetup, rate: number, imag: number): Ei
   return { rate, frequency: Math.abs(imag) / (2 * Math.PI), participation: weight };
 }
 
-function summarize(assembled: AssembledSetup, growing: Eigenmode[], undamped: Eigenmode[]): string {
+function summarize(assembled: AssembledSetup, growing: readonly Eigenmode[], undamped: readonly Eigenmode[]): string {
   if (growing.length === 0 && undamped.length === 0) return "stable: every mode decays";
   if (growing.length === 0) {
     const owners = [...new Set(undamped.flatMap((m) => mainOwners(m)))];

@@ -8,14 +8,22 @@
  * smallestSymmetricEigenvalue on the same embedding where speed matters.
  */
 import { symmetricEigenvalues } from "./symmetric-eigen";
+import { WorkArray } from "./work-array";
+
+/** The embedding that shiftedPositiveDefinite factorises in place. */
+const choleskyWork = new WorkArray();
 
 /**
  * The 2n×2n real symmetric embedding of the Hermitian part ((H + Hᴴ)/2) of H, so that
  * rounding-level asymmetry from how the caller built the matrix does not matter.
  */
 export function hermitianEmbedding(re: ArrayLike<number>, im: ArrayLike<number>, n: number): Float64Array {
+  return embedInto(new Float64Array(4 * n * n), re, im, n);
+}
+
+/** Writes the embedding into `e` (2n×2n, every entry written) and returns it. */
+function embedInto(e: Float64Array, re: ArrayLike<number>, im: ArrayLike<number>, n: number): Float64Array {
   const m = 2 * n;
-  const e = new Float64Array(m * m);
   for (let i = 0; i < n; i++) {
     for (let j = 0; j < n; j++) {
       const sr = 0.5 * (re[i * n + j] + re[j * n + i]);
@@ -48,7 +56,7 @@ export function minEigenvalueHermitian(re: Float64Array, im: Float64Array, n: nu
  */
 export function shiftedPositiveDefinite(re: ArrayLike<number>, im: ArrayLike<number>, n: number, shift: number): boolean {
   const m = 2 * n;
-  const a = hermitianEmbedding(re, im, n);
+  const a = embedInto(choleskyWork.zeros(m * m), re, im, n);
   for (let i = 0; i < m; i++) a[i * m + i] += shift;
   // Row-oriented Cholesky in place: the lower triangle becomes L with L Lᵀ = a.
   for (let j = 0; j < m; j++) {

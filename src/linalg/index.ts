@@ -9,6 +9,7 @@ export { symmetricEigenvalues } from "./symmetric-eigen";
 export { smallestSymmetricEigenvalue } from "./smallest-eigenvalue";
 export { hermitianEmbedding, minEigenvalueHermitian, shiftedPositiveDefinite } from "./hermitian";
 export { findNonDecayingMode } from "./non-decaying-mode";
+export { WorkArray } from "./work-array";
 export type { NonDecayingMode } from "./non-decaying-mode";
 export { expm } from "./expm";
 export { psdFactor, applyFactor, type Factor } from "./psd-factor";

@@ -9,6 +9,10 @@
 import { realLuFactor, realLuSolve } from "./real-lu";
 import { SingularMatrixError } from "./singular-error";
 import { findNonDecayingMode, NonDecayingModeError } from "./non-decaying-mode";
+import { WorkArray } from "./work-array";
+
+/** The packed system and right-hand side of each solve. */
+const lyapunovWork = new WorkArray();
 
 /** Index of V[i][j] (i ≤ j) in the packed upper triangle. */
 function packed(i: number, j: number, n: number): number {
@@ -42,8 +46,9 @@ export function solveLyapunov(a: Float64Array, q: Float64Array, n: number): Floa
   }
 
   const m = (n * (n + 1)) / 2;
-  const sys = new Float64Array(m * m);
-  const rhs = new Float64Array(m);
+  const work = lyapunovWork.zeros(m * m + m);
+  const sys = work.subarray(0, m * m);
+  const rhs = work.subarray(m * m);
   for (let i = 0; i < n; i++) {
     for (let j = i; j < n; j++) {
       const r = packed(i, j, n);

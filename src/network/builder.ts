@@ -1,4 +1,5 @@
 import { combine, type Field, type LinearForm, zeroForm } from "./linear-form";
+import { zeros } from "./number-blocks";
 import type { ClassicalInput, InputInfo, ModeInfo, ModeKind, NoiseCategory, NoiseGroup, OutputInfo, StateSpaceModel } from "./model";
 
 /** A block of white inputs declared by one component, with its own noise matrix. */
@@ -9,15 +10,26 @@ interface InputBlock {
   /** k×k one-sided spectral density matrix of this block (row-major). */
   noise: Float64Array;
   category: NoiseCategory;
-  /** Optional label for the whole block when its columns turn out correlated. */
-  blockLabel: string;
+  /** Label for the whole block when its columns turn out correlated; absent: owner and labels (written only when needed). */
+  blockLabel: string | undefined;
   /** One budget term for the whole block even where its columns are uncorrelated. */
   together: boolean;
   /**
    * The name a budget shows for the whole block's term, where it differs from the label that
    * identifies it (ids stay as they were: fingerprints hash them).
    */
-  displayLabel?: string;
+  displayLabel: string | undefined;
+}
+
+/** What the wiring phase writes: A and B; the same without forces of light on bodies (rest) and those forces alone (see pushByLight); the signal column. */
+interface Wiring {
+  readonly A: Float64Array;
+  readonly B: Float64Array;
+  readonly restA: Float64Array;
+  readonly restB: Float64Array;
+  readonly forceA: Float64Array;
+  readonly forceB: Float64Array;
+  readonly signalB: Float64Array;
 }
 
 /**
@@ -25,23 +37,17 @@ interface InputBlock {
  * components claim modes (pairs of states) and blocks of white inputs; the sizes are then
  * frozen, and in the wiring phase components write their dynamics and build linear forms
  * of fixed length. The two phases exist because a linear form needs the final sizes.
+ * `build` hands the matrices over to the model, which ends the builder's use.
  */
 export class NetworkBuilder {
   private readonly modes: ModeInfo[] = [];
   private readonly blocks: InputBlock[] = [];
   private nStates = 0;
   private nInputs = 0;
-  private frozen = false;
-
-  private A = new Float64Array(0);
-  private B = new Float64Array(0);
-  /** A and B as written by everything except forces of light on bodies, and those forces alone (see pushByLight). */
-  private restA = new Float64Array(0);
-  private restB = new Float64Array(0);
-  private forceA = new Float64Array(0);
-  private forceB = new Float64Array(0);
+  private phase: "allocating" | "wiring" | "built" = "allocating";
+  /** Set by freeze. */
+  private wiring: Wiring | undefined;
   private lightPushes = false;
-  private signalB = new Float64Array(0);
   /** While set, what a component writes as the signal goes into this input column instead (see enterAsSignal). */
   private signalColumn: number | undefined;
   private readonly classical: ClassicalInput[] = [];
@@ -68,16 +74,7 @@ export class NetworkBuilder {
     const k = labels.length;
     if (noise.length !== k * k) throw new Error(`noise matrix for ${owner} must be ${k}×${k}`);
     const first = this.nInputs;
-    this.blocks.push({
-      owner,
-      first,
-      labels: [...labels],
-      noise: Float64Array.from(noise),
-      category,
-      blockLabel: blockLabel ?? `${owner}: ${labels.join(" + ")}`,
-      together,
-      ...(displayLabel === undefined ? {} : { displayLabel }),
-    });
+    this.blocks.push({ owner, first, labels: labels.slice(), noise: Float64Array.from(noise), category, blockLabel, together, displayLabel });
     this.nInputs += k;
     return first;
   }
@@ -95,14 +92,10 @@ export class NetworkBuilder {
   /** Ends allocation: sizes are fixed from here on. */
   freeze(): void {
     this.assertAllocating("freeze");
-    this.frozen = true;
-    this.A = new Float64Array(this.nStates * this.nStates);
-    this.B = new Float64Array(this.nStates * this.nInputs);
-    this.restA = new Float64Array(this.nStates * this.nStates);
-    this.restB = new Float64Array(this.nStates * this.nInputs);
-    this.forceA = new Float64Array(this.nStates * this.nStates);
-    this.forceB = new Float64Array(this.nStates * this.nInputs);
-    this.signalB = new Float64Array(this.nStates);
+    this.phase = "wiring";
+    const nn = this.nStates * this.nStates;
+    const nm = this.nStates * this.nInputs;
+    this.wiring = { A: zeros(nn), B: zeros(nm), restA: zeros(nn), restB: zeros(nm), forceA: zeros(nn), forceB: zeros(nm), signalB: zeros(this.nStates) };
   }
 
   // ---- wiring phase -----------------------------------------------------------------
@@ -141,9 +134,9 @@ export class NetworkBuilder {
 
   /** dz_i/dt += c · z_j */
   couple(i: number, j: number, c: number): void {
-    this.assertWiring();
-    this.A[i * this.nStates + j] += c;
-    this.restA[i * this.nStates + j] += c;
+    const w = this.assertWiring();
+    w.A[i * this.nStates + j] += c;
+    w.restA[i * this.nStates + j] += c;
   }
 
   /** dz_i/dt += c · form */
@@ -163,27 +156,28 @@ export class NetworkBuilder {
   }
 
   private driveInto(i: number, form: LinearForm, c: number, rest: boolean): void {
-    this.assertWiring();
+    const wiring = this.assertWiring();
     const n = this.nStates;
     const m = this.nInputs;
-    for (let j = 0; j < n; j++) this.A[i * n + j] += c * form.z[j];
-    for (let j = 0; j < m; j++) this.B[i * m + j] += c * form.w[j];
-    this.signalB[i] += c * form.s;
-    const [a, b] = rest ? [this.restA, this.restB] : [this.forceA, this.forceB];
+    for (let j = 0; j < n; j++) wiring.A[i * n + j] += c * form.z[j];
+    for (let j = 0; j < m; j++) wiring.B[i * m + j] += c * form.w[j];
+    wiring.signalB[i] += c * form.s;
+    const a = rest ? wiring.restA : wiring.forceA;
+    const b = rest ? wiring.restB : wiring.forceB;
     for (let j = 0; j < n; j++) a[i * n + j] += c * form.z[j];
     for (let j = 0; j < m; j++) b[i * m + j] += c * form.w[j];
   }
 
   /** dz_i/dt += c · s (the signal, in SI units). */
   driveBySignal(i: number, c: number): void {
-    this.assertWiring();
+    const wiring = this.assertWiring();
     if (this.signalColumn !== undefined) {
       const at = i * this.nInputs + this.signalColumn;
-      this.B[at] += c;
-      this.restB[at] += c;
+      wiring.B[at] += c;
+      wiring.restB[at] += c;
       return;
     }
-    this.signalB[i] += c;
+    wiring.signalB[i] += c;
   }
 
   /**
@@ -207,20 +201,26 @@ export class NetworkBuilder {
     this.outputRows.push({ info, form: combine(1, form, 0, form) });
   }
 
+  /** The model; the builder's matrices become the model's, so the builder takes no more calls. */
   build(): StateSpaceModel {
-    this.assertWiring();
+    const { A, B, restA, restB, forceA, forceB, signalB } = this.assertWiring();
+    this.phase = "built";
+    this.wiring = undefined;
     const n = this.nStates;
     const m = this.nInputs;
     const p = this.outputRows.length;
-    const C = new Float64Array(p * n);
-    const D = new Float64Array(p * m);
-    const signalD = new Float64Array(p);
-    this.outputRows.forEach((row, k) => {
+    const C = zeros(p * n);
+    const D = zeros(p * m);
+    const signalD = zeros(p);
+    const N = zeros(m * m);
+    const outputs: OutputInfo[] = [];
+    for (let k = 0; k < p; k++) {
+      const row = this.outputRows[k];
       C.set(row.form.z, k * n);
       D.set(row.form.w, k * m);
       signalD[k] = row.form.s;
-    });
-    const N = new Float64Array(m * m);
+      outputs.push(row.info);
+    }
     const inputs: InputInfo[] = [];
     const groups: NoiseGroup[] = [];
     for (const block of this.blocks) {
@@ -229,64 +229,49 @@ export class NetworkBuilder {
         inputs.push({ owner: block.owner, label: block.labels[a] });
         for (let b = 0; b < k; b++) N[(block.first + a) * m + block.first + b] = block.noise[a * k + b];
       }
-      groups.push(...splitIntoCorrelatedGroups(block));
+      addCorrelatedGroups(block, groups);
     }
-    return {
-      nStates: n,
-      nInputs: m,
-      nOutputs: p,
-      A: this.A.slice(),
-      B: this.B.slice(),
-      C,
-      D,
-      N,
-      signalB: this.signalB.slice(),
-      signalD,
-      modes: [...this.modes],
-      inputs,
-      groups: disambiguateGroupIds(groups),
-      outputs: this.outputRows.map((r) => r.info),
-      ...(this.classical.length ? { classicalInputs: [...this.classical] } : {}),
-      ...(this.lightPushes ? { lightForce: { A: this.forceA.slice(), B: this.forceB.slice(), restA: this.restA.slice(), restB: this.restB.slice() } } : {}),
-    };
+    disambiguateGroupIds(groups);
+    const model: StateSpaceModel = { nStates: n, nInputs: m, nOutputs: p, A, B, C, D, N, signalB, signalD, modes: this.modes, inputs, groups, outputs };
+    if (this.classical.length) Object.assign(model, { classicalInputs: this.classical });
+    if (this.lightPushes) Object.assign(model, { lightForce: { A: forceA, B: forceB, restA, restB } });
+    return model;
   }
 
   private assertAllocating(what: string): void {
-    if (this.frozen) throw new Error(`${what} called after the network was frozen`);
+    if (this.phase !== "allocating") throw new Error(`${what} called after the network was frozen`);
   }
 
-  private assertWiring(): void {
-    if (!this.frozen) throw new Error("the network must be frozen before wiring");
+  private assertWiring(): Wiring {
+    if (this.wiring === undefined) throw new Error(this.phase === "built" ? "the network was already built into a model" : "the network must be frozen before wiring");
+    return this.wiring;
   }
 }
 
 /**
  * Columns of a block that are correlated (directly or through a chain) must stay together;
  * uncorrelated columns become separate budget terms, e.g. a resonant readout's amplitude
- * quadrature (back-action) and phase quadrature (imprecision).
+ * quadrature (back-action) and phase quadrature (imprecision). Appends the block's groups to
+ * `groups`, each in the order of its first column.
  */
-function splitIntoCorrelatedGroups(block: InputBlock): NoiseGroup[] {
+function addCorrelatedGroups(block: InputBlock, groups: NoiseGroup[]): void {
   const k = block.labels.length;
-  const parent = Array.from({ length: k }, (_, i) => i);
-  const find = (i: number): number => (parent[i] === i ? i : (parent[i] = find(parent[i])));
+  // root[a]: the first column of a's group; columns join while scanning, smallest first.
+  const root: number[] = [];
+  for (let a = 0; a < k; a++) root.push(a);
   for (let a = 0; a < k; a++) {
     for (let b = a + 1; b < k; b++) {
-      if (block.together || block.noise[a * k + b] !== 0 || block.noise[b * k + a] !== 0) parent[find(a)] = find(b);
+      if (block.together || block.noise[a * k + b] !== 0 || block.noise[b * k + a] !== 0) joinGroups(root, a, b);
     }
   }
-  const byRoot = new Map<number, number[]>();
-  for (let a = 0; a < k; a++) {
-    const r = find(a);
-    const list = byRoot.get(r) ?? [];
-    list.push(a);
-    byRoot.set(r, list);
-  }
-  const groups: NoiseGroup[] = [];
-  for (const members of byRoot.values()) {
+  for (let first = 0; first < k; first++) {
+    if (root[first] !== first) continue;
+    const members: number[] = [];
+    for (let a = first; a < k; a++) if (root[a] === first) members.push(a);
     // A column with zero noise contributes nothing; leaving it out keeps budgets clean.
-    if (members.length === 1 && block.noise[members[0] * k + members[0]] === 0) continue;
+    if (members.length === 1 && block.noise[first * k + first] === 0) continue;
     const whole = members.length === k;
-    const label = whole && k > 1 ? block.blockLabel : `${block.owner}: ${members.map((a) => block.labels[a]).join(" + ")}`;
+    const label = whole && k > 1 ? (block.blockLabel ?? `${block.owner}: ${block.labels.join(" + ")}`) : `${block.owner}: ${members.map((a) => block.labels[a]).join(" + ")}`;
     groups.push({
       id: label,
       owner: block.owner,
@@ -295,14 +280,23 @@ function splitIntoCorrelatedGroups(block: InputBlock): NoiseGroup[] {
       columns: members.map((a) => block.first + a),
     });
   }
-  return groups;
 }
 
-function disambiguateGroupIds(groups: NoiseGroup[]): NoiseGroup[] {
-  const seen = new Map<string, number>();
-  return groups.map((g) => {
-    const count = seen.get(g.id) ?? 0;
-    seen.set(g.id, count + 1);
-    return count === 0 ? g : { ...g, id: `${g.id} #${count + 1}` };
-  });
+/** Merges the groups of columns a and b, every column keeping the smallest column of its group as its root. */
+function joinGroups(root: number[], a: number, b: number): void {
+  const keep = Math.min(root[a], root[b]);
+  const drop = Math.max(root[a], root[b]);
+  if (keep === drop) return;
+  for (let c = 0; c < root.length; c++) if (root[c] === drop) root[c] = keep;
+}
+
+/** A second group with the same id gets " #2", a third " #3", … (in place). */
+function disambiguateGroupIds(groups: NoiseGroup[]): void {
+  // Pairwise: a model has a few dozen groups at most, and a map would hash every id.
+  const ids = groups.map((g) => g.id);
+  for (let k = 1; k < ids.length; k++) {
+    let count = 0;
+    for (let j = 0; j < k; j++) if (ids[j] === ids[k]) count++;
+    if (count > 0) groups[k] = { ...groups[k], id: `${ids[k]} #${count + 1}` };
+  }
 }

@@ -1,4 +1,5 @@
 import { cos, sin } from "../numeric/portable-math";
+import { zeros } from "./number-blocks";
 /**
  * A linear form over the network's unknowns: system states z, white inputs w and the
  * signal s. Every optical field quadrature, detector output and coupling term is one of
@@ -17,21 +18,23 @@ export interface Field {
 }
 
 export function zeroForm(nStates: number, nInputs: number): LinearForm {
-  return { z: new Float64Array(nStates), w: new Float64Array(nInputs), s: 0 };
+  return { z: zeros(nStates), w: zeros(nInputs), s: 0 };
 }
 
 /** Returns a·x + b·y as a new form (inputs unchanged). */
 export function combine(a: number, x: LinearForm, b: number, y: LinearForm): LinearForm {
-  const z = new Float64Array(x.z.length);
-  const w = new Float64Array(x.w.length);
+  const z = zeros(x.z.length);
+  const w = zeros(x.w.length);
   for (let i = 0; i < z.length; i++) z[i] = a * x.z[i] + b * y.z[i];
   for (let i = 0; i < w.length; i++) w[i] = a * x.w[i] + b * y.w[i];
   return { z, w, s: a * x.s + b * y.s };
 }
 
 export function scaleForm(a: number, x: LinearForm): LinearForm {
-  const z = x.z.map((v) => a * v);
-  const w = x.w.map((v) => a * v);
+  const z = zeros(x.z.length);
+  const w = zeros(x.w.length);
+  for (let i = 0; i < z.length; i++) z[i] = a * x.z[i];
+  for (let i = 0; i < w.length; i++) w[i] = a * x.w[i];
   return { z, w, s: a * x.s };
 }
 

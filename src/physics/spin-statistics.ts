@@ -33,25 +33,26 @@ interface SublevelMoments {
   readonly meanSquare: number;
 }
 
+/** (1 − t)^j for j = 0…2F, reused from call to call: the bisections below take some fifty moments each. */
+let powersOfOneMinusT = new Float64Array(2 * MAX_SPIN + 1);
+
 /**
  * Moments of F_x for populations ∝ t^{m+F} (1 − t)^{F−m}, m = −F…F, with t ∈ [1/2, 1]:
  * this is e^{βm} with e^β = t/(1 − t), written so that full polarization (t = 1) is finite.
  */
 function spinTemperatureMoments(spin: number, t: number): SublevelMoments {
   const levels = Math.round(2 * spin) + 1;
-  const up = new Float64Array(levels);
-  const down = new Float64Array(levels);
-  up[0] = 1;
+  if (powersOfOneMinusT.length < levels) powersOfOneMinusT = new Float64Array(levels);
+  const down = powersOfOneMinusT;
   down[0] = 1;
-  for (let k = 1; k < levels; k++) {
-    up[k] = up[k - 1] * t;
-    down[k] = down[k - 1] * (1 - t);
-  }
+  for (let k = 1; k < levels; k++) down[k] = down[k - 1] * (1 - t);
+  let up = 1;
   let z = 0;
   let first = 0;
   let second = 0;
   for (let k = 0; k < levels; k++) {
-    const w = up[k] * down[levels - 1 - k];
+    if (k > 0) up *= t;
+    const w = up * down[levels - 1 - k];
     const m = k - spin;
     z += w;
     first += w * m;
@@ -78,8 +79,22 @@ function bisect(f: (t: number) => number, target: number, increasing: boolean): 
   return 0.5 * (lo + hi);
 }
 
+/** The last answer of occupationFromPolarization: a search assembles the same ensemble many times over. */
+const lastOccupation = { spin: Number.NaN, polarization: Number.NaN, occupation: Number.NaN };
+
 /** n_s of an ensemble of spin-F atoms with polarization p ∈ (0, 1] (spin-temperature distribution). */
 export function occupationFromPolarization(spin: number, polarization: number): number {
+  const last = lastOccupation;
+  // Object.is: the very same inputs (a different zero or a NaN is another question).
+  if (Object.is(spin, last.spin) && Object.is(polarization, last.polarization)) return last.occupation;
+  const occupation = solvedOccupation(spin, polarization);
+  last.spin = spin;
+  last.polarization = polarization;
+  last.occupation = occupation;
+  return occupation;
+}
+
+function solvedOccupation(spin: number, polarization: number): number {
   if (polarization >= 1) return 0;
   if (Math.round(2 * spin) === 1) return (1 - polarization) / (2 * polarization);
   const t = bisect((x) => spinTemperatureMoments(spin, x).mean / spin, polarization, true);

@@ -8,7 +8,7 @@ import { QuietframeError } from "../errors";
 import { NetworkBuilder } from "../network/builder";
 import type { Field } from "../network/linear-form";
 import type { StateSpaceModel } from "../network/model";
-import type { ResolvedSetup } from "./validate";
+import type { OpticalLink, ResolvedSetup } from "./validate";
 import { allocateClassicalNoise } from "./classical-entry";
 import { withDriveNoise } from "./classical-laser";
 
@@ -32,68 +32,110 @@ export interface AssembledSetup {
  * enter where they act, and the matrices are collected.
  */
 export function assemble(setup: ResolvedSetup): AssembledSetup {
+  const { components, kinds } = setup;
   const builder = new NetworkBuilder();
-  const handles = new Map<string, unknown>();
-  for (const c of setup.components) handles.set(c.name, setup.kinds.get(c.name)!.allocate(builder, c));
-  const componentNamed = (name: string) => setup.components.find((x) => x.name === name)!;
-  const classical = setup.classical.map((term) => allocateClassicalNoise(builder, term, setup.kinds.get(term.on)!, componentNamed(term.on), () => handles.get(term.on)));
+  // Components by their index in the set-up: no keys to build per call.
+  const indexOf = new Map<string, number>();
+  const handles: unknown[] = [];
+  for (let k = 0; k < components.length; k++) {
+    const c = components[k];
+    indexOf.set(c.name, k);
+    handles.push(kinds.get(c.name)!.allocate(builder, c));
+  }
+  const handleOf = (name: string): unknown => handles[indexOf.get(name)!];
+  const classical = setup.classical.map((term) => allocateClassicalNoise(builder, term, kinds.get(term.on)!, components[indexOf.get(term.on)!], () => handleOf(term.on)));
   builder.freeze();
 
   const bodyOf = (name: string): MechanicalBody => {
-    const kind = setup.kinds.get(name)!;
+    const kind = kinds.get(name)!;
     if (!kind.body) throw new Error(`internal: '${name}' has a body port but no body`);
-    return kind.body(handles.get(name));
+    return kind.body(handleOf(name));
   };
-  const sourceOf = new Map(setup.optical.map((l) => [`${l.to.component}.${l.to.port}`, l.from]));
-  const emitted = new Map<string, Field>();
-  const linkedBodies = new Map<string, Record<string, MechanicalBody | undefined>>();
+  const arriving = linksArriving(setup, indexOf);
+  // What each component sends out, by port, once it is wired.
+  const emitted: (Readonly<Record<string, Field>> | undefined)[] = [];
+  const linkedBodies: Record<string, MechanicalBody | undefined>[] = [];
 
-  for (const c of flowOrder(setup)) {
-    const kind = setup.kinds.get(c)!;
-    const component = componentNamed(c);
+  for (const k of flowOrder(setup, indexOf)) {
+    const component = components[k];
+    const kind = kinds.get(component.name)!;
     const inputs: Record<string, Field> = {};
     const bodies: Record<string, MechanicalBody | undefined> = {};
     for (const port of kind.ports) {
       if (port.kind === "optical-in") {
         // An optional input left unconnected is absent; the component decides what that means.
-        const from = sourceOf.get(`${c}.${port.name}`);
-        if (from) inputs[port.name] = emittedLight(emitted, from, `${c}.${port.name}`);
+        const from = lastLinkInto(arriving[k], port.name)?.from;
+        if (from) inputs[port.name] = emittedLight(emitted[indexOf.get(from.component)!], from, `${component.name}.${port.name}`);
       } else if (port.kind === "mechanical-probe") {
-        const link = setup.mechanical.find((l) => l.probe.component === c && l.probe.port === port.name);
+        const link = setup.mechanical.find((l) => l.probe.component === component.name && l.probe.port === port.name);
         bodies[port.name] = link ? bodyOf(link.body) : undefined;
       }
     }
-    linkedBodies.set(c, bodies);
+    linkedBodies[k] = bodies;
     // A laser's intensity noise rides on the light arriving at the component that carries its drive.
-    const drives = classical.flatMap((t) => (t.drive?.on === c ? [t.drive] : []));
-    const out = kind.wire({ builder, component, handle: handles.get(c), inputs: withDriveNoise(builder, inputs, drives), bodies });
-    for (const [port, field] of Object.entries(out)) emitted.set(`${c}.${port}`, field);
+    const drives = classical.length === 0 ? [] : classical.flatMap((t) => (t.drive?.on === component.name ? [t.drive] : []));
+    emitted[k] = kind.wire({ builder, component, handle: handles[k], inputs: withDriveNoise(builder, inputs, drives), bodies });
   }
 
-  const target = setup.kinds.get(setup.signal.on)!;
-  target.applySignal!(builder, handles.get(setup.signal.on), setup.signal.kind);
+  const target = kinds.get(setup.signal.on)!;
+  target.applySignal!(builder, handleOf(setup.signal.on), setup.signal.kind);
   for (const term of classical) term.enter();
   const model = builder.build();
-  const signal = target.signalReference!(handles.get(setup.signal.on), setup.signal.kind);
+  const signal = target.signalReference!(handleOf(setup.signal.on), setup.signal.kind);
   const referredTo = pickQuantity(signal, setup.signal.referTo);
   const readoutRows = setup.readout.map((d) => model.outputs.findIndex((o) => o.owner === d));
-  // Written when first read: their text costs more than a small model's assembly, and searches never read them.
-  let cautions: readonly string[] | undefined;
-  return {
-    setup,
-    model,
-    readoutRows,
-    signal,
-    referredTo,
-    get cautions(): readonly string[] {
-      return (cautions ??= setup.components.flatMap((c) => setup.kinds.get(c.name)!.cautions?.(c, linkedBodies.get(c.name) ?? {}) ?? []));
-    },
-  };
+  return new Assembled(setup, model, readoutRows, signal, referredTo, linkedBodies);
 }
 
-/** The light leaving `from`; an optional output that carries none in this configuration is refused by name. */
-function emittedLight(emitted: ReadonlyMap<string, Field>, from: { component: string; port: string }, to: string): Field {
-  const field = emitted.get(`${from.component}.${from.port}`);
+/** The optical links into each component, by its index, in the set-up's order. */
+function linksArriving(setup: ResolvedSetup, indexOf: ReadonlyMap<string, number>): OpticalLink[][] {
+  const arriving: OpticalLink[][] = setup.components.map(() => []);
+  for (const l of setup.optical) arriving[indexOf.get(l.to.component)!].push(l);
+  return arriving;
+}
+
+/** The link into `port` (the last one listed, as a later connection to a port replaces an earlier one). */
+function lastLinkInto(links: readonly OpticalLink[], port: string): OpticalLink | undefined {
+  for (let k = links.length - 1; k >= 0; k--) if (links[k].to.port === port) return links[k];
+  return undefined;
+}
+
+/**
+ * An assembled set-up whose cautions are written when first read: their text costs more than a
+ * small model's assembly, and searches never read them (a class: see docs/performance.md on getters).
+ */
+class Assembled implements AssembledSetup {
+  /** The bodies on each component's probe ports, by the component's index. */
+  readonly #linkedBodies: readonly Record<string, MechanicalBody | undefined>[];
+  #cautions: readonly string[] | undefined;
+
+  constructor(
+    readonly setup: ResolvedSetup,
+    readonly model: StateSpaceModel,
+    readonly readoutRows: readonly number[],
+    readonly signal: SignalReference,
+    readonly referredTo: ReferredQuantity,
+    linkedBodies: readonly Record<string, MechanicalBody | undefined>[],
+  ) {
+    this.#linkedBodies = linkedBodies;
+  }
+
+  get cautions(): readonly string[] {
+    const setup = this.setup;
+    const linkedBodies = this.#linkedBodies;
+    return (this.#cautions ??= setup.components.flatMap((c, k) => setup.kinds.get(c.name)!.cautions?.(c, linkedBodies[k] ?? {}) ?? []));
+  }
+
+  /** In JSON as a plain object would be: its fields and its cautions. */
+  toJSON(): AssembledSetup {
+    const { setup, model, readoutRows, signal, referredTo, cautions } = this;
+    return { setup, model, readoutRows, signal, referredTo, cautions };
+  }
+}
+
+/** The light leaving `from` (`sent`: what that component sends out); an optional output that carries none in this configuration is refused by name. */
+function emittedLight(sent: Readonly<Record<string, Field>> | undefined, from: { component: string; port: string }, to: string): Field {
+  const field = sent !== undefined && Object.hasOwn(sent, from.port) ? sent[from.port] : undefined;
   if (field) return field;
   throw new QuietframeError({
     path: "connections",
@@ -117,27 +159,28 @@ function pickQuantity(signal: SignalReference, referTo: string | undefined): Ref
   return q;
 }
 
-/** Topological order of the optical graph (Kahn); a loop is an error that names it. */
-function flowOrder(setup: ResolvedSetup): string[] {
-  const names = setup.components.map((c) => c.name);
-  const indegree = new Map(names.map((n) => [n, 0]));
-  const next = new Map<string, string[]>(names.map((n) => [n, []]));
+/** Topological order (component indices) of the optical graph (Kahn); a loop is an error that names it. */
+function flowOrder(setup: ResolvedSetup, indexOf: ReadonlyMap<string, number>): number[] {
+  const count = setup.components.length;
+  const indegree: number[] = [];
+  const next: number[][] = [];
+  for (let k = 0; k < count; k++) {
+    indegree.push(0);
+    next.push([]);
+  }
   for (const l of setup.optical) {
-    indegree.set(l.to.component, indegree.get(l.to.component)! + 1);
-    next.get(l.from.component)!.push(l.to.component);
+    const to = indexOf.get(l.to.component)!;
+    indegree[to]++;
+    next[indexOf.get(l.from.component)!].push(to);
   }
-  const ready = names.filter((n) => indegree.get(n) === 0);
-  const order: string[] = [];
-  while (ready.length) {
-    const n = ready.shift()!;
-    order.push(n);
-    for (const m of next.get(n)!) {
-      indegree.set(m, indegree.get(m)! - 1);
-      if (indegree.get(m) === 0) ready.push(m);
-    }
+  const order: number[] = [];
+  for (let k = 0; k < count; k++) if (indegree[k] === 0) order.push(k);
+  // `order` doubles as Kahn's queue: everything after `done` is ready and waiting.
+  for (let done = 0; done < order.length; done++) {
+    for (const m of next[order[done]]) if (--indegree[m] === 0) order.push(m);
   }
-  if (order.length < names.length) {
-    const inLoop = names.filter((n) => !order.includes(n));
+  if (order.length < count) {
+    const inLoop = setup.components.filter((_, k) => !order.includes(k)).map((c) => c.name);
     throw new QuietframeError({
       path: "connections",
       value: inLoop.join(", "),

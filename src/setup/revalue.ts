@@ -5,11 +5,13 @@
  * not depend on parameter values, so they are the validated set-up's. The result equals
  * loadSetup(applyValues(description, values)) field for field, errors included.
  */
-import type { ResolvedComponent } from "../components/types";
+import type { ComponentKind, ResolvedComponent } from "../components/types";
 import { QuietframeError, QuietframeErrors } from "../errors";
 import { applyValues, splitTarget } from "./apply-values";
 import type { SetupDescription } from "./format";
-import { resolveComponentParams, type ResolvedSetup } from "./validate";
+import type { FrequencyGridSpec } from "./grid";
+import type { ResolvedClassicalNoise } from "./classical-noise";
+import { type MechanicalLink, type OpticalLink, resolveComponentParams, type ResolvedSetup } from "./validate";
 
 export class SetupRevaluer {
   private readonly index = new Map<string, number>();
@@ -46,15 +48,54 @@ export class SetupRevaluer {
       }
     }
     if (problems.length) throw problems.length === 1 ? problems[0] : new QuietframeErrors(problems);
-    const snapshot = { ...values };
-    let source: SetupDescription | undefined;
-    const resolved = { ...base, components };
-    // The description with the values written in, made only when something reads it (a saved
-    // state, a methods text); the computation never does.
-    Object.defineProperty(resolved, "source", {
-      enumerable: true,
-      get: (): SetupDescription => (source ??= applyValues(base.source, snapshot)),
-    });
-    return resolved;
+    return new Revalued(base, components, { ...values });
+  }
+}
+
+/**
+ * The validated set-up with values written in. The description with the values written in is
+ * made only when something reads `source` (a saved state, a methods text); the computation
+ * never does (a class: see docs/performance.md on getters).
+ */
+class Revalued implements ResolvedSetup {
+  readonly name: string;
+  readonly description: string;
+  readonly kinds: ReadonlyMap<string, ComponentKind<unknown>>;
+  readonly optical: readonly OpticalLink[];
+  readonly mechanical: readonly MechanicalLink[];
+  readonly readout: readonly string[];
+  readonly signal: ResolvedSetup["signal"];
+  readonly grid: FrequencyGridSpec | undefined;
+  readonly classical: readonly ResolvedClassicalNoise[];
+  readonly #base: ResolvedSetup;
+  readonly #values: Readonly<Record<string, string | number>>;
+  #source: SetupDescription | undefined;
+
+  constructor(
+    base: ResolvedSetup,
+    readonly components: readonly ResolvedComponent[],
+    values: Readonly<Record<string, string | number>>,
+  ) {
+    this.name = base.name;
+    this.description = base.description;
+    this.kinds = base.kinds;
+    this.optical = base.optical;
+    this.mechanical = base.mechanical;
+    this.readout = base.readout;
+    this.signal = base.signal;
+    this.grid = base.grid;
+    this.classical = base.classical;
+    this.#base = base;
+    this.#values = values;
+  }
+
+  get source(): SetupDescription {
+    return (this.#source ??= applyValues(this.#base.source, this.#values));
+  }
+
+  /** In JSON as the validated set-up's own fields are, in their order, `source` last. */
+  toJSON(): ResolvedSetup {
+    const { name, description, components, kinds, optical, mechanical, readout, signal, grid, classical, source } = this;
+    return { name, description, components, kinds, optical, mechanical, readout, signal, grid, classical, source };
   }
 }

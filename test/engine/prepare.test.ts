@@ -221,6 +221,9 @@ describe("prepare once, evaluate many times", () => {
         expect(once[k].warnings).toEqual(fresh.warnings);
         expect(once[k].cautions).toEqual(fresh.cautions);
         expect(once[k].stability).toEqual(fresh.stability);
+        // Written when read, so compared by reading them.
+        expect(once[k].stability.summary).toBe(fresh.stability.summary);
+        expect(once[k].stability.undamped.map((m) => m.participation)).toEqual(fresh.stability.undamped.map((m) => m.participation));
       });
     },
   );

@@ -1,8 +1,13 @@
+import { readFileSync } from "node:fs";
+import { join } from "node:path";
 import fc from "fast-check";
 import { describe, expect, it } from "vitest";
 import { COMPONENT_KINDS } from "../../src/components/registry";
 import { QuietframeError, QuietframeErrors } from "../../src/errors";
 import { evaluateSetup, loadSetup } from "../../src/pipeline";
+import { prepare } from "../../src/prepare";
+import type { SetupDescription } from "../../src/setup/format";
+import { setup } from "../helpers/setups";
 import { BAD_CASES, MALFORMED_CASES, cavitySetup, component, edited, freeMassSetup, singleProblem, thrownBy } from "./fixtures";
 
 const SMALL_GRID = { from: 10, to: 1000, points: 5 };
@@ -176,5 +181,49 @@ describe("a blank top-level key", () => {
     const problems = (caught as { problems?: { path: string; message: string }[] }).problems ?? [caught as { path: string; message: string }];
     const blank = problems.find((p) => p.message.includes("is not a field of a set-up"));
     expect(blank?.path).toBe('[""]');
+  });
+});
+
+describe("connections that assembly refuses (the project's own rules and texts: common practice, no source)", () => {
+  it("light that runs in a loop names every component on the loop and downstream of it", () => {
+    const looped = setup(
+      [
+        { name: "light", type: "coherent" },
+        { name: "body", type: "free-mass", params: { mass: "1 g" } },
+        { name: "probe", type: "position-probe", params: { power: "1 mW" } },
+        { name: "s1", type: "beam-splitter", params: { transmission: 0.5 } },
+        { name: "s2", type: "beam-splitter", params: { transmission: 0.5 } },
+        { name: "detector", type: "homodyne", params: { angle: "90 deg", efficiency: 1 } },
+        { name: "sink", type: "dump" },
+        { name: "open", type: "vacuum" },
+      ],
+      [
+        ["light.out", "s1.in1"],
+        ["s1.out1", "s2.in1"],
+        ["s2.out1", "s1.in2"],
+        ["open.out", "s2.in2"],
+        ["s1.out2", "probe.in"],
+        ["s2.out2", "sink.in"],
+        ["probe.out", "detector.in"],
+        ["probe.mechanics", "body.body"],
+      ],
+    );
+    const e = singleProblem(() => prepare(looped));
+    expect(e.path).toBe("connections");
+    expect(e.value).toBe("probe, s1, s2, detector, sink");
+    expect(e.problem).toBe("light runs in a closed loop through these components");
+  });
+
+  it("an optional output that carries no light as configured is refused by name", () => {
+    const description = JSON.parse(readFileSync(join(__dirname, "..", "..", "examples", "long-baseline-detector.json"), "utf8")) as SetupDescription;
+    const withIdler: SetupDescription = {
+      ...description,
+      components: [...description.components, { name: "sink", type: "dump" }],
+      connections: [...description.connections, ["ifo.idlerOut", "sink.in"]],
+    };
+    const e = singleProblem(() => prepare(withIdler));
+    expect(e.path).toBe("connections");
+    expect(e.value).toBe("ifo.idlerOut → sink.in");
+    expect(e.message).toContain("'ifo.idlerOut' carries no light as 'ifo' is configured");
   });
 });
