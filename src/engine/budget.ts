@@ -48,42 +48,81 @@ export interface NoiseBudget {
  * which sums to S exactly because Σ_g S_g = S_y.
  */
 export function noiseBudget(assembled: AssembledSetup, frequencies: Float64Array): NoiseBudget {
-  const { model, readoutRows, referredTo, signal, setup } = assembled;
+  return noiseBudgets(assembled, [frequencies])[0];
+}
+
+/**
+ * The budgets of one set-up on several lists of frequencies, solved in one pass over all of them
+ * (a figure at its own frequency beside a curve: one set-up of the solvers instead of two). Each
+ * is the budget noiseBudget gives for its list, bit for bit: every frequency gets the same
+ * operations alone or in a block. Throws what noiseBudget throws for one of the lists, though
+ * not necessarily for the first list that noiseBudget alone would refuse.
+ */
+export function noiseBudgets(assembled: AssembledSetup, lists: readonly Float64Array[]): NoiseBudget[] {
+  const { model, readoutRows, referredTo } = assembled;
   const groups = model.groups;
-  const nf = frequencies.length;
   const p = readoutRows.length;
   const nGroups = groups.length;
-  // One allocation for the total and every term (a typed array costs about as much to allocate
-  // as tens of frequencies cost to compute): the total first, then each group's, as views.
+  for (const frequencies of lists) for (const input of model.classicalInputs ?? []) input.requireCovers(frequencies);
+  let nf = 0;
+  for (const frequencies of lists) nf += frequencies.length;
+  // One allocation for the totals and every term (a typed array costs about as much to allocate
+  // as tens of frequencies cost to compute): the totals first, then each group's, as views.
   const curves = new Float64Array((1 + nGroups) * nf);
-  const total = curves.subarray(0, nf);
-  const termPsd = groups.map((_, g) => curves.subarray((1 + g) * nf, (2 + g) * nf));
-  for (const input of model.classicalInputs ?? []) input.requireCovers(frequencies);
-  const entries = new GroupEntries(model, groups);
-  // The angular frequencies and the referral factor (|χ|² for displacement), which serves the
-  // terms and every reference curve, kept for the reference curves.
-  const atFrequency = new Float64Array(2 * nf);
+  // The frequencies of every list one after another (a single list is used as it is), the
+  // angular frequencies and the referral factor (|χ|² for displacement), which serves the terms
+  // and every reference curve, kept for the reference curves.
+  const atFrequency = new Float64Array((lists.length === 1 ? 2 : 3) * nf);
   const omegas = atFrequency.subarray(0, nf);
-  const factors = atFrequency.subarray(nf);
+  const factors = atFrequency.subarray(nf, 2 * nf);
+  const all = lists.length === 1 ? lists[0] : atFrequency.subarray(2 * nf);
+  if (lists.length > 1) {
+    let at = 0;
+    for (const frequencies of lists) {
+      all.set(frequencies, at);
+      at += frequencies.length;
+    }
+  }
   for (let f = 0; f < nf; f++) {
-    const omega = 2 * Math.PI * frequencies[f];
+    const omega = 2 * Math.PI * all[f];
     omegas[f] = omega;
     factors[f] = referredTo.psdFactor(omega);
   }
+  const entries = new GroupEntries(model, groups);
   // A few frequencies (a figure at one frequency) go one at a time: a block solver costs more to set up than they take.
-  if (p === 1 && nf >= BLOCK_FROM) singleOutputCurves(model, readoutRows, entries, frequencies, omegas, factors, curves);
-  else oneAtATimeCurves(model, readoutRows, entries, frequencies, omegas, factors, curves);
+  if (p === 1 && nf >= BLOCK_FROM) singleOutputCurves(model, readoutRows, entries, all, omegas, factors, curves);
+  else oneAtATimeCurves(model, readoutRows, entries, all, omegas, factors, curves);
+  const budgets: NoiseBudget[] = [];
+  let from = 0;
+  for (const frequencies of lists) {
+    const to = from + frequencies.length;
+    budgets.push(budgetOf(assembled, frequencies, curves, nf, from, to, omegas.subarray(from, to), factors.subarray(from, to)));
+    from = to;
+  }
+  return budgets;
+}
+
+/**
+ * The budget on frequencies from … to − 1 of curves solved for nf frequencies (`curves`: the
+ * totals, then each group's terms, nf values each); `omegas` and `factors` are the list's own.
+ */
+function budgetOf(assembled: AssembledSetup, frequencies: Float64Array, curves: Float64Array, nf: number, from: number, to: number, omegas: Float64Array, factors: Float64Array): NoiseBudget {
+  const { model, readoutRows, referredTo, signal, setup } = assembled;
+  const groups = model.groups;
+  const nGroups = groups.length;
+  const p = readoutRows.length;
+  const total = curves.subarray(from, to);
   let blindPoints = 0;
-  for (let f = 0; f < nf; f++) {
+  for (let f = from; f < to; f++) {
     // No response, or one so weak that the referred noise overflows: reported as blind.
-    if (!Number.isFinite(total[f])) {
+    if (!Number.isFinite(curves[f])) {
       blindPoints++;
-      total[f] = Infinity;
+      curves[f] = Infinity;
       for (let g = 0; g < nGroups; g++) curves[(1 + g) * nf + f] = Infinity;
     }
   }
-
-  if (blindPoints === nf) {
+  const count = to - from;
+  if (blindPoints === count) {
     throw new QuietframeError({
       path: "readout",
       value: setup.readout,
@@ -93,14 +132,13 @@ export function noiseBudget(assembled: AssembledSetup, frequencies: Float64Array
   }
   const warnings: string[] = [];
   if (blindPoints > 0) {
-    warnings.push(`the readout is blind to the signal at ${blindPoints} of ${nf} frequencies: the referred noise there is infinite or beyond floating-point range`);
+    warnings.push(`the readout is blind to the signal at ${blindPoints} of ${count} frequencies: the referred noise there is infinite or beyond floating-point range`);
   }
 
   const terms: BudgetTerm[] = [];
   groups.forEach((g, i) => {
-    if (!allZero(termPsd[i])) {
-      terms.push({ id: g.id, label: g.label, owner: g.owner, category: g.category, psd: termPsd[i] });
-    }
+    const psd = curves.subarray((1 + i) * nf + from, (1 + i) * nf + to);
+    if (!allZero(psd)) terms.push({ id: g.id, label: g.label, owner: g.owner, category: g.category, psd });
   });
   // Each reference curve is computed when it is first read (a figure of merit reads one, a
   // noise band none): from the angular frequencies and factors of this call, so it has the
