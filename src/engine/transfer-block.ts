@@ -4,10 +4,12 @@
  * frequency as the innermost loop. Each matrix entry holds its values at every frequency of the
  * block side by side (entry e, frequency f at e·B + f), so the loops run long and without calls
  * instead of over the few entries of a small model; pivoting stays per frequency. A one-mode
- * model keeps TransferEvaluator's closed-form 2×2 inverse, one frequency at a time.
+ * model keeps TransferEvaluator's closed-form 2×2 inverse, one frequency at a time; four states
+ * read by one output (every example) go through the written-out kernel of transfer-four.ts.
  */
 import type { StateSpaceModel } from "../network/model";
 import { type FixedParts, layOutFixedParts, TransferEvaluator, undampedModeError } from "./transfer";
+import { solveFourStates } from "./transfer-four";
 
 /** Frequencies per block: long enough for the loops, short enough that a large model's block stays in cache. */
 export const TRANSFER_BLOCK = 64;
@@ -75,6 +77,8 @@ export class TransferBlock {
   private readonly ints: Int32Array;
   /** The one-frequency evaluator of one-mode models. */
   private readonly single?: TransferEvaluator;
+  /** Four states and one output: solved by solveFourStates, without the arrays of the LU below. */
+  private readonly four: boolean;
 
   constructor(
     model: StateSpaceModel,
@@ -89,7 +93,8 @@ export class TransferBlock {
     this.n = n;
     this.m = m;
     this.p = p;
-    const lu = n === 2 ? 0 : n;
+    this.four = n === 4 && p === 1;
+    const lu = n === 2 || this.four ? 0 : n;
     // Every per-frequency array is a view of one lent buffer (see takeFloats).
     this.floats = takeFloats(B * (2 * p * m + 2 * p + 2 * lu * lu + 3 * lu + 2 * n * p + workArrays));
     this.ints = takeInts(B * (lu + 1));
@@ -131,7 +136,10 @@ export class TransferBlock {
       this.solveOneAtATime(single, omegas, from, count);
       return;
     }
-    if (this.n > 0) {
+    if (this.four) {
+      const good = solveFourStates(this.fixed.negA, this.fixed.cT, omegas, from, count, this.gRe, this.gIm, this.size);
+      if (good < count) throw undampedModeError(omegas[from + good]);
+    } else if (this.n > 0) {
       const good = this.factor(omegas, from, count);
       if (good < count) throw undampedModeError(omegas[from + good]);
       this.solveTransposed(count);
