@@ -303,29 +303,30 @@ class GroupEntries {
   private readonly classical: { readonly entry: number; readonly psdAt: (frequency: number) => number }[] = [];
   constructor(model: StateSpaceModel, groups: readonly NoiseGroup[]) {
     const m = model.nInputs;
-    const spectra = new Map((model.classicalInputs ?? []).map((c) => [c.column, c.psdAt]));
-    const start: number[] = [0];
-    const ni: number[] = [];
-    const nj: number[] = [];
-    const nv: number[] = [];
-    for (const g of groups) {
+    const N = model.N;
+    // The entries are counted first, so the arrays are written in place.
+    let count = 0;
+    for (const g of groups) for (const i of g.columns) for (const j of g.columns) if (N[i * m + j] !== 0) count++;
+    this.start = new Int32Array(groups.length + 1);
+    this.ni = new Int32Array(count);
+    this.nj = new Int32Array(count);
+    this.nv = new Float64Array(count);
+    const classical = model.classicalInputs ?? [];
+    let e = 0;
+    groups.forEach((g, k) => {
       for (const i of g.columns) {
         for (const j of g.columns) {
-          const nij = model.N[i * m + j];
+          const nij = N[i * m + j];
           if (nij === 0) continue;
-          const psdAt = i === j ? spectra.get(i) : undefined;
-          if (psdAt) this.classical.push({ entry: nv.length, psdAt });
-          ni.push(i);
-          nj.push(j);
-          nv.push(nij);
+          const psdAt = i === j && classical.length > 0 ? classical.find((c) => c.column === i)?.psdAt : undefined;
+          if (psdAt) this.classical.push({ entry: e, psdAt });
+          this.ni[e] = i;
+          this.nj[e] = j;
+          this.nv[e++] = nij;
         }
       }
-      start.push(nv.length);
-    }
-    this.start = Int32Array.from(start);
-    this.ni = Int32Array.from(ni);
-    this.nj = Int32Array.from(nj);
-    this.nv = Float64Array.from(nv);
+      this.start[k + 1] = e;
+    });
   }
 
   /** Puts each classical input's PSD at this frequency (Hz) in place of its white-noise placeholder. */

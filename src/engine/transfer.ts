@@ -205,34 +205,31 @@ export function layOutFixedParts(model: StateSpaceModel, rows: readonly number[]
     for (let c = 0; c < m; c++) dRows[k * m + c] = model.D[row * m + c];
     sD[k] = model.signalD[row];
   }
-  const start: number[] = [0];
-  const bRow: number[] = [];
-  const bVal: number[] = [];
+  // The non-zero entries are counted first, so the compressed arrays are written in place.
+  let nonZeroB = 0;
+  for (let i = 0; i < n * m; i++) if (model.B[i] !== 0) nonZeroB++;
+  let nonZeroS = 0;
+  for (let j = 0; j < n; j++) if (model.signalB[j] !== 0) nonZeroS++;
+  const bStart = new Int32Array(m + 1);
+  const bRow = new Int32Array(nonZeroB);
+  const bVal = new Float64Array(nonZeroB);
+  let e = 0;
   for (let c = 0; c < m; c++) {
     for (let j = 0; j < n; j++) {
       const b = model.B[j * m + c];
       if (b === 0) continue;
-      bRow.push(j);
-      bVal.push(b);
+      bRow[e] = j;
+      bVal[e++] = b;
     }
-    start.push(bRow.length);
+    bStart[c + 1] = e;
   }
-  const sRow: number[] = [];
-  const sVal: number[] = [];
+  const sRow = new Int32Array(nonZeroS);
+  const sVal = new Float64Array(nonZeroS);
+  e = 0;
   for (let j = 0; j < n; j++) {
     if (model.signalB[j] === 0) continue;
-    sRow.push(j);
-    sVal.push(model.signalB[j]);
+    sRow[e] = j;
+    sVal[e++] = model.signalB[j];
   }
-  return {
-    negA,
-    cT,
-    dRows,
-    sD,
-    bStart: Int32Array.from(start),
-    bRow: Int32Array.from(bRow),
-    bVal: Float64Array.from(bVal),
-    sRow: Int32Array.from(sRow),
-    sVal: Float64Array.from(sVal),
-  };
+  return { negA, cT, dRows, sD, bStart, bRow, bVal, sRow, sVal };
 }
