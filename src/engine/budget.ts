@@ -233,8 +233,27 @@ function blockCurves(transfer: TransferBlock, entries: GroupEntries, frequencies
       curves[from + f] = 0;
     }
     for (let g = 0; g + 1 < start.length; g++) {
+      const o = (1 + g) * nf + from;
+      const first = start[g];
+      if (start[g + 1] === first + 1 && classical.spectrumOf(first) === undefined) {
+        // One white entry (an uncorrelated input): its sum and its share in one pass, the sum
+        // still started from 0 (0 + x is +0 where x is −0, as the sum of several entries would be).
+        const i = ni[first] * size;
+        const j = nj[first] * size;
+        const w = nv[first];
+        for (let f = 0; f < count; f++) {
+          const ar = hRe[i + f];
+          const ai = hIm[i + f];
+          const br = hRe[j + f];
+          const bi = -hIm[j + f];
+          const v = ((0 + w * (ar * br - ai * bi)) / h2[f]) * factors[from + f];
+          curves[o + f] = v;
+          curves[from + f] += v;
+        }
+        continue;
+      }
       sr.fill(0, 0, count);
-      for (let e = start[g]; e < start[g + 1]; e++) {
+      for (let e = first; e < start[g + 1]; e++) {
         const i = ni[e] * size;
         const j = nj[e] * size;
         const spectrum = classical.spectrumOf(e);
@@ -248,7 +267,6 @@ function blockCurves(transfer: TransferBlock, entries: GroupEntries, frequencies
           sr[f] += (spectrum ? spectrum[f] : w) * (ar * br - ai * bi);
         }
       }
-      const o = (1 + g) * nf + from;
       for (let f = 0; f < count; f++) {
         const v = (sr[f] / h2[f]) * factors[from + f];
         curves[o + f] = v;

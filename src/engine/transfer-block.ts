@@ -346,6 +346,16 @@ export class TransferBlock {
       for (let c = 0; c < m; c++) {
         const o = (k * m + c) * B;
         const d = dRows[k * m + c];
+        if (bStart[c + 1] === bStart[c] + 1) {
+          // One entry (the commonest column): the sums started and taken in one pass, d + g b and 0 + g b.
+          const g = (bRow[bStart[c]] * p + k) * B;
+          const b = bVal[bStart[c]];
+          for (let f = 0; f < count; f++) {
+            hRe[o + f] = d + gRe[g + f] * b;
+            hIm[o + f] = 0 + gIm[g + f] * b;
+          }
+          continue;
+        }
         for (let f = 0; f < count; f++) {
           hRe[o + f] = d;
           hIm[o + f] = 0;
