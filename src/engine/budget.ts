@@ -66,16 +66,16 @@ export function noiseBudgets(assembled: AssembledSetup, lists: readonly Float64A
   for (const frequencies of lists) for (const input of model.classicalInputs ?? []) input.requireCovers(frequencies);
   let nf = 0;
   for (const frequencies of lists) nf += frequencies.length;
-  // One allocation for the totals and every term (a typed array costs about as much to allocate
-  // as tens of frequencies cost to compute): the totals first, then each group's, as views.
-  const curves = new Float64Array((1 + nGroups) * nf);
-  // The frequencies of every list one after another (a single list is used as it is), the
-  // angular frequencies and the referral factor (|χ|² for displacement), which serves the terms
-  // and every reference curve, kept for the reference curves.
-  const atFrequency = new Float64Array((lists.length === 1 ? 2 : 3) * nf);
-  const omegas = atFrequency.subarray(0, nf);
-  const factors = atFrequency.subarray(nf, 2 * nf);
-  const all = lists.length === 1 ? lists[0] : atFrequency.subarray(2 * nf);
+  // One allocation (a typed array costs about as much to allocate as tens of frequencies cost to
+  // compute) for the totals and every term (the totals first, then each group's), the angular
+  // frequencies and the referral factor (|χ|² for displacement), which serves the terms and every
+  // reference curve and is kept for them, and the frequencies of every list one after another (a
+  // single list is used as it is).
+  const buffer = new Float64Array((1 + nGroups + 2 + (lists.length === 1 ? 0 : 1)) * nf);
+  const curves = buffer.subarray(0, (1 + nGroups) * nf);
+  const omegas = buffer.subarray((1 + nGroups) * nf, (2 + nGroups) * nf);
+  const factors = buffer.subarray((2 + nGroups) * nf, (3 + nGroups) * nf);
+  const all = lists.length === 1 ? lists[0] : buffer.subarray((3 + nGroups) * nf);
   if (lists.length > 1) {
     let at = 0;
     for (const frequencies of lists) {
