@@ -175,21 +175,25 @@ function oneAtATimeCurves(
   const nf = frequencies.length;
   const nGroups = model.groups.length;
   const evaluator = new TransferEvaluator(model, readoutRows);
-  const referral: SignalReferral = readoutRows.length === 1 ? new SingleOutput(entries) : new OptimalCombination(entries, nGroups, readoutRows.length);
-  const referred = new Float64Array(nGroups);
-  for (let f = 0; f < nf; f++) {
-    evaluator.at(omegas[f]);
-    entries.atFrequency(frequencies[f]);
-    let sum = Infinity;
-    if (referral.refer(evaluator, referred)) {
-      sum = 0;
-      for (let g = 0; g < nGroups; g++) {
-        const v = referred[g] * factors[f];
-        curves[(1 + g) * nf + f] = v;
-        sum += v;
+  try {
+    const referral: SignalReferral = readoutRows.length === 1 ? new SingleOutput(entries) : new OptimalCombination(entries, nGroups, readoutRows.length);
+    const referred = new Float64Array(nGroups);
+    for (let f = 0; f < nf; f++) {
+      evaluator.at(omegas[f]);
+      entries.atFrequency(frequencies[f]);
+      let sum = Infinity;
+      if (referral.refer(evaluator, referred)) {
+        sum = 0;
+        for (let g = 0; g < nGroups; g++) {
+          const v = referred[g] * factors[f];
+          curves[(1 + g) * nf + f] = v;
+          sum += v;
+        }
       }
+      curves[f] = sum;
     }
-    curves[f] = sum;
+  } finally {
+    evaluator.release();
   }
 }
 

@@ -9,44 +9,14 @@
  */
 import type { StateSpaceModel } from "../network/model";
 import { type FixedParts, layOutFixedParts, TransferEvaluator, undampedModeError } from "./transfer";
+import { giveBackArrays, takeFloats, takeInts } from "./lent-memory";
 import { solveFourStates } from "./transfer-four";
 
 /** Frequencies per block: long enough for the loops, short enough that a large model's block stays in cache. */
 export const TRANSFER_BLOCK = 64;
 
-/**
- * Memory lent from one block to the next: a budget per trial (a search, a Monte Carlo sample)
- * would otherwise allocate tens of kilobytes of typed arrays each time, whose allocation and
- * collection cost more than a small model's solves. A block takes the spare buffers when they
- * are large enough and gives them back on `release`; one made while another holds them gets
- * its own. Every value a block reads it has written first, so what a buffer held before changes
- * nothing.
- */
-let spareFloats: Float64Array | undefined;
-let spareInts: Int32Array | undefined;
-
-function takeFloats(length: number): Float64Array {
-  const spare = spareFloats;
-  if (spare && spare.length >= length) {
-    spareFloats = undefined;
-    return spare;
-  }
-  return new Float64Array(length);
-}
-
-function takeInts(length: number): Int32Array {
-  const spare = spareInts;
-  if (spare && spare.length >= length) {
-    spareInts = undefined;
-    return spare;
-  }
-  return new Int32Array(length);
-}
-
-function giveBack(floats: Float64Array, ints: Int32Array): void {
-  if (!spareFloats || spareFloats.length < floats.length) spareFloats = floats;
-  if (!spareInts || spareInts.length < ints.length) spareInts = ints;
-}
+const NO_FLOATS = new Float64Array(0);
+const NO_INTS = new Int32Array(0);
 
 export class TransferBlock {
   /** H after `solve`: input c of output k at frequency f of the block at (k·m + c)·B + f. */
@@ -95,11 +65,12 @@ export class TransferBlock {
     this.p = p;
     this.four = n === 4 && p === 1;
     const lu = n === 2 || this.four ? 0 : n;
-    // Every per-frequency array is a view of one lent buffer (see takeFloats).
+    // Every per-frequency array is a view of one lent array (lent-memory.ts), given back by `release`.
     this.floats = takeFloats(B * (2 * p * m + 2 * p + 2 * lu * lu + 3 * lu + 2 * n * p + workArrays));
-    this.ints = takeInts(B * (lu + 1));
+    this.ints = lu === 0 ? NO_INTS : takeInts(B * (lu + 1));
     let at = 0;
-    const next = (length: number): Float64Array => this.floats.subarray(at, (at += length));
+    // The LU's arrays are empty where it is not used: one shared empty array, not a view each.
+    const next = (length: number): Float64Array => (length === 0 ? NO_FLOATS : this.floats.subarray(at, (at += length)));
     this.hRe = next(p * m * B);
     this.hIm = next(p * m * B);
     this.sRe = next(p * B);
@@ -112,16 +83,18 @@ export class TransferBlock {
     this.gRe = next(n * p * B);
     this.gIm = next(n * p * B);
     this.work = Array.from({ length: workArrays }, () => next(B));
-    this.piv = this.ints.subarray(0, lu * B);
-    this.eliminate = this.ints.subarray(lu * B, (lu + 1) * B);
+    this.piv = lu === 0 ? NO_INTS : this.ints.subarray(0, lu * B);
+    this.eliminate = lu === 0 ? NO_INTS : this.ints.subarray(lu * B, (lu + 1) * B);
     // The Ω-independent parts, laid out as TransferEvaluator lays them out.
     this.fixed = layOutFixedParts(model, rows);
     if (n === 2) this.single = new TransferEvaluator(model, rows);
   }
 
-  /** Gives the block's memory to the next block made; this one is not used after. */
+  /** Gives the block's memory to the next solver made; this one is not used after. */
   release(): void {
-    giveBack(this.floats, this.ints);
+    giveBackArrays(this.floats, this.ints);
+    giveBackArrays(this.fixed.floats, this.fixed.ints);
+    this.single?.release();
   }
 
   /**
