@@ -1,4 +1,4 @@
-import { noiseBudget, type NoiseBudget } from "./engine/budget";
+import { noiseBudget, noiseBudgets, type NoiseBudget } from "./engine/budget";
 import { budgetByMechanism, type MechanismBudget } from "./engine/mechanisms";
 import type { PhysicalityReport } from "./engine/covariance";
 import { checkGrid, DEFAULT_GRID_POINTS, logGrid, type FrequencyGridSpec } from "./setup/grid";
@@ -49,6 +49,18 @@ export function evaluate(prepared: PreparedSetup, grid?: FrequencyGridSpec | Flo
       return (warnings ??= [...budget.warnings, ...prepared.warnings]);
     },
   };
+}
+
+/**
+ * The budgets of a prepared set-up on several lists of frequencies (Hz, each checked as evaluate
+ * checks one), solved in one pass over all of them: each has the bits of evaluate(prepared,
+ * list).budget. Throws what evaluate throws for one of the lists (not necessarily the first).
+ */
+export function evaluateBudgets(prepared: PreparedSetup, lists: readonly Float64Array[]): NoiseBudget[] {
+  return noiseBudgets(
+    prepared.assembled,
+    lists.map((list) => frequenciesOf(list)),
+  );
 }
 
 /**

@@ -48,42 +48,81 @@ export interface NoiseBudget {
  * which sums to S exactly because Σ_g S_g = S_y.
  */
 export function noiseBudget(assembled: AssembledSetup, frequencies: Float64Array): NoiseBudget {
-  const { model, readoutRows, referredTo, signal, setup } = assembled;
+  return noiseBudgets(assembled, [frequencies])[0];
+}
+
+/**
+ * The budgets of one set-up on several lists of frequencies, solved in one pass over all of them
+ * (a figure at its own frequency beside a curve: one set-up of the solvers instead of two). Each
+ * is the budget noiseBudget gives for its list, bit for bit: every frequency gets the same
+ * operations alone or in a block. Throws what noiseBudget throws for one of the lists, though
+ * not necessarily for the first list that noiseBudget alone would refuse.
+ */
+export function noiseBudgets(assembled: AssembledSetup, lists: readonly Float64Array[]): NoiseBudget[] {
+  const { model, readoutRows, referredTo } = assembled;
   const groups = model.groups;
-  const nf = frequencies.length;
   const p = readoutRows.length;
   const nGroups = groups.length;
-  // One allocation for the total and every term (a typed array costs about as much to allocate
-  // as tens of frequencies cost to compute): the total first, then each group's, as views.
-  const curves = new Float64Array((1 + nGroups) * nf);
-  const total = curves.subarray(0, nf);
-  const termPsd = groups.map((_, g) => curves.subarray((1 + g) * nf, (2 + g) * nf));
-  for (const input of model.classicalInputs ?? []) input.requireCovers(frequencies);
-  const entries = new GroupEntries(model, groups);
-  // The angular frequencies and the referral factor (|χ|² for displacement), which serves the
-  // terms and every reference curve, kept for the reference curves.
-  const atFrequency = new Float64Array(2 * nf);
-  const omegas = atFrequency.subarray(0, nf);
-  const factors = atFrequency.subarray(nf);
+  for (const frequencies of lists) for (const input of model.classicalInputs ?? []) input.requireCovers(frequencies);
+  let nf = 0;
+  for (const frequencies of lists) nf += frequencies.length;
+  // One allocation (a typed array costs about as much to allocate as tens of frequencies cost to
+  // compute) for the totals and every term (the totals first, then each group's), the angular
+  // frequencies and the referral factor (|χ|² for displacement), which serves the terms and every
+  // reference curve and is kept for them, and the frequencies of every list one after another (a
+  // single list is used as it is).
+  const buffer = new Float64Array((1 + nGroups + 2 + (lists.length === 1 ? 0 : 1)) * nf);
+  const curves = buffer.subarray(0, (1 + nGroups) * nf);
+  const omegas = buffer.subarray((1 + nGroups) * nf, (2 + nGroups) * nf);
+  const factors = buffer.subarray((2 + nGroups) * nf, (3 + nGroups) * nf);
+  const all = lists.length === 1 ? lists[0] : buffer.subarray((3 + nGroups) * nf);
+  if (lists.length > 1) {
+    let at = 0;
+    for (const frequencies of lists) {
+      all.set(frequencies, at);
+      at += frequencies.length;
+    }
+  }
   for (let f = 0; f < nf; f++) {
-    const omega = 2 * Math.PI * frequencies[f];
+    const omega = 2 * Math.PI * all[f];
     omegas[f] = omega;
     factors[f] = referredTo.psdFactor(omega);
   }
+  const entries = new GroupEntries(model, groups);
   // A few frequencies (a figure at one frequency) go one at a time: a block solver costs more to set up than they take.
-  if (p === 1 && nf >= BLOCK_FROM) singleOutputCurves(model, readoutRows, entries, frequencies, omegas, factors, curves);
-  else oneAtATimeCurves(model, readoutRows, entries, frequencies, omegas, factors, curves);
+  if (p === 1 && nf >= BLOCK_FROM) singleOutputCurves(model, readoutRows, entries, all, omegas, factors, curves);
+  else oneAtATimeCurves(model, readoutRows, entries, all, omegas, factors, curves);
+  const budgets: NoiseBudget[] = [];
+  let from = 0;
+  for (const frequencies of lists) {
+    const to = from + frequencies.length;
+    budgets.push(budgetOf(assembled, frequencies, curves, nf, from, to, omegas.subarray(from, to), factors.subarray(from, to)));
+    from = to;
+  }
+  return budgets;
+}
+
+/**
+ * The budget on frequencies from … to − 1 of curves solved for nf frequencies (`curves`: the
+ * totals, then each group's terms, nf values each); `omegas` and `factors` are the list's own.
+ */
+function budgetOf(assembled: AssembledSetup, frequencies: Float64Array, curves: Float64Array, nf: number, from: number, to: number, omegas: Float64Array, factors: Float64Array): NoiseBudget {
+  const { model, readoutRows, referredTo, signal, setup } = assembled;
+  const groups = model.groups;
+  const nGroups = groups.length;
+  const p = readoutRows.length;
+  const total = curves.subarray(from, to);
   let blindPoints = 0;
-  for (let f = 0; f < nf; f++) {
+  for (let f = from; f < to; f++) {
     // No response, or one so weak that the referred noise overflows: reported as blind.
-    if (!Number.isFinite(total[f])) {
+    if (!Number.isFinite(curves[f])) {
       blindPoints++;
-      total[f] = Infinity;
+      curves[f] = Infinity;
       for (let g = 0; g < nGroups; g++) curves[(1 + g) * nf + f] = Infinity;
     }
   }
-
-  if (blindPoints === nf) {
+  const count = to - from;
+  if (blindPoints === count) {
     throw new QuietframeError({
       path: "readout",
       value: setup.readout,
@@ -93,14 +132,13 @@ export function noiseBudget(assembled: AssembledSetup, frequencies: Float64Array
   }
   const warnings: string[] = [];
   if (blindPoints > 0) {
-    warnings.push(`the readout is blind to the signal at ${blindPoints} of ${nf} frequencies: the referred noise there is infinite or beyond floating-point range`);
+    warnings.push(`the readout is blind to the signal at ${blindPoints} of ${count} frequencies: the referred noise there is infinite or beyond floating-point range`);
   }
 
   const terms: BudgetTerm[] = [];
   groups.forEach((g, i) => {
-    if (!allZero(termPsd[i])) {
-      terms.push({ id: g.id, label: g.label, owner: g.owner, category: g.category, psd: termPsd[i] });
-    }
+    const psd = curves.subarray((1 + i) * nf + from, (1 + i) * nf + to);
+    if (!allZero(psd)) terms.push({ id: g.id, label: g.label, owner: g.owner, category: g.category, psd });
   });
   // Each reference curve is computed when it is first read (a figure of merit reads one, a
   // noise band none): from the angular frequencies and factors of this call, so it has the
@@ -137,21 +175,25 @@ function oneAtATimeCurves(
   const nf = frequencies.length;
   const nGroups = model.groups.length;
   const evaluator = new TransferEvaluator(model, readoutRows);
-  const referral: SignalReferral = readoutRows.length === 1 ? new SingleOutput(entries) : new OptimalCombination(entries, nGroups, readoutRows.length);
-  const referred = new Float64Array(nGroups);
-  for (let f = 0; f < nf; f++) {
-    evaluator.at(omegas[f]);
-    entries.atFrequency(frequencies[f]);
-    let sum = Infinity;
-    if (referral.refer(evaluator, referred)) {
-      sum = 0;
-      for (let g = 0; g < nGroups; g++) {
-        const v = referred[g] * factors[f];
-        curves[(1 + g) * nf + f] = v;
-        sum += v;
+  try {
+    const referral: SignalReferral = readoutRows.length === 1 ? new SingleOutput(entries) : new OptimalCombination(entries, nGroups, readoutRows.length);
+    const referred = new Float64Array(nGroups);
+    for (let f = 0; f < nf; f++) {
+      evaluator.at(omegas[f]);
+      entries.atFrequency(frequencies[f]);
+      let sum = Infinity;
+      if (referral.refer(evaluator, referred)) {
+        sum = 0;
+        for (let g = 0; g < nGroups; g++) {
+          const v = referred[g] * factors[f];
+          curves[(1 + g) * nf + f] = v;
+          sum += v;
+        }
       }
+      curves[f] = sum;
     }
-    curves[f] = sum;
+  } finally {
+    evaluator.release();
   }
 }
 
@@ -195,8 +237,27 @@ function blockCurves(transfer: TransferBlock, entries: GroupEntries, frequencies
       curves[from + f] = 0;
     }
     for (let g = 0; g + 1 < start.length; g++) {
+      const o = (1 + g) * nf + from;
+      const first = start[g];
+      if (start[g + 1] === first + 1 && classical.spectrumOf(first) === undefined) {
+        // One white entry (an uncorrelated input): its sum and its share in one pass, the sum
+        // still started from 0 (0 + x is +0 where x is −0, as the sum of several entries would be).
+        const i = ni[first] * size;
+        const j = nj[first] * size;
+        const w = nv[first];
+        for (let f = 0; f < count; f++) {
+          const ar = hRe[i + f];
+          const ai = hIm[i + f];
+          const br = hRe[j + f];
+          const bi = -hIm[j + f];
+          const v = ((0 + w * (ar * br - ai * bi)) / h2[f]) * factors[from + f];
+          curves[o + f] = v;
+          curves[from + f] += v;
+        }
+        continue;
+      }
       sr.fill(0, 0, count);
-      for (let e = start[g]; e < start[g + 1]; e++) {
+      for (let e = first; e < start[g + 1]; e++) {
         const i = ni[e] * size;
         const j = nj[e] * size;
         const spectrum = classical.spectrumOf(e);
@@ -210,7 +271,6 @@ function blockCurves(transfer: TransferBlock, entries: GroupEntries, frequencies
           sr[f] += (spectrum ? spectrum[f] : w) * (ar * br - ai * bi);
         }
       }
-      const o = (1 + g) * nf + from;
       for (let f = 0; f < count; f++) {
         const v = (sr[f] / h2[f]) * factors[from + f];
         curves[o + f] = v;
@@ -265,29 +325,30 @@ class GroupEntries {
   private readonly classical: { readonly entry: number; readonly psdAt: (frequency: number) => number }[] = [];
   constructor(model: StateSpaceModel, groups: readonly NoiseGroup[]) {
     const m = model.nInputs;
-    const spectra = new Map((model.classicalInputs ?? []).map((c) => [c.column, c.psdAt]));
-    const start: number[] = [0];
-    const ni: number[] = [];
-    const nj: number[] = [];
-    const nv: number[] = [];
-    for (const g of groups) {
+    const N = model.N;
+    // The entries are counted first, so the arrays are written in place.
+    let count = 0;
+    for (const g of groups) for (const i of g.columns) for (const j of g.columns) if (N[i * m + j] !== 0) count++;
+    this.start = new Int32Array(groups.length + 1);
+    this.ni = new Int32Array(count);
+    this.nj = new Int32Array(count);
+    this.nv = new Float64Array(count);
+    const classical = model.classicalInputs ?? [];
+    let e = 0;
+    groups.forEach((g, k) => {
       for (const i of g.columns) {
         for (const j of g.columns) {
-          const nij = model.N[i * m + j];
+          const nij = N[i * m + j];
           if (nij === 0) continue;
-          const psdAt = i === j ? spectra.get(i) : undefined;
-          if (psdAt) this.classical.push({ entry: nv.length, psdAt });
-          ni.push(i);
-          nj.push(j);
-          nv.push(nij);
+          const psdAt = i === j && classical.length > 0 ? classical.find((c) => c.column === i)?.psdAt : undefined;
+          if (psdAt) this.classical.push({ entry: e, psdAt });
+          this.ni[e] = i;
+          this.nj[e] = j;
+          this.nv[e++] = nij;
         }
       }
-      start.push(nv.length);
-    }
-    this.start = Int32Array.from(start);
-    this.ni = Int32Array.from(ni);
-    this.nj = Int32Array.from(nj);
-    this.nv = Float64Array.from(nv);
+      this.start[k + 1] = e;
+    });
   }
 
   /** Puts each classical input's PSD at this frequency (Hz) in place of its white-noise placeholder. */

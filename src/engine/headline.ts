@@ -17,17 +17,11 @@ export interface HeadlineFigures {
 export function headlineFigures(budget: NoiseBudget): HeadlineFigures {
   const f = budget.frequencies;
   const sql = budget.references.find((r) => r.id === "sql")?.psd;
-  let bestMarginDb = -Infinity;
-  let bestMarginAt = NaN;
+  const { bestMarginDb, bestMarginAt } = bestMargin(budget);
   const bands: [number, number][] = [];
   if (sql) {
     let open: number | undefined;
     for (let i = 0; i < f.length; i++) {
-      const margin = 10 * log10(sql[i] / budget.total[i]);
-      if (margin > bestMarginDb) {
-        bestMarginDb = margin;
-        bestMarginAt = f[i];
-      }
       const below = budget.total[i] < sql[i];
       if (below && open === undefined) open = i;
       if ((!below || i === f.length - 1) && open !== undefined) {
@@ -51,6 +45,28 @@ export function headlineFigures(budget: NoiseBudget): HeadlineFigures {
     else dominant.push({ from: f[i], to: f[i], term: best });
   }
   return { bestMarginDb, bestMarginAt, belowSqlBands: bands, dominant };
+}
+
+/**
+ * The largest margin of the total noise below the SQL (dB of power) and its frequency, as
+ * headlineFigures gives them (−∞ and NaN without an SQL): for a figure of merit, which needs
+ * neither the bands nor the largest terms.
+ */
+export function bestMargin(budget: NoiseBudget): Pick<HeadlineFigures, "bestMarginDb" | "bestMarginAt"> {
+  const f = budget.frequencies;
+  const sql = budget.references.find((r) => r.id === "sql")?.psd;
+  let bestMarginDb = -Infinity;
+  let bestMarginAt = NaN;
+  if (sql) {
+    for (let i = 0; i < f.length; i++) {
+      const margin = 10 * log10(sql[i] / budget.total[i]);
+      if (margin > bestMarginDb) {
+        bestMarginDb = margin;
+        bestMarginAt = f[i];
+      }
+    }
+  }
+  return { bestMarginDb, bestMarginAt };
 }
 
 /** A few lines of plain text for terminals and notebook text/plain output. */

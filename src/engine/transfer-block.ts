@@ -4,47 +4,19 @@
  * frequency as the innermost loop. Each matrix entry holds its values at every frequency of the
  * block side by side (entry e, frequency f at e·B + f), so the loops run long and without calls
  * instead of over the few entries of a small model; pivoting stays per frequency. A one-mode
- * model keeps TransferEvaluator's closed-form 2×2 inverse, one frequency at a time.
+ * model keeps TransferEvaluator's closed-form 2×2 inverse, one frequency at a time; four states
+ * read by one output (every example) go through the written-out kernel of transfer-four.ts.
  */
 import type { StateSpaceModel } from "../network/model";
 import { type FixedParts, layOutFixedParts, TransferEvaluator, undampedModeError } from "./transfer";
+import { giveBackArrays, takeFloats, takeInts } from "./lent-memory";
+import { solveFourStates } from "./transfer-four";
 
 /** Frequencies per block: long enough for the loops, short enough that a large model's block stays in cache. */
 export const TRANSFER_BLOCK = 64;
 
-/**
- * Memory lent from one block to the next: a budget per trial (a search, a Monte Carlo sample)
- * would otherwise allocate tens of kilobytes of typed arrays each time, whose allocation and
- * collection cost more than a small model's solves. A block takes the spare buffers when they
- * are large enough and gives them back on `release`; one made while another holds them gets
- * its own. Every value a block reads it has written first, so what a buffer held before changes
- * nothing.
- */
-let spareFloats: Float64Array | undefined;
-let spareInts: Int32Array | undefined;
-
-function takeFloats(length: number): Float64Array {
-  const spare = spareFloats;
-  if (spare && spare.length >= length) {
-    spareFloats = undefined;
-    return spare;
-  }
-  return new Float64Array(length);
-}
-
-function takeInts(length: number): Int32Array {
-  const spare = spareInts;
-  if (spare && spare.length >= length) {
-    spareInts = undefined;
-    return spare;
-  }
-  return new Int32Array(length);
-}
-
-function giveBack(floats: Float64Array, ints: Int32Array): void {
-  if (!spareFloats || spareFloats.length < floats.length) spareFloats = floats;
-  if (!spareInts || spareInts.length < ints.length) spareInts = ints;
-}
+const NO_FLOATS = new Float64Array(0);
+const NO_INTS = new Int32Array(0);
 
 export class TransferBlock {
   /** H after `solve`: input c of output k at frequency f of the block at (k·m + c)·B + f. */
@@ -75,6 +47,8 @@ export class TransferBlock {
   private readonly ints: Int32Array;
   /** The one-frequency evaluator of one-mode models. */
   private readonly single?: TransferEvaluator;
+  /** Four states and one output: solved by solveFourStates, without the arrays of the LU below. */
+  private readonly four: boolean;
 
   constructor(
     model: StateSpaceModel,
@@ -89,12 +63,14 @@ export class TransferBlock {
     this.n = n;
     this.m = m;
     this.p = p;
-    const lu = n === 2 ? 0 : n;
-    // Every per-frequency array is a view of one lent buffer (see takeFloats).
+    this.four = n === 4 && p === 1;
+    const lu = n === 2 || this.four ? 0 : n;
+    // Every per-frequency array is a view of one lent array (lent-memory.ts), given back by `release`.
     this.floats = takeFloats(B * (2 * p * m + 2 * p + 2 * lu * lu + 3 * lu + 2 * n * p + workArrays));
-    this.ints = takeInts(B * (lu + 1));
+    this.ints = lu === 0 ? NO_INTS : takeInts(B * (lu + 1));
     let at = 0;
-    const next = (length: number): Float64Array => this.floats.subarray(at, (at += length));
+    // The LU's arrays are empty where it is not used: one shared empty array, not a view each.
+    const next = (length: number): Float64Array => (length === 0 ? NO_FLOATS : this.floats.subarray(at, (at += length)));
     this.hRe = next(p * m * B);
     this.hIm = next(p * m * B);
     this.sRe = next(p * B);
@@ -107,16 +83,18 @@ export class TransferBlock {
     this.gRe = next(n * p * B);
     this.gIm = next(n * p * B);
     this.work = Array.from({ length: workArrays }, () => next(B));
-    this.piv = this.ints.subarray(0, lu * B);
-    this.eliminate = this.ints.subarray(lu * B, (lu + 1) * B);
+    this.piv = lu === 0 ? NO_INTS : this.ints.subarray(0, lu * B);
+    this.eliminate = lu === 0 ? NO_INTS : this.ints.subarray(lu * B, (lu + 1) * B);
     // The Ω-independent parts, laid out as TransferEvaluator lays them out.
     this.fixed = layOutFixedParts(model, rows);
     if (n === 2) this.single = new TransferEvaluator(model, rows);
   }
 
-  /** Gives the block's memory to the next block made; this one is not used after. */
+  /** Gives the block's memory to the next solver made; this one is not used after. */
   release(): void {
-    giveBack(this.floats, this.ints);
+    giveBackArrays(this.floats, this.ints);
+    giveBackArrays(this.fixed.floats, this.fixed.ints);
+    this.single?.release();
   }
 
   /**
@@ -131,7 +109,10 @@ export class TransferBlock {
       this.solveOneAtATime(single, omegas, from, count);
       return;
     }
-    if (this.n > 0) {
+    if (this.four) {
+      const good = solveFourStates(this.fixed.negA, this.fixed.cT, omegas, from, count, this.gRe, this.gIm, this.size);
+      if (good < count) throw undampedModeError(omegas[from + good]);
+    } else if (this.n > 0) {
       const good = this.factor(omegas, from, count);
       if (good < count) throw undampedModeError(omegas[from + good]);
       this.solveTransposed(count);
@@ -338,6 +319,16 @@ export class TransferBlock {
       for (let c = 0; c < m; c++) {
         const o = (k * m + c) * B;
         const d = dRows[k * m + c];
+        if (bStart[c + 1] === bStart[c] + 1) {
+          // One entry (the commonest column): the sums started and taken in one pass, d + g b and 0 + g b.
+          const g = (bRow[bStart[c]] * p + k) * B;
+          const b = bVal[bStart[c]];
+          for (let f = 0; f < count; f++) {
+            hRe[o + f] = d + gRe[g + f] * b;
+            hIm[o + f] = 0 + gIm[g + f] * b;
+          }
+          continue;
+        }
         for (let f = 0; f < count; f++) {
           hRe[o + f] = d;
           hIm[o + f] = 0;

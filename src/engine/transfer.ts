@@ -1,6 +1,7 @@
 import { complexLuFactor, complexLuSolveTransposed, type PivotInverses } from "../linalg/complex-lu";
 import { SingularMatrixError } from "../linalg/singular-error";
 import type { StateSpaceModel } from "../network/model";
+import { giveBackArrays, takeFloats, takeInts } from "./lent-memory";
 
 /** M = −iΩ I − A is singular at this angular frequency: an undamped mode exactly there. */
 export function undampedModeError(omega: number): Error {
@@ -37,6 +38,9 @@ export class TransferEvaluator {
   private readonly piv: Int32Array;
   /** Reciprocals of the pivots, kept by the factorisation for the solve. */
   private readonly inverses: PivotInverses;
+  /** The lent arrays every array above is a view of. */
+  private readonly floats: Float64Array;
+  private readonly ints: Int32Array;
   /** G = C_r (−iΩ I − A)⁻¹ after `at`, stored transposed (n×p: G[k, j] at j·p + k). */
   readonly gRe: Float64Array;
   readonly gIm: Float64Array;
@@ -49,17 +53,28 @@ export class TransferEvaluator {
     this.n = n;
     this.m = m;
     this.p = p;
-    this.hRe = new Float64Array(p * m);
-    this.hIm = new Float64Array(p * m);
-    this.sRe = new Float64Array(p);
-    this.sIm = new Float64Array(p);
     this.fixed = layOutFixedParts(model, rows);
-    this.mRe = new Float64Array(n * n);
-    this.mIm = new Float64Array(n * n);
-    this.piv = new Int32Array(n);
-    this.inverses = { re: new Float64Array(n), im: new Float64Array(n) };
-    this.gRe = new Float64Array(n * p);
-    this.gIm = new Float64Array(n * p);
+    // Every array is a view of one lent array (lent-memory.ts), given back by `release`.
+    this.floats = takeFloats(2 * p * m + 2 * p + 2 * n * n + 2 * n + 2 * n * p);
+    this.ints = takeInts(n);
+    let at = 0;
+    const next = (length: number): Float64Array => this.floats.subarray(at, (at += length));
+    this.hRe = next(p * m);
+    this.hIm = next(p * m);
+    this.sRe = next(p);
+    this.sIm = next(p);
+    this.mRe = next(n * n);
+    this.mIm = next(n * n);
+    this.inverses = { re: next(n), im: next(n) };
+    this.gRe = next(n * p);
+    this.gIm = next(n * p);
+    this.piv = this.ints.subarray(0, n);
+  }
+
+  /** Gives the evaluator's memory to the next solver made; this one is not used after. */
+  release(): void {
+    giveBackArrays(this.floats, this.ints);
+    giveBackArrays(this.fixed.floats, this.fixed.ints);
   }
 
   /**
@@ -187,52 +202,59 @@ export interface FixedParts {
   /** Non-zero entries of the signal's column b_s. */
   readonly sRow: Int32Array;
   readonly sVal: Float64Array;
+  /** The lent arrays the parts are views of, given back with giveBackArrays. */
+  readonly floats: Float64Array;
+  readonly ints: Int32Array;
 }
 
-/** Lays out the Ω-independent parts of `model` for the output `rows`. */
+/** Lays out the Ω-independent parts of `model` for the output `rows`, in lent memory (lent-memory.ts). */
 export function layOutFixedParts(model: StateSpaceModel, rows: readonly number[]): FixedParts {
   const n = model.nStates;
   const m = model.nInputs;
   const p = rows.length;
-  const negA = new Float64Array(n * n);
+  // The non-zero entries are counted first, so every part is a view of two lent arrays.
+  let nonZeroB = 0;
+  for (let i = 0; i < n * m; i++) if (model.B[i] !== 0) nonZeroB++;
+  let nonZeroS = 0;
+  for (let j = 0; j < n; j++) if (model.signalB[j] !== 0) nonZeroS++;
+  const floats = takeFloats(n * n + n * p + p * m + p + nonZeroB + nonZeroS);
+  const ints = takeInts(m + 1 + nonZeroB + nonZeroS);
+  let atFloat = 0;
+  let atInt = 0;
+  const nextFloats = (length: number): Float64Array => floats.subarray(atFloat, (atFloat += length));
+  const nextInts = (length: number): Int32Array => ints.subarray(atInt, (atInt += length));
+  const negA = nextFloats(n * n);
   for (let i = 0; i < n * n; i++) negA[i] = -model.A[i];
-  const cT = new Float64Array(n * p);
-  const dRows = new Float64Array(p * m);
-  const sD = new Float64Array(p);
+  const cT = nextFloats(n * p);
+  const dRows = nextFloats(p * m);
+  const sD = nextFloats(p);
   for (let k = 0; k < p; k++) {
     const row = rows[k];
     for (let j = 0; j < n; j++) cT[j * p + k] = model.C[row * n + j];
     for (let c = 0; c < m; c++) dRows[k * m + c] = model.D[row * m + c];
     sD[k] = model.signalD[row];
   }
-  const start: number[] = [0];
-  const bRow: number[] = [];
-  const bVal: number[] = [];
+  const bStart = nextInts(m + 1);
+  const bRow = nextInts(nonZeroB);
+  const bVal = nextFloats(nonZeroB);
+  let e = 0;
+  bStart[0] = 0;
   for (let c = 0; c < m; c++) {
     for (let j = 0; j < n; j++) {
       const b = model.B[j * m + c];
       if (b === 0) continue;
-      bRow.push(j);
-      bVal.push(b);
+      bRow[e] = j;
+      bVal[e++] = b;
     }
-    start.push(bRow.length);
+    bStart[c + 1] = e;
   }
-  const sRow: number[] = [];
-  const sVal: number[] = [];
+  const sRow = nextInts(nonZeroS);
+  const sVal = nextFloats(nonZeroS);
+  e = 0;
   for (let j = 0; j < n; j++) {
     if (model.signalB[j] === 0) continue;
-    sRow.push(j);
-    sVal.push(model.signalB[j]);
+    sRow[e] = j;
+    sVal[e++] = model.signalB[j];
   }
-  return {
-    negA,
-    cT,
-    dRows,
-    sD,
-    bStart: Int32Array.from(start),
-    bRow: Int32Array.from(bRow),
-    bVal: Float64Array.from(bVal),
-    sRow: Int32Array.from(sRow),
-    sVal: Float64Array.from(sVal),
-  };
+  return { negA, cT, dRows, sD, bStart, bRow, bVal, sRow, sVal, floats, ints };
 }

@@ -1,5 +1,5 @@
 import type { NoiseBudget } from "../engine/budget";
-import { headlineFigures } from "../engine/headline";
+import { bestMargin } from "../engine/headline";
 import { log10 } from "../numeric/portable-math";
 import { inspiralRange } from "../reach";
 import type { FigurePlan } from "./spec";
@@ -25,7 +25,7 @@ export function figureValue(figure: FigurePlan, budget: NoiseBudget, frequencies
       return 10 * log10(reference / noise);
     }
     case "best-margin":
-      return headlineFigures(budget).bestMarginDb;
+      return bestMargin(budget).bestMarginDb;
     case "range-gain": {
       if (budget.quantity.name !== "strain") throw new Error(`internal: a range-gain cell is referred to ${budget.quantity.name}`);
       const ratio = inspiralRange(frequencies, budget.total, figure.inspiral).metres / figure.referenceMetres;

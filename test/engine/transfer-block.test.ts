@@ -126,6 +126,28 @@ describe("TransferBlock gives TransferEvaluator's bits", () => {
     );
   });
 
+  it("random sparse models of four states read by one output (the written-out kernel), frequencies across the poles", () => {
+    fc.assert(
+      fc.property(fc.record({ A: sparse(16), B: sparse(12), C: sparse(8), D: sparse(6), sB: sparse(4), sD: sparse(2), output: fc.constantFrom(0, 1) }), (r) => {
+        const mdl = model(4, 3, 2, r);
+        const omegas = logOmegas(1e-3, 1e4, 130);
+        let expected: string | undefined;
+        try {
+          for (const w of omegas) new TransferEvaluator(mdl, [r.output]).at(w);
+        } catch (e) {
+          // A random model singular on the grid: both ways must refuse it alike.
+          expected = (e as Error).message;
+        }
+        if (expected !== undefined) {
+          expect(() => firstDifference(mdl, [r.output], omegas, 64)).toThrow(expected);
+          return;
+        }
+        expect(firstDifference(mdl, [r.output], omegas, 64)).toBeUndefined();
+      }),
+      { seed: 44, numRuns: 400 },
+    );
+  });
+
   it("an undamped mode exactly on a frequency of the block: the same error at the same frequency", () => {
     // Two modes: one undamped at Ω₀ = 3 rad/s, one damped; 4 states, so the LU path.
     const w0 = 3;
