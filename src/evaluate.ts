@@ -57,10 +57,7 @@ export function evaluate(prepared: PreparedSetup, grid?: FrequencyGridSpec | Flo
  * list).budget. Throws what evaluate throws for one of the lists (not necessarily the first).
  */
 export function evaluateBudgets(prepared: PreparedSetup, lists: readonly Float64Array[]): NoiseBudget[] {
-  return noiseBudgets(
-    prepared.assembled,
-    lists.map((list) => frequenciesOf(list)),
-  );
+  return noiseBudgets(prepared.assembled, lists.map(frequenciesOf));
 }
 
 /**

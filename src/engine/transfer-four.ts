@@ -15,7 +15,7 @@
  * pivot is zero or not finite (an undamped mode exactly there) stops it.
  */
 export function solveFourStates(negA: Float64Array, cT: Float64Array, omegas: Float64Array, from: number, count: number, gRe: Float64Array, gIm: Float64Array, stride: number): number {
-  // Typed arrays are read by index here: destructuring them goes through their iterator, which costs more than the kernel.
+  // −A and C_r are read by index at each frequency: destructuring a typed array goes through its iterator, which costs more than the kernel.
   for (let f = 0; f < count; f++) {
     const omega = omegas[from + f];
     // M = −iΩ I − A
@@ -358,10 +358,10 @@ export function solveFourStates(negA: Float64Array, cT: Float64Array, omegas: Fl
       [x0, x3] = [x3, x0];
       [y0, y3] = [y3, y0];
     }
-    gRe[0 * stride + f] = x0;
-    gIm[0 * stride + f] = y0;
-    gRe[1 * stride + f] = x1;
-    gIm[1 * stride + f] = y1;
+    gRe[f] = x0;
+    gIm[f] = y0;
+    gRe[stride + f] = x1;
+    gIm[stride + f] = y1;
     gRe[2 * stride + f] = x2;
     gIm[2 * stride + f] = y2;
     gRe[3 * stride + f] = x3;

@@ -73,10 +73,13 @@ describe("budgets on several lists of frequencies at once give each list's own b
 });
 
 describe("a figure with its noise curve is the figure's evaluation followed by the curve's", () => {
+  /** What an evaluation gave: the figure and the curve's bytes, or the refusal's message. */
+  type Seen = { value?: number; curve?: string; message?: string };
+
   /** The two evaluations one after the other, as an outcome. */
-  function oneAfterTheOther(setup: string, problem: ReturnType<typeof designProblem>, curveFrequencies: Float64Array) {
+  function oneAfterTheOther(setup: string, problem: ReturnType<typeof designProblem>, curveFrequencies: Float64Array): Seen {
     const prepared = prepare(setup);
-    const figureOutcome = (() => {
+    const figureOutcome = ((): Seen => {
       try {
         return { value: figureValue(problem.plan, evaluate(prepared, problem.figureFrequencies).budget, problem.figureFrequencies) };
       } catch (e) {
@@ -91,7 +94,7 @@ describe("a figure with its noise curve is the figure's evaluation followed by t
     }
   }
 
-  function outcome(problem: ReturnType<typeof designProblem>, curveFrequencies: Float64Array) {
+  function outcome(problem: ReturnType<typeof designProblem>, curveFrequencies: Float64Array): Seen {
     const o = problem.evaluateWithCurve({}, [], curveFrequencies);
     return o.message !== undefined ? { message: o.message } : { value: o.value, curve: o.curve && bytes(o.curve) };
   }
