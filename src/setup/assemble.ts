@@ -73,7 +73,7 @@ export function assemble(setup: ResolvedSetup): AssembledSetup {
     }
     linkedBodies[k] = bodies;
     // A laser's intensity noise rides on the light arriving at the component that carries its drive.
-    const drives = classical.length === 0 ? [] : classical.flatMap((t) => (t.drive?.on === component.name ? [t.drive] : []));
+    const drives = classical.flatMap((t) => (t.drive?.on === component.name ? [t.drive] : []));
     emitted[k] = kind.wire({ builder, component, handle: handles[k], inputs: withDriveNoise(builder, inputs, drives), bodies });
   }
 
