@@ -35,20 +35,40 @@ export interface Evaluation {
  * (path `readout`).
  */
 export function evaluate(prepared: PreparedSetup, grid?: FrequencyGridSpec | Float64Array): Evaluation {
-  const budget = noiseBudget(prepared.assembled, frequenciesOf(grid ?? prepared.setup.grid ?? FALLBACK_GRID));
-  let warnings: readonly string[] | undefined;
-  return {
-    assembled: prepared.assembled,
-    stability: prepared.stability,
-    physicality: prepared.physicality,
-    budget,
-    get cautions(): readonly string[] {
-      return prepared.cautions;
-    },
-    get warnings(): readonly string[] {
-      return (warnings ??= [...budget.warnings, ...prepared.warnings]);
-    },
-  };
+  return new Evaluated(prepared, noiseBudget(prepared.assembled, frequenciesOf(grid ?? prepared.setup.grid ?? FALLBACK_GRID)));
+}
+
+/** An evaluation whose warnings are written when read (a class: see docs/performance.md on getters). */
+class Evaluated implements Evaluation {
+  readonly #prepared: PreparedSetup;
+  #warnings: readonly string[] | undefined;
+  readonly assembled: AssembledSetup;
+  readonly stability: StabilityReport;
+  readonly physicality: PhysicalityReport | undefined;
+
+  constructor(
+    prepared: PreparedSetup,
+    readonly budget: NoiseBudget,
+  ) {
+    this.#prepared = prepared;
+    this.assembled = prepared.assembled;
+    this.stability = prepared.stability;
+    this.physicality = prepared.physicality;
+  }
+
+  get cautions(): readonly string[] {
+    return this.#prepared.cautions;
+  }
+
+  get warnings(): readonly string[] {
+    return (this.#warnings ??= [...this.budget.warnings, ...this.#prepared.warnings]);
+  }
+
+  /** In JSON as a plain object would be: its fields, cautions and warnings. */
+  toJSON(): Evaluation {
+    const { assembled, stability, physicality, budget, cautions, warnings } = this;
+    return { assembled, stability, physicality, budget, cautions, warnings };
+  }
 }
 
 /**

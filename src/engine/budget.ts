@@ -289,18 +289,43 @@ function allZero(xs: Float64Array): boolean {
 
 /** A reference curve whose PSD (curve × referral factor at each frequency) is computed on first read. */
 function lazyReference(curve: ReferenceCurve, omegas: Float64Array, factors: Float64Array): ReferenceSpectrum {
-  let psd: Float64Array | undefined;
-  return {
-    id: curve.id,
-    label: curve.label,
-    get psd(): Float64Array {
-      if (psd === undefined) {
-        psd = new Float64Array(omegas.length);
-        for (let f = 0; f < omegas.length; f++) psd[f] = curve.psd(omegas[f]) * factors[f];
-      }
-      return psd;
-    },
-  };
+  return new LazyReference(curve, omegas, factors);
+}
+
+/** A class rather than an object with a getter each (see docs/performance.md on getters). */
+class LazyReference implements ReferenceSpectrum {
+  readonly id: string;
+  readonly label: string;
+  readonly #curve: ReferenceCurve;
+  readonly #omegas: Float64Array;
+  readonly #factors: Float64Array;
+  #psd: Float64Array | undefined;
+
+  constructor(curve: ReferenceCurve, omegas: Float64Array, factors: Float64Array) {
+    this.id = curve.id;
+    this.label = curve.label;
+    this.#curve = curve;
+    this.#omegas = omegas;
+    this.#factors = factors;
+  }
+
+  get psd(): Float64Array {
+    if (this.#psd === undefined) {
+      const omegas = this.#omegas;
+      const factors = this.#factors;
+      const curve = this.#curve;
+      const psd = new Float64Array(omegas.length);
+      for (let f = 0; f < omegas.length; f++) psd[f] = curve.psd(omegas[f]) * factors[f];
+      this.#psd = psd;
+    }
+    return this.#psd;
+  }
+
+  /** In JSON as a plain object would be: id, label, psd. */
+  toJSON(): ReferenceSpectrum {
+    const { id, label, psd } = this;
+    return { id, label, psd };
+  }
 }
 
 /** Several detectors whose noise matrix cannot be inverted: two of them see exactly the same noise. */
