@@ -17,6 +17,7 @@ import { DesignRunStopped, spreadAnalysis, type SpreadResult, type UncertaintySp
 import { QuietframeError } from "../../src/errors";
 import { spreadAnalysisOnThreads, toleranceMap, TolerancePool, type ToleranceMapSpec } from "../../src/node";
 import { example, sameBits } from "../tolerance/helpers";
+import { stopAt } from "../helpers/stop-progress";
 
 const squeezed = example("cryogenic-membrane-squeezed.json");
 const FIGURE = { kind: "margin-at", frequency: "1.16 MHz" } as const;
@@ -40,20 +41,6 @@ const OTHER_OPTIONS = { samples: 120, seed: 5, grid: { ...GRID, points: 20 } };
 /** Every field, Float64Arrays as their bytes. */
 function bits(result: SpreadResult): unknown {
   return JSON.parse(JSON.stringify(result, (_key, v) => (v instanceof Float64Array ? Buffer.from(v.buffer, v.byteOffset, v.byteLength).toString("hex") : v)));
-}
-
-/** Aborts in the first progress call and remembers what it was told. */
-function stopAtFirst(): { signal: AbortSignal; onProgress: (done: number, total: number) => void; told: number[] } {
-  const controller = new AbortController();
-  const told: number[] = [];
-  return {
-    signal: controller.signal,
-    told,
-    onProgress: (done) => {
-      told.push(done);
-      controller.abort();
-    },
-  };
 }
 
 describe("Monte Carlo spreads on a warm pool", () => {
@@ -107,13 +94,13 @@ describe("Monte Carlo spreads on a warm pool", () => {
   });
 
   it("a stop mid-run rejects with the samples done and stops the pool's threads; the pool then starts fresh ones and gives the same bits", async () => {
-    const stop = stopAtFirst();
+    const stop = stopAt(1);
     const created = tracked.created;
     const live = tracked.live.size;
     const e = await spreadAnalysisOnThreads(squeezed, FIGURE, UNCERTAIN, { ...OPTIONS, pool, ...stop }).catch((x: unknown) => x);
     expect(e).toBeInstanceOf(DesignRunStopped);
-    expect(e).toMatchObject({ name: "AbortError", total: 300, unit: "samples", done: stop.told[0] });
-    expect(stop.told[0]).toBeLessThan(300);
+    expect(e).toMatchObject({ name: "AbortError", total: 300, unit: "samples", done: stop.calls[0] });
+    expect(stop.calls[0]).toBeLessThan(300);
     expect(tracked.live.size).toBe(live - 2);
     const after = await spreadAnalysisOnThreads(squeezed, FIGURE, UNCERTAIN, { ...OPTIONS, pool });
     expect(bits(after)).toEqual(bits(inProcess));

@@ -13,45 +13,32 @@ import { tracked } from "../helpers/tracked-workers";
 import { DesignRunStopped, spreadAnalysis } from "../../src/design";
 import { runSweepLocally, spreadAnalysisOnThreads, ToleranceMapCancelled } from "../../src/node";
 import { gridSweep, sampleSweep, squeezed, startSweep } from "../sweep/helpers";
+import { stopAt } from "../helpers/stop-progress";
 
 const FIGURE = { kind: "margin-at", frequency: "1.16 MHz" } as const;
 const GRID = { from: "1.1 MHz", to: "1.3 MHz", points: 32 };
 const UNCERTAIN = [{ target: "detector.efficiency", value: "95 % ± 2 %" }];
 const exact = (value: unknown): string => JSON.stringify(value, (_k, v) => (typeof v === "number" && !Number.isFinite(v) ? String(v) : v instanceof Float64Array ? Array.from(v) : v));
 
-/** Aborts in the first progress call and remembers what it was told. */
-function stopAtFirst(): { signal: AbortSignal; onProgress: (done: number, total: number) => void; told: number[] } {
-  const controller = new AbortController();
-  const told: number[] = [];
-  return {
-    signal: controller.signal,
-    told,
-    onProgress: (done) => {
-      told.push(done);
-      controller.abort();
-    },
-  };
-}
-
 describe("stopping a spread on threads", () => {
   it("rejects after the first chunk with the samples done, and every worker has exited", async () => {
     const created = tracked.created;
-    const stop = stopAtFirst();
+    const stop = stopAt(1);
     const e = await spreadAnalysisOnThreads(squeezed, FIGURE, UNCERTAIN, { samples: 400, seed: 3, grid: GRID, workers: 2, ...stop }).catch((x: unknown) => x);
     expect(e).toBeInstanceOf(DesignRunStopped);
-    expect(e).toMatchObject({ name: "AbortError", total: 400, unit: "samples", done: stop.told[0] });
-    expect(stop.told[0]).toBeLessThan(400);
+    expect(e).toMatchObject({ name: "AbortError", total: 400, unit: "samples", done: stop.calls[0] });
+    expect(stop.calls[0]).toBeLessThan(400);
     expect(tracked.created - created).toBe(2);
     expect(tracked.live.size).toBe(0);
   });
 
   it("on one thread (no workers) stops after the first block of samples", async () => {
     const created = tracked.created;
-    const stop = stopAtFirst();
+    const stop = stopAt(1);
     const e = await spreadAnalysisOnThreads(squeezed, FIGURE, UNCERTAIN, { samples: 400, seed: 3, grid: GRID, workers: 1, ...stop }).catch((x: unknown) => x);
     // 400 samples in blocks of ⌈400 / 100⌉ = 4.
     expect(e).toMatchObject({ name: "AbortError", done: 4, total: 400, unit: "samples" });
-    expect(stop.told).toEqual([4]);
+    expect(stop.calls).toEqual([4]);
     expect(tracked.created).toBe(created);
   });
 
@@ -74,12 +61,12 @@ describe("stopping a spread on threads", () => {
 
 describe("stopping a sweep run on this machine", () => {
   it("a map, samples and starts each stop at the first progress call, with no worker left", async () => {
-    const map = stopAtFirst();
+    const map = stopAt(1);
     await expect(runSweepLocally(gridSweep(), { workers: 2, ...map })).rejects.toBeInstanceOf(ToleranceMapCancelled);
-    const samples = stopAtFirst();
+    const samples = stopAt(1);
     const stoppedSamples = await runSweepLocally(sampleSweep(), { workers: 2, ...samples }).catch((x: unknown) => x);
-    expect(stoppedSamples).toMatchObject({ name: "AbortError", unit: "samples", total: 60, done: samples.told[0] });
-    const starts = stopAtFirst();
+    expect(stoppedSamples).toMatchObject({ name: "AbortError", unit: "samples", total: 60, done: samples.calls[0] });
+    const starts = stopAt(1);
     await expect(runSweepLocally(startSweep(), { ...starts })).rejects.toMatchObject({ unit: "starts", done: 1, total: 5 });
     expect(tracked.live.size).toBe(0);
   });

@@ -13,6 +13,7 @@ import type { SetupDescription } from "../../src/setup/format";
 import { computeAnswer } from "../../widgets/design/answer";
 import type { RankingQuestion } from "../../widgets/design/format";
 import { optimumWidget } from "../../widgets/design/notebook";
+import { stopAt } from "../helpers/stop-progress";
 
 const squeezed = JSON.parse(readFileSync(join(__dirname, "..", "..", "examples", "cryogenic-membrane-squeezed.json"), "utf8")) as SetupDescription;
 const FIGURE = { kind: "margin-at", frequency: "1.16 MHz" } as const;
@@ -20,20 +21,6 @@ const GRID = { from: "1.1 MHz", to: "1.3 MHz", points: 32 };
 const PARAMETERS = [{ target: "squeezer.angle", min: "0 deg", max: "180 deg" }];
 const UNCERTAIN = [{ target: "detector.efficiency", value: "95 % ± 2 %" }];
 const exact = (value: unknown): string => JSON.stringify(value, (_k, v) => (typeof v === "number" && !Number.isFinite(v) ? String(v) : v instanceof Float64Array ? Array.from(v) : v));
-
-/** Progress that aborts its controller in call number `k`, counting every call. */
-function stopAt(k: number): { signal: AbortSignal; onProgress: (done: number, total: number) => void; calls: number[] } {
-  const controller = new AbortController();
-  const calls: number[] = [];
-  return {
-    signal: controller.signal,
-    calls,
-    onProgress: (done) => {
-      calls.push(done);
-      if (calls.length === k) controller.abort();
-    },
-  };
-}
 
 function caught(run: () => unknown): unknown {
   try {
