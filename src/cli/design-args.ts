@@ -22,11 +22,11 @@ export const DESIGN_USAGE = `  quietframe rank <setup.json> [--figure F] [--para
   quietframe optimize <setup.json> --param T[=MIN:MAX]... [--figure F] [--starts N] [--seed S] [--format text|json]
       The best figure over the given parameters within their ranges (default: their bounds, or
       a factor 1000 where they have none), from the current values and seeded random starts.
-  quietframe spread <setup.json> --uncertain "T=95 % ± 2 %"... [--samples N] [--seed S] [--target X] [--figure F] [--format text|json]
+  quietframe spread <setup.json> --uncertain "T=95 % ± 2 %"... [--samples N] [--seed S] [--target X] [--figure F] [--threads N] [--format text|json]
       Monte Carlo of the figure under uncertain parameters ("value ± spread", or "± spread" around
       the set-up's value; "normal", the default: spread = standard deviation; "uniform": half-width;
       draws beyond a parameter's bounds are redrawn) beside first-order propagation, with
-      percentile bands of the noise.
+      percentile bands of the noise; --threads N: samples on N worker threads (same result).
     Figures F: best-margin (default), "margin-at=1.16 MHz", "margin-band=1.1 MHz:1.2 MHz",
       "noise-at=1 kHz" (total noise PSD, lower is better), range-gain[=volume|range] (strain).
     Targets X: a margin or a gain in dB ("3 dB"), a noise in the budget's PSD unit (1e-36).

@@ -1,34 +1,57 @@
 import { parseOptions } from "./options";
 import { runInSlices, runToEnd, shownFigure, spreadSteps, type SpreadResult, type UncertaintySpec } from "../design";
+import { spreadAnalysisOnThreads } from "../design/spread-threads";
 import { QuietframeError } from "../errors";
 import type { CliIo } from "./io";
-import { DESIGN_OPTIONS, figureOption, formatOption, gridOption, readSetupDescription, splitAssignment, stepsWithOptionNames, wholeOption } from "./design-args";
+import { DESIGN_OPTIONS, figureOption, formatOption, gridOption, readSetupDescription, splitAssignment, stepsWithOptionNames, wholeOption, withOptionNames } from "./design-args";
 import { untilInterrupted } from "./stop-on-interrupt";
 import { resultJson, textTable } from "./text-table";
 
 /** `quietframe spread`: what uncertain parameters do to a figure (Monte Carlo beside first-order propagation). */
 export function spreadCommand(args: string[], io: CliIo): number {
   const request = spreadRequest(args);
+  if (request.threads > 1) {
+    throw new QuietframeError({
+      path: "--threads",
+      value: request.threads,
+      problem: "worker threads need the asynchronous runner",
+      allowed: "runCliAsync (as the quietframe binary runs commands), or --threads 1",
+    });
+  }
   io.out(request.print(runToEnd(request.steps())));
   return 0;
 }
 
-/** `quietframe spread` as the binary runs it: a block of samples at a time, Ctrl-C stops it between blocks (exit status 130). */
+/**
+ * `quietframe spread` as the binary runs it: in this process a block of samples at a time, or
+ * with --threads N on N worker threads (the same bits); Ctrl-C stops it between blocks or
+ * chunks (exit status 130).
+ */
 export async function spreadCommandAsync(args: string[], io: CliIo): Promise<number> {
   const request = spreadRequest(args);
-  const result = await untilInterrupted((signal) => runInSlices(request.steps(signal)));
+  const result = await untilInterrupted((signal) => (request.threads > 1 ? request.onThreads(signal) : runInSlices(request.steps(signal))));
   io.out(request.print(result));
   return 0;
 }
 
-function spreadRequest(args: string[]): { steps(signal?: AbortSignal): Generator<unknown, SpreadResult>; print(result: SpreadResult): string } {
+interface SpreadRequest {
+  /** Worker threads asked for (--threads, default 1: this process). */
+  readonly threads: number;
+  steps(signal?: AbortSignal): Generator<unknown, SpreadResult>;
+  onThreads(signal: AbortSignal): Promise<SpreadResult>;
+  print(result: SpreadResult): string;
+}
+
+function spreadRequest(args: string[]): SpreadRequest {
   const { values, positionals } = parseOptions("spread", args, {
     ...DESIGN_OPTIONS,
     uncertain: { type: "string", multiple: true },
     samples: { type: "string" },
     seed: { type: "string" },
     target: { type: "string" },
+    threads: { type: "string" },
   });
+  const threads = threadCount(values.threads);
   const format = formatOption(values.format);
   const { description } = readSetupDescription(positionals);
   if (!values.uncertain?.length) throw new QuietframeError({ path: "--uncertain", problem: "is missing", allowed: 'one or more, e.g. --uncertain "detector.efficiency=95 % ± 2 %"' });
@@ -43,9 +66,24 @@ function spreadRequest(args: string[]): { steps(signal?: AbortSignal): Generator
   const figure = figureOption(values.figure);
   const names = { target: "--target", figure: "--figure", "options.samples": "--samples", "options.seed": "--seed" };
   return {
+    threads,
     steps: (signal) => stepsWithOptionNames(names, spreadSteps(description, figure, uncertain, { ...options, signal })),
+    // The same checks as the steps, their errors named by the options as the steps name them.
+    onThreads: (signal) =>
+      spreadAnalysisOnThreads(description, figure, uncertain, { ...options, workers: threads, signal }).catch((e: unknown) =>
+        withOptionNames(names, () => {
+          throw e;
+        }),
+      ),
     print: (result) => (format === "json" ? resultJson(result) : spreadText(result)),
   };
+}
+
+/** --threads: a whole number ≥ 1 (default 1). */
+function threadCount(text: string | undefined): number {
+  const n = wholeOption(text, "--threads");
+  if (n === 0) throw new QuietframeError({ path: "--threads", value: text, problem: "is not a usable number of worker threads", allowed: "an integer ≥ 1" });
+  return n ?? 1;
 }
 
 function spreadText(r: SpreadResult): string {
