@@ -9,7 +9,18 @@ import { log, pow } from "./portable-math";
 export const SPECTRUM_EXTENSIONS = ["refuse", "hold", "power-law"] as const;
 export type SpectrumExtension = (typeof SPECTRUM_EXTENSIONS)[number];
 
+/** Values kept per spectrum: a few grids' worth; past it the memory starts again. */
+const REMEMBERED = 1 << 14;
+
 export class LogLogSpectrum {
+  /** Each segment's exponent, computed when the segment is first read (the same expression each time, so the same bits). */
+  readonly #slopes: Float64Array;
+  /**
+   * The ASD at frequencies read before: a search or a Monte Carlo run reads the same grid for
+   * every trial, and the portable pow is most of a tabulated spectrum's cost.
+   */
+  readonly #known = new Map<number, number>();
+
   /**
    * `frequencies` (Hz) strictly increasing and positive, `asd` positive and finite, at least
    * two points; the caller has checked them (with messages that name the user's input).
@@ -20,6 +31,7 @@ export class LogLogSpectrum {
     readonly extension: SpectrumExtension,
   ) {
     if (frequencies.length < 2 || frequencies.length !== asd.length) throw new Error("internal: a spectrum needs at least two (frequency, ASD) points");
+    this.#slopes = new Float64Array(frequencies.length - 1).fill(Number.NaN);
   }
 
   get lowest(): number {
@@ -37,6 +49,15 @@ export class LogLogSpectrum {
 
   /** Amplitude spectral density at f (Hz); NaN outside the table when it is not extended. */
   asdAt(f: number): number {
+    const known = this.#known.get(f);
+    if (known !== undefined) return known;
+    const a = this.#computed(f);
+    if (this.#known.size >= REMEMBERED) this.#known.clear();
+    this.#known.set(f, a);
+    return a;
+  }
+
+  #computed(f: number): number {
     const fs = this.frequencies;
     const last = fs.length - 1;
     if (f < fs[0] || f > fs[last]) {
@@ -67,7 +88,8 @@ export class LogLogSpectrum {
   private onSegment(i: number, f: number): number {
     const fs = this.frequencies;
     const as = this.asd;
-    const slope = log(as[i + 1] / as[i]) / log(fs[i + 1] / fs[i]);
+    let slope = this.#slopes[i];
+    if (Number.isNaN(slope)) slope = this.#slopes[i] = log(as[i + 1] / as[i]) / log(fs[i + 1] / fs[i]);
     return as[i] * pow(f / fs[i], slope);
   }
 }

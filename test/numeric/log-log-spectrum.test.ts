@@ -1,5 +1,6 @@
 import { describe, expect, it } from "vitest";
 import { LogLogSpectrum } from "../../src/numeric/log-log-spectrum";
+import { log, pow } from "../../src/numeric/portable-math";
 import { expectAllClose } from "../helpers/close";
 
 /** A power law a(f) = c·f^k; straight in log-log coordinates, so log-log interpolation must reproduce it (definition of a power law, no source needed). */
@@ -60,5 +61,26 @@ describe("log-log interpolated spectrum", () => {
     expect([hold.asdAt(1), hold.asdAt(1e4)]).toEqual([a(10), a(100)]);
     const extended = tabulate(a, [10, 20, 100], "power-law");
     expectAllClose([extended.asdAt(1), extended.asdAt(1e4)], [a(1), a(1e4)], 4e-15, "power-law extension");
+  });
+
+  it("gives the formula's bits on every read, first or repeated, inside and beyond the table, past what it remembers", () => {
+    // a_i (f/f_i)^k, k = ln(a_{i+1}/a_i)/ln(f_{i+1}/f_i) on the segment holding f (the definition above).
+    const fs = [1, 7, 100, 2500];
+    const as = [4e-12, 9e-13, 2e-14, 3e-15];
+    const formula = (f: number): number => {
+      let i = 0;
+      while (i < fs.length - 2 && f >= fs[i + 1]) i++;
+      const k = log(as[i + 1] / as[i]) / log(fs[i + 1] / fs[i]);
+      return as[i] * pow(f / fs[i], k);
+    };
+    const s = new LogLogSpectrum(Float64Array.from(fs), Float64Array.from(as), "power-law");
+    const reads = Array.from({ length: 20_000 }, (_, i) => 0.5 * 10 ** ((4 * i) / 20_000)); // 0.5 Hz … 5 kHz, more than it keeps
+    for (const round of [1, 2]) {
+      const wrong = reads.filter((f) => (fs.includes(f) ? s.asdAt(f) !== as[fs.indexOf(f)] : !Object.is(s.asdAt(f), formula(f))));
+      expect(wrong, `round ${round}`).toEqual([]);
+    }
+    const f = 42.5;
+    expect(s.psdAt(f)).toBe(formula(f) * formula(f));
+    expect(s.psdAt(f)).toBe(s.psdAt(f));
   });
 });
