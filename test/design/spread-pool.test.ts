@@ -15,19 +15,12 @@ import { tracked } from "../helpers/tracked-workers";
 
 import { DesignRunStopped, spreadAnalysis, type SpreadResult, type UncertaintySpec } from "../../src/design";
 import { QuietframeError } from "../../src/errors";
+import { bits, FIGURE, GRID, UNCERTAIN } from "../helpers/spread-scenario";
 import { spreadAnalysisOnThreads, toleranceMap, TolerancePool, type ToleranceMapSpec } from "../../src/node";
 import { example, sameBits } from "../tolerance/helpers";
 import { stopAt } from "../helpers/stop-progress";
 
 const squeezed = example("cryogenic-membrane-squeezed.json");
-const FIGURE = { kind: "margin-at", frequency: "1.16 MHz" } as const;
-const GRID = { from: "1.1 MHz", to: "1.3 MHz", points: 48 };
-// A detuning spread reaches the blue side, where the membrane is anti-damped: some samples are unstable.
-const UNCERTAIN: UncertaintySpec[] = [
-  { target: "squeezer.squeezing", value: "-10 dB ± 1 dB" },
-  { target: "cavity.detuning", value: "0 Hz ± 20 kHz" },
-  { target: "cavity.inputCoupling", value: "95 % ± 2 %", distribution: "uniform" },
-];
 const OTHER_UNCERTAIN: UncertaintySpec[] = [{ target: "detector.efficiency", value: "95 % ± 2 %" }];
 const MAP: ToleranceMapSpec = {
   x: { target: "cavity.detuning", from: "-3 MHz", to: "1 MHz", points: 5 },
@@ -37,11 +30,6 @@ const MAP: ToleranceMapSpec = {
 };
 const OPTIONS = { samples: 300, seed: 11, grid: GRID, target: "2 dB" };
 const OTHER_OPTIONS = { samples: 120, seed: 5, grid: { ...GRID, points: 20 } };
-
-/** Every field, Float64Arrays as their bytes. */
-function bits(result: SpreadResult): unknown {
-  return JSON.parse(JSON.stringify(result, (_key, v) => (v instanceof Float64Array ? Buffer.from(v.buffer, v.byteOffset, v.byteLength).toString("hex") : v)));
-}
 
 describe("Monte Carlo spreads on a warm pool", () => {
   let pool: TolerancePool;

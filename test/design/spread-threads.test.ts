@@ -7,25 +7,13 @@
 import { readFileSync } from "node:fs";
 import { join } from "node:path";
 import { describe, expect, it } from "vitest";
-import { spreadAnalysis, type SpreadResult, type UncertaintySpec } from "../../src/design";
+import { spreadAnalysis } from "../../src/design";
 import { QuietframeError } from "../../src/errors";
+import { bits, FIGURE, GRID, UNCERTAIN } from "../helpers/spread-scenario";
 import { spreadAnalysisOnThreads } from "../../src/node";
 import type { SetupDescription } from "../../src/setup/format";
 
 const squeezed = JSON.parse(readFileSync(join(__dirname, "..", "..", "examples", "cryogenic-membrane-squeezed.json"), "utf8")) as SetupDescription;
-const FIGURE = { kind: "margin-at", frequency: "1.16 MHz" } as const;
-const GRID = { from: "1.1 MHz", to: "1.3 MHz", points: 48 };
-// A detuning spread reaches the blue side, where the membrane is anti-damped: some samples are unstable.
-const UNCERTAIN: UncertaintySpec[] = [
-  { target: "squeezer.squeezing", value: "-10 dB ± 1 dB" },
-  { target: "cavity.detuning", value: "0 Hz ± 20 kHz" },
-  { target: "cavity.inputCoupling", value: "95 % ± 2 %", distribution: "uniform" },
-];
-
-/** Every field, Float64Arrays as their bytes. */
-function bits(result: SpreadResult): unknown {
-  return JSON.parse(JSON.stringify(result, (_key, v) => (v instanceof Float64Array ? Buffer.from(v.buffer, v.byteOffset, v.byteLength).toString("hex") : v)));
-}
 
 describe("spreadAnalysisOnThreads", () => {
   it("gives the in-process result bit for bit on 2 and 3 threads, failures and bands included", async () => {
