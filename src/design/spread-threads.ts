@@ -15,7 +15,7 @@ import type { FigureSpec } from "../figures/spec";
 import type { SetupDescription } from "../setup/format";
 import { dispatchOnThreads } from "../threads/dispatch";
 import { nextChunkSize } from "../threads/engine-threads";
-import { EngineThreadPool, type JobOutcome, type PoolJob } from "../threads/pool";
+import { EngineThreadPool, type JobOutcome, type PoolJob, runOnFreshThreads } from "../threads/pool";
 import { checkWorkers } from "../threads/worker-count";
 import { runInSlices } from "./slices";
 import { evaluateSamples, finishSpread, planSpread, planSteps, type SampleOutcomes, type SpreadOptions, type SpreadPlan, type SpreadResult } from "./spread";
@@ -54,22 +54,12 @@ export async function spreadAnalysisOnThreads(setup: SetupDescription | string, 
   stopIfAborted(signal, "spread", 0, plan.samples, "samples");
   const job: SpreadJobData = { setup, figure, uncertain, options: { grid: options.grid, bands: options.bands }, draws: plan.draws };
   const run: PoolJob<SampleOutcomes[]> = (threads, spread, release) => dispatchSamples(threads, plan, { job, spread }, options.onProgress, signal, release);
-  return finishSpread(plan, await (pool ? pool.runJob(workers, run) : onFreshThreads(workers, run)), plan.samples);
+  return finishSpread(plan, await (pool ? pool.runJob(workers, run) : runOnFreshThreads(workers, run)), plan.samples);
 }
 
 function checkPool(pool: unknown): EngineThreadPool | undefined {
   if (pool === undefined || pool instanceof EngineThreadPool) return pool;
   throw new QuietframeError({ path: "options.pool", value: typeof pool, problem: "is not a pool of worker threads", allowed: "await TolerancePool.start(threads)" });
-}
-
-/** A job on `count` threads started for it and stopped before the promise settles. */
-async function onFreshThreads<T>(count: number, run: PoolJob<T>): Promise<T> {
-  const threads = await EngineThreadPool.start(count);
-  try {
-    return await threads.runJob(count, run);
-  } finally {
-    await threads.close();
-  }
 }
 
 /**

@@ -98,3 +98,16 @@ export class EngineThreadPool {
     await this.stop();
   }
 }
+
+/**
+ * A job on `count` threads started for it and stopped before its promise settles (a tolerance
+ * map or a spread run without a pool): the pool's own path, so a job runs alike on either.
+ */
+export async function runOnFreshThreads<T>(count: number, job: PoolJob<T>): Promise<T> {
+  const threads = await EngineThreadPool.start(count);
+  try {
+    return await threads.runJob(count, job);
+  } finally {
+    await threads.close();
+  }
+}

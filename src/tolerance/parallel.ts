@@ -1,7 +1,7 @@
-import { Worker } from "node:worker_threads";
+import type { Worker } from "node:worker_threads";
 import { dispatchOnThreads } from "../threads/dispatch";
-import { nextChunkSize, workerScript } from "../threads/engine-threads";
-import { EngineThreadPool, type JobOutcome } from "../threads/pool";
+import { nextChunkSize } from "../threads/engine-threads";
+import { EngineThreadPool, type JobOutcome, runOnFreshThreads } from "../threads/pool";
 import type { RowResult } from "./evaluate";
 import { RowCollector, ToleranceMapCancelled, type ToleranceMapOptions } from "./run";
 import type { TolerancePlan } from "./spec";
@@ -29,19 +29,12 @@ export type FromWorker =
   | { readonly type: "failed"; readonly map: number; readonly y: number; readonly message: string; readonly stack: string };
 
 /**
- * Hands the rows of one map to the given (started) workers and collects them. `sendPlan`:
- * the plan goes with each worker's first chunk (pooled workers serve many maps). Resolves
+ * Hands the rows of one map to the given (started) workers and collects them, the plan with each
+ * worker's first chunk (a thread serves many maps). Resolves
  * when every row is in; on failure or abort it stops feeding and rejects (dispatch.ts calls
  * `release` once first, after which no message of this map is looked at).
  */
-function dispatchRows(
-  workers: readonly Worker[],
-  plan: TolerancePlan,
-  map: number,
-  sendPlan: boolean,
-  options: ToleranceMapOptions,
-  release: (outcome: JobOutcome) => Promise<void>,
-): Promise<RowCollector> {
+function dispatchRows(workers: readonly Worker[], plan: TolerancePlan, map: number, options: ToleranceMapOptions, release: (outcome: JobOutcome) => Promise<void>): Promise<RowCollector> {
   const collector = new RowCollector(plan);
   const rows = collector.rows;
   const { signal, onProgress } = options;
@@ -52,7 +45,7 @@ function dispatchRows(
     const chunk = nextChunkSize(rows - next, workers.length);
     const batch: number[] = [];
     while (batch.length < chunk && next < rows) batch.push(next++);
-    const withPlan = sendPlan && !planSent.has(w);
+    const withPlan = !planSent.has(w);
     planSent.add(w);
     w.postMessage((withPlan ? { map, plan, rows: batch } : { map, rows: batch }) satisfies ToWorker);
   };
@@ -88,15 +81,7 @@ function dispatchRows(
 /** Rows of one map on `workers` fresh threads, which are stopped before the promise settles. */
 export function runRowsInWorkers(plan: TolerancePlan, workers: number, options: ToleranceMapOptions): Promise<RowCollector> {
   if (options.signal?.aborted) return Promise.reject(new ToleranceMapCancelled(0, plan.y.written.length, options.signal.reason));
-  const script = workerScript();
-  const pool: Worker[] = [];
-  for (let k = 0; k < workers; k++) pool.push(new Worker(script, { workerData: { plan } }));
-  const stopAll = (): Promise<void> =>
-    Promise.all(pool.map((w) => w.terminate())).then(
-      () => undefined,
-      () => undefined,
-    );
-  return dispatchRows(pool, plan, 0, false, options, stopAll);
+  return runOnFreshThreads(workers, (used, map, release) => dispatchRows(used, plan, map, options, release));
 }
 
 /**
@@ -116,6 +101,6 @@ export class TolerancePool extends EngineThreadPool {
 
   /** Rows of one map on the pool's threads (at most `limit` of them); waits for the jobs asked for before. */
   run(plan: TolerancePlan, limit: number, options: ToleranceMapOptions): Promise<RowCollector> {
-    return this.runJob(limit, (used, map, release) => dispatchRows(used, plan, map, true, options, release));
+    return this.runJob(limit, (used, map, release) => dispatchRows(used, plan, map, options, release));
   }
 }

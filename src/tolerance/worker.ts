@@ -1,4 +1,4 @@
-import { parentPort, workerData, type MessagePort } from "node:worker_threads";
+import { parentPort, type MessagePort } from "node:worker_threads";
 import { spreadChunkHandler, type FromSpreadWorker, type ToSpreadWorker } from "../design/spread-job";
 import { logGrid } from "../setup/grid";
 import { evaluateRow } from "./evaluate";
@@ -7,23 +7,21 @@ import type { ToWorker, FromWorker } from "./parallel";
 
 /**
  * Entry point of the engine's worker threads (run as the compiled dist/src/tolerance/worker.js).
- * Tolerance maps: a one-map worker receives its plan in workerData; a pooled worker receives a
- * plan with the first chunk of each map. It answers each finished row, then "idle" after each
+ * Tolerance maps: a thread receives the plan with its first chunk of each map. It answers each finished row, then "idle" after each
  * chunk. Monte Carlo spreads: the job comes with a thread's first chunk of samples of each
  * spread, and each chunk is answered with their outcomes. One thread serves maps and spreads
  * in any order. Internal errors are reported, not thrown, so the main thread can stop the rest.
  */
 const port = parentPort;
 if (!port) throw new Error("the engine's worker must run in a worker thread");
-const first = (workerData as { plan?: TolerancePlan } | undefined)?.plan;
-const mapRows = mapRowsHandler(port, first);
+const mapRows = mapRowsHandler(port);
 const spreadSamples = spreadSamplesHandler(port);
 port.on("message", (message: ToWorker | ToSpreadWorker) => ("spread" in message ? spreadSamples(message) : mapRows(message)));
 port.postMessage({ type: "ready", map: 0 } satisfies FromWorker);
 
-function mapRowsHandler(port: MessagePort, first: TolerancePlan | undefined): (message: ToWorker) => void {
-  let plan = first;
-  let frequencies = plan ? logGrid(plan.grid) : new Float64Array(0);
+function mapRowsHandler(port: MessagePort): (message: ToWorker) => void {
+  let plan: TolerancePlan | undefined;
+  let frequencies: Float64Array = new Float64Array(0);
   return (message) => {
     const { map } = message;
     if (message.plan) {

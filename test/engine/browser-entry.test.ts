@@ -34,7 +34,7 @@ describe("the browser-safe main entry", () => {
 
   it("the check is live: the Node entry is reported with the importing file", async () => {
     const found = await nodeImportsOf("src/node.ts");
-    expect(found).toContain("src/tolerance/parallel.ts imports node:worker_threads");
+    expect(found).toContain("src/threads/pool.ts imports node:worker_threads");
     expect(found).toContain("src/setup/load-file.ts imports node:fs");
   });
 });
