@@ -107,6 +107,12 @@ export function wholeOption(text: string | undefined, path: string): number | un
   return Number(text);
 }
 
+/** A count the user typed (threads, tasks at once): an integer ≥ 1; `what` says what it counts in the error. */
+export function countOption(text: string, path: string, what: string): number {
+  if (!/^\d+$/.test(text) || Number(text) < 1) throw new QuietframeError({ path, value: text, problem: `is not a usable number of ${what}`, allowed: "an integer ≥ 1" });
+  return Number(text);
+}
+
 /** "NAME=REST" split at the first "=" (REST undefined when there is none). */
 export function splitAssignment(text: string): [string, string | undefined] {
   const eq = text.indexOf("=");

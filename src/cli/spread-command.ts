@@ -3,7 +3,7 @@ import { runInSlices, runToEnd, shownFigure, spreadSteps, type SpreadResult, typ
 import { spreadAnalysisOnThreads } from "../design/spread-threads";
 import { QuietframeError } from "../errors";
 import type { CliIo } from "./io";
-import { DESIGN_OPTIONS, figureOption, formatOption, gridOption, readSetupDescription, splitAssignment, stepsWithOptionNames, wholeOption, withOptionNames } from "./design-args";
+import { DESIGN_OPTIONS, figureOption, formatOption, gridOption, readSetupDescription, splitAssignment, stepsWithOptionNames, wholeOption, withOptionNames, countOption } from "./design-args";
 import { untilInterrupted } from "./stop-on-interrupt";
 import { resultJson, textTable } from "./text-table";
 
@@ -51,7 +51,7 @@ function spreadRequest(args: string[]): SpreadRequest {
     target: { type: "string" },
     threads: { type: "string" },
   });
-  const threads = threadCount(values.threads);
+  const threads = values.threads === undefined ? 1 : countOption(values.threads, "--threads", "worker threads");
   const format = formatOption(values.format);
   const { description } = readSetupDescription(positionals);
   if (!values.uncertain?.length) throw new QuietframeError({ path: "--uncertain", problem: "is missing", allowed: 'one or more, e.g. --uncertain "detector.efficiency=95 % ± 2 %"' });
@@ -77,13 +77,6 @@ function spreadRequest(args: string[]): SpreadRequest {
       ),
     print: (result) => (format === "json" ? resultJson(result) : spreadText(result)),
   };
-}
-
-/** --threads: a whole number ≥ 1 (default 1). */
-function threadCount(text: string | undefined): number {
-  const n = wholeOption(text, "--threads");
-  if (n === 0) throw new QuietframeError({ path: "--threads", value: text, problem: "is not a usable number of worker threads", allowed: "an integer ≥ 1" });
-  return n ?? 1;
 }
 
 function spreadText(r: SpreadResult): string {

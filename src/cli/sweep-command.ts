@@ -26,6 +26,7 @@ import {
 } from "../sweep";
 import type { CliIo } from "./io";
 import { untilInterrupted } from "./stop-on-interrupt";
+import { countOption } from "./design-args";
 import { parseOptions } from "./options";
 import { writeSweepState } from "./sweep-state";
 
@@ -170,7 +171,7 @@ function slurmCommand(sub: "script" | "submit", args: string[], io: CliIo): numb
   const request: SlurmRequest = {
     time: values.time ?? DEFAULT_REQUEST.time,
     mem: values.mem ?? DEFAULT_REQUEST.mem,
-    concurrency: values.concurrency === undefined ? DEFAULT_REQUEST.concurrency : wholeNumber(values.concurrency, "--concurrency", "tasks running at once"),
+    concurrency: values.concurrency === undefined ? DEFAULT_REQUEST.concurrency : countOption(values.concurrency, "--concurrency", "tasks running at once"),
     ...(values.partition === undefined ? {} : { partition: values.partition }),
     ...(values.account === undefined ? {} : { account: values.account }),
   };
@@ -191,19 +192,13 @@ function slurmCommand(sub: "script" | "submit", args: string[], io: CliIo): numb
 async function localCommand(args: string[], io: CliIo): Promise<number> {
   const { values, positionals } = parseOptions("sweep local", args, { output: { type: "string", short: "o" }, threads: { type: "string" } });
   if (positionals.length !== 1) throw new QuietframeError({ path: "<sweep.json>", value: positionals, problem: "takes one sweep file", allowed: "quietframe sweep local <sweep.json>" });
-  const workers = values.threads === undefined ? undefined : wholeNumber(values.threads, "--threads", "worker threads");
+  const workers = values.threads === undefined ? undefined : countOption(values.threads, "--threads", "worker threads");
   const output = values.output ?? "merged.json";
   const sweep = readSweepFile(positionals[0]);
   const result = await untilInterrupted((signal) => runSweepLocally(sweep, { workers, signal }));
   writeSweepState(output, result);
   io.out(`wrote ${output}\nsweep  ${result.sweep}\nresult ${result.fingerprint}\n`);
   return 0;
-}
-
-/** An option's whole number ≥ 1, or a QuietframeError naming the option and the text given. */
-function wholeNumber(text: string, option: string, what: string): number {
-  if (!/^\d+$/.test(text) || Number(text) < 1) throw new QuietframeError({ path: option, value: text, problem: `is not a usable number of ${what}`, allowed: "an integer ≥ 1" });
-  return Number(text);
 }
 
 /** What runs quietframe on a node: this Node and the built CLI, as absolute paths (the sources' runs use the build). */
