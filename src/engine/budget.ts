@@ -143,7 +143,7 @@ function budgetOf(assembled: AssembledSetup, frequencies: Float64Array, curves: 
   // Each reference curve is computed when it is first read (a figure of merit reads one, a
   // noise band none): from the angular frequencies and factors of this call, so it has the
   // same bits as when computed here, whatever happens to the caller's frequency array since.
-  const references = signal.curves.map((curve) => lazyReference(curve, omegas, factors));
+  const references = signal.curves.map((curve) => new LazyReference(curve, omegas, factors));
   return {
     frequencies,
     quantity: { name: referredTo.name, unit: referredTo.unit },
@@ -287,12 +287,10 @@ function allZero(xs: Float64Array): boolean {
   return true;
 }
 
-/** A reference curve whose PSD (curve × referral factor at each frequency) is computed on first read. */
-function lazyReference(curve: ReferenceCurve, omegas: Float64Array, factors: Float64Array): ReferenceSpectrum {
-  return new LazyReference(curve, omegas, factors);
-}
-
-/** A class rather than an object with a getter each (see docs/performance.md on getters). */
+/**
+ * A reference curve whose PSD (curve × referral factor at each frequency) is computed on first
+ * read; a class rather than an object with a getter each (see docs/performance.md on getters).
+ */
 class LazyReference implements ReferenceSpectrum {
   readonly id: string;
   readonly label: string;
